@@ -1,0 +1,390 @@
+package wayward.capture;
+
+import static org.bytedeco.ffmpeg.global.avcodec.AV_PKT_FLAG_KEY;
+import static org.bytedeco.ffmpeg.global.avcodec.av_packet_unref;
+import static org.bytedeco.ffmpeg.global.avcodec.avcodec_alloc_context3;
+import static org.bytedeco.ffmpeg.global.avcodec.avcodec_find_decoder;
+import static org.bytedeco.ffmpeg.global.avcodec.avcodec_free_context;
+import static org.bytedeco.ffmpeg.global.avcodec.avcodec_open2;
+import static org.bytedeco.ffmpeg.global.avcodec.avcodec_parameters_to_context;
+import static org.bytedeco.ffmpeg.global.avcodec.avcodec_receive_frame;
+import static org.bytedeco.ffmpeg.global.avcodec.avcodec_send_packet;
+import static org.bytedeco.ffmpeg.global.avformat.av_find_best_stream;
+import static org.bytedeco.ffmpeg.global.avutil.AVMEDIA_TYPE_VIDEO;
+import static org.bytedeco.ffmpeg.global.avutil.AV_LOG_ERROR;
+import static org.bytedeco.ffmpeg.global.avutil.AV_NOPTS_VALUE;
+import static org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_GRAY8;
+import static org.bytedeco.ffmpeg.global.avutil.av_frame_alloc;
+import static org.bytedeco.ffmpeg.global.avutil.av_frame_free;
+import static org.bytedeco.ffmpeg.global.avutil.av_log_set_level;
+import static org.bytedeco.ffmpeg.global.swscale.SWS_AREA;
+import static org.bytedeco.ffmpeg.global.swscale.sws_freeContext;
+import static org.bytedeco.ffmpeg.global.swscale.sws_getCachedContext;
+import static org.bytedeco.ffmpeg.global.swscale.sws_scale;
+
+import java.util.concurrent.ThreadLocalRandom;
+import org.bytedeco.ffmpeg.avcodec.AVCodec;
+import org.bytedeco.ffmpeg.avcodec.AVCodecContext;
+import org.bytedeco.ffmpeg.avcodec.AVPacket;
+import org.bytedeco.ffmpeg.avformat.AVFormatContext;
+import org.bytedeco.ffmpeg.avformat.AVStream;
+import org.bytedeco.ffmpeg.avutil.AVDictionary;
+import org.bytedeco.ffmpeg.avutil.AVFrame;
+import org.bytedeco.ffmpeg.avutil.AVRational;
+import org.bytedeco.ffmpeg.swscale.SwsContext;
+import org.bytedeco.javacpp.BytePointer;
+import org.bytedeco.javacpp.DoublePointer;
+import org.bytedeco.javacpp.IntPointer;
+import org.bytedeco.javacpp.PointerPointer;
+import org.bytedeco.javacv.FFmpegFrameGrabber;
+import org.bytedeco.javacv.FFmpegLogCallback;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import wayward.config.ConfigPrinter;
+import wayward.image.AreaDownscaler;
+import wayward.image.GrayFrame;
+
+/**
+ * Reads one camera: demuxes with JavaCV's {@link FFmpegFrameGrabber#grabPacket()} (the only reader of the
+ * stream), decodes with a decoder of its own, takes the luma plane as the gray picture, shrinks it to analysis
+ * size by area averaging and publishes it to a {@link FrameSlot}. Frames are timed by the stream's timestamps
+ * (seconds since the first frame, continued across loops and reconnects). URL sources reconnect with
+ * exponential backoff and jitter, forever, until stopped.
+ *
+ * <p>Runs on the camera's capture thread ({@link #run()}); {@link #stop()} may be called from any thread. The
+ * capture thread never waits for analysis (except in lossless replay), the network or the disk.
+ */
+public final class VideoSource implements Runnable {
+    private static final Logger LOG = LoggerFactory.getLogger(VideoSource.class);
+    /** Socket timeout for network sources, microseconds (FFmpeg's option "timeout"). */
+    private static final String NETWORK_TIMEOUT_MICROS = "5000000";
+
+    static {
+        // FFmpeg's own chatter goes through SLF4J at error level only.
+        av_log_set_level(AV_LOG_ERROR);
+        FFmpegLogCallback.set();
+    }
+
+    private final String cameraId;
+    private final SourceOptions options;
+    private final FrameSlot slot;
+    private volatile boolean stopping;
+    private volatile Thread runner;
+
+    // stream-time bookkeeping, capture thread only
+    private double firstSeconds = Double.NaN;
+    private double offsetSeconds;
+    private double lastSeconds = -1;
+    private double nominalFrameSeconds = 1.0 / 25;
+    private double nextDue;
+    private long frameIndex;
+    private long wallStartNanos;
+    private double wallStartStream;
+    private long decodeErrors;
+
+    // buffers, capture thread only
+    private byte[] luma = new byte[0];
+    private int lumaWidth;
+    private int lumaHeight;
+    private AreaDownscaler downscaler;
+    private int outWidth;
+    private int outHeight;
+
+    public VideoSource(String cameraId, SourceOptions options, FrameSlot slot) {
+        this.cameraId = cameraId;
+        this.options = options;
+        this.slot = slot;
+    }
+
+    /** Asks the capture loop to end; it closes the slot on its way out. Any thread. */
+    public void stop() {
+        stopping = true;
+        Thread t = runner;
+        if (t != null) {
+            t.interrupt();
+        }
+    }
+
+    public long decodeErrors() {
+        return decodeErrors;
+    }
+
+    @Override
+    public void run() {
+        runner = Thread.currentThread();
+        boolean url = wayward.config.CameraConfig.isUrl(options.source());
+        String shown = ConfigPrinter.maskUrl(options.source());
+        int passes = 0;
+        long backoffMillis = 500;
+        try {
+            while (!stopping) {
+                long framesBefore = frameIndex;
+                String failure = null;
+                try {
+                    readOnce();
+                } catch (InterruptedException e) {
+                    break;
+                } catch (Exception e) {
+                    failure = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+                }
+                if (stopping) {
+                    break;
+                }
+                boolean gotFrames = frameIndex > framesBefore;
+                if (!url) {
+                    if (failure != null) {
+                        LOG.error("camera {}: cannot read {}: {}", cameraId, shown, failure);
+                        if (!gotFrames) {
+                            break;
+                        }
+                    }
+                    passes++;
+                    if (!options.loop() || (options.maxLoops() > 0 && passes >= options.maxLoops())) {
+                        LOG.info("camera {}: end of {} after {} frames", cameraId, shown, frameIndex);
+                        break;
+                    }
+                    // next pass continues stream time after the last frame
+                    offsetSeconds = lastSeconds + nominalFrameSeconds;
+                    firstSeconds = Double.NaN;
+                    continue;
+                }
+                if (gotFrames) {
+                    backoffMillis = 500;
+                }
+                long jitter = ThreadLocalRandom.current().nextLong(backoffMillis / 4 + 1);
+                LOG.warn("camera {}: stream {} {}; reconnecting in {} ms", cameraId, shown,
+                        failure != null ? "failed (" + failure + ")" : "ended", backoffMillis + jitter);
+                Thread.sleep(backoffMillis + jitter);
+                backoffMillis = Math.min(30_000, backoffMillis * 2);
+                offsetSeconds = lastSeconds + nominalFrameSeconds;
+                firstSeconds = Double.NaN;
+            }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        } finally {
+            slot.close();
+            runner = null;
+        }
+    }
+
+    /** One open–read–close pass over the source. */
+    private void readOnce() throws Exception {
+        FFmpegFrameGrabber grabber = new FFmpegFrameGrabber(options.source());
+        // The grabber opens a decoder of its own that we never use: keep it to one thread.
+        grabber.setVideoOption("threads", "1");
+        if (options.source().startsWith("rtsp://") || options.source().startsWith("rtsps://")) {
+            grabber.setOption("rtsp_transport", "tcp");
+        }
+        if (wayward.config.CameraConfig.isUrl(options.source())) {
+            grabber.setOption("timeout", NETWORK_TIMEOUT_MICROS);
+            grabber.setOption("analyzeduration", "500000");
+        }
+        AVCodecContext decoder = null;
+        AVFrame frame = null;
+        SwsContext sws = null;
+        try {
+            grabber.start();
+            AVFormatContext fmt = grabber.getFormatContext();
+            int videoIndex = av_find_best_stream(fmt, AVMEDIA_TYPE_VIDEO, -1, -1, (AVCodec) null, 0);
+            if (videoIndex < 0) {
+                throw new IllegalStateException("no video stream");
+            }
+            AVStream stream = fmt.streams(videoIndex);
+            AVCodec codec = avcodec_find_decoder(stream.codecpar().codec_id());
+            if (codec == null) {
+                throw new IllegalStateException("no decoder for codec id " + stream.codecpar().codec_id());
+            }
+            decoder = avcodec_alloc_context3(codec);
+            check(avcodec_parameters_to_context(decoder, stream.codecpar()), "copy codec parameters");
+            decoder.thread_count(1);
+            decoder.pkt_timebase(stream.time_base());
+            check(avcodec_open2(decoder, codec, (AVDictionary) null), "open decoder");
+            AVRational tb = stream.time_base();
+            double timeBase = (double) tb.num() / tb.den();
+            AVRational rate = stream.avg_frame_rate();
+            if (rate.num() > 0 && rate.den() > 0) {
+                nominalFrameSeconds = (double) rate.den() / rate.num();
+            }
+            frame = av_frame_alloc();
+            boolean keySeen = false;
+            wallStartNanos = System.nanoTime();
+            wallStartStream = Double.NaN;
+            while (!stopping) {
+                AVPacket pkt = grabber.grabPacket();
+                if (pkt == null) {
+                    break;
+                }
+                try {
+                    if (pkt.stream_index() != videoIndex) {
+                        continue;
+                    }
+                    // joining mid-GOP: the decoder cannot use packets before the first keyframe
+                    if (!keySeen) {
+                        if ((pkt.flags() & AV_PKT_FLAG_KEY) == 0) {
+                            continue;
+                        }
+                        keySeen = true;
+                    }
+                    if (avcodec_send_packet(decoder, pkt) < 0) {
+                        decodeErrors++;
+                        continue;
+                    }
+                } finally {
+                    av_packet_unref(pkt);
+                }
+                sws = drain(decoder, frame, timeBase, sws);
+            }
+            if (!stopping) {
+                avcodec_send_packet(decoder, (AVPacket) null);
+                sws = drain(decoder, frame, timeBase, sws);
+            }
+        } finally {
+            if (sws != null) {
+                sws_freeContext(sws);
+            }
+            if (frame != null) {
+                av_frame_free(frame);
+            }
+            if (decoder != null) {
+                avcodec_free_context(decoder);
+            }
+            try {
+                grabber.close();
+            } catch (Exception e) {
+                LOG.debug("camera {}: close failed: {}", cameraId, e.toString());
+            }
+        }
+    }
+
+    private SwsContext drain(AVCodecContext decoder, AVFrame frame, double timeBase, SwsContext sws)
+            throws InterruptedException {
+        while (avcodec_receive_frame(decoder, frame) == 0) {
+            sws = onFrame(frame, timeBase, sws);
+        }
+        return sws;
+    }
+
+    private SwsContext onFrame(AVFrame f, double timeBase, SwsContext sws) throws InterruptedException {
+        long ts = f.best_effort_timestamp();
+        if (ts == AV_NOPTS_VALUE) {
+            ts = f.pts();
+        }
+        double t;
+        if (ts == AV_NOPTS_VALUE) {
+            t = lastSeconds < 0 ? 0 : lastSeconds + nominalFrameSeconds;
+        } else {
+            double raw = ts * timeBase;
+            if (Double.isNaN(firstSeconds)) {
+                firstSeconds = raw;
+            }
+            t = raw - firstSeconds + offsetSeconds;
+            if (t <= lastSeconds || t > lastSeconds + 10 && lastSeconds >= 0) {
+                // timestamp jump (wrap, concatenation, camera restart): splice on at one frame interval
+                offsetSeconds += lastSeconds + nominalFrameSeconds - t;
+                t = lastSeconds + nominalFrameSeconds;
+            }
+        }
+        lastSeconds = t;
+        long index = frameIndex++;
+        if (options.realtime()) {
+            pace(t);
+        }
+        double interval = 1.0 / options.analysisFps();
+        if (t + 1e-6 < nextDue) {
+            return sws;
+        }
+        nextDue = Math.max(nextDue + interval, t + interval * 0.5);
+        int w = f.width();
+        int h = f.height();
+        if (w < 2 || h < 2) {
+            decodeErrors++;
+            return sws;
+        }
+        int stride;
+        if (isPlanarLuma(f.format())) {
+            stride = f.linesize(0);
+            ensureLuma(stride * h);
+            f.data(0).get(luma, 0, stride * (h - 1) + w);
+        } else {
+            // packed formats (raw YUYV webcams, RGB): convert to gray with swscale
+            sws = sws_getCachedContext(sws, w, h, f.format(), w, h, AV_PIX_FMT_GRAY8, SWS_AREA,
+                    null, null, (DoublePointer) null);
+            stride = (w + 31) & ~31;
+            ensureGrayNative(stride, h);
+            sws_scale(sws, f.data(), f.linesize(), 0, h, grayPlanes, grayStrides);
+            ensureLuma(stride * h);
+            grayNative.get(luma, 0, stride * h);
+        }
+        if (downscaler == null || w != lumaWidth || h != lumaHeight) {
+            lumaWidth = w;
+            lumaHeight = h;
+            if (downscaler == null) {
+                outWidth = Math.min(options.analysisWidth(), w);
+                outHeight = AreaDownscaler.heightFor(w, h, outWidth);
+            }
+            downscaler = new AreaDownscaler(w, h, Math.min(outWidth, w), Math.min(outHeight, h));
+        }
+        GrayFrame out = slot.writable(Math.min(outWidth, w), Math.min(outHeight, h));
+        downscaler.downscale(luma, 0, stride, out);
+        out.streamSeconds = t;
+        out.frameIndex = index;
+        slot.publish();
+        return sws;
+    }
+
+    private BytePointer grayNative;
+    private PointerPointer<BytePointer> grayPlanes;
+    private IntPointer grayStrides;
+
+    private void ensureGrayNative(int stride, int h) {
+        long need = (long) stride * h;
+        if (grayNative == null || grayNative.capacity() < need) {
+            grayNative = new BytePointer(need);
+            grayPlanes = new PointerPointer<>(grayNative, null, null, null);
+            grayStrides = new IntPointer(stride, 0, 0, 0);
+        }
+    }
+
+    private void ensureLuma(int size) {
+        if (luma.length < size) {
+            luma = new byte[size];
+        }
+    }
+
+    /** Sleeps so that stream time advances no faster than wall time (a file played as a camera). */
+    private void pace(double t) throws InterruptedException {
+        if (Double.isNaN(wallStartStream)) {
+            wallStartStream = t;
+            wallStartNanos = System.nanoTime();
+            return;
+        }
+        long dueNanos = wallStartNanos + (long) ((t - wallStartStream) * 1e9);
+        long waitNanos = dueNanos - System.nanoTime();
+        if (waitNanos > 1_000_000) {
+            Thread.sleep(waitNanos / 1_000_000, (int) (waitNanos % 1_000_000));
+        }
+    }
+
+    /** Pixel formats whose plane 0 is 8-bit luma: the gray picture as it is. */
+    private static boolean isPlanarLuma(int format) {
+        return format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV420P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUVJ420P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV422P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUVJ422P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV444P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUVJ444P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV440P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUVJ440P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV411P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV410P
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_NV12
+                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_NV21
+                || format == AV_PIX_FMT_GRAY8;
+    }
+
+    private static void check(int ret, String what) {
+        if (ret < 0) {
+            throw new IllegalStateException(what + " failed (FFmpeg error " + ret + ")");
+        }
+    }
+}

@@ -1,0 +1,320 @@
+package wayward.cli;
+
+import java.io.PrintStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Set;
+import wayward.config.CameraConfig;
+import wayward.config.ConfigException;
+import wayward.config.ConfigLoader;
+import wayward.config.ConfigPrinter;
+import wayward.config.SiteConfig;
+import wayward.scene.Scene;
+import wayward.scene.SceneGenerator;
+import wayward.service.Service;
+
+/**
+ * The {@code wayward} command line. {@link #main} is the only caller of System.exit; {@link #execute} runs a
+ * command and returns its exit code (tests call it directly).
+ */
+public final class Main {
+    public static final int OK = 0;
+    public static final int FAILED = 1;
+    /** Wrong command line (common practice for usage errors). */
+    public static final int USAGE = 2;
+    /** EX_NOINPUT of BSD sysexits.h: an input file is missing or unreadable. */
+    public static final int NO_INPUT = 66;
+    /** EX_CONFIG of BSD sysexits.h: the configuration is wrong. */
+    public static final int CONFIG = 78;
+
+    private static final String HELP = String.join("\n",
+            "wayward: raises an alert when something moves the wrong way inside a marked zone of a camera picture.",
+            "",
+            "usage: java -jar wayward.jar COMMAND [options]",
+            "",
+            "commands:",
+            "  run     --config FILE                     run the service on the configured cameras",
+            "  check   --config FILE                     check a config; print the effective config (secrets masked)",
+            "  replay  --config FILE --input VIDEO [--camera ID]",
+            "                                            analyse a recorded file as fast as possible; events on stdout",
+            "  demo    [--config FILE] [--loops N]       run on the bundled demo scene (conf/demo.toml), looped",
+            "  help                                      this text; COMMAND --help for one command",
+            "",
+            "exit codes: 0 done, 1 failed, 2 bad command line, 66 input missing, 78 config errors");
+
+    private static final Map<String, String> COMMAND_HELP = new LinkedHashMap<>();
+
+    static {
+        COMMAND_HELP.put("run", String.join("\n",
+                "usage: java -jar wayward.jar run --config FILE",
+                "",
+                "Runs the service: reads every configured camera, analyses motion in its zones and sends each event",
+                "phase to the event log (DATA_DIR/events.jsonl) and the configured webhooks. File sources play at",
+                "their own speed, like a camera. Stops on SIGTERM or Ctrl-C, or when every file camera has ended.",
+                "Logs go to standard error."));
+        COMMAND_HELP.put("check", String.join("\n",
+                "usage: java -jar wayward.jar check --config FILE",
+                "",
+                "Checks the config file and prints the effective config (defaults filled in, secrets masked).",
+                "Exit 0 when it is usable; otherwise every mistake on one line each (file:line:column: key: value",
+                "(expected ...)) and exit 78."));
+        COMMAND_HELP.put("replay", String.join("\n",
+                "usage: java -jar wayward.jar replay --config FILE --input VIDEO [--camera ID]",
+                "",
+                "Runs the same analysis on a recorded file as fast as the CPU allows, with the zones and rules of",
+                "one configured camera (--camera, needed when the config has several). Every event phase is printed",
+                "as one JSON line on standard output; nothing is sent to webhooks. Progress goes to standard error",
+                "when it is a terminal."));
+        COMMAND_HELP.put("demo", String.join("\n",
+                "usage: java -jar wayward.jar demo [--config FILE] [--loops N]",
+                "",
+                "Runs the service on the bundled demo scene (a one-way lane in a fictional yard) played as a looping",
+                "camera, with conf/demo.toml. Prints every event phase as a JSON line and writes the event log",
+                "under the config's data folder. Runs until Ctrl-C, or for N passes over the scene with --loops."));
+        COMMAND_HELP.put("make-scene", String.join("\n",
+                "usage: java -jar wayward.jar make-scene --scene FILE.scene.toml --video OUT.mp4 --truth OUT.json",
+                "",
+                "Renders a scenario video with exact ground truth (see test-streams/README.md)."));
+    }
+
+    private Main() {
+    }
+
+    public static void main(String[] args) {
+        int code = execute(args, System.out, System.err);
+        if (code != OK || !"run".equals(args.length > 0 ? args[0] : "")) {
+            System.exit(code);
+        }
+        System.exit(OK);
+    }
+
+    /** Runs one command; returns its exit code. Never calls System.exit. */
+    public static int execute(String[] args, PrintStream out, PrintStream err) {
+        if (args.length == 0) {
+            err.println(HELP);
+            return USAGE;
+        }
+        String command = args[0];
+        if (command.equals("help") || command.equals("--help") || command.equals("-h")) {
+            out.println(HELP);
+            return OK;
+        }
+        if (!COMMAND_HELP.containsKey(command)) {
+            err.println("wayward: unknown command '" + command + "' (expected run, check, replay, demo or help)");
+            return USAGE;
+        }
+        Map<String, String> opts = new LinkedHashMap<>();
+        Set<String> allowed = switch (command) {
+            case "run", "check" -> Set.of("--config");
+            case "replay" -> Set.of("--config", "--input", "--camera");
+            case "demo" -> Set.of("--config", "--loops");
+            default -> Set.of("--scene", "--video", "--truth");
+        };
+        for (int i = 1; i < args.length; i++) {
+            String a = args[i];
+            if (a.equals("--help") || a.equals("-h")) {
+                out.println(COMMAND_HELP.get(command));
+                return OK;
+            }
+            if (!allowed.contains(a)) {
+                err.println("wayward " + command + ": unknown option '" + a + "' (expected " + String.join(", ",
+                        new java.util.TreeSet<>(allowed)) + ")");
+                return USAGE;
+            }
+            if (i + 1 >= args.length) {
+                err.println("wayward " + command + ": option " + a + " needs a value");
+                return USAGE;
+            }
+            opts.put(a, args[++i]);
+        }
+        try {
+            return switch (command) {
+                case "check" -> check(opts, out, err);
+                case "run" -> run(opts, err);
+                case "replay" -> replay(opts, out, err);
+                case "demo" -> demo(opts, out, err);
+                default -> makeScene(opts, out, err);
+            };
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            err.println("wayward " + command + ": interrupted");
+            return FAILED;
+        } catch (Exception e) {
+            err.println("wayward " + command + ": " + e);
+            return FAILED;
+        }
+    }
+
+    private static SiteConfig loadConfig(String command, Map<String, String> opts, String fallback,
+            PrintStream err) throws ConfigException {
+        String file = opts.getOrDefault("--config", fallback);
+        if (file == null) {
+            err.println("wayward " + command + ": --config FILE is required");
+            return null;
+        }
+        return ConfigLoader.load(Path.of(file));
+    }
+
+    private static int reportConfig(ConfigException e, PrintStream err) {
+        for (String line : e.errors()) {
+            err.println(line);
+        }
+        err.println(e.errors().size() == 1 ? "1 error; nothing started" : e.errors().size() + " errors; nothing started");
+        return CONFIG;
+    }
+
+    private static int check(Map<String, String> opts, PrintStream out, PrintStream err) {
+        try {
+            SiteConfig c = loadConfig("check", opts, null, err);
+            if (c == null) {
+                return USAGE;
+            }
+            out.print(ConfigPrinter.toToml(c));
+            return OK;
+        } catch (ConfigException e) {
+            return reportConfig(e, err);
+        }
+    }
+
+    private static int run(Map<String, String> opts, PrintStream err) throws Exception {
+        SiteConfig c;
+        try {
+            c = loadConfig("run", opts, null, err);
+        } catch (ConfigException e) {
+            return reportConfig(e, err);
+        }
+        if (c == null) {
+            return USAGE;
+        }
+        return serve(new Service(c, c.cameras(), Service.Mode.RUN, System.out, 0));
+    }
+
+    private static int demo(Map<String, String> opts, PrintStream out, PrintStream err) throws Exception {
+        int loops = 0;
+        if (opts.containsKey("--loops")) {
+            try {
+                loops = Integer.parseInt(opts.get("--loops"));
+            } catch (NumberFormatException e) {
+                loops = -1;
+            }
+            if (loops < 1) {
+                err.println("wayward demo: --loops " + opts.get("--loops") + " (expected a whole number of 1 or more)");
+                return USAGE;
+            }
+        }
+        String fallback = "conf/demo.toml";
+        if (!opts.containsKey("--config") && !Files.isRegularFile(Path.of(fallback))) {
+            err.println("wayward demo: " + fallback + " not found; run from the project folder or pass --config FILE");
+            return NO_INPUT;
+        }
+        SiteConfig c;
+        try {
+            c = loadConfig("demo", opts, fallback, err);
+        } catch (ConfigException e) {
+            return reportConfig(e, err);
+        }
+        List<CameraConfig> looped = new ArrayList<>();
+        for (CameraConfig cam : c.cameras()) {
+            looped.add(new CameraConfig(cam.id(), cam.source(), !cam.isUrl(), cam.analysisWidth(),
+                    cam.analysisFps(), cam.zones()));
+        }
+        err.println("wayward demo: playing the demo scene as a camera; events follow as JSON lines"
+                + (loops == 0 ? " (Ctrl-C to stop)" : ""));
+        return serve(new Service(c, looped, Service.Mode.DEMO, out, loops));
+    }
+
+    private static int serve(Service s) throws Exception {
+        Thread hook = new Thread(s::stop, "shutdown");
+        Runtime.getRuntime().addShutdownHook(hook);
+        s.start();
+        s.awaitEnd();
+        s.stop();
+        try {
+            Runtime.getRuntime().removeShutdownHook(hook);
+        } catch (IllegalStateException shuttingDown) {
+            // the hook is already running
+        }
+        return OK;
+    }
+
+    private static int replay(Map<String, String> opts, PrintStream out, PrintStream err) throws Exception {
+        SiteConfig c;
+        try {
+            c = loadConfig("replay", opts, null, err);
+        } catch (ConfigException e) {
+            return reportConfig(e, err);
+        }
+        if (c == null) {
+            return USAGE;
+        }
+        String input = opts.get("--input");
+        if (input == null) {
+            err.println("wayward replay: --input VIDEO is required");
+            return USAGE;
+        }
+        if (!CameraConfig.isUrl(input) && !Files.isRegularFile(Path.of(input))) {
+            err.println("wayward replay: --input " + input + ": file not found");
+            return NO_INPUT;
+        }
+        CameraConfig cam;
+        if (opts.containsKey("--camera")) {
+            cam = c.camera(opts.get("--camera"));
+            if (cam == null) {
+                List<String> ids = new ArrayList<>();
+                c.cameras().forEach(k -> ids.add(k.id()));
+                err.println("wayward replay: --camera " + opts.get("--camera") + ": no such camera (expected one of "
+                        + String.join(", ", ids) + ")");
+                return USAGE;
+            }
+        } else if (c.cameras().size() == 1) {
+            cam = c.cameras().get(0);
+        } else {
+            err.println("wayward replay: the config has " + c.cameras().size()
+                    + " cameras; say whose zones to use with --camera ID");
+            return USAGE;
+        }
+        CameraConfig replayed = new CameraConfig(cam.id(), Path.of(input).toAbsolutePath().toString(), false,
+                cam.analysisWidth(), cam.analysisFps(), cam.zones());
+        if (CameraConfig.isUrl(input)) {
+            replayed = new CameraConfig(cam.id(), input, false, cam.analysisWidth(), cam.analysisFps(), cam.zones());
+        }
+        Service s = new Service(c, List.of(replayed), Service.Mode.REPLAY, out, 0);
+        s.start();
+        boolean terminal = System.console() != null;
+        long started = System.nanoTime();
+        while (!s.awaitEnd(1, java.util.concurrent.TimeUnit.SECONDS)) {
+            if (terminal) {
+                var p = s.pipelines().get(0);
+                double secs = (System.nanoTime() - started) / 1e9;
+                err.printf(java.util.Locale.ROOT, "\rreplay: %d frames analysed, stream %.1f s, %.0f frames/s   ",
+                        p.analysedFrames(), p.streamSeconds(), p.analysedFrames() / Math.max(secs, 1e-3));
+            }
+        }
+        if (terminal) {
+            err.println();
+        }
+        s.stop();
+        return OK;
+    }
+
+    private static int makeScene(Map<String, String> opts, PrintStream out, PrintStream err) throws Exception {
+        for (String k : List.of("--scene", "--video", "--truth")) {
+            if (!opts.containsKey(k)) {
+                err.println("wayward make-scene: " + k + " is required");
+                return USAGE;
+            }
+        }
+        Path scene = Path.of(opts.get("--scene"));
+        if (!Files.isRegularFile(scene)) {
+            err.println("wayward make-scene: --scene " + scene + ": file not found");
+            return NO_INPUT;
+        }
+        new SceneGenerator(Scene.load(scene)).write(Path.of(opts.get("--video")), Path.of(opts.get("--truth")));
+        out.println("wrote " + opts.get("--video") + " and " + opts.get("--truth"));
+        return OK;
+    }
+}

@@ -1,0 +1,499 @@
+package wayward.config;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.NoSuchFileException;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.HashSet;
+import java.util.LinkedHashSet;
+import java.util.List;
+import java.util.Locale;
+import java.util.Set;
+import org.tomlj.Toml;
+import org.tomlj.TomlArray;
+import org.tomlj.TomlParseError;
+import org.tomlj.TomlParseResult;
+import org.tomlj.TomlPosition;
+import org.tomlj.TomlTable;
+import wayward.rule.RuleSettings;
+
+/**
+ * Reads a TOML config file (tomlj, TOML 1.0), binds it to {@link SiteConfig} and checks ranges and
+ * combinations. Every mistake is collected and reported together, one line each, in the form
+ * {@code file:line:column: key.path: value (expected …)}; unknown keys are mistakes too. Relative paths resolve
+ * against the config file's folder. Stateless; any thread.
+ */
+public final class ConfigLoader {
+    private static final String ID_PATTERN = "[a-z0-9][a-z0-9._-]{0,62}";
+    private static final String ID_EXPECTED = "lower-case letters, digits, '.', '_' or '-', 1 to 63 characters";
+
+    private ConfigLoader() {
+    }
+
+    public static SiteConfig load(Path file) throws ConfigException {
+        String shown = file.toString();
+        TomlParseResult toml;
+        try {
+            if (Files.isDirectory(file)) {
+                throw new ConfigException(List.of(shown + ": is a folder (expected a TOML config file)"));
+            }
+            toml = Toml.parse(file);
+        } catch (NoSuchFileException e) {
+            throw new ConfigException(List.of(shown + ": file not found"));
+        } catch (IOException e) {
+            throw new ConfigException(List.of(shown + ": cannot read (" + e.getMessage() + ")"));
+        }
+        Errors errors = new Errors(shown);
+        if (toml.hasErrors()) {
+            for (TomlParseError e : toml.errors()) {
+                String message = e.getMessage();
+                errors.at(e.position(), "TOML syntax: " + message);
+            }
+            throw new ConfigException(errors.sorted());
+        }
+        Path base = file.toAbsolutePath().getParent();
+        SiteConfig config = bind(toml, base, file, errors);
+        if (!errors.lines.isEmpty()) {
+            throw new ConfigException(errors.sorted());
+        }
+        return config;
+    }
+
+    private static SiteConfig bind(TomlParseResult root, Path base, Path file, Errors errors) {
+        Scope top = new Scope(errors, root, "", TomlPosition.positionAt(1, 1));
+        Path dataDir = base.resolve("data");
+        TomlTable serviceTable = top.table("service");
+        if (serviceTable != null) {
+            Scope s = new Scope(errors, serviceTable, "service", root.inputPositionOf(List.of("service")));
+            String dir = s.string("data_dir", "data", "a folder path");
+            dataDir = base.resolve(dir).normalize();
+            s.finish();
+        }
+        FlowConfig flow = FlowConfig.DEFAULTS;
+        TomlTable flowTable = top.table("flow");
+        if (flowTable != null) {
+            Scope s = new Scope(errors, flowTable, "flow", root.inputPositionOf(List.of("flow")));
+            int levels = s.integer("levels", FlowConfig.DEFAULTS.levels(), 0, 8);
+            int iterations = s.integer("iterations", FlowConfig.DEFAULTS.iterations(), 1, 20);
+            int window = s.integer("window", FlowConfig.DEFAULTS.window(), 3, 15);
+            if (window % 2 == 0) {
+                s.error("window", window, "an odd number from 3 to 15");
+            }
+            double reg = s.number("regularization", FlowConfig.DEFAULTS.regularization(), 0, 1000);
+            s.finish();
+            flow = new FlowConfig(levels, iterations, window, reg);
+        }
+
+        List<CameraConfig> cameras = new ArrayList<>();
+        TomlArray cameraArray = top.tableArray("camera");
+        if (cameraArray == null || cameraArray.size() == 0) {
+            if (!root.contains(List.of("camera"))) {
+                errors.at(TomlPosition.positionAt(1, 1), "camera: missing (expected at least one [[camera]] table)");
+            }
+        } else {
+            Set<String> ids = new HashSet<>();
+            for (int i = 0; i < cameraArray.size(); i++) {
+                TomlTable t = (TomlTable) cameraArray.get(i);
+                Scope s = new Scope(errors, t, "camera[" + i + "]", cameraArray.inputPositionOf(i));
+                CameraConfig c = camera(s, base);
+                if (c != null) {
+                    if (!ids.add(c.id())) {
+                        s.error("id", c.id(), "an id no other camera has");
+                    }
+                    cameras.add(c);
+                }
+            }
+        }
+
+        List<WebhookConfig> webhooks = new ArrayList<>();
+        TomlArray hookArray = top.tableArray("webhook");
+        if (hookArray != null) {
+            for (int i = 0; i < hookArray.size(); i++) {
+                TomlTable t = (TomlTable) hookArray.get(i);
+                Scope s = new Scope(errors, t, "webhook[" + i + "]", hookArray.inputPositionOf(i));
+                String url = s.requiredString("url", "an http:// or https:// URL");
+                if (url != null && !isHttpUrl(url)) {
+                    s.error("url", url, "an http:// or https:// URL with a host");
+                }
+                double timeout = s.number("timeout_seconds", 5.0, 0.1, 300);
+                int retries = s.integer("retries", 3, 0, 100);
+                s.finish();
+                if (url != null) {
+                    webhooks.add(new WebhookConfig(url, timeout, retries));
+                }
+            }
+        }
+        top.finish();
+        return new SiteConfig(file, dataDir, flow, cameras, webhooks);
+    }
+
+    private static CameraConfig camera(Scope s, Path base) {
+        String id = s.requiredString("id", ID_EXPECTED);
+        if (id != null && !id.matches(ID_PATTERN)) {
+            s.error("id", id, ID_EXPECTED);
+        }
+        String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");
+        boolean loop = s.bool("loop", false);
+        if (source != null && !CameraConfig.isUrl(source)) {
+            Path p = base.resolve(source).normalize();
+            if (!Files.isRegularFile(p)) {
+                s.error("source", source, "a video file that exists (looked for " + p + ") or a URL");
+            }
+            source = p.toString();
+        } else if (source != null && loop) {
+            s.error("loop", true, "false for a URL source; only files can loop");
+        }
+        int width = s.integer("analysis_width", 320, 32, 1920);
+        if (width % 2 != 0) {
+            s.error("analysis_width", width, "an even number from 32 to 1920");
+        }
+        double fps = s.number("analysis_fps", 10, 0.5, 60);
+        List<ZoneConfig> zones = new ArrayList<>();
+        TomlArray zoneArray = s.tableArray("zone");
+        if (zoneArray == null || zoneArray.size() == 0) {
+            s.errorAtTable("zone", "missing (expected at least one [[camera.zone]] table)");
+        } else {
+            Set<String> ids = new HashSet<>();
+            for (int i = 0; i < zoneArray.size(); i++) {
+                TomlTable t = (TomlTable) zoneArray.get(i);
+                Scope z = new Scope(s.errors, t, s.path + ".zone[" + i + "]", zoneArray.inputPositionOf(i));
+                ZoneConfig zone = zone(z);
+                if (zone != null) {
+                    if (!ids.add(zone.id())) {
+                        z.error("id", zone.id(), "an id no other zone of this camera has");
+                    }
+                    zones.add(zone);
+                }
+            }
+        }
+        s.finish();
+        if (id == null || source == null) {
+            return null;
+        }
+        return new CameraConfig(id, source, loop, width, fps, zones);
+    }
+
+    private static ZoneConfig zone(Scope z) {
+        String id = z.requiredString("id", ID_EXPECTED);
+        if (id != null && !id.matches(ID_PATTERN)) {
+            z.error("id", id, ID_EXPECTED);
+        }
+        double[][] polygon = z.polygon("polygon");
+        double heading = Double.NaN;
+        if (z.has("heading_deg")) {
+            String expected = "a bearing from 0 up to, not including, 360 degrees clockwise from image-up";
+            heading = z.number("heading_deg", Double.NaN, 0, 360, expected);
+            if (heading == 360) {
+                z.error("heading_deg", z.raw("heading_deg"), expected);
+                heading = Double.NaN;
+            }
+        }
+        double tolerance = z.number("tolerance_deg", 60, 0, 90);
+        double minSpeed = z.number("min_speed", 8, 0, 10000);
+        double minConfidence = z.number("min_confidence", 20, 0, 100000);
+        double onset = z.number("onset_level", 0.02, 0.0001, 1);
+        double release = z.number("release_level", Math.min(onset, 0.008), 0, 1);
+        if (release > onset) {
+            z.error("release_level", release, "at most onset_level " + format(onset));
+            release = onset;
+        }
+        double hold = z.number("hold_seconds", 0.5, 0, 600);
+        double clear = z.number("clear_seconds", 1.0, 0, 600);
+        double rest = z.number("rest_seconds", 2.0, 0, 3600);
+        z.finish();
+        if (id == null || polygon == null) {
+            return null;
+        }
+        return new ZoneConfig(id, polygon[0], polygon[1], heading, tolerance, minSpeed, minConfidence,
+                new RuleSettings(Math.max(onset, 0.0001), Math.max(0, Math.min(release, onset)), hold, clear, rest));
+    }
+
+    static boolean isHttpUrl(String url) {
+        try {
+            java.net.URI u = new java.net.URI(url);
+            String scheme = u.getScheme() == null ? "" : u.getScheme().toLowerCase(Locale.ROOT);
+            return (scheme.equals("http") || scheme.equals("https")) && u.getHost() != null;
+        } catch (java.net.URISyntaxException e) {
+            return false;
+        }
+    }
+
+    static String format(double d) {
+        if (d == Math.rint(d) && Math.abs(d) < 1e15) {
+            return Long.toString((long) d);
+        }
+        return Double.toString(d);
+    }
+
+    /** A value as it would be written in TOML, for messages. */
+    static String render(Object value) {
+        if (value instanceof String) {
+            return "\"" + ((String) value).replace("\\", "\\\\").replace("\"", "\\\"") + "\"";
+        }
+        if (value instanceof Double) {
+            return format((Double) value);
+        }
+        if (value instanceof TomlArray) {
+            TomlArray a = (TomlArray) value;
+            StringBuilder b = new StringBuilder("[");
+            for (int i = 0; i < a.size(); i++) {
+                b.append(i == 0 ? "" : ", ").append(render(a.get(i)));
+            }
+            return b.append(']').toString();
+        }
+        if (value instanceof TomlTable) {
+            TomlTable t = (TomlTable) value;
+            StringBuilder b = new StringBuilder("{");
+            boolean first = true;
+            for (String k : t.keySet()) {
+                b.append(first ? " " : ", ").append(k).append(" = ").append(render(t.get(List.of(k))));
+                first = false;
+            }
+            return b.append(first ? "}" : " }").toString();
+        }
+        return String.valueOf(value);
+    }
+
+    /** The error list of one file. */
+    private static final class Errors {
+        final String file;
+        final List<String> lines = new ArrayList<>();
+
+        Errors(String file) {
+            this.file = file;
+        }
+
+        private final List<long[]> order = new ArrayList<>();
+
+        void at(TomlPosition p, String text) {
+            int line = p == null ? 1 : p.line();
+            int column = p == null ? 1 : p.column();
+            order.add(new long[] {line, column, order.size()});
+            lines.add(file + ":" + line + ":" + column + ": " + text);
+        }
+
+        /** The lines in file order (line, then column, then the order found). */
+        List<String> sorted() {
+            List<long[]> o = new ArrayList<>(order);
+            o.sort((a, b) -> a[0] != b[0] ? Long.compare(a[0], b[0])
+                    : a[1] != b[1] ? Long.compare(a[1], b[1]) : Long.compare(a[2], b[2]));
+            List<String> out = new ArrayList<>();
+            for (long[] k : o) {
+                out.add(lines.get((int) k[2]));
+            }
+            return out;
+        }
+    }
+
+    /** One table being read: remembers which keys were read, so the rest can be reported as unknown. */
+    private static final class Scope {
+        final Errors errors;
+        final TomlTable table;
+        final String path;
+        final TomlPosition position;
+        final Set<String> known = new LinkedHashSet<>();
+
+        Scope(Errors errors, TomlTable table, String path, TomlPosition position) {
+            this.errors = errors;
+            this.table = table;
+            this.path = path;
+            this.position = position;
+        }
+
+        String key(String name) {
+            return path.isEmpty() ? name : path + "." + name;
+        }
+
+        boolean has(String name) {
+            known.add(name);
+            return table.get(List.of(name)) != null;
+        }
+
+        TomlPosition where(String name) {
+            TomlPosition p = table.inputPositionOf(List.of(name));
+            return p != null ? p : position;
+        }
+
+        void error(String name, Object value, String expected) {
+            errors.at(where(name), key(name) + ": " + render(value) + " (expected " + expected + ")");
+        }
+
+        void errorAtTable(String name, String text) {
+            errors.at(position, key(name) + ": " + text);
+        }
+
+        Object raw(String name) {
+            known.add(name);
+            return table.get(List.of(name));
+        }
+
+        TomlTable table(String name) {
+            Object v = raw(name);
+            if (v == null) {
+                return null;
+            }
+            if (v instanceof TomlTable) {
+                return (TomlTable) v;
+            }
+            error(name, v, "a table [" + key(name) + "]");
+            return null;
+        }
+
+        TomlArray tableArray(String name) {
+            Object v = raw(name);
+            if (v == null) {
+                return null;
+            }
+            if (v instanceof TomlArray && (((TomlArray) v).isEmpty() || ((TomlArray) v).containsTables())) {
+                return (TomlArray) v;
+            }
+            error(name, v, "tables written as [[" + key(name).replaceAll("\\[\\d+\\]", "") + "]]");
+            return null;
+        }
+
+        String requiredString(String name, String expected) {
+            Object v = raw(name);
+            if (v == null) {
+                errors.at(position, key(name) + ": missing (expected " + expected + ")");
+                return null;
+            }
+            if (!(v instanceof String) || ((String) v).isBlank()) {
+                error(name, v, expected);
+                return null;
+            }
+            return (String) v;
+        }
+
+        String string(String name, String fallback, String expected) {
+            Object v = raw(name);
+            if (v == null) {
+                return fallback;
+            }
+            if (!(v instanceof String) || ((String) v).isBlank()) {
+                error(name, v, expected);
+                return fallback;
+            }
+            return (String) v;
+        }
+
+        boolean bool(String name, boolean fallback) {
+            Object v = raw(name);
+            if (v == null) {
+                return fallback;
+            }
+            if (!(v instanceof Boolean)) {
+                error(name, v, "true or false");
+                return fallback;
+            }
+            return (Boolean) v;
+        }
+
+        int integer(String name, int fallback, int min, int max) {
+            Object v = raw(name);
+            if (v == null) {
+                return fallback;
+            }
+            if (!(v instanceof Long) || (Long) v < min || (Long) v > max) {
+                error(name, v, "a whole number from " + min + " to " + max);
+                return fallback;
+            }
+            return (int) (long) (Long) v;
+        }
+
+        double number(String name, double fallback, double min, double max) {
+            return number(name, fallback, min, max, "a number from " + format(min) + " to " + format(max));
+        }
+
+        double number(String name, double fallback, double min, double max, String expected) {
+            Object v = raw(name);
+            if (v == null) {
+                return fallback;
+            }
+            double d;
+            if (v instanceof Long) {
+                d = (Long) v;
+            } else if (v instanceof Double) {
+                d = (Double) v;
+            } else {
+                d = Double.NaN;
+            }
+            if (!(d >= min && d <= max)) {
+                error(name, v, expected);
+                return fallback;
+            }
+            return d;
+        }
+
+        /** A polygon [[x, y], ...] in frame fractions; returns {xs, ys} or null after reporting. */
+        double[][] polygon(String name) {
+            Object v = raw(name);
+            String expected = "at least 3 points [x, y] with x and y from 0 to 1";
+            if (v == null) {
+                errors.at(position, key(name) + ": missing (expected " + expected + ")");
+                return null;
+            }
+            if (!(v instanceof TomlArray) || ((TomlArray) v).size() < 3) {
+                error(name, v, expected);
+                return null;
+            }
+            TomlArray a = (TomlArray) v;
+            double[] xs = new double[a.size()];
+            double[] ys = new double[a.size()];
+            boolean ok = true;
+            for (int i = 0; i < a.size(); i++) {
+                Object p = a.get(i);
+                double[] xy = point(p);
+                if (xy == null) {
+                    TomlPosition at = a.inputPositionOf(i);
+                    errors.at(at != null ? at : where(name), key(name) + "[" + i + "]: " + render(p)
+                            + " (expected a point [x, y] with x and y from 0 to 1)");
+                    ok = false;
+                } else {
+                    xs[i] = xy[0];
+                    ys[i] = xy[1];
+                }
+            }
+            if (ok && Math.abs(area(xs, ys)) < 1e-6) {
+                error(name, v, "a polygon that encloses an area");
+                ok = false;
+            }
+            return ok ? new double[][] {xs, ys} : null;
+        }
+
+        private static double[] point(Object p) {
+            if (!(p instanceof TomlArray) || ((TomlArray) p).size() != 2) {
+                return null;
+            }
+            TomlArray a = (TomlArray) p;
+            double[] xy = new double[2];
+            for (int k = 0; k < 2; k++) {
+                Object c = a.get(k);
+                double d = c instanceof Long ? (Long) c : (c instanceof Double ? (Double) c : Double.NaN);
+                if (!(d >= 0 && d <= 1)) {
+                    return null;
+                }
+                xy[k] = d;
+            }
+            return xy;
+        }
+
+        private static double area(double[] xs, double[] ys) {
+            double s = 0;
+            for (int i = 0, j = xs.length - 1; i < xs.length; j = i++) {
+                s += (xs[j] + xs[i]) * (ys[j] - ys[i]);
+            }
+            return s / 2;
+        }
+
+        void finish() {
+            for (String k : table.keySet()) {
+                if (!known.contains(k)) {
+                    TomlPosition p = table.inputPositionOf(List.of(k));
+                    errors.at(p != null ? p : position, key(k) + ": " + render(table.get(List.of(k)))
+                            + " (unknown key; expected one of " + String.join(", ", known) + ")");
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,101 @@
+package wayward.config;
+
+import java.net.URI;
+import java.net.URISyntaxException;
+
+/**
+ * Prints the effective configuration (every key, defaults filled in) as TOML, with secrets masked: passwords in
+ * URLs and webhook query strings never appear. Stateless.
+ */
+public final class ConfigPrinter {
+    private ConfigPrinter() {
+    }
+
+    public static String toToml(SiteConfig c) {
+        StringBuilder b = new StringBuilder();
+        b.append("# effective configuration of ").append(c.file()).append(" (defaults filled in, secrets masked)\n");
+        b.append("[service]\n");
+        b.append("data_dir = ").append(quote(c.dataDir().toString())).append('\n');
+        b.append("\n[flow]\n");
+        b.append("levels = ").append(c.flow().levels()).append('\n');
+        b.append("iterations = ").append(c.flow().iterations()).append('\n');
+        b.append("window = ").append(c.flow().window()).append('\n');
+        b.append("regularization = ").append(num(c.flow().regularization())).append('\n');
+        for (CameraConfig cam : c.cameras()) {
+            b.append("\n[[camera]]\n");
+            b.append("id = ").append(quote(cam.id())).append('\n');
+            b.append("source = ").append(quote(maskUrl(cam.source()))).append('\n');
+            b.append("loop = ").append(cam.loop()).append('\n');
+            b.append("analysis_width = ").append(cam.analysisWidth()).append('\n');
+            b.append("analysis_fps = ").append(num(cam.analysisFps())).append('\n');
+            for (ZoneConfig z : cam.zones()) {
+                b.append("\n  [[camera.zone]]\n");
+                b.append("  id = ").append(quote(z.id())).append('\n');
+                b.append("  polygon = [");
+                double[] xs = z.xs();
+                double[] ys = z.ys();
+                for (int i = 0; i < xs.length; i++) {
+                    b.append(i == 0 ? "" : ", ").append('[').append(num(xs[i])).append(", ").append(num(ys[i])).append(']');
+                }
+                b.append("]\n");
+                if (z.hasHeading()) {
+                    b.append("  heading_deg = ").append(num(z.headingDeg())).append('\n');
+                } else {
+                    b.append("  # heading_deg not set: the zone reports any motion\n");
+                }
+                b.append("  tolerance_deg = ").append(num(z.toleranceDeg())).append('\n');
+                b.append("  min_speed = ").append(num(z.minSpeedPxPerSecond())).append('\n');
+                b.append("  min_confidence = ").append(num(z.minConfidence())).append('\n');
+                b.append("  onset_level = ").append(num(z.rule().onsetLevel())).append('\n');
+                b.append("  release_level = ").append(num(z.rule().releaseLevel())).append('\n');
+                b.append("  hold_seconds = ").append(num(z.rule().holdSeconds())).append('\n');
+                b.append("  clear_seconds = ").append(num(z.rule().clearSeconds())).append('\n');
+                b.append("  rest_seconds = ").append(num(z.rule().restSeconds())).append('\n');
+            }
+        }
+        for (WebhookConfig w : c.webhooks()) {
+            b.append("\n[[webhook]]\n");
+            b.append("url = ").append(quote(maskUrl(w.url()))).append('\n');
+            b.append("timeout_seconds = ").append(num(w.timeoutSeconds())).append('\n');
+            b.append("retries = ").append(w.retries()).append('\n');
+        }
+        return b.toString();
+    }
+
+    /**
+     * A URL fit for logs: the password of user:password@ becomes ***, and a query string (where tokens tend to
+     * live) becomes ?***. Non-URLs come back unchanged.
+     */
+    public static String maskUrl(String s) {
+        if (!CameraConfig.isUrl(s)) {
+            return s;
+        }
+        try {
+            URI u = new URI(s);
+            String user = u.getRawUserInfo();
+            String masked = s;
+            if (user != null) {
+                int colon = user.indexOf(':');
+                String shown = colon >= 0 ? user.substring(0, colon) + ":***" : user;
+                masked = masked.replace(user + "@", shown + "@");
+            }
+            String query = u.getRawQuery();
+            if (query != null) {
+                masked = masked.replace("?" + query, "?***");
+            }
+            return masked;
+        } catch (URISyntaxException e) {
+            // not parseable: hide everything after the scheme's host part rather than risk a secret
+            int at = s.lastIndexOf('@');
+            return at > 0 ? s.substring(0, s.indexOf("://") + 3) + "***" + s.substring(at) : s;
+        }
+    }
+
+    private static String num(double d) {
+        return ConfigLoader.format(d);
+    }
+
+    private static String quote(String s) {
+        return ConfigLoader.render(s);
+    }
+}

@@ -1,0 +1,32 @@
+package wayward.config;
+
+import java.nio.file.Path;
+import java.util.List;
+
+/**
+ * A whole, checked configuration. Immutable; relative paths in the file are already resolved against the
+ * config file's folder.
+ *
+ * @param file     the config file as the user named it (for messages)
+ * @param dataDir  folder for the event log and, later, outbox and clips
+ * @param flow     flow estimator settings shared by all cameras
+ * @param cameras  at least one camera
+ * @param webhooks zero or more webhook destinations
+ */
+public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
+        List<WebhookConfig> webhooks) {
+    public SiteConfig {
+        cameras = List.copyOf(cameras);
+        webhooks = List.copyOf(webhooks);
+    }
+
+    /** The camera with this id, or null. */
+    public CameraConfig camera(String id) {
+        for (CameraConfig c : cameras) {
+            if (c.id().equals(id)) {
+                return c;
+            }
+        }
+        return null;
+    }
+}

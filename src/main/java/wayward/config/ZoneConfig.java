@@ -1,0 +1,39 @@
+package wayward.config;
+
+import wayward.rule.RuleSettings;
+
+/**
+ * One {@code [[camera.zone]]} table.
+ *
+ * @param id                  short name used in events
+ * @param xs                  polygon corners' x, fractions of the frame width (0..1)
+ * @param ys                  polygon corners' y, fractions of the frame height (0..1), y down
+ * @param headingDeg          permitted bearing, degrees clockwise from image-up; NaN when the zone has none
+ *                            (it then reports any motion)
+ * @param toleranceDeg        ± degrees around the heading still counted as with it (and around the opposite
+ *                            bearing, counted as against it)
+ * @param minSpeedPxPerSecond slowest motion that counts, analysis pixels per second
+ * @param minConfidence       weakest flow confidence that votes, (grey levels per pixel)²
+ * @param rule                hysteresis levels and times
+ */
+public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg, double toleranceDeg,
+        double minSpeedPxPerSecond, double minConfidence, RuleSettings rule) {
+    public ZoneConfig {
+        xs = xs.clone();
+        ys = ys.clone();
+    }
+
+    @Override
+    public double[] xs() {
+        return xs.clone();
+    }
+
+    @Override
+    public double[] ys() {
+        return ys.clone();
+    }
+
+    public boolean hasHeading() {
+        return !Double.isNaN(headingDeg);
+    }
+}

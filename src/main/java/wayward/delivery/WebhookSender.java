@@ -1,0 +1,216 @@
+package wayward.delivery;
+
+import io.netty.bootstrap.Bootstrap;
+import io.netty.buffer.Unpooled;
+import io.netty.channel.Channel;
+import io.netty.channel.ChannelHandlerContext;
+import io.netty.channel.ChannelInitializer;
+import io.netty.channel.ChannelOption;
+import io.netty.channel.EventLoopGroup;
+import io.netty.channel.MultiThreadIoEventLoopGroup;
+import io.netty.channel.SimpleChannelInboundHandler;
+import io.netty.channel.nio.NioIoHandler;
+import io.netty.channel.socket.SocketChannel;
+import io.netty.channel.socket.nio.NioSocketChannel;
+import io.netty.handler.codec.http.DefaultFullHttpRequest;
+import io.netty.handler.codec.http.FullHttpRequest;
+import io.netty.handler.codec.http.FullHttpResponse;
+import io.netty.handler.codec.http.HttpClientCodec;
+import io.netty.handler.codec.http.HttpHeaderNames;
+import io.netty.handler.codec.http.HttpHeaderValues;
+import io.netty.handler.codec.http.HttpMethod;
+import io.netty.handler.codec.http.HttpObjectAggregator;
+import io.netty.handler.codec.http.HttpVersion;
+import io.netty.handler.ssl.SslContext;
+import io.netty.handler.ssl.SslContextBuilder;
+import io.netty.handler.timeout.ReadTimeoutHandler;
+import io.netty.util.concurrent.DefaultThreadFactory;
+import java.net.URI;
+import java.nio.charset.StandardCharsets;
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ThreadLocalRandom;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.TimeoutException;
+import javax.net.ssl.SSLException;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import wayward.config.ConfigPrinter;
+import wayward.config.WebhookConfig;
+import wayward.event.Event;
+import wayward.event.EventJson;
+
+/**
+ * POSTs each event phase as JSON to a webhook URL over Netty (HTTP/1.1, one connection per attempt, HTTPS with
+ * the JDK's trust store). 2xx = delivered; 4xx other than 408 and 429 = refused, given up and logged; other
+ * answers, timeouts and connection errors are retried with exponential backoff and jitter, up to the
+ * configured number of retries. Called by its delivery thread only (see {@link EventBus}).
+ */
+public final class WebhookSender implements EventSink {
+    private static final Logger LOG = LoggerFactory.getLogger(WebhookSender.class);
+    /** Header naming the event, so receivers can drop duplicates of an at-least-once delivery. */
+    public static final String EVENT_ID_HEADER = "X-Wayward-Event-Id";
+
+    private final WebhookConfig config;
+    private final URI uri;
+    private final String shownUrl;
+    private final EventLoopGroup group;
+    private final SslContext ssl;
+    private final long baseBackoffMillis;
+
+    /** Outcome of one attempt. */
+    private enum Outcome { DELIVERED, REFUSED, RETRY }
+
+    public WebhookSender(WebhookConfig config) {
+        this(config, 1000);
+    }
+
+    /** @param baseBackoffMillis wait before the first retry; doubles each time (tests use a short one) */
+    public WebhookSender(WebhookConfig config, long baseBackoffMillis) {
+        this.config = config;
+        this.uri = URI.create(config.url());
+        this.shownUrl = ConfigPrinter.maskUrl(config.url());
+        this.baseBackoffMillis = baseBackoffMillis;
+        this.group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("webhook", true),
+                NioIoHandler.newFactory());
+        try {
+            this.ssl = "https".equalsIgnoreCase(uri.getScheme()) ? SslContextBuilder.forClient().build() : null;
+        } catch (SSLException e) {
+            throw new IllegalStateException("TLS set-up for " + shownUrl + " failed: " + e.getMessage(), e);
+        }
+    }
+
+    @Override
+    public String name() {
+        return "webhook " + shownUrl;
+    }
+
+    @Override
+    public void deliver(Event event) throws InterruptedException {
+        byte[] body = EventJson.toJson(event).getBytes(StandardCharsets.UTF_8);
+        long backoff = baseBackoffMillis;
+        for (int attempt = 0; attempt <= config.retries(); attempt++) {
+            String why;
+            try {
+                int status = post(body, event.id());
+                Outcome o = classify(status);
+                if (o == Outcome.DELIVERED) {
+                    if (attempt > 0) {
+                        LOG.info("{}: event {} delivered after {} retries", name(), event.id(), attempt);
+                    }
+                    return;
+                }
+                if (o == Outcome.REFUSED) {
+                    LOG.error("{}: event {} refused with HTTP {}; not retried", name(), event.id(), status);
+                    return;
+                }
+                why = "HTTP " + status;
+            } catch (TimeoutException e) {
+                why = "no answer within " + config.timeoutSeconds() + " s";
+            } catch (ExecutionException e) {
+                Throwable c = e.getCause() != null ? e.getCause() : e;
+                why = c.getMessage() != null ? c.getMessage() : c.getClass().getSimpleName();
+            }
+            if (attempt == config.retries()) {
+                LOG.error("{}: event {} {} {} not delivered after {} attempts (last: {})", name(), event.id(),
+                        event.kind().jsonName(), event.phase().jsonName(), attempt + 1, why);
+                return;
+            }
+            long wait = backoff + ThreadLocalRandom.current().nextLong(backoff / 4 + 1);
+            LOG.warn("{}: event {} attempt {} failed ({}); retrying in {} ms", name(), event.id(), attempt + 1, why, wait);
+            Thread.sleep(wait);
+            backoff = Math.min(backoff * 2, 60_000);
+        }
+    }
+
+    static Outcome classify(int status) {
+        if (status >= 200 && status < 300) {
+            return Outcome.DELIVERED;
+        }
+        if (status >= 400 && status < 500 && status != 408 && status != 429) {
+            return Outcome.REFUSED;
+        }
+        return Outcome.RETRY;
+    }
+
+    /** One POST; returns the status code. */
+    private int post(byte[] body, String eventId) throws InterruptedException, ExecutionException, TimeoutException {
+        String host = uri.getHost();
+        boolean tls = ssl != null;
+        int port = uri.getPort() > 0 ? uri.getPort() : (tls ? 443 : 80);
+        long timeoutMillis = (long) (config.timeoutSeconds() * 1000);
+        CompletableFuture<Integer> answer = new CompletableFuture<>();
+        Bootstrap b = new Bootstrap()
+                .group(group)
+                .channel(NioSocketChannel.class)
+                .option(ChannelOption.CONNECT_TIMEOUT_MILLIS, (int) Math.max(1, timeoutMillis))
+                .handler(new ChannelInitializer<SocketChannel>() {
+                    @Override
+                    protected void initChannel(SocketChannel ch) {
+                        if (tls) {
+                            ch.pipeline().addLast(ssl.newHandler(ch.alloc(), host, port));
+                        }
+                        ch.pipeline().addLast(new ReadTimeoutHandler(timeoutMillis, TimeUnit.MILLISECONDS));
+                        ch.pipeline().addLast(new HttpClientCodec());
+                        ch.pipeline().addLast(new HttpObjectAggregator(64 * 1024));
+                        ch.pipeline().addLast(new SimpleChannelInboundHandler<FullHttpResponse>() {
+                            @Override
+                            protected void channelRead0(ChannelHandlerContext ctx, FullHttpResponse r) {
+                                answer.complete(r.status().code());
+                                ctx.close();
+                            }
+
+                            @Override
+                            public void exceptionCaught(ChannelHandlerContext ctx, Throwable cause) {
+                                answer.completeExceptionally(cause);
+                                ctx.close();
+                            }
+
+                            @Override
+                            public void channelInactive(ChannelHandlerContext ctx) {
+                                answer.completeExceptionally(new IllegalStateException("connection closed without an answer"));
+                            }
+                        });
+                    }
+                });
+        String path = uri.getRawPath() == null || uri.getRawPath().isEmpty() ? "/" : uri.getRawPath();
+        if (uri.getRawQuery() != null) {
+            path += "?" + uri.getRawQuery();
+        }
+        FullHttpRequest req = new DefaultFullHttpRequest(HttpVersion.HTTP_1_1, HttpMethod.POST, path,
+                Unpooled.wrappedBuffer(body));
+        req.headers().set(HttpHeaderNames.HOST, uri.getPort() > 0 ? host + ":" + port : host);
+        req.headers().set(HttpHeaderNames.CONTENT_TYPE, HttpHeaderValues.APPLICATION_JSON);
+        req.headers().set(HttpHeaderNames.CONTENT_LENGTH, body.length);
+        req.headers().set(HttpHeaderNames.CONNECTION, HttpHeaderValues.CLOSE);
+        req.headers().set(HttpHeaderNames.USER_AGENT, "wayward");
+        req.headers().set(EVENT_ID_HEADER, eventId);
+        Channel ch = null;
+        try {
+            io.netty.channel.ChannelFuture connect = b.connect(host, port);
+            if (!connect.await(timeoutMillis)) {
+                connect.cancel(true);
+                throw new TimeoutException("connect");
+            }
+            if (!connect.isSuccess()) {
+                throw new ExecutionException(connect.cause());
+            }
+            ch = connect.channel();
+            ch.writeAndFlush(req).addListener(f -> {
+                if (!f.isSuccess()) {
+                    answer.completeExceptionally(f.cause());
+                }
+            });
+            return answer.get(timeoutMillis + 1000, TimeUnit.MILLISECONDS);
+        } finally {
+            if (ch != null) {
+                ch.close();
+            }
+        }
+    }
+
+    @Override
+    public void close() {
+        group.shutdownGracefully(0, 2, TimeUnit.SECONDS).awaitUninterruptibly(3000);
+    }
+}

@@ -1,0 +1,54 @@
+package wayward.flow;
+
+/**
+ * Parameters of the pyramidal Lucas–Kanade estimator.
+ *
+ * @param levels         pyramid levels including the full-size one; 0 picks as many as keep the coarsest
+ *                       level at least {@link #MIN_LEVEL_SIZE} pixels on its short side (at most 5)
+ * @param iterations     refinement steps per level (warp, linearise, solve)
+ * @param windowRadius   half size of the square window; 2 gives the textbook 5×5 window
+ * @param regularization weight pulling each solve towards the current estimate, in (grey levels per
+ *                       pixel)² per window pixel; keeps flat areas from producing wild vectors
+ */
+public record FlowSettings(int levels, int iterations, int windowRadius, float regularization) {
+    /** The short side of the coarsest level chosen by {@code levels = 0}. */
+    public static final int MIN_LEVEL_SIZE = 16;
+    /** Upper bound of automatically chosen levels. */
+    public static final int MAX_AUTO_LEVELS = 5;
+
+    public static FlowSettings defaults() {
+        return new FlowSettings(0, 3, 2, 1.0f);
+    }
+
+    public FlowSettings {
+        if (levels < 0 || levels > 8) {
+            throw new IllegalArgumentException("levels: " + levels + " (expected 0 to 8)");
+        }
+        if (iterations < 1 || iterations > 20) {
+            throw new IllegalArgumentException("iterations: " + iterations + " (expected 1 to 20)");
+        }
+        if (windowRadius < 1 || windowRadius > 7) {
+            throw new IllegalArgumentException("windowRadius: " + windowRadius + " (expected 1 to 7)");
+        }
+        if (!(regularization >= 0f) || regularization > 1000f) {
+            throw new IllegalArgumentException("regularization: " + regularization + " (expected 0 to 1000)");
+        }
+    }
+
+    /** Levels actually used for a frame of the given size (at least 1). */
+    public int levelsFor(int width, int height) {
+        int shortSide = Math.min(width, height);
+        int fit = 1;
+        while (fit < 8 && (shortSide >> fit) >= MIN_LEVEL_SIZE) {
+            fit++;
+        }
+        if (levels == 0) {
+            return Math.min(fit, MAX_AUTO_LEVELS);
+        }
+        int possible = 1;
+        while (possible < levels && (shortSide >> possible) >= 2) {
+            possible++;
+        }
+        return possible;
+    }
+}

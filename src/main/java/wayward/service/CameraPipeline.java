@@ -1,0 +1,189 @@
+package wayward.service;
+
+import java.time.Clock;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.function.Consumer;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import org.slf4j.MDC;
+import wayward.capture.FrameSlot;
+import wayward.capture.SourceOptions;
+import wayward.capture.VideoSource;
+import wayward.config.CameraConfig;
+import wayward.config.FlowConfig;
+import wayward.config.ZoneConfig;
+import wayward.event.Event;
+import wayward.flow.FlowField;
+import wayward.flow.LucasKanadeFlow;
+import wayward.image.GrayFrame;
+import wayward.rule.ZoneRule;
+import wayward.zone.ZoneMask;
+import wayward.zone.ZoneMeter;
+import wayward.zone.ZoneReading;
+
+/**
+ * One camera's path: a capture thread ({@code capture-<id>}) reading and shrinking frames into a
+ * {@link FrameSlot}, and an analysis thread ({@code analysis-<id>}) running flow, zone meters and rules and
+ * handing events to a consumer. Flow and zone buffers are sized on the first frame and reused.
+ */
+public final class CameraPipeline {
+    private static final Logger LOG = LoggerFactory.getLogger(CameraPipeline.class);
+    /** A pause between analysed frames longer than this restarts the flow (no motion across a gap). */
+    private static final double MAX_GAP_SECONDS = 2.0;
+
+    private final CameraConfig camera;
+    private final FlowConfig flowConfig;
+    private final Consumer<Event> events;
+    private final Clock clock;
+    private final FrameSlot slot;
+    private final VideoSource source;
+    private final Thread captureThread;
+    private final Thread analysisThread;
+    private volatile boolean stopping;
+    private volatile long analysedFrames;
+    private volatile double lastStreamSeconds;
+
+    // analysis-thread state
+    private LucasKanadeFlow flow;
+    private FlowField field;
+    private final List<ZoneMeter> meters = new ArrayList<>();
+    private final List<ZoneRule> rules = new ArrayList<>();
+    private final ZoneReading reading = new ZoneReading();
+
+    /**
+     * @param lossless analyse every frame up to the rate cap (replay); otherwise newest-wins (live)
+     * @param realtime pace file sources to their timestamps
+     * @param maxLoops for looping files, passes before the camera ends (0 = forever)
+     */
+    public CameraPipeline(CameraConfig camera, FlowConfig flowConfig, Consumer<Event> events, Clock clock,
+            boolean lossless, boolean realtime, int maxLoops) {
+        this.camera = camera;
+        this.flowConfig = flowConfig;
+        this.events = events;
+        this.clock = clock;
+        this.slot = new FrameSlot(lossless);
+        this.source = new VideoSource(camera.id(), new SourceOptions(camera.source(), camera.loop(), realtime,
+                camera.analysisWidth(), camera.analysisFps(), maxLoops), slot);
+        this.captureThread = new Thread(() -> {
+            MDC.put("camera", camera.id());
+            source.run();
+        }, "capture-" + camera.id());
+        this.analysisThread = new Thread(() -> {
+            MDC.put("camera", camera.id());
+            analyse();
+        }, "analysis-" + camera.id());
+        for (ZoneConfig z : camera.zones()) {
+            rules.add(new ZoneRule(camera.id(), z.id(), z.hasHeading(), z.rule(), clock));
+        }
+    }
+
+    public String id() {
+        return camera.id();
+    }
+
+    public void start() {
+        analysisThread.start();
+        captureThread.start();
+    }
+
+    /** Stops capture; analysis finishes what is in the slot and closes open events. */
+    public void stop() {
+        stopping = true;
+        source.stop();
+    }
+
+    /** Waits for both threads; true when they ended within the time. */
+    public boolean join(long timeoutMillis) throws InterruptedException {
+        long deadline = System.currentTimeMillis() + timeoutMillis;
+        captureThread.join(Math.max(1, deadline - System.currentTimeMillis()));
+        analysisThread.join(Math.max(1, deadline - System.currentTimeMillis()));
+        return !captureThread.isAlive() && !analysisThread.isAlive();
+    }
+
+    public boolean running() {
+        return captureThread.isAlive() || analysisThread.isAlive();
+    }
+
+    public long analysedFrames() {
+        return analysedFrames;
+    }
+
+    public long droppedFrames() {
+        return slot.dropped();
+    }
+
+    public double streamSeconds() {
+        return lastStreamSeconds;
+    }
+
+    private void analyse() {
+        double previous = Double.NaN;
+        try {
+            while (true) {
+                GrayFrame f = slot.take(250);
+                if (f == null) {
+                    if (slot.drained()) {
+                        break;
+                    }
+                    continue;
+                }
+                if (field == null || field.width != f.width || field.height != f.height) {
+                    setUp(f.width, f.height);
+                    previous = Double.NaN;
+                }
+                double t = f.streamSeconds;
+                double dt = t - previous;
+                if (!Double.isNaN(previous) && (dt <= 0 || dt > MAX_GAP_SECONDS)) {
+                    flow.reset();
+                }
+                boolean estimated = flow.push(f.pixels, field);
+                previous = t;
+                lastStreamSeconds = t;
+                analysedFrames++;
+                if (!estimated || dt <= 0 || dt > MAX_GAP_SECONDS) {
+                    continue;
+                }
+                for (int z = 0; z < meters.size(); z++) {
+                    meters.get(z).measure(field, dt, t, reading);
+                    Event e = rules.get(z).update(reading);
+                    if (e != null) {
+                        emit(e);
+                    }
+                }
+            }
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        } catch (RuntimeException e) {
+            LOG.error("camera {}: analysis stopped by an internal error", camera.id(), e);
+        } finally {
+            for (ZoneRule r : rules) {
+                Event e = r.finish(lastStreamSeconds);
+                if (e != null) {
+                    emit(e);
+                }
+            }
+        }
+    }
+
+    private void emit(Event e) {
+        LOG.info("camera {} zone {}: {} {} at stream {} s", e.camera(), e.zone(), e.kind().jsonName(),
+                e.phase().jsonName(), String.format(java.util.Locale.ROOT, "%.2f", e.streamSeconds()));
+        events.accept(e);
+    }
+
+    private void setUp(int w, int h) {
+        flow = new LucasKanadeFlow(w, h, flowConfig.toSettings());
+        field = new FlowField(w, h);
+        meters.clear();
+        for (ZoneConfig z : camera.zones()) {
+            ZoneMask mask = ZoneMask.rasterise(z.xs(), z.ys(), w, h);
+            if (mask.size() == 0) {
+                LOG.warn("camera {} zone {}: covers no pixel at {}x{}", camera.id(), z.id(), w, h);
+            }
+            meters.add(new ZoneMeter(mask, z.headingDeg(), z.toleranceDeg(), z.minSpeedPxPerSecond(), z.minConfidence()));
+        }
+        LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {} zones", camera.id(), w, h,
+                flow.levelCount(), meters.size());
+    }
+}

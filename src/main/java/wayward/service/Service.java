@@ -1,0 +1,156 @@
+package wayward.service;
+
+import java.io.IOException;
+import java.io.PrintStream;
+import java.time.Clock;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.concurrent.CountDownLatch;
+import java.util.concurrent.TimeUnit;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import wayward.config.CameraConfig;
+import wayward.config.ConfigPrinter;
+import wayward.config.SiteConfig;
+import wayward.config.WebhookConfig;
+import wayward.delivery.EventBus;
+import wayward.delivery.EventLog;
+import wayward.delivery.PrintSink;
+import wayward.delivery.WebhookSender;
+
+/**
+ * Wires cameras to sinks, starts them, and shuts down in order: stop capture → drain analysis → deliver what
+ * is queued → close the sinks. One instance per run; {@link #start} then {@link #awaitEnd} or {@link #stop}.
+ */
+public final class Service {
+    private static final Logger LOG = LoggerFactory.getLogger(Service.class);
+    /** Shown in the log at every start; the README says the same. */
+    public static final String CAUTION = "wayward is an aid for people who watch a site, not a safety system: "
+            + "never make it the only protection where a wrong-way vehicle or person can be hurt. Video of people "
+            + "falls under privacy law (signage, retention limits, access to recordings): follow local law, "
+            + "site rules and licensed practice.";
+    private static final int QUEUE_CAPACITY = 10_000;
+
+    /** How the cameras are read. */
+    public enum Mode {
+        /** The service: live sources, files paced to real time; event log and webhooks. */
+        RUN,
+        /** Like RUN, files looped, events also printed on standard output. */
+        DEMO,
+        /** One recorded file as fast as possible, every frame analysed, events on standard output only. */
+        REPLAY
+    }
+
+    private final SiteConfig config;
+    private final List<CameraConfig> cameras;
+    private final Mode mode;
+    private final PrintStream stdout;
+    private final int maxLoops;
+    private final EventBus bus = new EventBus();
+    private final List<CameraPipeline> pipelines = new ArrayList<>();
+    private final CountDownLatch ended = new CountDownLatch(1);
+    private volatile boolean stopped;
+
+    /**
+     * @param cameras  the cameras to watch (for replay: one camera whose source is the input file)
+     * @param stdout   where DEMO and REPLAY print events
+     * @param maxLoops DEMO: passes over the looped files before ending (0 = until stopped)
+     */
+    public Service(SiteConfig config, List<CameraConfig> cameras, Mode mode, PrintStream stdout, int maxLoops) {
+        this.config = config;
+        this.cameras = List.copyOf(cameras);
+        this.mode = mode;
+        this.stdout = stdout;
+        this.maxLoops = maxLoops;
+    }
+
+    public void start() throws IOException {
+        if (mode != Mode.REPLAY) {
+            LOG.warn(CAUTION);
+            EventLog log = new EventLog(config.dataDir());
+            bus.add(log, QUEUE_CAPACITY);
+            LOG.info("events are written to {}", log.file());
+            for (WebhookConfig w : config.webhooks()) {
+                bus.add(new WebhookSender(w), QUEUE_CAPACITY);
+                LOG.info("events are posted to {}", ConfigPrinter.maskUrl(w.url()));
+            }
+        }
+        if (mode != Mode.RUN) {
+            bus.add(new PrintSink(stdout), QUEUE_CAPACITY);
+        }
+        Clock clock = Clock.systemUTC();
+        for (CameraConfig c : cameras) {
+            CameraPipeline p = new CameraPipeline(c, config.flow(), bus::publish, clock, mode == Mode.REPLAY,
+                    mode != Mode.REPLAY, maxLoops);
+            pipelines.add(p);
+        }
+        for (CameraPipeline p : pipelines) {
+            LOG.info("camera {}: starting on {}", p.id(), ConfigPrinter.maskUrl(sourceOf(p.id())));
+            p.start();
+        }
+        Thread watcher = new Thread(this::watch, "service-watch");
+        watcher.setDaemon(true);
+        watcher.start();
+    }
+
+    private String sourceOf(String id) {
+        for (CameraConfig c : cameras) {
+            if (c.id().equals(id)) {
+                return c.source();
+            }
+        }
+        return "?";
+    }
+
+    /** Ends the wait when every camera has ended by itself (files without loop). */
+    private void watch() {
+        try {
+            for (CameraPipeline p : pipelines) {
+                while (!p.join(1000)) {
+                    if (stopped) {
+                        return;
+                    }
+                }
+            }
+            ended.countDown();
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
+    }
+
+    /** Blocks until every camera has ended by itself, or {@link #stop} was called. */
+    public void awaitEnd() throws InterruptedException {
+        ended.await();
+    }
+
+    public boolean awaitEnd(long timeout, TimeUnit unit) throws InterruptedException {
+        return ended.await(timeout, unit);
+    }
+
+    public List<CameraPipeline> pipelines() {
+        return List.copyOf(pipelines);
+    }
+
+    /** Orderly shutdown, each step time-limited. Idempotent; any thread. */
+    public synchronized void stop() {
+        if (stopped) {
+            return;
+        }
+        stopped = true;
+        for (CameraPipeline p : pipelines) {
+            p.stop();
+        }
+        for (CameraPipeline p : pipelines) {
+            try {
+                if (!p.join(5000)) {
+                    LOG.warn("camera {}: did not stop within 5 s", p.id());
+                }
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }
+        bus.close(10_000);
+        ended.countDown();
+        LOG.info("stopped");
+    }
+}
