@@ -345,11 +345,20 @@ public final class ConfigLoader {
             if (v == null) {
                 return null;
             }
-            if (v instanceof TomlArray && (((TomlArray) v).isEmpty() || ((TomlArray) v).containsTables())) {
+            if (v instanceof TomlArray && allTables((TomlArray) v)) {
                 return (TomlArray) v;
             }
             error(name, v, "tables written as [[" + key(name).replaceAll("\\[\\d+\\]", "") + "]]");
             return null;
+        }
+
+        private static boolean allTables(TomlArray a) {
+            for (int i = 0; i < a.size(); i++) {
+                if (!(a.get(i) instanceof TomlTable)) {
+                    return false;
+                }
+            }
+            return true;
         }
 
         String requiredString(String name, String expected) {

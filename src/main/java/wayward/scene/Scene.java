@@ -81,7 +81,7 @@ public record Scene(String name, int width, int height, double fps, double secon
         for (int i = 0; la != null && i < la.size(); i++) {
             TomlTable l = la.getTable(i);
             lines.add(new Line(num(file, l, "x0"), num(file, l, "y0"), num(file, l, "x1"), num(file, l, "y1"),
-                    l.getDouble("width_px", () -> 3.0), l.getDouble("dash_px", () -> 0.0)));
+                    opt(file, l, "width_px", 3), opt(file, l, "dash_px", 0)));
         }
         List<Zone> zones = new ArrayList<>();
         TomlArray za = t.getArray("zone");
@@ -98,7 +98,7 @@ public record Scene(String name, int width, int height, double fps, double secon
                 ys[k] = number(p.getArray(k).get(1));
             }
             zones.add(new Zone(z.getString("id"), xs, ys, num(file, z, "heading_deg"),
-                    z.contains("tolerance_deg") ? num(file, z, "tolerance_deg") : 60));
+                    opt(file, z, "tolerance_deg", 60)));
         }
         List<Mover> movers = new ArrayList<>();
         TomlArray ma = t.getArray("mover");
@@ -112,8 +112,8 @@ public record Scene(String name, int width, int height, double fps, double secon
                     number(size.get(1))));
         }
         return new Scene(name, (int) num(file, t, "width"), (int) num(file, t, "height"), num(file, t, "fps"),
-                num(file, t, "seconds"), (long) num(file, t, "seed"), t.contains("noise") ? num(file, t, "noise") : 0,
-                t.contains("bitrate_kbps") ? (int) num(file, t, "bitrate_kbps") : 800, lines, zones, movers);
+                num(file, t, "seconds"), (long) num(file, t, "seed"), opt(file, t, "noise", 0),
+                (int) opt(file, t, "bitrate_kbps", 800), lines, zones, movers);
     }
 
     private static double num(Path file, TomlTable t, String key) {
@@ -122,6 +122,10 @@ public record Scene(String name, int width, int height, double fps, double secon
             throw new IllegalArgumentException(file + ": " + key + ": " + v + " (expected a number)");
         }
         return ((Number) v).doubleValue();
+    }
+
+    private static double opt(Path file, TomlTable t, String key, double fallback) {
+        return t.contains(key) ? num(file, t, key) : fallback;
     }
 
     private static double number(Object v) {
