@@ -23,6 +23,9 @@ import wayward.zone.ZoneReading;
 public final class ZoneRule {
     private enum State { IDLE, PENDING, ACTIVE, RESTING }
 
+    /** Slack on time comparisons, seconds: stream times are sums of frame intervals and carry rounding. */
+    private static final double EPSILON_SECONDS = 1e-6;
+
     private final String camera;
     private final String zone;
     private final EventKind kind;
@@ -74,7 +77,7 @@ public final class ZoneRule {
         final double t = r.streamSeconds;
         final boolean wrongWay = kind == EventKind.WRONG_WAY;
         final double signal = wrongWay ? r.against : r.coverage;
-        if (state == State.RESTING && t >= restUntil) {
+        if (state == State.RESTING && t + EPSILON_SECONDS >= restUntil) {
             state = State.IDLE;
         }
         switch (state) {
@@ -101,7 +104,7 @@ public final class ZoneRule {
                     accumulate(r, signal, wrongWay);
                     return null;
                 }
-                if (t - lastPresent >= settings.clearSeconds()) {
+                if (t - lastPresent + EPSILON_SECONDS >= settings.clearSeconds()) {
                     return end(t);
                 }
                 return null;
@@ -120,7 +123,7 @@ public final class ZoneRule {
     }
 
     private Event startIfHeld(double t) {
-        if (t - pendingSince < settings.holdSeconds()) {
+        if (t - pendingSince + EPSILON_SECONDS < settings.holdSeconds()) {
             return null;
         }
         state = State.ACTIVE;

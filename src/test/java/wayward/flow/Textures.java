@@ -1,0 +1,58 @@
+package wayward.flow;
+
+import java.util.SplittableRandom;
+
+/**
+ * Analytic test pictures: a sum of sinusoids, evaluated exactly at any real position, so a frame moved by a
+ * known displacement is exact ground truth (no resampling of a stored image).
+ */
+final class Textures {
+    private final double[] fx;
+    private final double[] fy;
+    private final double[] phase;
+    private final double[] amplitude;
+
+    /** @param seed picks the waves; wavelengths 6 to 40 px, random orientations */
+    Textures(long seed, int waves) {
+        SplittableRandom r = new SplittableRandom(seed);
+        fx = new double[waves];
+        fy = new double[waves];
+        phase = new double[waves];
+        amplitude = new double[waves];
+        for (int i = 0; i < waves; i++) {
+            double wavelength = 6 + r.nextDouble() * 34;
+            double angle = r.nextDouble() * Math.PI;
+            fx[i] = Math.cos(angle) / wavelength;
+            fy[i] = Math.sin(angle) / wavelength;
+            phase[i] = r.nextDouble() * 2 * Math.PI;
+            amplitude[i] = 70.0 / waves * (0.5 + r.nextDouble());
+        }
+    }
+
+    double at(double x, double y) {
+        double s = 128;
+        for (int i = 0; i < fx.length; i++) {
+            s += amplitude[i] * Math.sin(2 * Math.PI * (fx[i] * x + fy[i] * y) + phase[i]);
+        }
+        return s;
+    }
+
+    /**
+     * The picture sampled at pixel centres after the picture moved by (sx, sy) pixels: pixel (x, y) shows the
+     * texture at (x − sx, y − sy). Gaussian noise of the given σ is added, then rounded to 8 bits.
+     */
+    byte[] render(int w, int h, double sx, double sy, double noise, SplittableRandom r) {
+        byte[] out = new byte[w * h];
+        for (int y = 0; y < h; y++) {
+            for (int x = 0; x < w; x++) {
+                double v = at(x - sx, y - sy);
+                if (noise > 0) {
+                    v += noise * Math.sqrt(-2 * Math.log(1 - r.nextDouble())) * Math.cos(2 * Math.PI * r.nextDouble());
+                }
+                long q = Math.round(v);
+                out[y * w + x] = (byte) Math.max(0, Math.min(255, q));
+            }
+        }
+        return out;
+    }
+}
