@@ -1,0 +1,77 @@
+package wayward.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+
+class MainTest {
+    private final ByteArrayOutputStream out = new ByteArrayOutputStream();
+    private final ByteArrayOutputStream err = new ByteArrayOutputStream();
+
+    private int run(String... args) {
+        return Main.execute(args, new PrintStream(out, true, StandardCharsets.UTF_8),
+                new PrintStream(err, true, StandardCharsets.UTF_8));
+    }
+
+    private String stdout() {
+        return out.toString(StandardCharsets.UTF_8);
+    }
+
+    private String stderr() {
+        return err.toString(StandardCharsets.UTF_8);
+    }
+
+    @Test
+    void checkWithThreeMistakesPrintsThreeLocatedErrorsAndExits78() {
+        assertEquals(78, run("check", "--config", "src/test/resources/config/three-mistakes.toml"));
+        List<String> lines = stderr().lines().toList();
+        assertEquals(4, lines.size(), stderr());
+        for (int i = 0; i < 3; i++) {
+            assertTrue(lines.get(i).matches("src/test/resources/config/three-mistakes\\.toml:\\d+:\\d+: camera\\[0\\]\\..+"),
+                    lines.get(i));
+        }
+        assertEquals("3 errors; nothing started", lines.get(3));
+        assertEquals("", stdout());
+    }
+
+    @Test
+    void checkOfAGoodConfigPrintsItAndExits0() {
+        assertEquals(0, run("check", "--config", "conf/wayward.example.toml"));
+        assertTrue(stdout().contains("[[camera.zone]]"), stdout());
+        assertTrue(stdout().contains("viewer:***@"), "password masked");
+    }
+
+    @Test
+    void helpForTheWholeAndForEachCommand() {
+        assertEquals(0, run("--help"));
+        assertTrue(stdout().contains("replay"));
+        for (String c : List.of("run", "check", "replay", "demo")) {
+            out.reset();
+            assertEquals(0, run(c, "--help"));
+            assertTrue(stdout().startsWith("usage: java -jar wayward.jar " + c), stdout());
+        }
+    }
+
+    @Test
+    void badCommandLinesExit2WithOneLine() {
+        assertEquals(2, run("watch"));
+        assertEquals("wayward: unknown command 'watch' (expected run, check, replay, demo or help)\n", stderr());
+        err.reset();
+        assertEquals(2, run("check", "--conf", "x.toml"));
+        assertEquals("wayward check: unknown option '--conf' (expected --config)\n", stderr());
+        err.reset();
+        assertEquals(2, run("demo", "--loops", "zero"));
+        assertEquals("wayward demo: --loops zero (expected a whole number of 1 or more)\n", stderr());
+    }
+
+    @Test
+    void replayOfAMissingFileExits66() {
+        assertEquals(66, run("replay", "--config", "conf/demo.toml", "--input", "no-such.mp4"));
+        assertEquals("wayward replay: --input no-such.mp4: file not found\n", stderr());
+    }
+}
