@@ -84,12 +84,20 @@ public final class Main {
     private Main() {
     }
 
-    public static void main(String[] args) {
-        int code = execute(args, System.out, System.err);
-        if (code != OK || !"run".equals(args.length > 0 ? args[0] : "")) {
-            System.exit(code);
+    /** Ends a command early with an exit code; the message has already been printed. */
+    private static final class Exit extends Exception {
+        private static final long serialVersionUID = 1L;
+        final int code;
+
+        Exit(int code) {
+            super(null, null, false, false);
+            this.code = code;
         }
-        System.exit(OK);
+    }
+
+    public static void main(String[] args) {
+        // exit explicitly: library threads (Netty, FFmpeg) must not keep a finished command alive
+        System.exit(execute(args, System.out, System.err));
     }
 
     /** Runs one command; returns its exit code. Never calls System.exit. */
@@ -139,6 +147,8 @@ public final class Main {
                 case "demo" -> demo(opts, out, err);
                 default -> makeScene(opts, out, err);
             };
+        } catch (Exit e) {
+            return e.code;
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
             err.println("wayward " + command + ": interrupted");
@@ -149,47 +159,33 @@ public final class Main {
         }
     }
 
+    /** Loads the config named by --config (or the fallback); prints the errors and exits 78 if it is wrong. */
     private static SiteConfig loadConfig(String command, Map<String, String> opts, String fallback,
-            PrintStream err) throws ConfigException {
+            PrintStream err) throws Exit {
         String file = opts.getOrDefault("--config", fallback);
         if (file == null) {
             err.println("wayward " + command + ": --config FILE is required");
-            return null;
+            throw new Exit(USAGE);
         }
-        return ConfigLoader.load(Path.of(file));
-    }
-
-    private static int reportConfig(ConfigException e, PrintStream err) {
-        for (String line : e.errors()) {
-            err.println(line);
-        }
-        err.println(e.errors().size() == 1 ? "1 error; nothing started" : e.errors().size() + " errors; nothing started");
-        return CONFIG;
-    }
-
-    private static int check(Map<String, String> opts, PrintStream out, PrintStream err) {
         try {
-            SiteConfig c = loadConfig("check", opts, null, err);
-            if (c == null) {
-                return USAGE;
-            }
-            out.print(ConfigPrinter.toToml(c));
-            return OK;
+            return ConfigLoader.load(Path.of(file));
         } catch (ConfigException e) {
-            return reportConfig(e, err);
+            for (String line : e.errors()) {
+                err.println(line);
+            }
+            err.println(e.errors().size() == 1 ? "1 error; nothing started"
+                    : e.errors().size() + " errors; nothing started");
+            throw new Exit(CONFIG);
         }
+    }
+
+    private static int check(Map<String, String> opts, PrintStream out, PrintStream err) throws Exit {
+        out.print(ConfigPrinter.toToml(loadConfig("check", opts, null, err)));
+        return OK;
     }
 
     private static int run(Map<String, String> opts, PrintStream err) throws Exception {
-        SiteConfig c;
-        try {
-            c = loadConfig("run", opts, null, err);
-        } catch (ConfigException e) {
-            return reportConfig(e, err);
-        }
-        if (c == null) {
-            return USAGE;
-        }
+        SiteConfig c = loadConfig("run", opts, null, err);
         return serve(new Service(c, c.cameras(), Service.Mode.RUN, System.out, 0));
     }
 
@@ -211,12 +207,7 @@ public final class Main {
             err.println("wayward demo: " + fallback + " not found; run from the project folder or pass --config FILE");
             return NO_INPUT;
         }
-        SiteConfig c;
-        try {
-            c = loadConfig("demo", opts, fallback, err);
-        } catch (ConfigException e) {
-            return reportConfig(e, err);
-        }
+        SiteConfig c = loadConfig("demo", opts, fallback, err);
         List<CameraConfig> looped = new ArrayList<>();
         for (CameraConfig cam : c.cameras()) {
             looped.add(new CameraConfig(cam.id(), cam.source(), !cam.isUrl(), cam.analysisWidth(),
@@ -242,15 +233,7 @@ public final class Main {
     }
 
     private static int replay(Map<String, String> opts, PrintStream out, PrintStream err) throws Exception {
-        SiteConfig c;
-        try {
-            c = loadConfig("replay", opts, null, err);
-        } catch (ConfigException e) {
-            return reportConfig(e, err);
-        }
-        if (c == null) {
-            return USAGE;
-        }
+        SiteConfig c = loadConfig("replay", opts, null, err);
         String input = opts.get("--input");
         if (input == null) {
             err.println("wayward replay: --input VIDEO is required");
@@ -277,11 +260,9 @@ public final class Main {
                     + " cameras; say whose zones to use with --camera ID");
             return USAGE;
         }
-        CameraConfig replayed = new CameraConfig(cam.id(), Path.of(input).toAbsolutePath().toString(), false,
-                cam.analysisWidth(), cam.analysisFps(), cam.zones());
-        if (CameraConfig.isUrl(input)) {
-            replayed = new CameraConfig(cam.id(), input, false, cam.analysisWidth(), cam.analysisFps(), cam.zones());
-        }
+        String source = CameraConfig.isUrl(input) ? input : Path.of(input).toAbsolutePath().toString();
+        CameraConfig replayed = new CameraConfig(cam.id(), source, false, cam.analysisWidth(), cam.analysisFps(),
+                cam.zones());
         Service s = new Service(c, List.of(replayed), Service.Mode.REPLAY, out, 0);
         s.start();
         boolean terminal = System.console() != null;

@@ -35,12 +35,10 @@ public final class CameraPipeline {
     private final CameraConfig camera;
     private final FlowConfig flowConfig;
     private final Consumer<Event> events;
-    private final Clock clock;
     private final FrameSlot slot;
     private final VideoSource source;
     private final Thread captureThread;
     private final Thread analysisThread;
-    private volatile boolean stopping;
     private volatile long analysedFrames;
     private volatile double lastStreamSeconds;
 
@@ -61,7 +59,6 @@ public final class CameraPipeline {
         this.camera = camera;
         this.flowConfig = flowConfig;
         this.events = events;
-        this.clock = clock;
         this.slot = new FrameSlot(lossless);
         this.source = new VideoSource(camera.id(), new SourceOptions(camera.source(), camera.loop(), realtime,
                 camera.analysisWidth(), camera.analysisFps(), maxLoops), slot);
@@ -89,7 +86,6 @@ public final class CameraPipeline {
 
     /** Stops capture; analysis finishes what is in the slot and closes open events. */
     public void stop() {
-        stopping = true;
         source.stop();
     }
 
