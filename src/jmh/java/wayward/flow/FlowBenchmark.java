@@ -31,7 +31,10 @@ public class FlowBenchmark {
     @Param({"3"})
     public int iterations;
 
-    private LucasKanadeFlow flow;
+    @Param({"1", "4"})
+    public int stride;
+
+    private FlowEstimator flow;
     private FlowField field;
     private byte[] a;
     private byte[] b;
@@ -55,8 +58,8 @@ public class FlowBenchmark {
         }
         a = render(w, h, 0, 0, waves);
         b = render(w, h, 1.5, -0.7, waves);
-        flow = new LucasKanadeFlow(w, h, new FlowSettings(0, iterations, 2, 1.0f));
-        field = new FlowField(w, h);
+        flow = FlowEstimator.create(w, h, new FlowSettings(0, iterations, 2, 1.0f, stride, 1));
+        field = flow.newField();
         flow.push(a, field);
     }
 

@@ -14,6 +14,6 @@ public record FlowConfig(int levels, int iterations, int window, double regulari
     public static final FlowConfig DEFAULTS = new FlowConfig(0, 3, 5, 1.0);
 
     public FlowSettings toSettings() {
-        return new FlowSettings(levels, iterations, window / 2, (float) regularization);
+        return new FlowSettings(levels, iterations, window / 2, (float) regularization, 4, 1);
     }
 }

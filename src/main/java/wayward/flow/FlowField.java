@@ -1,13 +1,20 @@
 package wayward.flow;
 
 /**
- * A dense flow field: per pixel the displacement from the earlier to the later frame, in pixels of this
- * field's resolution per frame pair, and a confidence. Row-major arrays, stride = width, owned by this field
- * and overwritten by every estimate.
+ * A flow field: at each sample point the displacement from the earlier to the later frame, in pixels of the
+ * analysed picture per frame pair, and a confidence. The samples lie on a regular grid over the picture: sample
+ * (i, j) sits at pixel ({@link #pixelX}(i), {@link #pixelY}(j)); with {@code stride} 1 there is one sample per
+ * pixel. Row-major arrays of width × height samples, owned by this field and overwritten by every estimate.
  */
 public final class FlowField {
+    /** Samples per row and rows of samples. */
     public final int width;
     public final int height;
+    /** Size of the analysed picture, pixels. */
+    public final int imageWidth;
+    public final int imageHeight;
+    /** Pixels between neighbouring samples; the first sample is at pixel {@code stride / 2}. */
+    public final int stride;
     /** Horizontal displacement, pixels (positive = right). */
     public final float[] u;
     /** Vertical displacement, pixels (positive = down, image rows). */
@@ -18,14 +25,80 @@ public final class FlowField {
      */
     public final float[] confidence;
 
+    /** A field with one sample per pixel. */
     public FlowField(int width, int height) {
-        if (width < 1 || height < 1) {
-            throw new IllegalArgumentException("size: " + width + "x" + height + " (expected at least 1x1)");
+        this(width, height, 1);
+    }
+
+    /** A field sampled every {@code stride} pixels over a picture of the given size. */
+    public FlowField(int imageWidth, int imageHeight, int stride) {
+        if (imageWidth < 1 || imageHeight < 1) {
+            throw new IllegalArgumentException("size: " + imageWidth + "x" + imageHeight + " (expected at least 1x1)");
         }
-        this.width = width;
-        this.height = height;
+        if (stride < 1) {
+            throw new IllegalArgumentException("stride: " + stride + " (expected 1 or more)");
+        }
+        this.imageWidth = imageWidth;
+        this.imageHeight = imageHeight;
+        this.stride = stride;
+        this.width = samples(imageWidth, stride);
+        this.height = samples(imageHeight, stride);
         this.u = new float[width * height];
         this.v = new float[width * height];
         this.confidence = new float[width * height];
+    }
+
+    /** Samples along a side of {@code size} pixels: positions stride/2, stride/2 + stride, ... up to size − 1. */
+    public static int samples(int size, int stride) {
+        int offset = stride / 2;
+        return size - 1 >= offset ? (size - 1 - offset) / stride + 1 : 1;
+    }
+
+    /** Pixel column of sample column i. */
+    public int pixelX(int i) {
+        return Math.min(imageWidth - 1, stride / 2 + i * stride);
+    }
+
+    /** Pixel row of sample row j. */
+    public int pixelY(int j) {
+        return Math.min(imageHeight - 1, stride / 2 + j * stride);
+    }
+
+    /**
+     * The field at every pixel, by bilinear interpolation between samples (for pictures and files, not the
+     * analysis loop: allocates a new field).
+     */
+    public FlowField toDense() {
+        if (stride == 1) {
+            return this;
+        }
+        FlowField d = new FlowField(imageWidth, imageHeight);
+        for (int y = 0; y < imageHeight; y++) {
+            float gy = clampTo((float) (y - stride / 2) / stride, height - 1);
+            int j0 = Math.min((int) gy, Math.max(0, height - 2));
+            int j1 = Math.min(j0 + 1, height - 1);
+            float wy = gy - j0;
+            for (int x = 0; x < imageWidth; x++) {
+                float gx = clampTo((float) (x - stride / 2) / stride, width - 1);
+                int i0 = Math.min((int) gx, Math.max(0, width - 2));
+                int i1 = Math.min(i0 + 1, width - 1);
+                float wx = gx - i0;
+                int o = y * imageWidth + x;
+                d.u[o] = lerp2(u, j0, j1, i0, i1, wx, wy);
+                d.v[o] = lerp2(v, j0, j1, i0, i1, wx, wy);
+                d.confidence[o] = lerp2(confidence, j0, j1, i0, i1, wx, wy);
+            }
+        }
+        return d;
+    }
+
+    private static float clampTo(float g, int max) {
+        return g < 0 ? 0 : Math.min(g, max);
+    }
+
+    private float lerp2(float[] a, int j0, int j1, int i0, int i1, float wx, float wy) {
+        float top = a[j0 * width + i0] + wx * (a[j0 * width + i1] - a[j0 * width + i0]);
+        float bottom = a[j1 * width + i0] + wx * (a[j1 * width + i1] - a[j1 * width + i0]);
+        return top + wy * (bottom - top);
     }
 }

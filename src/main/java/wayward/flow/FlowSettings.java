@@ -9,15 +9,19 @@ package wayward.flow;
  * @param windowRadius   half size of the square window; 2 gives the textbook 5×5 window
  * @param regularization weight pulling each solve towards the current estimate, in (grey levels per
  *                       pixel)² per window pixel; keeps flat areas from producing wild vectors
+ * @param stride         distance in pixels between the points where the flow is solved, on every level; the
+ *                       field between them is interpolated bilinearly. 1 solves at every pixel
+ * @param threads        threads that share one frame's work, in horizontal bands (1 = the calling thread only)
  */
-public record FlowSettings(int levels, int iterations, int windowRadius, float regularization) {
+public record FlowSettings(int levels, int iterations, int windowRadius, float regularization, int stride,
+        int threads) {
     /** The short side of the coarsest level chosen by {@code levels = 0}. */
     public static final int MIN_LEVEL_SIZE = 16;
     /** Upper bound of automatically chosen levels. */
     public static final int MAX_AUTO_LEVELS = 5;
 
     public static FlowSettings defaults() {
-        return new FlowSettings(0, 3, 2, 1.0f);
+        return new FlowSettings(0, 3, 2, 1.0f, 4, 1);
     }
 
     public FlowSettings {
@@ -29,6 +33,12 @@ public record FlowSettings(int levels, int iterations, int windowRadius, float r
         }
         if (windowRadius < 1 || windowRadius > 7) {
             throw new IllegalArgumentException("windowRadius: " + windowRadius + " (expected 1 to 7)");
+        }
+        if (stride < 1 || stride > 16) {
+            throw new IllegalArgumentException("stride: " + stride + " (expected 1 to 16)");
+        }
+        if (threads < 1 || threads > 64) {
+            throw new IllegalArgumentException("threads: " + threads + " (expected 1 to 64)");
         }
         if (!(regularization >= 0f) || regularization > 1000f) {
             throw new IllegalArgumentException("regularization: " + regularization + " (expected 0 to 1000)");

@@ -16,7 +16,7 @@ import java.util.Arrays;
  * <p>All buffers are sized in the constructor for one frame size; {@link #compute} and {@link #push} allocate
  * nothing. Not thread-safe: one instance per analysis thread. No I/O, no logging.
  */
-public final class LucasKanadeFlow {
+public final class LucasKanadeFlow implements FlowEstimator {
     private final int width;
     private final int height;
     private final int levelCount;
@@ -62,6 +62,8 @@ public final class LucasKanadeFlow {
     }
 
     /** Scratch of the box sums, sized for level 0 and shared by all levels. */
+    private final int[] levelWidths;
+    private final int[] levelHeights;
     private final float[] rowSums;
     private final float[] columnAccumulator;
 
@@ -88,10 +90,22 @@ public final class LucasKanadeFlow {
             w = Math.max(1, w / 2);
             h = Math.max(1, h / 2);
         }
+        levelWidths = new int[levelCount];
+        levelHeights = new int[levelCount];
+        for (int l = 0; l < levelCount; l++) {
+            levelWidths[l] = levels[l].w;
+            levelHeights[l] = levels[l].h;
+        }
         rowSums = new float[width * height];
         columnAccumulator = new float[width];
     }
 
+    @Override
+    public FlowField newField() {
+        return new FlowField(width, height);
+    }
+
+    @Override
     public int levelCount() {
         return levelCount;
     }
@@ -100,6 +114,7 @@ public final class LucasKanadeFlow {
      * Flow from {@code first} to {@code second}, both gray 8-bit frames of this estimator's size (row-major,
      * stride = width). Writes {@code out}; allocates nothing. Forgets any frame given to {@link #push}.
      */
+    @Override
     public void compute(byte[] first, byte[] second, FlowField out) {
         checkFrame(first, "first");
         checkFrame(second, "second");
@@ -115,6 +130,7 @@ public final class LucasKanadeFlow {
      * this one into {@code out} and returns true; the first call only stores the frame and returns false.
      * Each frame's pyramid is built once. Allocates nothing.
      */
+    @Override
     public boolean push(byte[] frame, FlowField out) {
         checkFrame(frame, "frame");
         checkField(out);
@@ -132,6 +148,7 @@ public final class LucasKanadeFlow {
     }
 
     /** Drops the stored frame, e.g. after a gap in the stream; the next {@link #push} starts afresh. */
+    @Override
     public void reset() {
         hasEarlier = false;
     }
@@ -144,33 +161,14 @@ public final class LucasKanadeFlow {
     }
 
     private void checkField(FlowField out) {
-        if (out.width != width || out.height != height) {
+        if (out.width != width || out.height != height || out.stride != 1) {
             throw new IllegalArgumentException("out: " + out.width + "x" + out.height
                     + " (expected " + width + "x" + height + ")");
         }
     }
 
     private void buildPyramid(byte[] frame, float[][] pyramid) {
-        final float[] base = pyramid[0];
-        for (int i = 0; i < base.length; i++) {
-            base[i] = frame[i] & 0xff;
-        }
-        for (int l = 1; l < levelCount; l++) {
-            halve(pyramid[l - 1], levels[l - 1].w, pyramid[l], levels[l].w, levels[l].h);
-        }
-    }
-
-    /** 2×2 area mean; the coarse size is floor(fine / 2), so every source pixel read is in range. */
-    private static void halve(float[] fine, int fineWidth, float[] coarse, int w, int h) {
-        for (int y = 0; y < h; y++) {
-            final int r0 = 2 * y * fineWidth;
-            final int r1 = r0 + fineWidth;
-            final int out = y * w;
-            for (int x = 0; x < w; x++) {
-                final int c = 2 * x;
-                coarse[out + x] = 0.25f * (fine[r0 + c] + fine[r0 + c + 1] + fine[r1 + c] + fine[r1 + c + 1]);
-            }
-        }
+        Pyramids.build(frame, pyramid, levelWidths, levelHeights);
     }
 
     private void estimate(FlowField out) {

@@ -15,7 +15,7 @@ import wayward.config.FlowConfig;
 import wayward.config.ZoneConfig;
 import wayward.event.Event;
 import wayward.flow.FlowField;
-import wayward.flow.LucasKanadeFlow;
+import wayward.flow.FlowEstimator;
 import wayward.image.GrayFrame;
 import wayward.rule.ZoneRule;
 import wayward.zone.ZoneMask;
@@ -43,7 +43,7 @@ public final class CameraPipeline {
     private volatile double lastStreamSeconds;
 
     // analysis-thread state
-    private LucasKanadeFlow flow;
+    private FlowEstimator flow;
     private FlowField field;
     private final List<ZoneMeter> meters = new ArrayList<>();
     private final List<ZoneRule> rules = new ArrayList<>();
@@ -124,7 +124,7 @@ public final class CameraPipeline {
                     }
                     continue;
                 }
-                if (field == null || field.width != f.width || field.height != f.height) {
+                if (field == null || field.imageWidth != f.width || field.imageHeight != f.height) {
                     setUp(f.width, f.height);
                     previous = Double.NaN;
                 }
@@ -169,11 +169,11 @@ public final class CameraPipeline {
     }
 
     private void setUp(int w, int h) {
-        flow = new LucasKanadeFlow(w, h, flowConfig.toSettings());
-        field = new FlowField(w, h);
+        flow = FlowEstimator.create(w, h, flowConfig.toSettings());
+        field = flow.newField();
         meters.clear();
         for (ZoneConfig z : camera.zones()) {
-            ZoneMask mask = ZoneMask.rasterise(z.xs(), z.ys(), w, h);
+            ZoneMask mask = ZoneMask.rasterise(z.xs(), z.ys(), field);
             if (mask.size() == 0) {
                 LOG.warn("camera {} zone {}: covers no pixel at {}x{}", camera.id(), z.id(), w, h);
             }

@@ -3,9 +3,10 @@ package wayward.zone;
 import java.util.Arrays;
 
 /**
- * The pixels of a picture that lie inside a polygon. The polygon is given in fractions of the frame (0..1, x to
- * the right, y down), so one zone fits every resolution; a pixel belongs to the zone when its centre lies inside
- * (even–odd rule). Made once per resolution; immutable.
+ * The sample points of a flow field that lie inside a polygon. The polygon is given in fractions of the frame
+ * (0..1, x to the right, y down), so one zone fits every resolution; a sample belongs to the zone when the centre
+ * of its pixel lies inside (even–odd rule). With stride 1 every pixel is a sample. Made once per resolution;
+ * immutable. {@link #width} and {@link #height} count samples, like {@link wayward.flow.FlowField}.
  */
 public final class ZoneMask {
     public final int width;
@@ -23,6 +24,15 @@ public final class ZoneMask {
      * @param ys polygon corners, y as a fraction of the height; same length as xs, at least 3
      */
     public static ZoneMask rasterise(double[] xs, double[] ys, int width, int height) {
+        return rasterise(xs, ys, width, height, 1);
+    }
+
+    /** The mask of a flow field sampled every {@code stride} pixels over a picture of the given size. */
+    public static ZoneMask rasterise(double[] xs, double[] ys, wayward.flow.FlowField field) {
+        return rasterise(xs, ys, field.imageWidth, field.imageHeight, field.stride);
+    }
+
+    private static ZoneMask rasterise(double[] xs, double[] ys, int width, int height, int stride) {
         if (xs.length != ys.length || xs.length < 3) {
             throw new IllegalArgumentException("polygon: " + xs.length + " x and " + ys.length
                     + " y values (expected the same number, at least 3)");
@@ -37,29 +47,33 @@ public final class ZoneMask {
             px[i] = xs[i] * width;
             py[i] = ys[i] * height;
         }
-        int[] inside = new int[width * height];
+        int gw = wayward.flow.FlowField.samples(width, stride);
+        int gh = wayward.flow.FlowField.samples(height, stride);
+        int[] inside = new int[gw * gh];
         int count = 0;
         double[] crossings = new double[n];
-        for (int y = 0; y < height; y++) {
-            double cy = y + 0.5;
+        for (int j = 0; j < gh; j++) {
+            double cy = Math.min(height - 1, stride / 2 + j * stride) + 0.5;
             int c = 0;
-            for (int i = 0, j = n - 1; i < n; j = i++) {
+            for (int a = 0, b = n - 1; a < n; b = a++) {
                 // half-open rule on y so a vertex on the scan line is counted once
-                if ((py[i] > cy) != (py[j] > cy)) {
-                    crossings[c++] = px[j] + (cy - py[j]) * (px[i] - px[j]) / (py[i] - py[j]);
+                if ((py[a] > cy) != (py[b] > cy)) {
+                    crossings[c++] = px[b] + (cy - py[b]) * (px[a] - px[b]) / (py[a] - py[b]);
                 }
             }
             Arrays.sort(crossings, 0, c);
-            for (int k = 0; k + 1 < c; k += 2) {
-                // pixel centres x + 0.5 with crossings[k] < x + 0.5 < crossings[k + 1]
-                int x0 = (int) Math.max(0, Math.floor(crossings[k] - 0.5) + 1);
-                int x1 = (int) Math.min(width - 1, Math.ceil(crossings[k + 1] - 0.5) - 1);
-                for (int x = x0; x <= x1; x++) {
-                    inside[count++] = y * width + x;
+            for (int i = 0, k = 0; i < gw; i++) {
+                double cx = Math.min(width - 1, stride / 2 + i * stride) + 0.5;
+                while (k < c && crossings[k] < cx) {
+                    k++;
+                }
+                // an odd number of crossings left of the centre: inside
+                if ((k & 1) == 1 && k < c && cx < crossings[k]) {
+                    inside[count++] = j * gw + i;
                 }
             }
         }
-        return new ZoneMask(width, height, Arrays.copyOf(inside, count));
+        return new ZoneMask(gw, gh, Arrays.copyOf(inside, count));
     }
 
     /** Number of pixels inside. */

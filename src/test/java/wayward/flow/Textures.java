@@ -42,10 +42,28 @@ final class Textures {
      * texture at (x − sx, y − sy). Gaussian noise of the given σ is added, then rounded to 8 bits.
      */
     byte[] render(int w, int h, double sx, double sy, double noise, SplittableRandom r) {
+        return render(w, h, (x, y, out) -> {
+            out[0] = x - sx;
+            out[1] = y - sy;
+        }, 1, 0, noise, r);
+    }
+
+    /** Where pixel (x, y) of a moved picture takes its texture from: writes the source position into out. */
+    interface Source {
+        void at(double x, double y, double[] out);
+    }
+
+    /**
+     * A moved picture: pixel (x, y) shows the texture at {@code source(x, y)}, with brightness
+     * {@code gain · v + offset}, Gaussian noise of σ {@code noise}, rounded to 8 bits.
+     */
+    byte[] render(int w, int h, Source source, double gain, double offset, double noise, SplittableRandom r) {
         byte[] out = new byte[w * h];
+        double[] p = new double[2];
         for (int y = 0; y < h; y++) {
             for (int x = 0; x < w; x++) {
-                double v = at(x - sx, y - sy);
+                source.at(x, y, p);
+                double v = gain * at(p[0], p[1]) + offset;
                 if (noise > 0) {
                     v += noise * Math.sqrt(-2 * Math.log(1 - r.nextDouble())) * Math.cos(2 * Math.PI * r.nextDouble());
                 }

@@ -57,6 +57,19 @@ class ZoneMaskTest {
     }
 
     @Test
+    void gridMaskTakesTheSamplesWhosePixelsAreInside() {
+        // 16x8 picture sampled every 4 px: samples at pixels 2, 6, 10, 14 (x) and 2, 6 (y)
+        wayward.flow.FlowField field = new wayward.flow.FlowField(16, 8, 4);
+        // x from 0.25 to 0.75 of 16 px = 4..12: pixel centres 6.5 and 10.5 inside, 2.5 and 14.5 outside
+        ZoneMask m = ZoneMask.rasterise(new double[] {0.25, 0.75, 0.75, 0.25}, new double[] {0, 0, 1, 1}, field);
+        assertEquals(4, m.width);
+        assertEquals(2, m.height);
+        assertEquals(""
+                + ".##.\n"
+                + ".##.\n", picture(m));
+    }
+
+    @Test
     void samePolygonScalesWithResolution() {
         double[] xs = {0.1, 0.9, 0.9, 0.1};
         double[] ys = {0.1, 0.1, 0.9, 0.9};

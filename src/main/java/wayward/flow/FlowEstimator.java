@@ -1,0 +1,37 @@
+package wayward.flow;
+
+/**
+ * Dense optical flow between consecutive gray frames of one size. Implementations size every buffer in their
+ * constructor and allocate nothing per frame; one instance per analysis thread.
+ */
+public interface FlowEstimator {
+    /**
+     * Flow from {@code first} to {@code second} (row-major gray 8-bit, stride = width) into {@code out}.
+     * Forgets any frame given to {@link #push}.
+     */
+    void compute(byte[] first, byte[] second, FlowField out);
+
+    /**
+     * Feeds the next frame of a stream: from the second call on writes the flow from the previous frame into
+     * {@code out} and returns true; the first call only stores the frame and returns false.
+     */
+    boolean push(byte[] frame, FlowField out);
+
+    /** Drops the stored frame (after a gap); the next {@link #push} starts afresh. */
+    void reset();
+
+    /** A field of the shape this estimator writes (its sampling stride over the picture). */
+    FlowField newField();
+
+    /** Pyramid levels in use, including the full-size one. */
+    int levelCount();
+
+    /**
+     * The estimator the settings ask for: {@link GridLucasKanadeFlow} for a stride of 2 or more (the default),
+     * {@link LucasKanadeFlow} (every pixel, box sums) for stride 1.
+     */
+    static FlowEstimator create(int width, int height, FlowSettings settings) {
+        return settings.stride() >= 2 ? new GridLucasKanadeFlow(width, height, settings)
+                : new LucasKanadeFlow(width, height, settings);
+    }
+}
