@@ -34,6 +34,9 @@ public class FlowBenchmark {
     @Param({"1", "4"})
     public int stride;
 
+    @Param({"1"})
+    public int finest;
+
     private FlowEstimator flow;
     private FlowField field;
     private byte[] a;
@@ -58,7 +61,7 @@ public class FlowBenchmark {
         }
         a = render(w, h, 0, 0, waves);
         b = render(w, h, 1.5, -0.7, waves);
-        flow = FlowEstimator.create(w, h, new FlowSettings(0, iterations, 2, 1.0f, stride, 1));
+        flow = FlowEstimator.create(w, h, FlowSettings.defaults().withStride(stride, 2 * stride).withIterations(iterations, finest));
         field = flow.newField();
         flow.push(a, field);
     }

@@ -74,15 +74,21 @@ public final class ConfigLoader {
         TomlTable flowTable = top.table("flow");
         if (flowTable != null) {
             Scope s = new Scope(errors, flowTable, "flow", root.inputPositionOf(List.of("flow")));
-            int levels = s.integer("levels", FlowConfig.DEFAULTS.levels(), 0, 8);
-            int iterations = s.integer("iterations", FlowConfig.DEFAULTS.iterations(), 1, 20);
-            int window = s.integer("window", FlowConfig.DEFAULTS.window(), 3, 15);
+            FlowConfig d = FlowConfig.DEFAULTS;
+            int levels = s.integer("levels", d.levels(), 0, 8);
+            int iterations = s.integer("iterations", d.iterations(), 1, 20);
+            int finestIterations = s.integer("finest_iterations", d.finestIterations(), 1, 20);
+            int window = s.integer("window", d.window(), 3, 15);
             if (window % 2 == 0) {
                 s.error("window", window, "an odd number from 3 to 15");
+                window = d.window();
             }
-            double reg = s.number("regularization", FlowConfig.DEFAULTS.regularization(), 0, 1000);
+            double reg = s.number("regularization", d.regularization(), 0, 1000);
+            int stride = s.integer("stride", d.stride(), 1, 16);
+            int coarseStride = s.integer("coarse_stride", d.coarseStride(), 1, 32);
+            int threads = s.integer("threads", d.threads(), 1, 64);
             s.finish();
-            flow = new FlowConfig(levels, iterations, window, reg);
+            flow = new FlowConfig(levels, iterations, finestIterations, window, reg, stride, coarseStride, threads);
         }
 
         List<CameraConfig> cameras = new ArrayList<>();

@@ -19,8 +19,12 @@ public final class ConfigPrinter {
         b.append("\n[flow]\n");
         b.append("levels = ").append(c.flow().levels()).append('\n');
         b.append("iterations = ").append(c.flow().iterations()).append('\n');
+        b.append("finest_iterations = ").append(c.flow().finestIterations()).append('\n');
         b.append("window = ").append(c.flow().window()).append('\n');
         b.append("regularization = ").append(num(c.flow().regularization())).append('\n');
+        b.append("stride = ").append(c.flow().stride()).append('\n');
+        b.append("coarse_stride = ").append(c.flow().coarseStride()).append('\n');
+        b.append("threads = ").append(c.flow().threads()).append('\n');
         for (CameraConfig cam : c.cameras()) {
             b.append("\n[[camera]]\n");
             b.append("id = ").append(quote(cam.id())).append('\n');

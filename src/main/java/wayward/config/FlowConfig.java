@@ -5,15 +5,26 @@ import wayward.flow.FlowSettings;
 /**
  * The {@code [flow]} table.
  *
- * @param levels         pyramid levels, 0 = chosen from the analysis size
- * @param iterations     refinement steps per level
- * @param window         side of the square Lucas–Kanade window in pixels (odd)
- * @param regularization pull towards the current estimate, (grey levels per pixel)² per window pixel
+ * @param levels           pyramid levels, 0 = chosen from the analysis size
+ * @param iterations       most refinement steps per point on the coarser levels
+ * @param finestIterations most refinement steps per point on the full-size level
+ * @param window           side of the square Lucas–Kanade window in pixels (odd)
+ * @param regularization   pull towards the current estimate, (grey levels per pixel)² per window pixel
+ * @param stride           pixels between solved points on the full-size level (1 = every pixel)
+ * @param coarseStride     the same on the coarser levels
+ * @param threads          threads sharing one camera's frame (bands)
  */
-public record FlowConfig(int levels, int iterations, int window, double regularization) {
-    public static final FlowConfig DEFAULTS = new FlowConfig(0, 3, 5, 1.0);
+public record FlowConfig(int levels, int iterations, int finestIterations, int window, double regularization,
+        int stride, int coarseStride, int threads) {
+    public static final FlowConfig DEFAULTS = from(FlowSettings.defaults());
+
+    private static FlowConfig from(FlowSettings s) {
+        return new FlowConfig(s.levels(), s.iterations(), s.finestIterations(), 2 * s.windowRadius() + 1,
+                s.regularization(), s.stride(), s.coarseStride(), s.threads());
+    }
 
     public FlowSettings toSettings() {
-        return new FlowSettings(levels, iterations, window / 2, (float) regularization, 4, 1);
+        return new FlowSettings(levels, iterations, finestIterations, window / 2, (float) regularization, stride,
+                coarseStride, threads);
     }
 }

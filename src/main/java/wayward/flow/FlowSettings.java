@@ -5,23 +5,48 @@ package wayward.flow;
  *
  * @param levels         pyramid levels including the full-size one; 0 picks as many as keep the coarsest
  *                       level at least {@link #MIN_LEVEL_SIZE} pixels on its short side (at most 5)
- * @param iterations     refinement steps per level (warp, linearise, solve)
+ * @param iterations     most refinement steps (warp, linearise, solve) per point on the coarser levels
+ * @param finestIterations most refinement steps per point on the full-size level
  * @param windowRadius   half size of the square window; 2 gives the textbook 5×5 window
  * @param regularization weight pulling each solve towards the current estimate, in (grey levels per
  *                       pixel)² per window pixel; keeps flat areas from producing wild vectors
- * @param stride         distance in pixels between the points where the flow is solved, on every level; the
- *                       field between them is interpolated bilinearly. 1 solves at every pixel
+ * @param stride         distance in pixels between the points where the flow is solved on the full-size
+ *                       level; 1 solves at every pixel (dense estimator with box sums)
+ * @param coarseStride   the same on the coarser levels, in their own pixels (grid estimator only)
  * @param threads        threads that share one frame's work, in horizontal bands (1 = the calling thread only)
  */
-public record FlowSettings(int levels, int iterations, int windowRadius, float regularization, int stride,
-        int threads) {
+public record FlowSettings(int levels, int iterations, int finestIterations, int windowRadius,
+        float regularization, int stride, int coarseStride, int threads) {
     /** The short side of the coarsest level chosen by {@code levels = 0}. */
     public static final int MIN_LEVEL_SIZE = 16;
     /** Upper bound of automatically chosen levels. */
     public static final int MAX_AUTO_LEVELS = 5;
 
     public static FlowSettings defaults() {
-        return new FlowSettings(0, 3, 2, 1.0f, 4, 1);
+        // measured on the accuracy suite (DEVELOPERS.md): a single step on the full-size level and a sparser
+        // grid on the coarse levels are both faster and, with sensor noise, more accurate than more work
+        return new FlowSettings(0, 3, 1, 2, 1.0f, 4, 8, 1);
+    }
+
+    public FlowSettings withStride(int newStride, int newCoarseStride) {
+        return new FlowSettings(levels, iterations, finestIterations, windowRadius, regularization, newStride,
+                newCoarseStride, threads);
+    }
+
+    public FlowSettings withIterations(int coarse, int finest) {
+        return new FlowSettings(levels, coarse, finest, windowRadius, regularization, stride, coarseStride, threads);
+    }
+
+    public FlowSettings withWindowRadius(int r) {
+        return new FlowSettings(levels, iterations, finestIterations, r, regularization, stride, coarseStride, threads);
+    }
+
+    public FlowSettings withLevels(int n) {
+        return new FlowSettings(n, iterations, finestIterations, windowRadius, regularization, stride, coarseStride, threads);
+    }
+
+    public FlowSettings withThreads(int n) {
+        return new FlowSettings(levels, iterations, finestIterations, windowRadius, regularization, stride, coarseStride, n);
     }
 
     public FlowSettings {
@@ -33,6 +58,12 @@ public record FlowSettings(int levels, int iterations, int windowRadius, float r
         }
         if (windowRadius < 1 || windowRadius > 7) {
             throw new IllegalArgumentException("windowRadius: " + windowRadius + " (expected 1 to 7)");
+        }
+        if (finestIterations < 1 || finestIterations > 20) {
+            throw new IllegalArgumentException("finestIterations: " + finestIterations + " (expected 1 to 20)");
+        }
+        if (coarseStride < 1 || coarseStride > 32) {
+            throw new IllegalArgumentException("coarseStride: " + coarseStride + " (expected 1 to 32)");
         }
         if (stride < 1 || stride > 16) {
             throw new IllegalArgumentException("stride: " + stride + " (expected 1 to 16)");

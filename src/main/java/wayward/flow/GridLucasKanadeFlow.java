@@ -25,12 +25,14 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
     private final int height;
     private final int levelCount;
     private final int iterations;
+    private final int finestIterations;
     private final int radius;
     private final int side;
     private final int windowPixels;
     private final float lambda;
     private final int stride;
-    private final int offset;
+    /** Grid spacing per level, in that level's pixels. */
+    private final int[] levelStride;
     private final int[] levelWidth;
     private final int[] levelHeight;
     private final int[] gridWidth;
@@ -70,12 +72,16 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         this.height = height;
         this.levelCount = settings.levelsFor(width, height);
         this.iterations = settings.iterations();
+        this.finestIterations = settings.finestIterations();
         this.radius = settings.windowRadius();
         this.side = 2 * radius + 1;
         this.windowPixels = side * side;
         this.lambda = settings.regularization() * windowPixels;
         this.stride = settings.stride();
-        this.offset = stride / 2;
+        levelStride = new int[levelCount];
+        for (int l = 0; l < levelCount; l++) {
+            levelStride[l] = l == 0 ? stride : settings.coarseStride();
+        }
         levelWidth = new int[levelCount];
         levelHeight = new int[levelCount];
         gridWidth = new int[levelCount];
@@ -90,8 +96,8 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         for (int l = 0; l < levelCount; l++) {
             levelWidth[l] = w;
             levelHeight[l] = h;
-            gridWidth[l] = cells(w);
-            gridHeight[l] = cells(h);
+            gridWidth[l] = FlowField.samples(w, levelStride[l]);
+            gridHeight[l] = FlowField.samples(h, levelStride[l]);
             int g = gridWidth[l] * gridHeight[l];
             gridU[l] = new float[g];
             gridV[l] = new float[g];
@@ -110,8 +116,8 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
             initColWeight[l] = new float[gridWidth[l]];
             initRow[l] = new int[gridHeight[l]];
             initRowWeight[l] = new float[gridHeight[l]];
-            coarseTable(gridWidth[l], levelWidth[l], levelWidth[l + 1], gridWidth[l + 1], initCol[l], initColWeight[l]);
-            coarseTable(gridHeight[l], levelHeight[l], levelHeight[l + 1], gridHeight[l + 1], initRow[l], initRowWeight[l]);
+            coarseTable(l, gridWidth[l], levelWidth[l], levelWidth[l + 1], gridWidth[l + 1], initCol[l], initColWeight[l]);
+            coarseTable(l, gridHeight[l], levelHeight[l], levelHeight[l + 1], gridHeight[l + 1], initRow[l], initRowWeight[l]);
         }
         int threads = Math.max(1, Math.min(settings.threads(), gridHeight[0]));
         bands = new Band[threads];
@@ -121,21 +127,20 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         pool = threads > 1 ? new BandPool(threads, this::solveBand) : null;
     }
 
-    private int cells(int size) {
-        return FlowField.samples(size, stride);
-    }
-
-    private int centre(int index, int size) {
-        return Math.min(size - 1, offset + index * stride);
+    private int centre(int l, int index, int size) {
+        int s = levelStride[l];
+        return Math.min(size - 1, s / 2 + index * s);
     }
 
     /** For each grid index on a fine level: the lower coarse grid index and the weight of the upper one. */
-    private void coarseTable(int cells, int fineSize, int coarseSize, int coarseCells, int[] index, float[] weight) {
+    private void coarseTable(int l, int cells, int fineSize, int coarseSize, int coarseCells, int[] index,
+            float[] weight) {
         float scale = (float) coarseSize / fineSize;
+        int cs = levelStride[l + 1];
         for (int i = 0; i < cells; i++) {
             // pixel centre on the fine level, in coarse pixel coordinates, then in coarse grid coordinates
-            float p = (centre(i, fineSize) + 0.5f) * scale - 0.5f;
-            float g = (p - offset) / stride;
+            float p = (centre(l, i, fineSize) + 0.5f) * scale - 0.5f;
+            float g = (p - cs / 2) / cs;
             g = g < 0 ? 0 : Math.min(g, coarseCells - 1);
             int g0 = Math.min((int) g, Math.max(0, coarseCells - 2));
             index[i] = g0;
@@ -249,7 +254,7 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         final float scaleX = coarsest ? 0f : (float) w / levelWidth[l + 1];
         final float scaleY = coarsest ? 0f : (float) h / levelHeight[l + 1];
         for (int j = rowFrom; j < rowTo; j++) {
-            final int cy = centre(j, h);
+            final int cy = centre(l, j, h);
             int r0 = 0;
             int r1 = 0;
             float wy = 0f;
@@ -259,7 +264,7 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
                 wy = initRowWeight[l][j];
             }
             for (int i = 0; i < gw; i++) {
-                final int cx = centre(i, w);
+                final int cx = centre(l, i, w);
                 float u0 = 0f;
                 float v0 = 0f;
                 if (!coarsest) {
@@ -274,14 +279,14 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
                     v0 = scaleY * (topV + wy * (bottomV - topV));
                 }
                 final int g = j * gw + i;
-                solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g);
+                solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l == 0);
             }
         }
     }
 
     /** Solves one window; writes flow and confidence of grid point g. */
     private void solvePoint(float[] i0, float[] i1, int w, int h, int cx, int cy, float u0, float v0, Band band,
-            float[] gu, float[] gv, float[] gc, int g) {
+            float[] gu, float[] gv, float[] gc, int g, boolean finest) {
         final int r = radius;
         final int n = windowPixels;
         final float[] t = band.t;
@@ -352,7 +357,8 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
             final float ic = a / det;
             final float maxX = w - 1;
             final float maxY = h - 1;
-            for (int it = 0; it < iterations; it++) {
+            final int maxIterations = finest ? finestIterations : iterations;
+            for (int it = 0; it < maxIterations; it++) {
                 float fx = cx + u;
                 float fy = cy + v;
                 fx = fx < 0f ? 0f : (fx > maxX ? maxX : fx);

@@ -112,7 +112,7 @@ class FlowAccuracyTest {
     @MethodSource("cases")
     void meanEndpointErrorIsWithinLimit(int stride, Motion m, double noise) {
         byte[][] ab = frames(m, noise, 1, 0);
-        FlowEstimator flow = FlowEstimator.create(W, H, new FlowSettings(0, 3, 2, 1f, stride, 1));
+        FlowEstimator flow = FlowEstimator.create(W, H, FlowSettings.defaults().withStride(stride, 2 * stride));
         FlowField f = flow.newField();
         flow.compute(ab[0], ab[1], f);
         double epe = meanEndpointError(f, m);
