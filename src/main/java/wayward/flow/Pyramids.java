@@ -19,6 +19,48 @@ final class Pyramids {
         }
     }
 
+    /**
+     * Like {@link #build}, but each level is low-passed before it is halved: the 2×2 mean widened by a
+     * [1 2 1]/4 binomial, i.e. [1 3 3 1]/8 per axis around the coarse pixel's centre, so fine texture does not
+     * alias into false structure on the coarse levels (common practice: Burt &amp; Adelson 1983).
+     * {@code scratch} holds at least (level-0 height) × (level-1 width) floats.
+     */
+    static void buildSmooth(byte[] frame, float[][] pyramid, int[] widths, int[] heights, float[] scratch) {
+        final float[] base = pyramid[0];
+        for (int i = 0; i < base.length; i++) {
+            base[i] = frame[i] & 0xff;
+        }
+        for (int l = 1; l < pyramid.length; l++) {
+            halveSmooth(pyramid[l - 1], widths[l - 1], heights[l - 1], pyramid[l], widths[l], heights[l], scratch);
+        }
+    }
+
+    static void halveSmooth(float[] fine, int fw, int fh, float[] coarse, int w, int h, float[] tmp) {
+        final int lastX = fw - 1;
+        for (int y = 0; y < fh; y++) {
+            final int row = y * fw;
+            final int out = y * w;
+            for (int x = 0; x < w; x++) {
+                final int c = 2 * x;
+                final int a = c > 0 ? c - 1 : 0;
+                final int d = c + 2 <= lastX ? c + 2 : lastX;
+                tmp[out + x] = 0.125f * (fine[row + a] + 3f * (fine[row + c] + fine[row + c + 1]) + fine[row + d]);
+            }
+        }
+        final int lastY = fh - 1;
+        for (int y = 0; y < h; y++) {
+            final int c = 2 * y;
+            final int ra = (c > 0 ? c - 1 : 0) * w;
+            final int rb = c * w;
+            final int rc = (c + 1) * w;
+            final int rd = (c + 2 <= lastY ? c + 2 : lastY) * w;
+            final int out = y * w;
+            for (int x = 0; x < w; x++) {
+                coarse[out + x] = 0.125f * (tmp[ra + x] + 3f * (tmp[rb + x] + tmp[rc + x]) + tmp[rd + x]);
+            }
+        }
+    }
+
     static void halve(float[] fine, int fineWidth, float[] coarse, int w, int h) {
         for (int y = 0; y < h; y++) {
             final int r0 = 2 * y * fineWidth;

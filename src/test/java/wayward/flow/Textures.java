@@ -11,9 +11,24 @@ final class Textures {
     private final double[] fy;
     private final double[] phase;
     private final double[] amplitude;
+    private final java.util.function.DoubleBinaryOperator custom;
+
+    private Textures(java.util.function.DoubleBinaryOperator custom) {
+        this.fx = null;
+        this.fy = null;
+        this.phase = null;
+        this.amplitude = null;
+        this.custom = custom;
+    }
+
+    /** A texture given by any function of the continuous position. */
+    static Textures of(java.util.function.DoubleBinaryOperator f) {
+        return new Textures(f);
+    }
 
     /** @param seed picks the waves; wavelengths 6 to 40 px, random orientations */
     Textures(long seed, int waves) {
+        custom = null;
         SplittableRandom r = new SplittableRandom(seed);
         fx = new double[waves];
         fy = new double[waves];
@@ -30,6 +45,9 @@ final class Textures {
     }
 
     double at(double x, double y) {
+        if (custom != null) {
+            return custom.applyAsDouble(x, y);
+        }
         double s = 128;
         for (int i = 0; i < fx.length; i++) {
             s += amplitude[i] * Math.sin(2 * Math.PI * (fx[i] * x + fy[i] * y) + phase[i]);
