@@ -210,8 +210,7 @@ public final class Main {
         SiteConfig c = loadConfig("demo", opts, fallback, err);
         List<CameraConfig> looped = new ArrayList<>();
         for (CameraConfig cam : c.cameras()) {
-            looped.add(new CameraConfig(cam.id(), cam.source(), !cam.isUrl(), cam.analysisWidth(),
-                    cam.analysisFps(), cam.zones()));
+            looped.add(cam.withSource(cam.source(), !cam.isUrl()));
         }
         err.println("wayward demo: playing the demo scene as a camera; events follow as JSON lines"
                 + (loops == 0 ? " (Ctrl-C to stop)" : ""));
@@ -261,8 +260,7 @@ public final class Main {
             return USAGE;
         }
         String source = CameraConfig.isUrl(input) ? input : Path.of(input).toAbsolutePath().toString();
-        CameraConfig replayed = new CameraConfig(cam.id(), source, false, cam.analysisWidth(), cam.analysisFps(),
-                cam.zones());
+        CameraConfig replayed = cam.withSource(source, false);
         Service s = new Service(c, List.of(replayed), Service.Mode.REPLAY, out, 0);
         s.start();
         boolean terminal = System.console() != null;

@@ -155,6 +155,7 @@ public final class ConfigLoader {
             s.error("analysis_width", width, "an even number from 32 to 1920");
         }
         double fps = s.number("analysis_fps", 10, 0.5, 60);
+        boolean removeCameraMotion = s.bool("remove_camera_motion", true);
         List<ZoneConfig> zones = new ArrayList<>();
         TomlArray zoneArray = s.tableArray("zone");
         if (zoneArray == null || zoneArray.size() == 0) {
@@ -177,7 +178,7 @@ public final class ConfigLoader {
         if (id == null || source == null) {
             return null;
         }
-        return new CameraConfig(id, source, loop, width, fps, zones);
+        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, zones);
     }
 
     private static ZoneConfig zone(Scope z) {

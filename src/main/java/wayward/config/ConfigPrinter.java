@@ -32,6 +32,7 @@ public final class ConfigPrinter {
             b.append("loop = ").append(cam.loop()).append('\n');
             b.append("analysis_width = ").append(cam.analysisWidth()).append('\n');
             b.append("analysis_fps = ").append(num(cam.analysisFps())).append('\n');
+            b.append("remove_camera_motion = ").append(cam.removeCameraMotion()).append('\n');
             for (ZoneConfig z : cam.zones()) {
                 b.append("\n  [[camera.zone]]\n");
                 b.append("  id = ").append(quote(z.id())).append('\n');

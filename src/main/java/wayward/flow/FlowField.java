@@ -24,6 +24,12 @@ public final class FlowField {
      * (grey levels per pixel)²: near 0 on flat areas and on straight edges, where the flow is not defined.
      */
     public final float[] confidence;
+    /**
+     * Dominant motion of the whole picture (median over confident samples), pixels per frame pair: the camera's
+     * own shake or drift. Written with every estimate.
+     */
+    public float globalU;
+    public float globalV;
 
     /** A field with one sample per pixel. */
     public FlowField(int width, int height) {

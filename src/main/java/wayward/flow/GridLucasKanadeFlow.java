@@ -52,6 +52,7 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
     private boolean hasEarlier;
     private final Band[] bands;
     private final float[] pyramidScratch;
+    private final GlobalMotion globalMotion;
     private final float[][] smoothU;
     private final float[][] smoothV;
     private final float[] smoothC;
@@ -128,6 +129,7 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
             coarseTable(l, gridHeight[l], levelHeight[l], levelHeight[l + 1], gridHeight[l + 1], initRow[l], initRowWeight[l]);
         }
         pyramidScratch = new float[height * Math.max(1, width / 2)];
+        globalMotion = new GlobalMotion(gridU[0].length);
         smoothU = new float[levelCount][];
         smoothV = new float[levelCount][];
         for (int l = 0; l < levelCount; l++) {
@@ -254,6 +256,7 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         System.arraycopy(gridU[0], 0, out.u, 0, out.u.length);
         System.arraycopy(gridV[0], 0, out.v, 0, out.v.length);
         System.arraycopy(gridConfidence[0], 0, out.confidence, 0, out.confidence.length);
+        globalMotion.measure(out);
     }
 
     /** Band worker entry: band {@code b} of {@code count} solves its share of the current level's rows. */

@@ -65,6 +65,7 @@ public final class LucasKanadeFlow implements FlowEstimator {
     private final int[] levelWidths;
     private final int[] levelHeights;
     private final float[] rowSums;
+    private final GlobalMotion globalMotion;
     private final float[] columnAccumulator;
 
     public LucasKanadeFlow(int width, int height, FlowSettings settings) {
@@ -97,6 +98,7 @@ public final class LucasKanadeFlow implements FlowEstimator {
             levelHeights[l] = levels[l].h;
         }
         rowSums = new float[width * height];
+        globalMotion = new GlobalMotion(width * height);
         columnAccumulator = new float[width];
     }
 
@@ -190,6 +192,7 @@ public final class LucasKanadeFlow implements FlowEstimator {
         System.arraycopy(fine.u, 0, out.u, 0, fine.u.length);
         System.arraycopy(fine.v, 0, out.v, 0, fine.v.length);
         smallestEigenvalue(fine, out.confidence);
+        globalMotion.measure(out);
     }
 
     /** Central differences, one-sided at the borders (clamped neighbours). */

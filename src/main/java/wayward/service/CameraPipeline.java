@@ -177,7 +177,8 @@ public final class CameraPipeline {
             if (mask.size() == 0) {
                 LOG.warn("camera {} zone {}: covers no pixel at {}x{}", camera.id(), z.id(), w, h);
             }
-            meters.add(new ZoneMeter(mask, z.headingDeg(), z.toleranceDeg(), z.minSpeedPxPerSecond(), z.minConfidence()));
+            meters.add(new ZoneMeter(mask, z.headingDeg(), z.toleranceDeg(), z.minSpeedPxPerSecond(), z.minConfidence(),
+                    camera.removeCameraMotion()));
         }
         LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {} zones", camera.id(), w, h,
                 flow.levelCount(), meters.size());

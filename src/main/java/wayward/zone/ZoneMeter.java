@@ -18,6 +18,7 @@ public final class ZoneMeter {
     private final float cosTolerance;
     private final double minSpeedPxPerSecond;
     private final float minConfidence;
+    private final boolean removeCameraMotion;
 
     /**
      * @param headingDeg          permitted bearing, degrees clockwise from image-up, or NaN for a zone
@@ -25,9 +26,10 @@ public final class ZoneMeter {
      * @param toleranceDeg        half width of the "with" and "against" sectors, 0 to 90 degrees
      * @param minSpeedPxPerSecond slowest motion that counts as moving, analysis pixels per second
      * @param minConfidence       smallest flow confidence that votes, (grey levels per pixel)²
+     * @param removeCameraMotion  subtract the field's dominant motion (camera shake) before measuring
      */
     public ZoneMeter(ZoneMask mask, double headingDeg, double toleranceDeg, double minSpeedPxPerSecond,
-            double minConfidence) {
+            double minConfidence, boolean removeCameraMotion) {
         if (!Double.isNaN(headingDeg) && !(headingDeg >= 0 && headingDeg < 360)) {
             throw new IllegalArgumentException("headingDeg: " + headingDeg + " (expected 0 to less than 360, or NaN)");
         }
@@ -45,6 +47,7 @@ public final class ZoneMeter {
         this.cosTolerance = (float) Math.cos(Math.toRadians(toleranceDeg));
         this.minSpeedPxPerSecond = minSpeedPxPerSecond;
         this.minConfidence = (float) minConfidence;
+        this.removeCameraMotion = removeCameraMotion;
     }
 
     public ZoneMask mask() {
@@ -80,6 +83,8 @@ public final class ZoneMeter {
         final float hx = headingX;
         final float hy = headingY;
         final float cosTol = cosTolerance;
+        final float camU = removeCameraMotion ? flow.globalU : 0f;
+        final float camV = removeCameraMotion ? flow.globalV : 0f;
         final int[] bins = out.directions;
         Arrays.fill(bins, 0);
         int moving = 0;
@@ -95,8 +100,8 @@ public final class ZoneMeter {
             if (conf[i] < minConf) {
                 continue;
             }
-            final float du = u[i];
-            final float dv = v[i];
+            final float du = u[i] - camU;
+            final float dv = v[i] - camV;
             final float m2 = du * du + dv * dv;
             if (m2 < minStep2 || m2 == 0f) {
                 continue;
@@ -116,6 +121,8 @@ public final class ZoneMeter {
         }
         final double zonePixels = Math.max(1, idx.length);
         out.streamSeconds = streamSeconds;
+        out.cameraU = flow.globalU;
+        out.cameraV = flow.globalV;
         out.coverage = moving / zonePixels;
         out.against = against / zonePixels;
         out.againstShare = moving > 0 ? (double) against / moving : 0;

@@ -25,6 +25,9 @@ public final class ZoneReading {
     public double againstSpeed;
     /** Bearing of the mean motion vector of the pixels moving against the heading; NaN when none. */
     public double againstHeadingDeg;
+    /** The picture's dominant motion (camera shake) in this frame pair, analysis pixels per frame pair. */
+    public double cameraU;
+    public double cameraV;
     /** Moving pixels per bearing bin. */
     public final int[] directions = new int[DIRECTION_BINS];
 
@@ -37,6 +40,8 @@ public final class ZoneReading {
         headingDeg = o.headingDeg;
         againstSpeed = o.againstSpeed;
         againstHeadingDeg = o.againstHeadingDeg;
+        cameraU = o.cameraU;
+        cameraV = o.cameraV;
         System.arraycopy(o.directions, 0, directions, 0, DIRECTION_BINS);
     }
 }

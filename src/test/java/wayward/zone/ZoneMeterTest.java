@@ -30,7 +30,7 @@ class ZoneMeterTest {
 
     @Test
     void motionDownAZoneHeadingUpCountsAsAgainst() {
-        ZoneMeter m = new ZoneMeter(WHOLE, 0, 60, 5, 1);
+        ZoneMeter m = new ZoneMeter(WHOLE, 0, 60, 5, 1, false);
         ZoneReading r = new ZoneReading();
         m.measure(uniform(0, 2, 10), 0.1, 3.0, r); // 2 px per 0.1 s = 20 px/s downwards
         assertEquals(1.0, r.coverage, 1e-9);
@@ -43,7 +43,7 @@ class ZoneMeterTest {
 
     @Test
     void motionWithTheHeadingOrAcrossItIsNotAgainst() {
-        ZoneMeter m = new ZoneMeter(WHOLE, 0, 60, 5, 1);
+        ZoneMeter m = new ZoneMeter(WHOLE, 0, 60, 5, 1, false);
         ZoneReading r = new ZoneReading();
         m.measure(uniform(0, -2, 10), 0.1, 0, r);
         assertEquals(1.0, r.coverage, 1e-9);
@@ -59,7 +59,7 @@ class ZoneMeterTest {
 
     @Test
     void slowOrUnconfidentPixelsDoNotVote() {
-        ZoneMeter m = new ZoneMeter(WHOLE, 0, 60, 50, 5);
+        ZoneMeter m = new ZoneMeter(WHOLE, 0, 60, 50, 5, false);
         ZoneReading r = new ZoneReading();
         m.measure(uniform(0, 2, 10), 0.1, 0, r); // 20 px/s < 50 px/s
         assertEquals(0, r.coverage, 1e-9);
@@ -69,8 +69,21 @@ class ZoneMeterTest {
     }
 
     @Test
+    void cameraMotionIsSubtractedWhenAsked() {
+        FlowField f = uniform(0, 2, 10);
+        f.globalU = 0;
+        f.globalV = 2; // the whole picture moves down: the camera, not the traffic
+        ZoneReading r = new ZoneReading();
+        new ZoneMeter(WHOLE, 0, 60, 5, 1, true).measure(f, 0.1, 0, r);
+        assertEquals(0, r.coverage, 1e-9);
+        assertEquals(2, r.cameraV, 1e-9);
+        new ZoneMeter(WHOLE, 0, 60, 5, 1, false).measure(f, 0.1, 0, r);
+        assertEquals(1.0, r.against, 1e-9);
+    }
+
+    @Test
     void zoneWithoutHeadingMeasuresMotionOnly() {
-        ZoneMeter m = new ZoneMeter(WHOLE, Double.NaN, 60, 5, 1);
+        ZoneMeter m = new ZoneMeter(WHOLE, Double.NaN, 60, 5, 1, false);
         ZoneReading r = new ZoneReading();
         m.measure(uniform(0, 2, 10), 0.1, 0, r);
         assertEquals(1.0, r.coverage, 1e-9);

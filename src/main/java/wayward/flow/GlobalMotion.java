@@ -1,0 +1,81 @@
+package wayward.flow;
+
+/**
+ * The dominant motion of a whole field: the median of u and of v over the samples whose confidence reaches a
+ * floor. A shaking or slowly panning camera moves everything by about the same amount, and the median ignores
+ * the minority that moves on its own (common practice: a robust location estimate). It is only trusted when
+ * confident samples cover at least {@link #MIN_CONFIDENT_SHARE} of the picture: on flat ground the few
+ * textured samples may all belong to one mover, whose motion is not the camera's. Allocation-free; one
+ * instance per estimator.
+ */
+final class GlobalMotion {
+    /** Samples below this confidence, (grey levels per pixel)², do not vote: flat ground and noise. */
+    static final float CONFIDENCE_FLOOR = 4f;
+
+    /** Share of all samples that must be confident before the median counts as the camera's motion. */
+    static final float MIN_CONFIDENT_SHARE = 0.4f;
+
+    private final float[] scratch;
+
+    GlobalMotion(int samples) {
+        scratch = new float[samples];
+    }
+
+    /** Writes {@code field.globalU} and {@code field.globalV} (0 when too few samples vote). */
+    void measure(FlowField field) {
+        int n = 0;
+        for (int i = 0; i < field.confidence.length; i++) {
+            if (field.confidence[i] >= CONFIDENCE_FLOOR) {
+                scratch[n++] = field.u[i];
+            }
+        }
+        if (n < 8 || n < MIN_CONFIDENT_SHARE * field.confidence.length) {
+            field.globalU = 0f;
+            field.globalV = 0f;
+            return;
+        }
+        field.globalU = median(scratch, n);
+        n = 0;
+        for (int i = 0; i < field.confidence.length; i++) {
+            if (field.confidence[i] >= CONFIDENCE_FLOOR) {
+                scratch[n++] = field.v[i];
+            }
+        }
+        field.globalV = median(scratch, n);
+    }
+
+    /** Median of a[0..n) by quickselect (Hoare 1961); reorders a. */
+    static float median(float[] a, int n) {
+        int k = n / 2;
+        int lo = 0;
+        int hi = n - 1;
+        while (lo < hi) {
+            float pivot = a[(lo + hi) >>> 1];
+            int i = lo;
+            int j = hi;
+            while (i <= j) {
+                while (a[i] < pivot) {
+                    i++;
+                }
+                while (a[j] > pivot) {
+                    j--;
+                }
+                if (i <= j) {
+                    float t = a[i];
+                    a[i] = a[j];
+                    a[j] = t;
+                    i++;
+                    j--;
+                }
+            }
+            if (k <= j) {
+                hi = j;
+            } else if (k >= i) {
+                lo = i;
+            } else {
+                break;
+            }
+        }
+        return a[k];
+    }
+}
