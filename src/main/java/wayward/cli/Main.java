@@ -42,6 +42,9 @@ public final class Main {
             "  replay  --config FILE --input VIDEO [--camera ID]",
             "                                            analyse a recorded file as fast as possible; events on stdout",
             "  demo    [--config FILE] [--loops N]       run on the bundled demo scene (conf/demo.toml), looped",
+            "  flow    --input A --input B --output OUT.flo [--picture OUT.png]",
+            "          --input VIDEO --at SECONDS --output OUT.flo [--picture OUT.png]",
+            "                                            optical flow between two pictures (Middlebury .flo + colour wheel PNG)",
             "  help                                      this text; COMMAND --help for one command",
             "",
             "exit codes: 0 done, 1 failed, 2 bad command line, 66 input missing, 78 config errors");
@@ -75,6 +78,14 @@ public final class Main {
                 "Runs the service on the bundled demo scene (a one-way lane in a fictional yard) played as a looping",
                 "camera, with conf/demo.toml. Prints every event phase as a JSON line and writes the event log",
                 "under the config's data folder. Runs until Ctrl-C, or for N passes over the scene with --loops."));
+        COMMAND_HELP.put("flow", String.join("\n",
+                "usage: java -jar wayward.jar flow --input A.png --input B.png --output OUT.flo [--picture OUT.png]",
+                "       java -jar wayward.jar flow --input VIDEO --at SECONDS --output OUT.flo [--picture OUT.png]",
+                "",
+                "Estimates the optical flow from picture A to picture B (or from the video frame at SECONDS to the next",
+                "one) at their own resolution, with the service's estimator and default settings. Writes it as a",
+                "Middlebury .flo file (Baker et al. 2011) and as a PNG in their colour wheel, with the wheel as legend",
+                "(default: OUT.png beside OUT.flo). Prints the speed of the legend's rim in pixels per frame."));
         COMMAND_HELP.put("make-scene", String.join("\n",
                 "usage: java -jar wayward.jar make-scene --scene FILE.scene.toml --video OUT.mp4 --truth OUT.json",
                 "",
@@ -112,7 +123,7 @@ public final class Main {
             return OK;
         }
         if (!COMMAND_HELP.containsKey(command)) {
-            err.println("wayward: unknown command '" + command + "' (expected run, check, replay, demo or help)");
+            err.println("wayward: unknown command '" + command + "' (expected run, check, replay, demo, flow or help)");
             return USAGE;
         }
         Map<String, String> opts = new LinkedHashMap<>();
@@ -120,6 +131,7 @@ public final class Main {
             case "run", "check" -> Set.of("--config");
             case "replay" -> Set.of("--config", "--input", "--camera");
             case "demo" -> Set.of("--config", "--loops");
+            case "flow" -> Set.of("--input", "--at", "--output", "--picture");
             default -> Set.of("--scene", "--video", "--truth");
         };
         for (int i = 1; i < args.length; i++) {
@@ -137,7 +149,12 @@ public final class Main {
                 err.println("wayward " + command + ": option " + a + " needs a value");
                 return USAGE;
             }
-            opts.put(a, args[++i]);
+            String value = args[++i];
+            if (a.equals("--input") && opts.containsKey("--input")) {
+                opts.put("--input2", value);
+            } else {
+                opts.put(a, value);
+            }
         }
         try {
             return switch (command) {
@@ -145,6 +162,7 @@ public final class Main {
                 case "run" -> run(opts, err);
                 case "replay" -> replay(opts, out, err);
                 case "demo" -> demo(opts, out, err);
+                case "flow" -> flow(opts, out, err);
                 default -> makeScene(opts, out, err);
             };
         } catch (Exit e) {
@@ -277,6 +295,57 @@ public final class Main {
             err.println();
         }
         s.stop();
+        return OK;
+    }
+
+    private static int flow(Map<String, String> opts, PrintStream out, PrintStream err) throws Exception {
+        String first = opts.get("--input");
+        String second = opts.get("--input2");
+        String output = opts.get("--output");
+        if (first == null || output == null || (second == null) == (opts.get("--at") == null)) {
+            err.println("wayward flow: give --input A --input B, or --input VIDEO --at SECONDS, and --output OUT.flo");
+            return USAGE;
+        }
+        for (String f : second == null ? List.of(first) : List.of(first, second)) {
+            if (!Files.isRegularFile(Path.of(f))) {
+                err.println("wayward flow: --input " + f + ": file not found");
+                return NO_INPUT;
+            }
+        }
+        wayward.picture.FlowTool.Gray[] pair;
+        try {
+            if (second != null) {
+                pair = new wayward.picture.FlowTool.Gray[] {wayward.picture.FlowTool.readPicture(Path.of(first)),
+                    wayward.picture.FlowTool.readPicture(Path.of(second))};
+            } else {
+                double at;
+                try {
+                    at = Double.parseDouble(opts.get("--at"));
+                } catch (NumberFormatException e) {
+                    at = -1;
+                }
+                if (!(at >= 0)) {
+                    err.println("wayward flow: --at " + opts.get("--at") + " (expected seconds, 0 or more)");
+                    return USAGE;
+                }
+                pair = wayward.picture.FlowTool.readVideoPair(Path.of(first), at);
+            }
+        } catch (java.io.IOException e) {
+            err.println("wayward flow: " + e.getMessage());
+            return NO_INPUT;
+        }
+        Path flo = Path.of(output);
+        Path png = Path.of(opts.getOrDefault("--picture", output.replaceAll("\\.flo$", "") + ".png"));
+        wayward.flow.FlowField f;
+        try {
+            f = wayward.picture.FlowTool.estimate(pair[0], pair[1]);
+        } catch (IllegalArgumentException e) {
+            err.println("wayward flow: " + e.getMessage());
+            return USAGE;
+        }
+        double rim = wayward.picture.FlowTool.write(f, flo, png);
+        out.printf(java.util.Locale.ROOT, "wrote %s and %s (%dx%d; legend rim = %.2f px per frame)%n", flo, png,
+                f.width, f.height, rim);
         return OK;
     }
 

@@ -50,7 +50,7 @@ class MainTest {
     void helpForTheWholeAndForEachCommand() {
         assertEquals(0, run("--help"));
         assertTrue(stdout().contains("replay"));
-        for (String c : List.of("run", "check", "replay", "demo")) {
+        for (String c : List.of("run", "check", "replay", "demo", "flow")) {
             out.reset();
             assertEquals(0, run(c, "--help"));
             assertTrue(stdout().startsWith("usage: java -jar wayward.jar " + c), stdout());
@@ -60,7 +60,7 @@ class MainTest {
     @Test
     void badCommandLinesExit2WithOneLine() {
         assertEquals(2, run("watch"));
-        assertEquals("wayward: unknown command 'watch' (expected run, check, replay, demo or help)\n", stderr());
+        assertEquals("wayward: unknown command 'watch' (expected run, check, replay, demo, flow or help)\n", stderr());
         err.reset();
         assertEquals(2, run("check", "--conf", "x.toml"));
         assertEquals("wayward check: unknown option '--conf' (expected --config)\n", stderr());
