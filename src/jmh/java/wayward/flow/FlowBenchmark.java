@@ -1,6 +1,5 @@
 package wayward.flow;
 
-import java.util.SplittableRandom;
 import java.util.concurrent.TimeUnit;
 import org.openjdk.jmh.annotations.Benchmark;
 import org.openjdk.jmh.annotations.BenchmarkMode;
@@ -37,6 +36,12 @@ public class FlowBenchmark {
     @Param({"1"})
     public int finest;
 
+    @Param({"1"})
+    public int threads;
+
+    @Param({"2"})
+    public int radius;
+
     private FlowEstimator flow;
     private FlowField field;
     private byte[] a;
@@ -48,36 +53,17 @@ public class FlowBenchmark {
         String[] wh = size.split("x");
         int w = Integer.parseInt(wh[0]);
         int h = Integer.parseInt(wh[1]);
-        // a smooth random texture moved by (1.5, -0.7) px: the kernel's cost does not depend on content much
-        SplittableRandom r = new SplittableRandom(1);
-        double[][] waves = new double[12][4];
-        for (double[] wv : waves) {
-            double wl = 6 + r.nextDouble() * 34;
-            double ang = r.nextDouble() * Math.PI;
-            wv[0] = Math.cos(ang) / wl;
-            wv[1] = Math.sin(ang) / wl;
-            wv[2] = r.nextDouble() * 2 * Math.PI;
-            wv[3] = 6 + r.nextDouble() * 6;
-        }
-        a = render(w, h, 0, 0, waves);
-        b = render(w, h, 1.5, -0.7, waves);
+        byte[][] ab = BenchFrames.pair(w, h);
+        a = ab[0];
+        b = ab[1];
         flow = FlowEstimator.create(w, h, FlowSettings.defaults().withStride(stride, 2 * stride).withIterations(iterations, finest));
         field = flow.newField();
         flow.push(a, field);
     }
 
-    private static byte[] render(int w, int h, double sx, double sy, double[][] waves) {
-        byte[] out = new byte[w * h];
-        for (int y = 0; y < h; y++) {
-            for (int x = 0; x < w; x++) {
-                double s = 128;
-                for (double[] wv : waves) {
-                    s += wv[3] * Math.sin(2 * Math.PI * (wv[0] * (x - sx) + wv[1] * (y - sy)) + wv[2]);
-                }
-                out[y * w + x] = (byte) Math.max(0, Math.min(255, Math.round(s)));
-            }
-        }
-        return out;
+    @org.openjdk.jmh.annotations.TearDown
+    public void tearDown() {
+        flow.close();
     }
 
     /** One frame into the stream: pyramid of the new frame plus the estimate against the previous one. */

@@ -14,6 +14,9 @@ final class BandPool implements AutoCloseable {
         void run(int band, int bands);
     }
 
+    /** Busy-wait rounds before parking (a few tens of microseconds). */
+    private static final int SPINS = 20_000;
+
     private final int bands;
     private final BandTask task;
     private final Thread[] workers;
@@ -45,8 +48,14 @@ final class BandPool implements AutoCloseable {
             LockSupport.unpark(t);
         }
         task.run(0, bands);
+        int spins = 0;
         while (remaining.get() > 0) {
-            LockSupport.park(this);
+            // the other bands finish within microseconds of ours: spin briefly before parking
+            if (++spins < SPINS) {
+                Thread.onSpinWait();
+            } else {
+                LockSupport.park(this);
+            }
         }
         RuntimeException f = failure;
         if (f != null) {
@@ -56,12 +65,19 @@ final class BandPool implements AutoCloseable {
 
     private void work(int band) {
         int seen = 0;
+        int spins = 0;
         while (!closed) {
             int g = generation;
             if (g == seen) {
-                LockSupport.park(this);
+                // frames arrive every 100 ms, levels within a millisecond: spin a little, then sleep
+                if (++spins < SPINS) {
+                    Thread.onSpinWait();
+                } else {
+                    LockSupport.park(this);
+                }
                 continue;
             }
+            spins = 0;
             seen = g;
             try {
                 task.run(band, bands);

@@ -4,7 +4,7 @@ package wayward.flow;
  * Dense optical flow between consecutive gray frames of one size. Implementations size every buffer in their
  * constructor and allocate nothing per frame; one instance per analysis thread.
  */
-public interface FlowEstimator {
+public interface FlowEstimator extends AutoCloseable {
     /**
      * Flow from {@code first} to {@code second} (row-major gray 8-bit, stride = width) into {@code out}.
      * Forgets any frame given to {@link #push}.
@@ -22,6 +22,11 @@ public interface FlowEstimator {
 
     /** A field of the shape this estimator writes (its sampling stride over the picture). */
     FlowField newField();
+
+    /** Releases threads the estimator owns (band workers); the estimator is unusable afterwards. */
+    @Override
+    default void close() {
+    }
 
     /** Pyramid levels in use, including the full-size one. */
     int levelCount();

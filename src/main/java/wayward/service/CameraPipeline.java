@@ -153,6 +153,9 @@ public final class CameraPipeline {
         } catch (RuntimeException e) {
             LOG.error("camera {}: analysis stopped by an internal error", camera.id(), e);
         } finally {
+            if (flow != null) {
+                flow.close();
+            }
             for (ZoneRule r : rules) {
                 Event e = r.finish(lastStreamSeconds);
                 if (e != null) {
@@ -169,6 +172,9 @@ public final class CameraPipeline {
     }
 
     private void setUp(int w, int h) {
+        if (flow != null) {
+            flow.close();
+        }
         flow = FlowEstimator.create(w, h, flowConfig.toSettings());
         field = flow.newField();
         meters.clear();
