@@ -56,8 +56,6 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
     private final float[][] smoothU;
     private final float[][] smoothV;
     private final float[] smoothC;
-    private final float[] smoothOutU;
-    private final float[] smoothOutV;
     private final BandPool pool;
 
     /** Scratch of one band: the template window of the point being solved. */
@@ -141,8 +139,6 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
             largestGrid = Math.max(largestGrid, g.length);
         }
         smoothC = new float[largestGrid];
-        smoothOutU = new float[largestGrid];
-        smoothOutV = new float[largestGrid];
         int threads = Math.max(1, Math.min(settings.threads(), gridHeight[0]));
         bands = new Band[threads];
         for (int i = 0; i < threads; i++) {
@@ -196,8 +192,8 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         check(first, "first");
         check(second, "second");
         checkField(out);
-        Pyramids.buildSmooth(first, earlier, levelWidth, levelHeight, pyramidScratch);
-        Pyramids.buildSmooth(second, later, levelWidth, levelHeight, pyramidScratch);
+        buildPyramid(first, earlier);
+        buildPyramid(second, later);
         estimate(out);
         hasEarlier = false;
     }
@@ -206,7 +202,7 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
     public boolean push(byte[] frame, FlowField out) {
         check(frame, "frame");
         checkField(out);
-        Pyramids.buildSmooth(frame, later, levelWidth, levelHeight, pyramidScratch);
+        buildPyramid(frame, later);
         boolean estimated = false;
         if (hasEarlier) {
             estimate(out);
@@ -238,20 +234,61 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         }
     }
 
-    // level being solved, read by the band workers
+    // what the band workers do next, and on what (written before each pool run, read by the workers)
+    private static final int SOLVE = 0;
+    private static final int PYRAMID_ROWS = 1;
+    private static final int PYRAMID_COLUMNS = 2;
+    private static final int SMOOTH_ROWS = 3;
+    private static final int SMOOTH_COLUMNS = 4;
+    private int phase;
     private int currentLevel;
+    private byte[] pendingFrame;
+    private float[][] pendingPyramid;
+
+    /**
+     * The smoothed pyramid of a frame. With bands, level 0 and its halving (most of the work) are split by rows;
+     * the small coarse levels are halved on this thread.
+     */
+    private void buildPyramid(byte[] frame, float[][] pyramid) {
+        if (pool == null || levelCount == 1) {
+            Pyramids.buildSmooth(frame, pyramid, levelWidth, levelHeight, pyramidScratch);
+            return;
+        }
+        pendingFrame = frame;
+        pendingPyramid = pyramid;
+        phase = PYRAMID_ROWS;
+        pool.runAll();
+        phase = PYRAMID_COLUMNS;
+        pool.runAll();
+        for (int l = 2; l < levelCount; l++) {
+            Pyramids.halveSmooth(pyramid[l - 1], levelWidth[l - 1], levelHeight[l - 1], pyramid[l], levelWidth[l],
+                    levelHeight[l], pyramidScratch);
+        }
+        pendingFrame = null;
+        pendingPyramid = null;
+    }
 
     private void estimate(FlowField out) {
         for (int l = levelCount - 1; l >= 0; l--) {
             currentLevel = l;
             // bands only where there is enough work to share: hand-over costs more than a small coarse level
-            if (pool == null || gridWidth[l] * gridHeight[l] < MIN_SHARED_POINTS) {
-                solveRows(l, 0, gridHeight[l], bands[0]);
-            } else {
+            boolean shared = pool != null && gridWidth[l] * gridHeight[l] >= MIN_SHARED_POINTS;
+            if (shared) {
+                phase = SOLVE;
                 pool.runAll();
+            } else {
+                solveRows(l, 0, gridHeight[l], bands[0]);
             }
             for (int pass = 0; pass < SMOOTH_PASSES; pass++) {
-                smooth(l);
+                if (shared) {
+                    phase = SMOOTH_ROWS;
+                    pool.runAll();
+                    phase = SMOOTH_COLUMNS;
+                    pool.runAll();
+                } else {
+                    smoothRows(l, 0, gridHeight[l]);
+                    smoothColumns(l, 0, gridHeight[l]);
+                }
             }
         }
         System.arraycopy(gridU[0], 0, out.u, 0, out.u.length);
@@ -260,11 +297,34 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         globalMotion.measure(out);
     }
 
-    /** Band worker entry: band {@code b} of {@code count} solves its share of the current level's rows. */
+    /** Band worker entry: band {@code b} of {@code count} does its share of rows of the current phase. */
     private void solveBand(int b, int count) {
         int l = currentLevel;
-        int rows = gridHeight[l];
-        solveRows(l, rows * b / count, rows * (b + 1) / count, bands[b]);
+        switch (phase) {
+            case SOLVE:
+                solveRows(l, gridHeight[l] * b / count, gridHeight[l] * (b + 1) / count, bands[b]);
+                break;
+            case PYRAMID_ROWS: {
+                int h = levelHeight[0];
+                int y0 = h * b / count;
+                int y1 = h * (b + 1) / count;
+                Pyramids.convertRows(pendingFrame, pendingPyramid[0], levelWidth[0], y0, y1);
+                Pyramids.smoothRows(pendingPyramid[0], levelWidth[0], pyramidScratch, levelWidth[1], y0, y1);
+                break;
+            }
+            case PYRAMID_COLUMNS: {
+                int h = levelHeight[1];
+                Pyramids.smoothColumns(pyramidScratch, levelHeight[0], pendingPyramid[1], levelWidth[1],
+                        h * b / count, h * (b + 1) / count);
+                break;
+            }
+            case SMOOTH_ROWS:
+                smoothRows(l, gridHeight[l] * b / count, gridHeight[l] * (b + 1) / count);
+                break;
+            default:
+                smoothColumns(l, gridHeight[l] * b / count, gridHeight[l] * (b + 1) / count);
+                break;
+        }
     }
 
     private void solveRows(int l, int rowFrom, int rowTo, Band band) {
@@ -514,17 +574,16 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
      * Confidence-weighted 3×3 mean of a level's grid: points on flat ground or edges (no confidence) take the
      * motion of their textured neighbours; textured points keep most of their own.
      */
-    private void smooth(int l) {
+    /** First half of a smoothing pass: horizontal 3-sums of c, c·u, c·v for grid rows [j0, j1). */
+    private void smoothRows(int l, int j0, int j1) {
         final int gw = gridWidth[l];
-        final int gh = gridHeight[l];
         final float[] u = gridU[l];
         final float[] v = gridV[l];
         final float[] c = gridConfidence[l];
-        // horizontal 3-sums of c, c·u, c·v (neighbours inside the grid only), then vertical 3-sums of those
         final float[] hc = smoothC;
         final float[] hu = smoothU[l];
         final float[] hv = smoothV[l];
-        for (int j = 0; j < gh; j++) {
+        for (int j = j0; j < j1; j++) {
             final int row = j * gw;
             float cPrev = 0f;
             float uPrev = 0f;
@@ -552,8 +611,23 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
                 vHere = vNext;
             }
         }
+    }
+
+    /**
+     * Second half: vertical 3-sums of the row sums and the weighted mean for grid rows [j0, j1), written back
+     * into the grid. Each row reads only its own point's old value, so bands may write back at once.
+     */
+    private void smoothColumns(int l, int j0, int j1) {
+        final int gw = gridWidth[l];
+        final int gh = gridHeight[l];
+        final float[] u = gridU[l];
+        final float[] v = gridV[l];
+        final float[] c = gridConfidence[l];
+        final float[] hc = smoothC;
+        final float[] hu = smoothU[l];
+        final float[] hv = smoothV[l];
         final float self = SELF_WEIGHT;
-        for (int j = 0; j < gh; j++) {
+        for (int j = j0; j < j1; j++) {
             final int row = j * gw;
             final int up = j > 0 ? row - gw : -1;
             final int down = j + 1 < gh ? row + gw : -1;
@@ -574,13 +648,10 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
                 }
                 final float ws = self * c[k];
                 final float norm = 1f / (ws + sc + 1e-3f);
-                // written into the row below the one still needed: keep results apart until the row is done
-                smoothOutU[k] = (ws * u[k] + su + 1e-3f * u[k]) * norm;
-                smoothOutV[k] = (ws * v[k] + sv + 1e-3f * v[k]) * norm;
+                u[k] = (ws * u[k] + su + 1e-3f * u[k]) * norm;
+                v[k] = (ws * v[k] + sv + 1e-3f * v[k]) * norm;
             }
         }
-        System.arraycopy(smoothOutU, 0, u, 0, gw * gh);
-        System.arraycopy(smoothOutV, 0, v, 0, gw * gh);
     }
 
     private static int clamp(int i, int size) {

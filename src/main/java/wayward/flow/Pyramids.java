@@ -36,8 +36,21 @@ final class Pyramids {
     }
 
     static void halveSmooth(float[] fine, int fw, int fh, float[] coarse, int w, int h, float[] tmp) {
+        smoothRows(fine, fw, tmp, w, 0, fh);
+        smoothColumns(tmp, fh, coarse, w, 0, h);
+    }
+
+    /** Level 0 rows [y0, y1) from the frame's bytes. */
+    static void convertRows(byte[] frame, float[] base, int w, int y0, int y1) {
+        for (int i = y0 * w; i < y1 * w; i++) {
+            base[i] = frame[i] & 0xff;
+        }
+    }
+
+    /** Horizontal half of {@link #halveSmooth} for fine rows [y0, y1): [1 3 3 1]/8 around each coarse column. */
+    static void smoothRows(float[] fine, int fw, float[] tmp, int w, int y0, int y1) {
         final int lastX = fw - 1;
-        for (int y = 0; y < fh; y++) {
+        for (int y = y0; y < y1; y++) {
             final int row = y * fw;
             final int out = y * w;
             for (int x = 0; x < w; x++) {
@@ -47,8 +60,12 @@ final class Pyramids {
                 tmp[out + x] = 0.125f * (fine[row + a] + 3f * (fine[row + c] + fine[row + c + 1]) + fine[row + d]);
             }
         }
+    }
+
+    /** Vertical half of {@link #halveSmooth} for coarse rows [y0, y1). */
+    static void smoothColumns(float[] tmp, int fh, float[] coarse, int w, int y0, int y1) {
         final int lastY = fh - 1;
-        for (int y = 0; y < h; y++) {
+        for (int y = y0; y < y1; y++) {
             final int c = 2 * y;
             final int ra = (c > 0 ? c - 1 : 0) * w;
             final int rb = c * w;
