@@ -55,6 +55,21 @@ import wayward.image.GrayFrame;
  * capture thread never waits for analysis (except in lossless replay), the network or the disk.
  */
 public final class VideoSource implements Runnable {
+    /**
+     * Told when a network source stops delivering frames and when it delivers again; called on the capture
+     * thread, so it must not block.
+     */
+    public interface Health {
+        /** Frames stopped: the stream ended, failed or stalled. {@code streamSeconds} of the last frame. */
+        void lost(String reason, double streamSeconds);
+
+        /** Frames arrive again after {@link #lost}. */
+        void back(double streamSeconds);
+    }
+
+    /** No decoded frame for this long while connected counts as a stall: the connection is dropped. */
+    private static final long STALL_NANOS = 10_000_000_000L;
+
     private static final Logger LOG = LoggerFactory.getLogger(VideoSource.class);
     /** Socket timeout for network sources, microseconds (FFmpeg's option "timeout"). */
     private static final String NETWORK_TIMEOUT_MICROS = "5000000";
@@ -68,6 +83,10 @@ public final class VideoSource implements Runnable {
     private final String cameraId;
     private final SourceOptions options;
     private final FrameSlot slot;
+    private final Health health;
+    private boolean lost;
+    private boolean connectedOnce;
+    private long lastFrameNanos;
     private volatile boolean stopping;
     private volatile Thread runner;
 
@@ -90,10 +109,11 @@ public final class VideoSource implements Runnable {
     private int outWidth;
     private int outHeight;
 
-    public VideoSource(String cameraId, SourceOptions options, FrameSlot slot) {
+    public VideoSource(String cameraId, SourceOptions options, FrameSlot slot, Health health) {
         this.cameraId = cameraId;
         this.options = options;
         this.slot = slot;
+        this.health = health;
     }
 
     /** Asks the capture loop to end; it closes the slot on its way out. Any thread. */
@@ -151,6 +171,11 @@ public final class VideoSource implements Runnable {
                 if (gotFrames) {
                     backoffMillis = 500;
                 }
+                if (!lost) {
+                    lost = true;
+                    health.lost(failure != null ? failure : (connectedOnce ? "stream ended" : "no frames"),
+                            Math.max(0, lastSeconds));
+                }
                 long jitter = ThreadLocalRandom.current().nextLong(backoffMillis / 4 + 1);
                 LOG.warn("camera {}: stream {} {}; reconnecting in {} ms", cameraId, shown,
                         failure != null ? "failed (" + failure + ")" : "ended", backoffMillis + jitter);
@@ -207,12 +232,19 @@ public final class VideoSource implements Runnable {
             }
             frame = av_frame_alloc();
             boolean keySeen = false;
+            lastFrameNanos = System.nanoTime();
+            boolean network = wayward.config.CameraConfig.isUrl(options.source());
             wallStartNanos = System.nanoTime();
             wallStartStream = Double.NaN;
             while (!stopping) {
                 AVPacket pkt = grabber.grabPacket();
                 if (pkt == null) {
                     break;
+                }
+                if (network && System.nanoTime() - lastFrameNanos > STALL_NANOS) {
+                    // packets but no pictures (other streams only, or undecodable): start over
+                    av_packet_unref(pkt);
+                    throw new IllegalStateException("no picture for " + STALL_NANOS / 1_000_000_000L + " s");
                 }
                 try {
                     if (pkt.stream_index() != videoIndex) {
@@ -286,6 +318,12 @@ public final class VideoSource implements Runnable {
         }
         lastSeconds = t;
         long index = frameIndex++;
+        lastFrameNanos = System.nanoTime();
+        connectedOnce = true;
+        if (lost) {
+            lost = false;
+            health.back(t);
+        }
         if (options.realtime()) {
             pace(t);
         }

@@ -61,7 +61,7 @@ public final class CameraPipeline {
         this.events = events;
         this.slot = new FrameSlot(lossless);
         this.source = new VideoSource(camera.id(), new SourceOptions(camera.source(), camera.loop(), realtime,
-                camera.analysisWidth(), camera.analysisFps(), maxLoops), slot);
+                camera.analysisWidth(), camera.analysisFps(), maxLoops), slot, new HealthEvents(clock));
         this.captureThread = new Thread(() -> {
             MDC.put("camera", camera.id());
             source.run();
@@ -72,6 +72,35 @@ public final class CameraPipeline {
         }, "analysis-" + camera.id());
         for (ZoneConfig z : camera.zones()) {
             rules.add(new ZoneRule(camera.id(), z.id(), z.hasHeading(), z.rule(), clock));
+        }
+    }
+
+    /** Turns the source's health into camera_lost / camera_back events (capture thread; never blocks). */
+    private final class HealthEvents implements VideoSource.Health {
+        private final Clock clock;
+        private String outageId;
+        private java.time.Instant lostAt;
+
+        HealthEvents(Clock clock) {
+            this.clock = clock;
+        }
+
+        @Override
+        public void lost(String reason, double streamSeconds) {
+            outageId = java.util.UUID.randomUUID().toString();
+            lostAt = clock.instant();
+            LOG.warn("camera {}: lost ({})", camera.id(), reason);
+            events.accept(new Event(outageId, camera.id(), null, wayward.event.EventKind.CAMERA_LOST,
+                    Event.Phase.START, streamSeconds, lostAt, Double.NaN, Double.NaN, Double.NaN, Double.NaN));
+        }
+
+        @Override
+        public void back(double streamSeconds) {
+            java.time.Instant now = clock.instant();
+            double outage = java.time.Duration.between(lostAt, now).toMillis() / 1000.0;
+            LOG.info("camera {}: back after {} s", camera.id(), outage);
+            events.accept(new Event(outageId, camera.id(), null, wayward.event.EventKind.CAMERA_BACK,
+                    Event.Phase.END, streamSeconds, now, Double.NaN, Double.NaN, Double.NaN, outage));
         }
     }
 
