@@ -84,6 +84,7 @@ public final class VideoSource implements Runnable {
     private final SourceOptions options;
     private final FrameSlot slot;
     private final Health health;
+    private final ClipRecorder clips;
     private boolean lost;
     private boolean connectedOnce;
     private long lastFrameNanos;
@@ -109,7 +110,9 @@ public final class VideoSource implements Runnable {
     private int outWidth;
     private int outHeight;
 
-    public VideoSource(String cameraId, SourceOptions options, FrameSlot slot, Health health) {
+    /** @param clips the camera's clip recorder, or null for no clips (replay) */
+    public VideoSource(String cameraId, SourceOptions options, FrameSlot slot, Health health, ClipRecorder clips) {
+        this.clips = clips;
         this.cameraId = cameraId;
         this.options = options;
         this.slot = slot;
@@ -187,6 +190,9 @@ public final class VideoSource implements Runnable {
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
         } finally {
+            if (clips != null) {
+                clips.close();
+            }
             slot.close();
             runner = null;
         }
@@ -230,6 +236,9 @@ public final class VideoSource implements Runnable {
             if (rate.num() > 0 && rate.den() > 0) {
                 nominalFrameSeconds = (double) rate.den() / rate.num();
             }
+            if (clips != null) {
+                clips.onStream(stream.codecpar(), stream.time_base());
+            }
             frame = av_frame_alloc();
             boolean keySeen = false;
             lastFrameNanos = System.nanoTime();
@@ -256,6 +265,9 @@ public final class VideoSource implements Runnable {
                             continue;
                         }
                         keySeen = true;
+                    }
+                    if (clips != null) {
+                        clips.onPacket(pkt, packetSeconds(pkt, timeBase));
                     }
                     if (avcodec_send_packet(decoder, pkt) < 0) {
                         decodeErrors++;
@@ -286,6 +298,19 @@ public final class VideoSource implements Runnable {
                 LOG.debug("camera {}: close failed: {}", cameraId, e.toString());
             }
         }
+    }
+
+    /** Stream time of a packet, on the same clock as the frames (their first timestamp, loop offsets). */
+    private double packetSeconds(AVPacket pkt, double timeBase) {
+        long ts = pkt.pts() != AV_NOPTS_VALUE ? pkt.pts() : pkt.dts();
+        if (ts == AV_NOPTS_VALUE) {
+            return Math.max(0, lastSeconds);
+        }
+        double raw = ts * timeBase;
+        if (Double.isNaN(firstSeconds)) {
+            firstSeconds = raw;
+        }
+        return raw - firstSeconds + offsetSeconds;
     }
 
     private SwsContext drain(AVCodecContext decoder, AVFrame frame, double timeBase, SwsContext sws)

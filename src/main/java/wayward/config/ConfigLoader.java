@@ -91,6 +91,16 @@ public final class ConfigLoader {
             flow = new FlowConfig(levels, iterations, finestIterations, window, reg, stride, coarseStride, threads);
         }
 
+        ClipConfig clips = ClipConfig.DEFAULTS;
+        TomlTable clipTable = top.table("clips");
+        if (clipTable != null) {
+            Scope s = new Scope(errors, clipTable, "clips", root.inputPositionOf(List.of("clips")));
+            ClipConfig d = ClipConfig.DEFAULTS;
+            clips = new ClipConfig(s.bool("enabled", d.enabled()), s.number("pre_roll_seconds", d.preRollSeconds(), 0, 60),
+                    s.number("post_roll_seconds", d.postRollSeconds(), 0, 60), s.number("max_seconds", d.maxSeconds(), 5, 3600));
+            s.finish();
+        }
+
         List<CameraConfig> cameras = new ArrayList<>();
         TomlArray cameraArray = top.tableArray("camera");
         if (cameraArray == null || cameraArray.size() == 0) {
@@ -131,7 +141,7 @@ public final class ConfigLoader {
             }
         }
         top.finish();
-        return new SiteConfig(file, dataDir, flow, cameras, webhooks);
+        return new SiteConfig(file, dataDir, flow, cameras, webhooks, clips);
     }
 
     private static CameraConfig camera(Scope s, Path base) {

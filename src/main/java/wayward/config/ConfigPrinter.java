@@ -25,6 +25,11 @@ public final class ConfigPrinter {
         b.append("stride = ").append(c.flow().stride()).append('\n');
         b.append("coarse_stride = ").append(c.flow().coarseStride()).append('\n');
         b.append("threads = ").append(c.flow().threads()).append('\n');
+        b.append("\n[clips]\n");
+        b.append("enabled = ").append(c.clips().enabled()).append('\n');
+        b.append("pre_roll_seconds = ").append(num(c.clips().preRollSeconds())).append('\n');
+        b.append("post_roll_seconds = ").append(num(c.clips().postRollSeconds())).append('\n');
+        b.append("max_seconds = ").append(num(c.clips().maxSeconds())).append('\n');
         for (CameraConfig cam : c.cameras()) {
             b.append("\n[[camera]]\n");
             b.append("id = ").append(quote(cam.id())).append('\n');

@@ -12,9 +12,10 @@ import java.util.List;
  * @param flow     flow estimator settings shared by all cameras
  * @param cameras  at least one camera
  * @param webhooks zero or more webhook destinations
+ * @param clips    evidence clip settings
  */
 public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
-        List<WebhookConfig> webhooks) {
+        List<WebhookConfig> webhooks, ClipConfig clips) {
     public SiteConfig {
         cameras = List.copyOf(cameras);
         webhooks = List.copyOf(webhooks);

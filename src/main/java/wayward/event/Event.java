@@ -17,9 +17,25 @@ import java.time.Instant;
  * @param coverage        share of the zone's pixels taking part (mean over the hold time for a start, peak
  *                        over the event for an end)
  * @param durationSeconds stream seconds from start to end (end phase only)
+ * @param clip            evidence clip, relative to the data folder, or null (it is complete once the post-roll
+ *                        after the end has passed)
+ * @param snapshot        JPEG of the triggering frame, relative to the data folder, or null
  */
 public record Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
-        Instant at, double headingDeg, double speed, double coverage, double durationSeconds) {
+        Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
+        String snapshot) {
+
+    /** An event phase without evidence files. */
+    public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
+            Instant at, double headingDeg, double speed, double coverage, double durationSeconds) {
+        this(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage, durationSeconds, null, null);
+    }
+
+    /** The same phase naming its evidence files. */
+    public Event withEvidence(String clipPath, String snapshotPath) {
+        return new Event(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage,
+                durationSeconds, clipPath, snapshotPath);
+    }
 
     /** Start or end of an event. */
     public enum Phase {

@@ -34,6 +34,12 @@ public final class EventJson {
             number(g, "speed", e.speed(), 100);
             number(g, "coverage", e.coverage(), 10000);
             number(g, "duration_s", e.durationSeconds(), 1000);
+            if (e.clip() != null) {
+                g.writeStringField("clip", e.clip());
+            }
+            if (e.snapshot() != null) {
+                g.writeStringField("snapshot", e.snapshot());
+            }
             g.writeEndObject();
         } catch (IOException ex) {
             throw new UncheckedIOException(ex);

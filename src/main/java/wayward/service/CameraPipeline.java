@@ -54,14 +54,36 @@ public final class CameraPipeline {
      * @param realtime pace file sources to their timestamps
      * @param maxLoops for looping files, passes before the camera ends (0 = forever)
      */
+    /** Evidence settings of a pipeline: where clips go and who writes snapshots; null for none. */
+    public record Evidence(java.nio.file.Path dataDir, wayward.config.ClipConfig clips,
+            wayward.clip.EvidenceWriter writer) {
+    }
+
+    private final Evidence evidence;
+    private final wayward.capture.ClipRecorder recorder;
+    /** Open events' evidence paths (relative to the data folder), by event id; analysis thread only. */
+    private final java.util.Map<String, String[]> openEvidence = new java.util.HashMap<>();
+    private final java.util.Map<String, String> startJson = new java.util.HashMap<>();
+    private static final java.time.format.DateTimeFormatter FILE_TIME =
+            java.time.format.DateTimeFormatter.ofPattern("yyyyMMdd'T'HHmmss'Z'").withZone(java.time.ZoneOffset.UTC);
+
     public CameraPipeline(CameraConfig camera, FlowConfig flowConfig, Consumer<Event> events, Clock clock,
             boolean lossless, boolean realtime, int maxLoops) {
+        this(camera, flowConfig, events, clock, lossless, realtime, maxLoops, null);
+    }
+
+    /** @param evidence where clips, snapshots and sidecars go; null for none (replay) */
+    public CameraPipeline(CameraConfig camera, FlowConfig flowConfig, Consumer<Event> events, Clock clock,
+            boolean lossless, boolean realtime, int maxLoops, Evidence evidence) {
         this.camera = camera;
         this.flowConfig = flowConfig;
         this.events = events;
         this.slot = new FrameSlot(lossless);
+        this.evidence = evidence != null && evidence.clips().enabled() ? evidence : null;
+        this.recorder = this.evidence == null ? null : new wayward.capture.ClipRecorder(camera.id(),
+                evidence.clips().preRollSeconds(), evidence.clips().postRollSeconds(), evidence.clips().maxSeconds());
         this.source = new VideoSource(camera.id(), new SourceOptions(camera.source(), camera.loop(), realtime,
-                camera.analysisWidth(), camera.analysisFps(), maxLoops), slot, new HealthEvents(clock));
+                camera.analysisWidth(), camera.analysisFps(), maxLoops), slot, new HealthEvents(clock), recorder);
         this.captureThread = new Thread(() -> {
             MDC.put("camera", camera.id());
             source.run();
@@ -173,7 +195,7 @@ public final class CameraPipeline {
                     meters.get(z).measure(field, dt, t, reading);
                     Event e = rules.get(z).update(reading);
                     if (e != null) {
-                        emit(e);
+                        emit(withEvidence(e, camera.zones().get(z), f));
                     }
                 }
             }
@@ -185,13 +207,54 @@ public final class CameraPipeline {
             if (flow != null) {
                 flow.close();
             }
-            for (ZoneRule r : rules) {
-                Event e = r.finish(lastStreamSeconds);
+            for (int z = 0; z < rules.size(); z++) {
+                Event e = rules.get(z).finish(lastStreamSeconds);
                 if (e != null) {
-                    emit(e);
+                    emit(withEvidence(e, camera.zones().get(z), null));
                 }
             }
         }
+    }
+
+    /** Waits for this camera's clip writers to write their trailers (shutdown). */
+    public void awaitClips(long timeoutMillis) throws InterruptedException {
+        if (recorder != null) {
+            recorder.awaitWriters(timeoutMillis);
+        }
+    }
+
+    /**
+     * Names the event's evidence and starts or finishes it: at a start, the clip request to the capture thread
+     * and the snapshot of this frame; at an end, the end of the clip (after its post-roll) and the sidecar.
+     */
+    private Event withEvidence(Event e, ZoneConfig zone, GrayFrame frame) {
+        if (evidence == null) {
+            return e;
+        }
+        if (e.phase() == Event.Phase.START) {
+            String base = "clips/" + camera.id() + "/" + FILE_TIME.format(e.at()) + "-" + zone.id() + "-"
+                    + e.id().substring(0, 8);
+            String[] paths = {base + ".mp4", base + ".jpg", base + ".json"};
+            openEvidence.put(e.id(), paths);
+            recorder.start(e.id(), e.streamSeconds(), evidence.dataDir().resolve(paths[0]));
+            if (frame != null) {
+                double minStep = zone.minSpeedPxPerSecond() / camera.analysisFps();
+                evidence.writer().snapshot(wayward.clip.Snapshot.draw(frame, field, zone.xs(), zone.ys(), minStep),
+                        evidence.dataDir().resolve(paths[1]));
+            }
+            Event named = e.withEvidence(paths[0], paths[1]);
+            startJson.put(e.id(), wayward.event.EventJson.toJson(named));
+            return named;
+        }
+        String[] paths = openEvidence.remove(e.id());
+        if (paths == null) {
+            return e;
+        }
+        recorder.finish(e.id(), e.streamSeconds());
+        Event named = e.withEvidence(paths[0], paths[1]);
+        evidence.writer().sidecar(startJson.remove(e.id()) + "\n" + wayward.event.EventJson.toJson(named) + "\n",
+                evidence.dataDir().resolve(paths[2]));
+        return named;
     }
 
     private void emit(Event e) {

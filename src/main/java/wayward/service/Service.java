@@ -49,6 +49,7 @@ public final class Service {
     private final EventBus bus = new EventBus();
     private final List<CameraPipeline> pipelines = new ArrayList<>();
     private final CountDownLatch ended = new CountDownLatch(1);
+    private wayward.clip.EvidenceWriter evidenceWriter;
     private volatile boolean stopped;
 
     /**
@@ -79,9 +80,15 @@ public final class Service {
             bus.add(new PrintSink(stdout), QUEUE_CAPACITY);
         }
         Clock clock = Clock.systemUTC();
+        CameraPipeline.Evidence evidence = null;
+        if (mode != Mode.REPLAY && config.clips().enabled()) {
+            evidenceWriter = new wayward.clip.EvidenceWriter();
+            evidence = new CameraPipeline.Evidence(config.dataDir(), config.clips(), evidenceWriter);
+            LOG.info("evidence clips and snapshots go to {}", config.dataDir().resolve("clips"));
+        }
         for (CameraConfig c : cameras) {
             CameraPipeline p = new CameraPipeline(c, config.flow(), bus::publish, clock, mode == Mode.REPLAY,
-                    mode != Mode.REPLAY, maxLoops);
+                    mode != Mode.REPLAY, maxLoops, evidence);
             pipelines.add(p);
         }
         for (CameraPipeline p : pipelines) {
@@ -148,6 +155,17 @@ public final class Service {
             } catch (InterruptedException e) {
                 Thread.currentThread().interrupt();
             }
+        }
+        // clips: the capture threads have ended them; wait for the trailers, then the snapshots and sidecars
+        for (CameraPipeline p : pipelines) {
+            try {
+                p.awaitClips(10_000);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }
+        if (evidenceWriter != null) {
+            evidenceWriter.close(5000);
         }
         bus.close(10_000);
         ended.countDown();

@@ -1,6 +1,7 @@
 package wayward.cli;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.sun.net.httpserver.HttpServer;
 import java.net.InetSocketAddress;
@@ -18,9 +19,56 @@ import org.junit.jupiter.api.io.TempDir;
 
 /**
  * The service ({@code run}) on the packaged jar with a file camera and a webhook receiver on loopback (the
- * JDK's com.sun.net.httpserver) that fails its first request with 500: both phases arrive, in order.
+ * JDK's com.sun.net.httpserver) that fails its first request with 500: both phases arrive, in order, and name
+ * the evidence clip, checked with ffprobe (Debian's ffmpeg), its snapshot and its sidecar.
  */
 class RunWebhookIT {
+    private static String run(String... command) throws Exception {
+        Process p = new ProcessBuilder(command).redirectErrorStream(true).start();
+        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
+        assertEquals(0, p.waitFor(), out);
+        return out.trim();
+    }
+
+    private static void checkEvidence(Path data, Map<String, Object> start, Map<String, Object> end, List<String> log)
+            throws Exception {
+        assertEquals(start.get("clip"), end.get("clip"), "both phases name the same clip");
+        Path clip = data.resolve((String) end.get("clip"));
+        Path snapshot = data.resolve((String) end.get("snapshot"));
+        assertTrue(Files.isRegularFile(clip), clip.toString());
+        // ffprobe: the first packet is a keyframe at pts 0
+        String first = run("ffprobe", "-v", "error", "-select_streams", "v:0", "-read_intervals", "%+#1",
+                "-show_entries", "packet=pts_time,flags", "-of", "csv=p=0", clip.toString());
+        assertTrue(first.startsWith("0.000000,K"), first);
+        double duration = Double.parseDouble(run("ffprobe", "-v", "error", "-show_entries", "format=duration",
+                "-of", "csv=p=0", clip.toString()));
+        int packets = Integer.parseInt(run("ffprobe", "-v", "error", "-select_streams", "v:0", "-count_packets",
+                "-show_entries", "stream=nb_read_packets", "-of", "csv=p=0", clip.toString()));
+        // from the keyframe at or before start − 3 s pre-roll to end + 4 s post-roll; the clip's GOP is 2 s
+        // (test-streams/yard-lane.scene.toml: 15 fps, keyframe every 30 frames)
+        double span = (Double) end.get("stream_s") + 4 - ((Double) start.get("stream_s") - 3);
+        assertTrue(duration >= span && duration <= span + 2.0, "clip " + duration + " s for a span of " + span + " s");
+        assertEquals(duration * 15, packets, 1.5, "frame count matches the source's 15 fps over the clip");
+        assertEquals("", run("ffmpeg", "-v", "error", "-i", clip.toString(), "-f", "null", "-"), "decodes cleanly");
+        java.awt.image.BufferedImage jpg = javax.imageio.ImageIO.read(snapshot.toFile());
+        assertEquals(640, jpg.getWidth());
+        int coloured = 0;
+        for (int y = 0; y < jpg.getHeight(); y += 2) {
+            for (int x = 0; x < jpg.getWidth(); x += 2) {
+                int rgb = jpg.getRGB(x, y);
+                int r = (rgb >> 16) & 0xff;
+                int g = (rgb >> 8) & 0xff;
+                int b = rgb & 0xff;
+                if (Math.max(r, Math.max(g, b)) - Math.min(r, Math.min(g, b)) > 60) {
+                    coloured++;
+                }
+            }
+        }
+        assertTrue(coloured > 50, "motion arrows drawn on the gray frame: " + coloured + " coloured samples");
+        Path sidecar = data.resolve(((String) end.get("clip")).replace(".mp4", ".json"));
+        assertEquals(log, Files.readAllLines(sidecar, StandardCharsets.UTF_8), "the sidecar holds the event record");
+    }
+
     @Test
     @Timeout(value = 180, unit = TimeUnit.SECONDS)
     void serviceDeliversStartAndEndToTheWebhookDespiteA500(@TempDir Path dir) throws Exception {
@@ -66,6 +114,7 @@ class RunWebhookIT {
             assertEquals(3, calls.get(), "one failed attempt, then start and end");
             List<String> log = Files.readAllLines(dir.resolve("data/events.jsonl"), StandardCharsets.UTF_8);
             assertEquals(bodies, log, "event log and webhook carry the same records");
+            checkEvidence(dir.resolve("data"), start, end, log);
         } finally {
             server.stop(0);
         }

@@ -1,0 +1,83 @@
+package wayward.clip;
+
+import java.awt.BasicStroke;
+import java.awt.Color;
+import java.awt.Graphics2D;
+import java.awt.Polygon;
+import java.awt.RenderingHints;
+import java.awt.image.BufferedImage;
+import wayward.flow.FlowField;
+import wayward.image.GrayFrame;
+import wayward.picture.FlowColours;
+
+/**
+ * The picture of an event's trigger: the analysis frame (gray, shown at twice its size), the zone's outline,
+ * and an arrow per moving flow sample inside the zone, coloured by direction with the Baker et al. (2011) colour
+ * wheel. Drawn on the analysis thread at the event's start (it copies what it needs from the reused buffers);
+ * encoding and writing happen elsewhere.
+ */
+public final class Snapshot {
+    private static final int SCALE = 2;
+
+    private Snapshot() {
+    }
+
+    /**
+     * @param xs             zone corners' x as fractions of the width
+     * @param ys             zone corners' y as fractions of the height
+     * @param minStepPixels  shortest displacement drawn, analysis pixels per frame pair
+     */
+    public static BufferedImage draw(GrayFrame frame, FlowField flow, double[] xs, double[] ys, double minStepPixels) {
+        int w = frame.width;
+        int h = frame.height;
+        BufferedImage img = new BufferedImage(w * SCALE, h * SCALE, BufferedImage.TYPE_INT_RGB);
+        for (int y = 0; y < h * SCALE; y++) {
+            for (int x = 0; x < w * SCALE; x++) {
+                int g = frame.pixels[(y / SCALE) * w + x / SCALE] & 0xff;
+                img.setRGB(x, y, (g << 16) | (g << 8) | g);
+            }
+        }
+        Polygon zone = new Polygon();
+        for (int i = 0; i < xs.length; i++) {
+            zone.addPoint((int) Math.round(xs[i] * w * SCALE), (int) Math.round(ys[i] * h * SCALE));
+        }
+        Graphics2D g = img.createGraphics();
+        g.setRenderingHint(RenderingHints.KEY_ANTIALIASING, RenderingHints.VALUE_ANTIALIAS_ON);
+        g.setStroke(new BasicStroke(3f));
+        g.setColor(Color.BLACK);
+        g.drawPolygon(zone);
+        g.setStroke(new BasicStroke(1.5f));
+        g.setColor(Color.WHITE);
+        g.drawPolygon(zone);
+        double max = 1e-6;
+        for (int k = 0; k < flow.u.length; k++) {
+            max = Math.max(max, Math.hypot(flow.u[k] - flow.globalU, flow.v[k] - flow.globalV));
+        }
+        g.setStroke(new BasicStroke(1.5f));
+        // every other sample each way: arrows readable, not a solid mat
+        for (int j = 0; j < flow.height; j += 2) {
+            for (int i = 0; i < flow.width; i += 2) {
+                int k = j * flow.width + i;
+                double du = flow.u[k] - flow.globalU;
+                double dv = flow.v[k] - flow.globalV;
+                int px = flow.pixelX(i) * SCALE + SCALE / 2;
+                int py = flow.pixelY(j) * SCALE + SCALE / 2;
+                if (Math.hypot(du, dv) < minStepPixels || !zone.contains(px, py)) {
+                    continue;
+                }
+                g.setColor(new Color(FlowColours.rgb(du / max, dv / max)));
+                // arrows at twice the displacement so frame-to-frame motion is visible
+                double ex = px + 2 * SCALE * du;
+                double ey = py + 2 * SCALE * dv;
+                g.drawLine(px, py, (int) Math.round(ex), (int) Math.round(ey));
+                double a = Math.atan2(dv, du);
+                for (double side : new double[] {-0.5, 0.5}) {
+                    g.drawLine((int) Math.round(ex), (int) Math.round(ey),
+                            (int) Math.round(ex - 4 * Math.cos(a + side)), (int) Math.round(ey - 4 * Math.sin(a + side)));
+                }
+            }
+        }
+        g.dispose();
+        return img;
+    }
+}

@@ -1,0 +1,13 @@
+package wayward.config;
+
+/**
+ * The {@code [clips]} table: evidence clips by stream copy and snapshots for every motion event.
+ *
+ * @param enabled         write clips and snapshots at all
+ * @param preRollSeconds  video kept from before the event's start (from the keyframe at or before it)
+ * @param postRollSeconds video kept after the event's end
+ * @param maxSeconds      longest clip; a longer event's clip is closed there
+ */
+public record ClipConfig(boolean enabled, double preRollSeconds, double postRollSeconds, double maxSeconds) {
+    public static final ClipConfig DEFAULTS = new ClipConfig(true, 3, 4, 120);
+}
