@@ -7,7 +7,10 @@ package wayward.config;
  * @param preRollSeconds  video kept from before the event's start (from the keyframe at or before it)
  * @param postRollSeconds video kept after the event's end
  * @param maxSeconds      longest clip; a longer event's clip is closed there
+ * @param keepDays        evidence older than this is deleted
+ * @param keepGigabytes   the evidence folder is kept below this size, oldest events deleted first
  */
-public record ClipConfig(boolean enabled, double preRollSeconds, double postRollSeconds, double maxSeconds) {
-    public static final ClipConfig DEFAULTS = new ClipConfig(true, 3, 4, 120);
+public record ClipConfig(boolean enabled, double preRollSeconds, double postRollSeconds, double maxSeconds,
+        double keepDays, double keepGigabytes) {
+    public static final ClipConfig DEFAULTS = new ClipConfig(true, 3, 4, 120, 30, 20);
 }

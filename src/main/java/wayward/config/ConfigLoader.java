@@ -97,7 +97,8 @@ public final class ConfigLoader {
             Scope s = new Scope(errors, clipTable, "clips", root.inputPositionOf(List.of("clips")));
             ClipConfig d = ClipConfig.DEFAULTS;
             clips = new ClipConfig(s.bool("enabled", d.enabled()), s.number("pre_roll_seconds", d.preRollSeconds(), 0, 60),
-                    s.number("post_roll_seconds", d.postRollSeconds(), 0, 60), s.number("max_seconds", d.maxSeconds(), 5, 3600));
+                    s.number("post_roll_seconds", d.postRollSeconds(), 0, 60), s.number("max_seconds", d.maxSeconds(), 5, 3600),
+                    s.number("keep_days", d.keepDays(), 0.01, 3650), s.number("keep_gb", d.keepGigabytes(), 0.01, 100000));
             s.finish();
         }
 

@@ -30,6 +30,8 @@ public final class ConfigPrinter {
         b.append("pre_roll_seconds = ").append(num(c.clips().preRollSeconds())).append('\n');
         b.append("post_roll_seconds = ").append(num(c.clips().postRollSeconds())).append('\n');
         b.append("max_seconds = ").append(num(c.clips().maxSeconds())).append('\n');
+        b.append("keep_days = ").append(num(c.clips().keepDays())).append('\n');
+        b.append("keep_gb = ").append(num(c.clips().keepGigabytes())).append('\n');
         for (CameraConfig cam : c.cameras()) {
             b.append("\n[[camera]]\n");
             b.append("id = ").append(quote(cam.id())).append('\n');

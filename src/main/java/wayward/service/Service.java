@@ -50,6 +50,18 @@ public final class Service {
     private final List<CameraPipeline> pipelines = new ArrayList<>();
     private final CountDownLatch ended = new CountDownLatch(1);
     private wayward.clip.EvidenceWriter evidenceWriter;
+    private java.util.concurrent.ScheduledExecutorService retention;
+
+    /** Retention sweep of the evidence folder (the retention thread). */
+    private void sweep() {
+        try {
+            wayward.clip.Retention.sweep(config.dataDir().resolve("clips"),
+                    java.time.Duration.ofMinutes((long) (config.clips().keepDays() * 24 * 60)),
+                    (long) (config.clips().keepGigabytes() * 1e9), java.time.Instant.now());
+        } catch (IOException | RuntimeException e) {
+            LOG.error("retention sweep failed: {}", e.toString());
+        }
+    }
     private volatile boolean stopped;
 
     /**
@@ -84,7 +96,14 @@ public final class Service {
         if (mode != Mode.REPLAY && config.clips().enabled()) {
             evidenceWriter = new wayward.clip.EvidenceWriter();
             evidence = new CameraPipeline.Evidence(config.dataDir(), config.clips(), evidenceWriter);
-            LOG.info("evidence clips and snapshots go to {}", config.dataDir().resolve("clips"));
+            LOG.info("evidence clips and snapshots go to {} (kept {} days, at most {} GB)",
+                    config.dataDir().resolve("clips"), config.clips().keepDays(), config.clips().keepGigabytes());
+            retention = java.util.concurrent.Executors.newSingleThreadScheduledExecutor(r -> {
+                Thread t = new Thread(r, "retention");
+                t.setDaemon(true);
+                return t;
+            });
+            retention.scheduleWithFixedDelay(this::sweep, 0, 10, java.util.concurrent.TimeUnit.MINUTES);
         }
         for (CameraConfig c : cameras) {
             CameraPipeline p = new CameraPipeline(c, config.flow(), bus::publish, clock, mode == Mode.REPLAY,
@@ -166,6 +185,9 @@ public final class Service {
         }
         if (evidenceWriter != null) {
             evidenceWriter.close(5000);
+        }
+        if (retention != null) {
+            retention.shutdownNow();
         }
         bus.close(10_000);
         ended.countDown();
