@@ -89,6 +89,7 @@ public final class VideoSource implements Runnable {
     private boolean connectedOnce;
     private long lastFrameNanos;
     private volatile boolean stopping;
+    private volatile String fileFailure;
     private volatile Thread runner;
 
     // stream-time bookkeeping, capture thread only
@@ -132,6 +133,11 @@ public final class VideoSource implements Runnable {
         return decodeErrors;
     }
 
+    /** For a file that gave no frame at all: why (FFmpeg's reason); otherwise null. */
+    public String fileFailure() {
+        return fileFailure;
+    }
+
     @Override
     public void run() {
         runner = Thread.currentThread();
@@ -158,6 +164,7 @@ public final class VideoSource implements Runnable {
                     if (failure != null) {
                         LOG.error("camera {}: cannot read {}: {}", cameraId, shown, failure);
                         if (!gotFrames) {
+                            fileFailure = failure;
                             break;
                         }
                     }

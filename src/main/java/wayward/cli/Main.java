@@ -295,6 +295,11 @@ public final class Main {
             err.println();
         }
         s.stop();
+        String failure = s.pipelines().get(0).sourceFailure();
+        if (failure != null) {
+            err.println("wayward replay: --input " + input + ": cannot read it as video (" + failure + ")");
+            return NO_INPUT;
+        }
         return OK;
     }
 

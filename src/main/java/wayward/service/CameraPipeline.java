@@ -152,6 +152,11 @@ public final class CameraPipeline {
         return captureThread.isAlive() || analysisThread.isAlive();
     }
 
+    /** For a file source that gave no frame at all: why; otherwise null. */
+    public String sourceFailure() {
+        return source.fileFailure();
+    }
+
     public long analysedFrames() {
         return analysedFrames;
     }
