@@ -9,7 +9,8 @@ package wayward.capture;
  * @param analysisWidth width of the analysis frames, pixels
  * @param analysisFps   most frames per second handed to analysis
  * @param maxLoops      with loop: stop after this many passes (0 = forever)
+ * @param input         transport and webcam options
  */
 public record SourceOptions(String source, boolean loop, boolean realtime, int analysisWidth, double analysisFps,
-        int maxLoops) {
+        int maxLoops, wayward.config.CameraConfig.SourceInput input) {
 }

@@ -141,7 +141,7 @@ public final class VideoSource implements Runnable {
     @Override
     public void run() {
         runner = Thread.currentThread();
-        boolean url = wayward.config.CameraConfig.isUrl(options.source());
+        boolean url = wayward.config.CameraConfig.isLive(options.source());
         String shown = ConfigPrinter.maskUrl(options.source());
         int passes = 0;
         long backoffMillis = 500;
@@ -211,7 +211,19 @@ public final class VideoSource implements Runnable {
         // The grabber opens a decoder of its own that we never use: keep it to one thread.
         grabber.setVideoOption("threads", "1");
         if (options.source().startsWith("rtsp://") || options.source().startsWith("rtsps://")) {
-            grabber.setOption("rtsp_transport", "tcp");
+            grabber.setOption("rtsp_transport", options.input().rtspTransport());
+        }
+        if (wayward.config.CameraConfig.isDevice(options.source())) {
+            grabber.setFormat("video4linux2");
+            if (options.input().deviceSize() != null) {
+                grabber.setOption("video_size", options.input().deviceSize());
+            }
+            if (options.input().deviceFps() > 0) {
+                grabber.setOption("framerate", Double.toString(options.input().deviceFps()));
+            }
+            if (options.input().deviceFormat() != null) {
+                grabber.setOption("input_format", options.input().deviceFormat());
+            }
         }
         if (wayward.config.CameraConfig.isUrl(options.source())) {
             grabber.setOption("timeout", NETWORK_TIMEOUT_MICROS);
@@ -244,12 +256,17 @@ public final class VideoSource implements Runnable {
                 nominalFrameSeconds = (double) rate.den() / rate.num();
             }
             if (clips != null) {
-                clips.onStream(stream.codecpar(), stream.time_base());
+                if (stream.codecpar().codec_id() == org.bytedeco.ffmpeg.global.avcodec.AV_CODEC_ID_RAWVIDEO) {
+                    LOG.warn("camera {}: raw video cannot be stream-copied into MP4; no clips from this source"
+                            + " (ask the webcam for mjpeg with device_format)", cameraId);
+                } else {
+                    clips.onStream(stream.codecpar(), stream.time_base());
+                }
             }
             frame = av_frame_alloc();
             boolean keySeen = false;
             lastFrameNanos = System.nanoTime();
-            boolean network = wayward.config.CameraConfig.isUrl(options.source());
+            boolean network = wayward.config.CameraConfig.isLive(options.source());
             wallStartNanos = System.nanoTime();
             wallStartStream = Double.NaN;
             while (!stopping) {

@@ -11,22 +11,45 @@ import java.util.List;
  * @param analysisWidth width of the analysis picture in pixels; the height keeps the aspect ratio
  * @param analysisFps   most frames per second analysed; the rest are decoded and passed over
  * @param removeCameraMotion subtract the picture's dominant motion (shake) before zones are measured
+ * @param input         how to open the source (transport, webcam size/rate/format)
  * @param zones         at least one zone
  */
 public record CameraConfig(String id, String source, boolean loop, int analysisWidth, double analysisFps,
-        boolean removeCameraMotion, List<ZoneConfig> zones) {
+        boolean removeCameraMotion, SourceInput input, List<ZoneConfig> zones) {
+
+    /**
+     * Source opening options.
+     *
+     * @param rtspTransport "tcp" or "udp" (RTSP sources)
+     * @param deviceSize    "WIDTHxHEIGHT" asked of a webcam, or null for its default
+     * @param deviceFps     frame rate asked of a webcam, or 0 for its default
+     * @param deviceFormat  pixel or compression format asked of a webcam ("mjpeg", "yuyv422", ...), or null
+     */
+    public record SourceInput(String rtspTransport, String deviceSize, double deviceFps, String deviceFormat) {
+        public static final SourceInput DEFAULTS = new SourceInput("tcp", null, 0, null);
+    }
     public CameraConfig {
         zones = List.copyOf(zones);
     }
 
     /** The same camera reading another source (replay, demo). */
     public CameraConfig withSource(String newSource, boolean newLoop) {
-        return new CameraConfig(id, newSource, newLoop, analysisWidth, analysisFps, removeCameraMotion, zones);
+        return new CameraConfig(id, newSource, newLoop, analysisWidth, analysisFps, removeCameraMotion, input, zones);
     }
 
     /** True when the source is a URL rather than a file. */
     public boolean isUrl() {
         return isUrl(source);
+    }
+
+    /** A webcam device (Video4Linux2), such as /dev/video0. */
+    public static boolean isDevice(String source) {
+        return source.startsWith("/dev/video");
+    }
+
+    /** A source that runs on its own and is reconnected when it stops: a URL or a device. */
+    public static boolean isLive(String source) {
+        return isUrl(source) || isDevice(source);
     }
 
     public static boolean isUrl(String source) {

@@ -152,7 +152,11 @@ public final class ConfigLoader {
         }
         String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");
         boolean loop = s.bool("loop", false);
-        if (source != null && !CameraConfig.isUrl(source)) {
+        if (source != null && CameraConfig.isDevice(source)) {
+            if (loop) {
+                s.error("loop", true, "false for a webcam; only files can loop");
+            }
+        } else if (source != null && !CameraConfig.isUrl(source)) {
             Path p = base.resolve(source).normalize();
             if (!Files.isRegularFile(p)) {
                 s.error("source", source, "a video file that exists (looked for " + p + ") or a URL");
@@ -167,6 +171,31 @@ public final class ConfigLoader {
         }
         double fps = s.number("analysis_fps", 10, 0.5, 60);
         boolean removeCameraMotion = s.bool("remove_camera_motion", true);
+        CameraConfig.SourceInput d = CameraConfig.SourceInput.DEFAULTS;
+        String transport = s.string("rtsp_transport", d.rtspTransport(), "\"tcp\" or \"udp\"");
+        if (!transport.equals("tcp") && !transport.equals("udp")) {
+            s.error("rtsp_transport", transport, "\"tcp\" or \"udp\"");
+            transport = d.rtspTransport();
+        }
+        String deviceSize = s.string("device_size", null, "a size such as \"1280x720\"");
+        if (deviceSize != null && !deviceSize.matches("[1-9][0-9]{1,4}x[1-9][0-9]{1,4}")) {
+            s.error("device_size", deviceSize, "a size such as \"1280x720\"");
+            deviceSize = null;
+        }
+        double deviceFps = s.has("device_fps") ? s.number("device_fps", 0, 1, 240) : 0;
+        String deviceFormat = s.string("device_format", null, "a Video4Linux2 input format such as \"mjpeg\" or \"yuyv422\"");
+        if (deviceFormat != null && !deviceFormat.matches("[a-z0-9_]{2,20}")) {
+            s.error("device_format", deviceFormat, "a Video4Linux2 input format such as \"mjpeg\" or \"yuyv422\"");
+            deviceFormat = null;
+        }
+        if (source != null && !CameraConfig.isDevice(source)) {
+            for (String k : new String[] {"device_size", "device_fps", "device_format"}) {
+                if (s.raw(k) != null) {
+                    s.error(k, s.raw(k), "no such key for a source that is not a webcam (/dev/videoN)");
+                }
+            }
+        }
+        CameraConfig.SourceInput input = new CameraConfig.SourceInput(transport, deviceSize, deviceFps, deviceFormat);
         List<ZoneConfig> zones = new ArrayList<>();
         TomlArray zoneArray = s.tableArray("zone");
         if (zoneArray == null || zoneArray.size() == 0) {
@@ -189,7 +218,7 @@ public final class ConfigLoader {
         if (id == null || source == null) {
             return null;
         }
-        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, zones);
+        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones);
     }
 
     private static ZoneConfig zone(Scope z) {

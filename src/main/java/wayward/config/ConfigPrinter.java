@@ -40,6 +40,16 @@ public final class ConfigPrinter {
             b.append("analysis_width = ").append(cam.analysisWidth()).append('\n');
             b.append("analysis_fps = ").append(num(cam.analysisFps())).append('\n');
             b.append("remove_camera_motion = ").append(cam.removeCameraMotion()).append('\n');
+            b.append("rtsp_transport = ").append(quote(cam.input().rtspTransport())).append('\n');
+            if (cam.input().deviceSize() != null) {
+                b.append("device_size = ").append(quote(cam.input().deviceSize())).append('\n');
+            }
+            if (cam.input().deviceFps() > 0) {
+                b.append("device_fps = ").append(num(cam.input().deviceFps())).append('\n');
+            }
+            if (cam.input().deviceFormat() != null) {
+                b.append("device_format = ").append(quote(cam.input().deviceFormat())).append('\n');
+            }
             for (ZoneConfig z : cam.zones()) {
                 b.append("\n  [[camera.zone]]\n");
                 b.append("  id = ").append(quote(z.id())).append('\n');

@@ -83,7 +83,8 @@ public final class CameraPipeline {
         this.recorder = this.evidence == null ? null : new wayward.capture.ClipRecorder(camera.id(),
                 evidence.clips().preRollSeconds(), evidence.clips().postRollSeconds(), evidence.clips().maxSeconds());
         this.source = new VideoSource(camera.id(), new SourceOptions(camera.source(), camera.loop(), realtime,
-                camera.analysisWidth(), camera.analysisFps(), maxLoops), slot, new HealthEvents(clock), recorder);
+                camera.analysisWidth(), camera.analysisFps(), maxLoops, camera.input()), slot, new HealthEvents(clock),
+                recorder);
         this.captureThread = new Thread(() -> {
             MDC.put("camera", camera.id());
             source.run();
