@@ -49,6 +49,12 @@ public final class ClipWriter implements Runnable {
     private final BlockingQueue<AVPacket> packets;
     private final Runnable onDone;
     private volatile int written;
+    /** Clips that could not be written (disk full, no permission, ...), since start; for status and metrics. */
+    private static final java.util.concurrent.atomic.AtomicLong FAILED = new java.util.concurrent.atomic.AtomicLong();
+
+    public static long failedClips() {
+        return FAILED.get();
+    }
 
     /**
      * @param parameters copied here; the caller keeps its own
@@ -132,7 +138,13 @@ public final class ClipWriter implements Runnable {
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
         } catch (Exception e) {
-            LOG.error("clip {}: {}", file.getFileName(), e.getMessage());
+            // one line for the first failure, then only a count (a full disk would otherwise flood the log)
+            if (FAILED.incrementAndGet() == 1) {
+                LOG.error("clip {} not written: {}; alerts go on; further clip failures are only counted",
+                        file.getFileName(), e.getMessage());
+            } else {
+                LOG.debug("clip {} not written: {}", file.getFileName(), e.getMessage());
+            }
         } finally {
             try {
                 if (headerWritten) {
