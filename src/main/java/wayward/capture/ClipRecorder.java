@@ -110,7 +110,15 @@ public final class ClipRecorder {
         if (ring.isEmpty() && !key) {
             return; // the ring starts at a keyframe
         }
-        ring.addLast(new Entry(av_packet_clone(packet), seconds, key));
+        AVPacket clone = av_packet_clone(packet);
+        if (clone.pts() == org.bytedeco.ffmpeg.global.avutil.AV_NOPTS_VALUE
+                && clone.dts() == org.bytedeco.ffmpeg.global.avutil.AV_NOPTS_VALUE) {
+            // an untimed source (MJPEG over HTTP): the clip takes the stream clock
+            long ts = Math.round(seconds * timeBase.den() / (double) timeBase.num());
+            clone.pts(ts);
+            clone.dts(ts);
+        }
+        ring.addLast(new Entry(clone, seconds, key));
         trim(seconds);
         // existing clips first, so a clip begun by this packet does not get it twice
         for (Iterator<Job> it = jobs.iterator(); it.hasNext();) {
@@ -127,7 +135,7 @@ public final class ClipRecorder {
                 it.remove();
                 continue;
             }
-            if (j.startSeconds <= seconds && !handOver(j, packet)) {
+            if (j.startSeconds <= seconds && !handOver(j, ring.peekLast().packet())) {
                 it.remove();
             }
         }

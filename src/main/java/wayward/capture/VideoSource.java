@@ -90,6 +90,14 @@ public final class VideoSource implements Runnable {
     private long lastFrameNanos;
     private volatile boolean stopping;
     private volatile String fileFailure;
+    private final boolean live;
+    private long untimedStartNanos;
+    private double lastPacketSeconds = -1;
+    /** The last video packet carried no timestamp (MJPEG over HTTP). */
+    private boolean untimedStream;
+    /** A container whose timestamps FFmpeg makes up at an assumed rate (multipart JPEG over HTTP). */
+    private boolean untimedFormat;
+    private double untimedOffset;
     private volatile Thread runner;
 
     // stream-time bookkeeping, capture thread only
@@ -114,6 +122,7 @@ public final class VideoSource implements Runnable {
     /** @param clips the camera's clip recorder, or null for no clips (replay) */
     public VideoSource(String cameraId, SourceOptions options, FrameSlot slot, Health health, ClipRecorder clips) {
         this.clips = clips;
+        this.live = wayward.config.CameraConfig.isLive(options.source());
         this.cameraId = cameraId;
         this.options = options;
         this.slot = slot;
@@ -235,6 +244,9 @@ public final class VideoSource implements Runnable {
         try {
             grabber.start();
             AVFormatContext fmt = grabber.getFormatContext();
+            String formatName = fmt.iformat() != null && fmt.iformat().name() != null
+                    ? fmt.iformat().name().getString() : "";
+            untimedFormat = formatName.equals("mpjpeg") || formatName.equals("mjpeg");
             int videoIndex = av_find_best_stream(fmt, AVMEDIA_TYPE_VIDEO, -1, -1, (AVCodec) null, 0);
             if (videoIndex < 0) {
                 throw new IllegalStateException("no video stream");
@@ -264,6 +276,7 @@ public final class VideoSource implements Runnable {
                 }
             }
             frame = av_frame_alloc();
+            untimedStartNanos = 0;
             boolean keySeen = false;
             lastFrameNanos = System.nanoTime();
             boolean network = wayward.config.CameraConfig.isLive(options.source());
@@ -290,8 +303,9 @@ public final class VideoSource implements Runnable {
                         }
                         keySeen = true;
                     }
+                    double pktSeconds = packetSeconds(pkt, timeBase);
                     if (clips != null) {
-                        clips.onPacket(pkt, packetSeconds(pkt, timeBase));
+                        clips.onPacket(pkt, pktSeconds);
                     }
                     if (avcodec_send_packet(decoder, pkt) < 0) {
                         decodeErrors++;
@@ -327,6 +341,18 @@ public final class VideoSource implements Runnable {
     /** Stream time of a packet, on the same clock as the frames (their first timestamp, loop offsets). */
     private double packetSeconds(AVPacket pkt, double timeBase) {
         long ts = pkt.pts() != AV_NOPTS_VALUE ? pkt.pts() : pkt.dts();
+        untimedStream = ts == AV_NOPTS_VALUE || untimedFormat;
+        if (untimedStream && live) {
+            // untimed live source: the wall clock, strictly increasing so a clip's timestamps are too
+            long now = System.nanoTime();
+            if (untimedStartNanos == 0) {
+                untimedStartNanos = now;
+                untimedOffset = Math.max(0, lastSeconds + nominalFrameSeconds);
+            }
+            double t = Math.max(untimedOffset + (now - untimedStartNanos) / 1e9, lastPacketSeconds + 1e-3);
+            lastPacketSeconds = t;
+            return t;
+        }
         if (ts == AV_NOPTS_VALUE) {
             return Math.max(0, lastSeconds);
         }
@@ -351,7 +377,19 @@ public final class VideoSource implements Runnable {
             ts = f.pts();
         }
         double t;
-        if (ts == AV_NOPTS_VALUE) {
+        // an untimed live stream: the decoder's best-effort timestamps are guesses at an assumed rate
+        if (live && (ts == AV_NOPTS_VALUE || untimedStream)) {
+            // a live source without timestamps (MJPEG over HTTP): its clock is the wall clock
+            long now = System.nanoTime();
+            if (untimedStartNanos == 0) {
+                untimedStartNanos = now;
+                untimedOffset = Math.max(0, lastSeconds + nominalFrameSeconds);
+            }
+            t = untimedOffset + (now - untimedStartNanos) / 1e9;
+            if (t <= lastSeconds) {
+                t = lastSeconds + 1e-3;
+            }
+        } else if (ts == AV_NOPTS_VALUE) {
             t = lastSeconds < 0 ? 0 : lastSeconds + nominalFrameSeconds;
         } else {
             double raw = ts * timeBase;
