@@ -62,6 +62,8 @@ public final class ClipRecorder {
         final String eventId;
         final Path file;
         final double startSeconds;
+        /** Which part of the event's clip this is (1 = the file the event names). */
+        int part = 1;
         final ArrayBlockingQueue<AVPacket> queue = new ArrayBlockingQueue<>(QUEUE_PACKETS);
         volatile boolean done;
         double endDue = Double.POSITIVE_INFINITY;
@@ -121,22 +123,43 @@ public final class ClipRecorder {
         ring.addLast(new Entry(clone, seconds, key));
         trim(seconds);
         // existing clips first, so a clip begun by this packet does not get it twice
+        List<Job> continued = null;
         for (Iterator<Job> it = jobs.iterator(); it.hasNext();) {
             Job j = it.next();
             if (j.done) {
                 it.remove();
                 continue;
             }
-            if (seconds > j.endDue || seconds - j.startSeconds > maxSeconds) {
-                if (seconds - j.startSeconds > maxSeconds) {
-                    LOG.warn("camera {}: clip {} reached its {} s cap; closed", cameraId, j.file.getFileName(), maxSeconds);
-                }
+            if (seconds > j.endDue) {
                 j.queue.offer(ClipWriter.END);
                 it.remove();
                 continue;
             }
+            if (key && seconds - j.startSeconds >= maxSeconds) {
+                // a long event: this part closes at the keyframe, the next part starts with it
+                j.queue.offer(ClipWriter.END);
+                it.remove();
+                Job next = startWriter(j.eventId, partFile(j.file, j.part + 1), seconds);
+                if (next != null) {
+                    next.part = j.part + 1;
+                    next.endDue = j.endDue;
+                    LOG.info("camera {}: clip of event {} goes on in {}", cameraId, j.eventId, next.file.getFileName());
+                    if (continued == null) {
+                        continued = new ArrayList<>();
+                    }
+                    continued.add(next);
+                }
+                continue;
+            }
             if (j.startSeconds <= seconds && !handOver(j, ring.peekLast().packet())) {
                 it.remove();
+            }
+        }
+        if (continued != null) {
+            for (Job j : continued) {
+                if (handOver(j, ring.peekLast().packet())) {
+                    jobs.add(j);
+                }
             }
         }
         Object c;
@@ -177,11 +200,6 @@ public final class ClipRecorder {
     }
 
     private void begin(Start s) {
-        if (open.get() >= MAX_OPEN_CLIPS) {
-            LOG.error("camera {}: {} clips already being written; no clip for event {}", cameraId, MAX_OPEN_CLIPS,
-                    s.eventId());
-            return;
-        }
         // from the keyframe at or before trigger − pre-roll (or the oldest keyframe the ring holds)
         double from = s.triggerSeconds() - preRollSeconds;
         Entry first = null;
@@ -193,7 +211,10 @@ public final class ClipRecorder {
         if (first == null) {
             return;
         }
-        Job j = new Job(s.eventId(), s.file(), first.seconds());
+        Job j = startWriter(s.eventId(), s.file(), first.seconds());
+        if (j == null) {
+            return;
+        }
         boolean copying = false;
         for (Entry e : ring) {
             copying |= e == first;
@@ -201,8 +222,19 @@ public final class ClipRecorder {
                 return;
             }
         }
+        jobs.add(j);
+    }
+
+    /** A job and its writer thread, waiting for packets; null when too many clips are open. */
+    private Job startWriter(String eventId, Path file, double startSeconds) {
+        if (open.get() >= MAX_OPEN_CLIPS) {
+            LOG.error("camera {}: {} clips already being written; no clip {}", cameraId, MAX_OPEN_CLIPS,
+                    file.getFileName());
+            return null;
+        }
+        Job j = new Job(eventId, file, startSeconds);
         open.incrementAndGet();
-        Thread t = new Thread(new ClipWriter(s.file(), parameters, timeBase, j.queue, () -> {
+        Thread t = new Thread(new ClipWriter(file, parameters, timeBase, j.queue, () -> {
             j.done = true;
             open.decrementAndGet();
         }), "clip-" + cameraId);
@@ -211,7 +243,14 @@ public final class ClipRecorder {
             writers.add(t);
         }
         t.start();
-        jobs.add(j);
+        return j;
+    }
+
+    /** clip.mp4 → clip-part2.mp4 (for part 2 and on). */
+    static Path partFile(Path first, int part) {
+        String name = first.getFileName().toString();
+        String base = name.replaceAll("(-part\\d+)?\\.mp4$", "");
+        return first.resolveSibling(base + "-part" + part + ".mp4");
     }
 
     /** Hands a clone to the job's writer; false (and the clip cut short) when the writer is too far behind. */
