@@ -3,7 +3,6 @@ package wayward.cli;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.List;
@@ -18,30 +17,10 @@ import org.junit.jupiter.api.io.TempDir;
  * MP4 on its own (ffprobe, Debian's ffmpeg), together exactly the frames of one uncut clip.
  */
 class LongClipIT {
-    private static String run(String... command) throws Exception {
-        Process p = new ProcessBuilder(command).redirectErrorStream(true).start();
-        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
-        assertEquals(0, p.waitFor(), out);
-        return out.trim();
-    }
-
     @Test
     @Timeout(value = 180, unit = TimeUnit.SECONDS)
     void longEventClipContinuesInPartsCutAtKeyframes(@TempDir Path dir) throws Exception {
-        Path config = dir.resolve("site.toml");
-        Files.writeString(config, String.join("\n",
-                "[service]",
-                "data_dir = \"data\"",
-                "[clips]",
-                "max_seconds = 5",
-                "[[camera]]",
-                "id = \"yard-mast-2\"",
-                "source = \"" + ProcessRunner.projectDir().resolve("test-streams/yard-lane.mp4") + "\"",
-                "[[camera.zone]]",
-                "id = \"lane-2-out\"",
-                "polygon = [[0.31, 0.98], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]",
-                "heading_deg = 0",
-                ""));
+        Path config = YardSite.config(dir, YardSite.clip().toString(), "[clips]", "max_seconds = 5");
         ProcessRunner.Result r = ProcessRunner.run(List.of("java", "-jar", ProcessRunner.jar().toString(), "run",
                 "--config", config.toString()), dir, 150);
         assertEquals(0, r.exitCode(), r.stderr());
@@ -54,12 +33,12 @@ class LongClipIT {
         assertEquals(3, parts.size(), parts.toString());
         int frames = 0;
         for (Path p : parts) {
-            String first = run("ffprobe", "-v", "error", "-select_streams", "v:0", "-read_intervals", "%+#1",
+            String first = YardSite.command("ffprobe", "-v", "error", "-select_streams", "v:0", "-read_intervals", "%+#1",
                     "-show_entries", "packet=pts_time,flags", "-of", "csv=p=0", p.toString());
             assertTrue(first.startsWith("0.000000,K"), p + ": " + first);
-            frames += Integer.parseInt(run("ffprobe", "-v", "error", "-select_streams", "v:0", "-count_packets",
+            frames += Integer.parseInt(YardSite.command("ffprobe", "-v", "error", "-select_streams", "v:0", "-count_packets",
                     "-show_entries", "stream=nb_read_packets", "-of", "csv=p=0", p.toString()));
-            assertEquals("", run("ffmpeg", "-v", "error", "-i", p.toString(), "-f", "null", "-"), p + " decodes cleanly");
+            assertEquals("", YardSite.command("ffmpeg", "-v", "error", "-i", p.toString(), "-f", "null", "-"), p + " decodes cleanly");
         }
         assertEquals(193, frames, 1, "the parts together hold the uncut clip's frames");
         assertTrue(parts.stream().anyMatch(p -> p.getFileName().toString().endsWith("-part2.mp4"))

@@ -68,36 +68,11 @@ class MjpegHttpIT {
             }
         });
         server.start();
-        Path config = dir.resolve("site.toml");
-        Files.writeString(config, String.join("\n",
-                "[service]",
-                "data_dir = \"data\"",
-                "[[camera]]",
-                "id = \"yard-mast-2\"",
-                "source = \"http://127.0.0.1:" + server.getAddress().getPort() + "/stream.mjpg\"",
-                "[[camera.zone]]",
-                "id = \"lane-2-out\"",
-                "polygon = [[0.31, 0.98], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]",
-                "heading_deg = 0",
-                ""));
+        Path config = YardSite.config(dir, "http://127.0.0.1:" + server.getAddress().getPort() + "/stream.mjpg");
         Path log = dir.resolve("data/events.jsonl");
-        Process service = new ProcessBuilder("java", "-jar", ProcessRunner.jar().toString(), "run", "--config",
-                config.toString()).directory(dir.toFile()).redirectErrorStream(true)
-                .redirectOutput(dir.resolve("service.log").toFile()).start();
+        Process service = YardSite.startService(dir, config);
         try {
-            long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(60);
-            Map<String, Object> start = null;
-            while (start == null && System.nanoTime() < deadline) {
-                if (Files.exists(log)) {
-                    for (String line : Files.readAllLines(log, StandardCharsets.UTF_8)) {
-                        Map<String, Object> e = ReplayEndToEndTest.parse(line);
-                        if ("wrong_way".equals(e.get("kind")) && "start".equals(e.get("phase"))) {
-                            start = e;
-                        }
-                    }
-                }
-                TimeUnit.MILLISECONDS.sleep(200); // polling interval of the wait
-            }
+            Map<String, Object> start = YardSite.awaitRecord(log, "wrong_way", "start", 1, 60);
             assertTrue(start != null, "no wrong_way start; service log:\n" + Files.readString(dir.resolve("service.log")));
             // ground truth: the truck enters the zone 11.95 s into the clip (test-streams/yard-lane.truth.json);
             // wall-clock timing of an untimed stream adds the connection's start-up

@@ -10,9 +10,6 @@ import java.net.ServerSocket;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.util.ArrayList;
-import java.util.List;
-import java.util.Map;
 import java.util.concurrent.TimeUnit;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
@@ -44,36 +41,6 @@ class RtspReconnectIT {
         }
     }
 
-    /** Event phases in the log so far. */
-    private static List<Map<String, Object>> events(Path log) throws IOException {
-        List<Map<String, Object>> out = new ArrayList<>();
-        if (Files.exists(log)) {
-            for (String line : Files.readAllLines(log, StandardCharsets.UTF_8)) {
-                if (line.endsWith("}")) {
-                    out.add(ReplayEndToEndTest.parse(line));
-                }
-            }
-        }
-        return out;
-    }
-
-    /** Waits (polling the event log) until the n-th event of a kind is there; returns its index in the log. */
-    private static int awaitEvent(Path log, String kind, String phase, int n, long timeoutSeconds) throws Exception {
-        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(timeoutSeconds);
-        while (System.nanoTime() < deadline) {
-            List<Map<String, Object>> ev = events(log);
-            int seen = 0;
-            for (int i = 0; i < ev.size(); i++) {
-                if (kind.equals(ev.get(i).get("kind")) && phase.equals(ev.get(i).get("phase")) && ++seen == n) {
-                    return i;
-                }
-            }
-            TimeUnit.MILLISECONDS.sleep(200); // polling interval of the wait, not a synchronisation sleep
-        }
-        throw new AssertionError("no " + kind + " " + phase + " #" + n + " within " + timeoutSeconds + " s; log: "
-                + events(log));
-    }
-
     private static int threads(long pid) throws IOException {
         return (int) status(pid, "Threads:");
     }
@@ -93,35 +60,22 @@ class RtspReconnectIT {
     void survivesServerRestartsWithLostAndBackEvents(@TempDir Path dir) throws Exception {
         int port = freePort();
         server = startServer(port);
-        Path config = dir.resolve("site.toml");
-        Files.writeString(config, String.join("\n",
-                "[service]",
-                "data_dir = \"data\"",
-                "[[camera]]",
-                "id = \"yard-mast-2\"",
-                "source = \"rtsp://127.0.0.1:" + port + "/clip\"",
-                "[[camera.zone]]",
-                "id = \"lane-2-out\"",
-                "polygon = [[0.31, 0.98], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]",
-                "heading_deg = 0",
-                ""));
+        Path config = YardSite.config(dir, "rtsp://127.0.0.1:" + port + "/clip");
         Path log = dir.resolve("data/events.jsonl");
-        Process service = new ProcessBuilder("java", "-jar", ProcessRunner.jar().toString(), "run", "--config",
-                config.toString()).directory(dir.toFile()).redirectErrorStream(true)
-                .redirectOutput(dir.resolve("service.log").toFile()).start();
+        Process service = YardSite.startService(dir, config);
         try {
             // ground truth of the clip: the wrong-way truck's start comes about 12.3 s into each pass
-            awaitEvent(log, "wrong_way", "start", 1, 60);
+            YardSite.awaitEvent(log, "wrong_way", "start", 1, 60);
             int threadsBefore = threads(service.pid());
             long rssBefore = status(service.pid(), "VmRSS:");
             for (int cycle = 1; cycle <= 2; cycle++) {
                 server.destroyForcibly().waitFor();
-                int lostAt = awaitEvent(log, "camera_lost", "start", cycle, 30);
+                int lostAt = YardSite.awaitEvent(log, "camera_lost", "start", cycle, 30);
                 server = startServer(port);
-                int backAt = awaitEvent(log, "camera_back", "end", cycle, 60);
+                int backAt = YardSite.awaitEvent(log, "camera_back", "end", cycle, 60);
                 assertTrue(backAt > lostAt);
-                assertEquals(events(log).get(lostAt).get("id"), events(log).get(backAt).get("id"), "one outage, one id");
-                int wrongWay = awaitEvent(log, "wrong_way", "start", cycle + 1, 60);
+                assertEquals(YardSite.events(log).get(lostAt).get("id"), YardSite.events(log).get(backAt).get("id"), "one outage, one id");
+                int wrongWay = YardSite.awaitEvent(log, "wrong_way", "start", cycle + 1, 60);
                 assertTrue(wrongWay > backAt, "analysis resumed after the camera came back");
             }
             int threadsAfter = threads(service.pid());

@@ -23,13 +23,6 @@ import org.junit.jupiter.api.io.TempDir;
  * the evidence clip, checked with ffprobe (Debian's ffmpeg), its snapshot and its sidecar.
  */
 class RunWebhookIT {
-    private static String run(String... command) throws Exception {
-        Process p = new ProcessBuilder(command).redirectErrorStream(true).start();
-        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
-        assertEquals(0, p.waitFor(), out);
-        return out.trim();
-    }
-
     private static void checkEvidence(Path data, Map<String, Object> start, Map<String, Object> end, List<String> log)
             throws Exception {
         assertEquals(start.get("clip"), end.get("clip"), "both phases name the same clip");
@@ -37,19 +30,19 @@ class RunWebhookIT {
         Path snapshot = data.resolve((String) end.get("snapshot"));
         assertTrue(Files.isRegularFile(clip), clip.toString());
         // ffprobe: the first packet is a keyframe at pts 0
-        String first = run("ffprobe", "-v", "error", "-select_streams", "v:0", "-read_intervals", "%+#1",
+        String first = YardSite.command("ffprobe", "-v", "error", "-select_streams", "v:0", "-read_intervals", "%+#1",
                 "-show_entries", "packet=pts_time,flags", "-of", "csv=p=0", clip.toString());
         assertTrue(first.startsWith("0.000000,K"), first);
-        double duration = Double.parseDouble(run("ffprobe", "-v", "error", "-show_entries", "format=duration",
+        double duration = Double.parseDouble(YardSite.command("ffprobe", "-v", "error", "-show_entries", "format=duration",
                 "-of", "csv=p=0", clip.toString()));
-        int packets = Integer.parseInt(run("ffprobe", "-v", "error", "-select_streams", "v:0", "-count_packets",
+        int packets = Integer.parseInt(YardSite.command("ffprobe", "-v", "error", "-select_streams", "v:0", "-count_packets",
                 "-show_entries", "stream=nb_read_packets", "-of", "csv=p=0", clip.toString()));
         // from the keyframe at or before start − 3 s pre-roll to end + 4 s post-roll; the clip's GOP is 2 s
         // (test-streams/yard-lane.scene.toml: 15 fps, keyframe every 30 frames)
         double span = (Double) end.get("stream_s") + 4 - ((Double) start.get("stream_s") - 3);
         assertTrue(duration >= span && duration <= span + 2.0, "clip " + duration + " s for a span of " + span + " s");
         assertEquals(duration * 15, packets, 1.5, "frame count matches the source's 15 fps over the clip");
-        assertEquals("", run("ffmpeg", "-v", "error", "-i", clip.toString(), "-f", "null", "-"), "decodes cleanly");
+        assertEquals("", YardSite.command("ffmpeg", "-v", "error", "-i", clip.toString(), "-f", "null", "-"), "decodes cleanly");
         java.awt.image.BufferedImage jpg = javax.imageio.ImageIO.read(snapshot.toFile());
         assertEquals(640, jpg.getWidth());
         int coloured = 0;
@@ -86,22 +79,8 @@ class RunWebhookIT {
         });
         server.start();
         try {
-            Path clip = ProcessRunner.projectDir().resolve("test-streams/yard-lane.mp4");
-            Path config = dir.resolve("site.toml");
-            Files.writeString(config, String.join("\n",
-                    "[service]",
-                    "data_dir = \"data\"",
-                    "[[camera]]",
-                    "id = \"yard-mast-2\"",
-                    "source = \"" + clip + "\"",
-                    "[[camera.zone]]",
-                    "id = \"lane-2-out\"",
-                    "polygon = [[0.31, 0.98], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]",
-                    "heading_deg = 0",
-                    "[[webhook]]",
-                    "url = \"http://127.0.0.1:" + server.getAddress().getPort() + "/hook\"",
-                    "retries = 3",
-                    ""));
+            Path config = YardSite.config(dir, YardSite.clip().toString(),
+                    "[[webhook]]", "url = \"http://127.0.0.1:" + server.getAddress().getPort() + "/hook\"", "retries = 3");
             ProcessRunner.Result r = ProcessRunner.run(List.of("java", "-jar", ProcessRunner.jar().toString(),
                     "run", "--config", config.toString()), dir, 150);
             assertEquals(0, r.exitCode(), r.stderr());
