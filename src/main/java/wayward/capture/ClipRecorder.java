@@ -32,6 +32,8 @@ import wayward.clip.ClipWriter;
 public final class ClipRecorder {
     private static final Logger LOG = LoggerFactory.getLogger(ClipRecorder.class);
     private static final int QUEUE_PACKETS = 20_000;
+    /** About 20 s of 15 fps raw video: at 640×480 YUYV some 180 MB at worst. */
+    private static final int RAW_QUEUE_PACKETS = 300;
     private static final int MAX_RING_PACKETS = 5_000;
     private static final int MAX_OPEN_CLIPS = 8;
 
@@ -48,6 +50,9 @@ public final class ClipRecorder {
     private final List<Job> jobs = new ArrayList<>();
     private AVCodecParameters parameters;
     private AVRational timeBase;
+    private double framesPerSecond = 15;
+    /** Raw video: each packet is a whole picture, so a writer's queue is kept short (memory). */
+    private int queuePackets = QUEUE_PACKETS;
 
     private record Entry(AVPacket packet, double seconds, boolean key) {
     }
@@ -64,11 +69,12 @@ public final class ClipRecorder {
         final double startSeconds;
         /** Which part of the event's clip this is (1 = the file the event names). */
         int part = 1;
-        final ArrayBlockingQueue<AVPacket> queue = new ArrayBlockingQueue<>(QUEUE_PACKETS);
+        final ArrayBlockingQueue<AVPacket> queue;
         volatile boolean done;
         double endDue = Double.POSITIVE_INFINITY;
 
-        Job(String eventId, Path file, double startSeconds) {
+        Job(String eventId, Path file, double startSeconds, int capacity) {
+            this.queue = new ArrayBlockingQueue<>(capacity);
             this.eventId = eventId;
             this.file = file;
             this.startSeconds = startSeconds;
@@ -93,7 +99,10 @@ public final class ClipRecorder {
     }
 
     /** Capture thread: a (new) video stream was opened; earlier packets' timestamps no longer apply. */
-    void onStream(AVCodecParameters codecParameters, AVRational streamTimeBase) {
+    void onStream(AVCodecParameters codecParameters, AVRational streamTimeBase, double streamFramesPerSecond) {
+        framesPerSecond = streamFramesPerSecond;
+        queuePackets = codecParameters.codec_id() == org.bytedeco.ffmpeg.global.avcodec.AV_CODEC_ID_RAWVIDEO
+                ? RAW_QUEUE_PACKETS : QUEUE_PACKETS;
         endAll("the stream was reopened");
         clearRing();
         if (parameters == null) {
@@ -232,9 +241,9 @@ public final class ClipRecorder {
                     file.getFileName());
             return null;
         }
-        Job j = new Job(eventId, file, startSeconds);
+        Job j = new Job(eventId, file, startSeconds, queuePackets);
         open.incrementAndGet();
-        Thread t = new Thread(new ClipWriter(file, parameters, timeBase, j.queue, () -> {
+        Thread t = new Thread(new ClipWriter(file, parameters, timeBase, framesPerSecond, j.queue, () -> {
             j.done = true;
             open.decrementAndGet();
         }), "clip-" + cameraId);

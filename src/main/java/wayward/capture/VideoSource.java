@@ -269,11 +269,10 @@ public final class VideoSource implements Runnable {
             }
             if (clips != null) {
                 if (stream.codecpar().codec_id() == org.bytedeco.ffmpeg.global.avcodec.AV_CODEC_ID_RAWVIDEO) {
-                    LOG.warn("camera {}: raw video cannot be stream-copied into MP4; no clips from this source"
-                            + " (ask the webcam for mjpeg with device_format)", cameraId);
-                } else {
-                    clips.onStream(stream.codecpar(), stream.time_base());
+                    LOG.info("camera {}: raw video; clips are encoded with libopenh264 (device_format = \"mjpeg\""
+                            + " costs less CPU)", cameraId);
                 }
+                clips.onStream(stream.codecpar(), stream.time_base(), 1.0 / nominalFrameSeconds);
             }
             frame = av_frame_alloc();
             untimedStartNanos = 0;

@@ -48,6 +48,7 @@ public final class ClipWriter implements Runnable {
     private final int timeBaseDen;
     private final BlockingQueue<AVPacket> packets;
     private final Runnable onDone;
+    private final double framesPerSecond;
     private volatile int written;
     /** Clips that could not be written (disk full, no permission, ...), since start; for status and metrics. */
     private static final java.util.concurrent.atomic.AtomicLong FAILED = new java.util.concurrent.atomic.AtomicLong();
@@ -63,6 +64,16 @@ public final class ClipWriter implements Runnable {
      */
     public ClipWriter(Path file, AVCodecParameters parameters, AVRational timeBase, BlockingQueue<AVPacket> packets,
             Runnable onDone) {
+        this(file, parameters, timeBase, 15, packets, onDone);
+    }
+
+    /**
+     * @param framesPerSecond the stream's nominal rate; used only when raw video must be encoded (MP4 cannot
+     *                        hold raw video: such clips are encoded with the FFmpeg build's libopenh264)
+     */
+    public ClipWriter(Path file, AVCodecParameters parameters, AVRational timeBase, double framesPerSecond,
+            BlockingQueue<AVPacket> packets, Runnable onDone) {
+        this.framesPerSecond = framesPerSecond > 0 && framesPerSecond < 240 ? framesPerSecond : 15;
         this.file = file;
         this.parameters = org.bytedeco.ffmpeg.global.avcodec.avcodec_parameters_alloc();
         avcodec_parameters_copy(this.parameters, parameters);
@@ -78,6 +89,10 @@ public final class ClipWriter implements Runnable {
 
     @Override
     public void run() {
+        if (parameters.codec_id() == org.bytedeco.ffmpeg.global.avcodec.AV_CODEC_ID_RAWVIDEO) {
+            runEncoding();
+            return;
+        }
         AVFormatContext oc = new AVFormatContext(null);
         boolean headerWritten = false;
         boolean opened = false;
@@ -157,6 +172,81 @@ public final class ClipWriter implements Runnable {
                 avcodec_parameters_free(parameters);
                 drain();
                 if (headerWritten && written > 0) {
+                    Files.move(Path.of(temp), file, java.nio.file.StandardCopyOption.ATOMIC_MOVE);
+                } else {
+                    Files.deleteIfExists(Path.of(temp));
+                }
+            } catch (Exception e) {
+                LOG.error("clip {}: cannot finish: {}", file.getFileName(), e.getMessage());
+            }
+            onDone.run();
+        }
+    }
+
+    /** Raw video (a webcam without compression): encode the frames with libopenh264 into the MP4. */
+    private void runEncoding() {
+        String temp = file + ".part";
+        int w = parameters.width();
+        int h = parameters.height();
+        int format = parameters.format();
+        boolean complete = false;
+        try {
+            Files.createDirectories(file.getParent());
+            try (org.bytedeco.javacv.FFmpegFrameRecorder rec = new org.bytedeco.javacv.FFmpegFrameRecorder(temp, w, h, 0)) {
+                rec.setFormat("mp4");
+                rec.setVideoCodecName("libopenh264");
+                rec.setFrameRate(framesPerSecond);
+                rec.setGopSize((int) Math.round(2 * framesPerSecond));
+                rec.setVideoBitrate(2_000_000);
+                rec.setPixelFormat(org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV420P);
+                rec.setVideoOption("threads", "1");
+                rec.start();
+                long offset = AV_NOPTS_VALUE;
+                double secondsPerTick = (double) timeBaseNum / timeBaseDen;
+                try {
+                    while (true) {
+                        AVPacket p = packets.poll(30, TimeUnit.SECONDS);
+                        if (p == null || p == END) {
+                            break;
+                        }
+                        try {
+                            long ts = p.pts() != AV_NOPTS_VALUE ? p.pts() : p.dts();
+                            int size = p.size();
+                            if (ts == AV_NOPTS_VALUE || size <= 0 || size % (w * h) != 0) {
+                                continue; // only packed formats (YUYV, RGB, gray): whole bytes per pixel
+                            }
+                            if (offset == AV_NOPTS_VALUE) {
+                                offset = ts;
+                            }
+                            long micros = Math.round((ts - offset) * secondsPerTick * 1e6);
+                            if (micros > rec.getTimestamp()) {
+                                rec.setTimestamp(micros);
+                            }
+                            int channels = size / (w * h);
+                            java.nio.ByteBuffer data = p.data().capacity(size).asByteBuffer();
+                            rec.recordImage(w, h, org.bytedeco.javacv.Frame.DEPTH_UBYTE, channels, w * channels, format, data);
+                            written++;
+                        } finally {
+                            av_packet_free(p);
+                        }
+                    }
+                } finally {
+                    rec.stop(); // writes the trailer
+                }
+            }
+            complete = written > 0;
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        } catch (Exception e) {
+            if (FAILED.incrementAndGet() == 1) {
+                LOG.error("clip {} not written: {}; alerts go on; further clip failures are only counted",
+                        file.getFileName(), e.getMessage());
+            }
+        } finally {
+            try {
+                avcodec_parameters_free(parameters);
+                drain();
+                if (complete) {
                     Files.move(Path.of(temp), file, java.nio.file.StandardCopyOption.ATOMIC_MOVE);
                 } else {
                     Files.deleteIfExists(Path.of(temp));
