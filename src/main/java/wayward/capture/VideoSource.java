@@ -340,7 +340,9 @@ public final class VideoSource implements Runnable {
     /** Stream time of a packet, on the same clock as the frames (their first timestamp, loop offsets). */
     private double packetSeconds(AVPacket pkt, double timeBase) {
         long ts = pkt.pts() != AV_NOPTS_VALUE ? pkt.pts() : pkt.dts();
-        untimedStream = ts == AV_NOPTS_VALUE || untimedFormat;
+        // only a container without real timestamps switches to the wall clock; a single untimed packet (the
+        // first RTP packet often has none) does not
+        untimedStream = untimedFormat;
         if (untimedStream && live) {
             // untimed live source: the wall clock, strictly increasing so a clip's timestamps are too
             long now = System.nanoTime();
@@ -377,7 +379,7 @@ public final class VideoSource implements Runnable {
         }
         double t;
         // an untimed live stream: the decoder's best-effort timestamps are guesses at an assumed rate
-        if (live && (ts == AV_NOPTS_VALUE || untimedStream)) {
+        if (live && untimedStream) {
             // a live source without timestamps (MJPEG over HTTP): its clock is the wall clock
             long now = System.nanoTime();
             if (untimedStartNanos == 0) {
@@ -410,7 +412,8 @@ public final class VideoSource implements Runnable {
             lost = false;
             health.back(t);
         }
-        if (options.realtime()) {
+        if (options.realtime() && !live) {
+            // a file played as a camera; a live source is paced by the camera itself
             pace(t);
         }
         double interval = 1.0 / options.analysisFps();

@@ -115,6 +115,10 @@ public final class ClipWriter implements Runnable {
             AVRational out = os.time_base();
             long offset = AV_NOPTS_VALUE;
             long lastDts = Long.MIN_VALUE;
+            long lastStep = 0;
+            // a gap of more than 10 s between two packets is a jump, not a pause in the picture
+            long jumpTicks = Math.max(1, 10L * timeBaseDen / Math.max(1, timeBaseNum));
+            boolean spliced = false;
             while (true) {
                 AVPacket p = packets.poll(30, TimeUnit.SECONDS);
                 if (p == null) {
@@ -133,11 +137,20 @@ public final class ClipWriter implements Runnable {
                         offset = dts;
                     }
                     long rebasedDts = dts - offset;
-                    if (rebasedDts <= lastDts) {
-                        // a timestamp jump (loop, reconnect): the muxer would refuse the rest; end the clip here
-                        LOG.info("clip {}: timestamps jump back; clip ends there", file.getFileName());
-                        drain();
-                        break;
+                    boolean forwardJump = lastDts != Long.MIN_VALUE && rebasedDts - lastDts > jumpTicks;
+                    if (rebasedDts <= lastDts || forwardJump) {
+                        // a timestamp jump (loop, reconnect, concatenated recording): splice the clip on one
+                        // frame after the last packet, so the muxer gets rising timestamps
+                        long step = lastStep > 0 ? lastStep : 1;
+                        offset += rebasedDts - (lastDts + step);
+                        rebasedDts = lastDts + step;
+                        if (!spliced) {
+                            LOG.info("clip {}: timestamps jump; spliced", file.getFileName());
+                            spliced = true;
+                        }
+                    }
+                    if (lastDts != Long.MIN_VALUE) {
+                        lastStep = rebasedDts - lastDts;
                     }
                     lastDts = rebasedDts;
                     p.dts(rebasedDts);

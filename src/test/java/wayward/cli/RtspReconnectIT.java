@@ -86,6 +86,10 @@ class RtspReconnectIT {
             // settling
             assertTrue(rssAfter - rssBefore < 60_000, "resident memory grew from " + rssBefore + " kB to " + rssAfter
                     + " kB over two restarts");
+        } catch (AssertionError e) {
+            // the service's own account of what happened, for the report
+            System.out.println(Files.readString(dir.resolve("service.log")));
+            throw e;
         } finally {
             service.destroy(); // SIGTERM: orderly shutdown
             if (!service.waitFor(30, TimeUnit.SECONDS)) {
@@ -94,5 +98,22 @@ class RtspReconnectIT {
             server.destroyForcibly();
         }
         assertTrue(Files.readString(dir.resolve("service.log")).contains("stopped"), "orderly shutdown logged");
+        // every wrong-way event's clip is playable, cut short or not by the server's death: a keyframe at pts 0,
+        // the pre-roll in it, and a clean decode (ffprobe and ffmpeg, Debian)
+        int clips = 0;
+        for (java.util.Map<String, Object> e : YardSite.events(log)) {
+            if ("wrong_way".equals(e.get("kind")) && "start".equals(e.get("phase"))) {
+                Path clip = dir.resolve("data").resolve((String) e.get("clip"));
+                String first = YardSite.command("ffprobe", "-v", "error", "-select_streams", "v:0", "-read_intervals",
+                        "%+#1", "-show_entries", "packet=pts_time,flags", "-of", "csv=p=0", clip.toString());
+                assertTrue(first.startsWith("0.000000,K"), clip + ": " + first);
+                double duration = Double.parseDouble(YardSite.command("ffprobe", "-v", "error", "-show_entries",
+                        "format=duration", "-of", "csv=p=0", clip.toString()));
+                assertTrue(duration >= 3, clip + ": " + duration + " s, less than the 3 s pre-roll");
+                assertEquals("", YardSite.command("ffmpeg", "-v", "error", "-i", clip.toString(), "-f", "null", "-"));
+                clips++;
+            }
+        }
+        assertEquals(3, clips, "one clip per wrong-way event");
     }
 }
