@@ -135,9 +135,26 @@ public final class ConfigLoader {
                 }
                 double timeout = s.number("timeout_seconds", 5.0, 0.1, 300);
                 int retries = s.integer("retries", 3, 0, 100);
+                String secretFile = s.string("secret_file", null, "a file holding the signing secret");
+                byte[] secret = null;
+                if (secretFile != null) {
+                    Path p = base.resolve(secretFile).normalize();
+                    try {
+                        // the file's content, without a trailing line break, is the secret
+                        String text = Files.readString(p).replaceAll("[\\r\\n]+$", "");
+                        if (text.isEmpty()) {
+                            s.error("secret_file", secretFile, "a file holding a non-empty secret (" + p + " is empty)");
+                        } else {
+                            secret = text.getBytes(java.nio.charset.StandardCharsets.UTF_8);
+                        }
+                    } catch (IOException e) {
+                        s.error("secret_file", secretFile, "a readable file holding the signing secret (" + p
+                                + ": " + (e instanceof NoSuchFileException ? "not found" : e.getMessage()) + ")");
+                    }
+                }
                 s.finish();
                 if (url != null) {
-                    webhooks.add(new WebhookConfig(url, timeout, retries));
+                    webhooks.add(new WebhookConfig(url, timeout, retries, secretFile, secret));
                 }
             }
         }

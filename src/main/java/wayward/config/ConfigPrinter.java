@@ -80,6 +80,9 @@ public final class ConfigPrinter {
             b.append("url = ").append(quote(maskUrl(w.url()))).append('\n');
             b.append("timeout_seconds = ").append(num(w.timeoutSeconds())).append('\n');
             b.append("retries = ").append(w.retries()).append('\n');
+            if (w.secretFile() != null) {
+                b.append("secret_file = ").append(quote(w.secretFile())).append("   # the secret itself is never printed\n");
+            }
         }
         return b.toString();
     }

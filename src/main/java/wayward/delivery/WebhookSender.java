@@ -57,6 +57,7 @@ public final class WebhookSender implements EventSink {
     private final EventLoopGroup group;
     private final SslContext ssl;
     private final long baseBackoffMillis;
+    private final WebhookSignature signature;
 
     /** Outcome of one attempt. */
     private enum Outcome { DELIVERED, REFUSED, RETRY }
@@ -71,6 +72,7 @@ public final class WebhookSender implements EventSink {
         this.uri = URI.create(config.url());
         this.shownUrl = ConfigPrinter.maskUrl(config.url());
         this.baseBackoffMillis = baseBackoffMillis;
+        this.signature = config.secret() != null ? new WebhookSignature(config.secret()) : null;
         this.group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("webhook", true),
                 NioIoHandler.newFactory());
         try {
@@ -185,6 +187,12 @@ public final class WebhookSender implements EventSink {
         req.headers().set(HttpHeaderNames.CONNECTION, HttpHeaderValues.CLOSE);
         req.headers().set(HttpHeaderNames.USER_AGENT, "wayward");
         req.headers().set(EVENT_ID_HEADER, eventId);
+        if (signature != null) {
+            // signed per attempt: the timestamp is the sending time, so a receiver can refuse stale replays
+            long now = System.currentTimeMillis() / 1000;
+            req.headers().set(WebhookSignature.TIMESTAMP_HEADER, Long.toString(now));
+            req.headers().set(WebhookSignature.SIGNATURE_HEADER, signature.sign(now, body));
+        }
         Channel ch = null;
         try {
             io.netty.channel.ChannelFuture connect = b.connect(host, port);

@@ -53,6 +53,24 @@ class ConfigLoaderTest {
     }
 
     @Test
+    void missingSecretFileIsALocatedErrorAndTheSecretIsNeverPrinted(@TempDir Path dir) throws Exception {
+        Path f = dir.resolve("site.toml");
+        String camera = String.join("\n", "[[camera]]", "id = \"gate\"", "source = \"rtsp://cam.yard.example/s\"",
+                "[[camera.zone]]", "id = \"lane\"", "polygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]", "");
+        Files.writeString(f, camera + "[[webhook]]\nurl = \"https://ops.yard.example/hook\"\nsecret_file = \"hook.secret\"\n");
+        ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.load(f));
+        assertEquals(List.of(f + ":9:1: webhook[0].secret_file: \"hook.secret\" (expected a readable file holding the "
+                + "signing secret (" + dir.resolve("hook.secret") + ": not found))"), e.errors());
+        Files.writeString(dir.resolve("hook.secret"), "s3cret-value\n");
+        SiteConfig c = ConfigLoader.load(f);
+        assertEquals("s3cret-value", new String(c.webhooks().get(0).secret(), java.nio.charset.StandardCharsets.UTF_8));
+        String printed = ConfigPrinter.toToml(c);
+        assertFalse(printed.contains("s3cret-value"), printed);
+        assertTrue(printed.contains("secret_file = \"hook.secret\""), printed);
+        assertFalse(c.webhooks().get(0).toString().contains("s3cret"), "toString hides the secret");
+    }
+
+    @Test
     void reportsAllMistakesAtOnceInFileOrder() {
         assertEquals(List.of(
                 DIR + "three-mistakes.toml:5:1: camera[0].analysis_width: \"wide\" (expected a whole number from 32 to 1920)",

@@ -29,6 +29,8 @@ class WebhookSenderTest {
     private final List<String> bodies = new CopyOnWriteArrayList<>();
     private final List<String> ids = new CopyOnWriteArrayList<>();
     private final AtomicInteger calls = new AtomicInteger();
+    private final List<String> signatures = new CopyOnWriteArrayList<>();
+    private final List<String> timestamps = new CopyOnWriteArrayList<>();
 
     private static final Event EVENT = new Event("7d1c", "yard-mast-2", "lane-2-out", EventKind.WRONG_WAY,
             Event.Phase.START, 12.3, Instant.parse("2026-12-02T10:00:00Z"), 180, 45, 0.04, Double.NaN);
@@ -40,6 +42,10 @@ class WebhookSenderTest {
             int n = calls.getAndIncrement();
             bodies.add(new String(exchange.getRequestBody().readAllBytes(), StandardCharsets.UTF_8));
             ids.add(exchange.getRequestHeaders().getFirst(WebhookSender.EVENT_ID_HEADER));
+            String sig = exchange.getRequestHeaders().getFirst(WebhookSignature.SIGNATURE_HEADER);
+            String ts = exchange.getRequestHeaders().getFirst(WebhookSignature.TIMESTAMP_HEADER);
+            signatures.add(sig == null ? "" : sig);
+            timestamps.add(ts == null ? "" : ts);
             int status = statuses[Math.min(n, statuses.length - 1)];
             byte[] answer = "ok".getBytes(StandardCharsets.UTF_8);
             exchange.sendResponseHeaders(status, answer.length);
@@ -66,6 +72,35 @@ class WebhookSenderTest {
         assertEquals(2, calls.get());
         assertEquals(EventJson.toJson(EVENT), bodies.get(1));
         assertEquals("7d1c", ids.get(1));
+    }
+
+    @Test
+    void signedPostsVerifyWithTheSharedSecret() throws Exception {
+        String url = receiver(200);
+        byte[] secret = "yard-hook-secret".getBytes(StandardCharsets.UTF_8);
+        try (WebhookSender s = new WebhookSender(new WebhookConfig(url, 5, 0, "hook.secret", secret), 10)) {
+            s.deliver(EVENT);
+        }
+        // the receiver's check, written as the README describes it, with the JDK's javax.crypto directly
+        javax.crypto.Mac mac = javax.crypto.Mac.getInstance("HmacSHA256");
+        mac.init(new javax.crypto.spec.SecretKeySpec(secret, "HmacSHA256"));
+        byte[] expected = mac.doFinal((timestamps.get(0) + "." + bodies.get(0)).getBytes(StandardCharsets.UTF_8));
+        StringBuilder hex = new StringBuilder("sha256=");
+        for (byte b : expected) {
+            hex.append(String.format("%02x", b));
+        }
+        assertEquals(hex.toString(), signatures.get(0));
+        long age = System.currentTimeMillis() / 1000 - Long.parseLong(timestamps.get(0));
+        org.junit.jupiter.api.Assertions.assertTrue(age >= 0 && age < 60, "timestamp age " + age + " s");
+    }
+
+    @Test
+    void unsignedWithoutASecret() throws Exception {
+        String url = receiver(200);
+        try (WebhookSender s = new WebhookSender(new WebhookConfig(url, 5, 0), 10)) {
+            s.deliver(EVENT);
+        }
+        assertEquals("", signatures.get(0));
     }
 
     @Test
