@@ -166,33 +166,16 @@ public final class ClipWriter implements Runnable {
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
         } catch (Exception e) {
-            // one line for the first failure, then only a count (a full disk would otherwise flood the log)
-            if (FAILED.incrementAndGet() == 1) {
-                LOG.error("clip {} not written: {}; alerts go on; further clip failures are only counted",
-                        file.getFileName(), e.getMessage());
-            } else {
-                LOG.debug("clip {} not written: {}", file.getFileName(), e.getMessage());
-            }
+            failed(e);
         } finally {
-            try {
-                if (headerWritten) {
-                    av_write_trailer(oc); // without it (no moov atom) the clip does not play
-                }
-                if (opened) {
-                    avio_closep(oc.pb());
-                }
-                avformat_free_context(oc);
-                avcodec_parameters_free(parameters);
-                drain();
-                if (headerWritten && written > 0) {
-                    Files.move(Path.of(temp), file, java.nio.file.StandardCopyOption.ATOMIC_MOVE);
-                } else {
-                    Files.deleteIfExists(Path.of(temp));
-                }
-            } catch (Exception e) {
-                LOG.error("clip {}: cannot finish: {}", file.getFileName(), e.getMessage());
+            if (headerWritten) {
+                av_write_trailer(oc); // without it (no moov atom) the clip does not play
             }
-            onDone.run();
+            if (opened) {
+                avio_closep(oc.pb());
+            }
+            avformat_free_context(oc);
+            finish(temp, headerWritten && written > 0);
         }
     }
 
@@ -251,24 +234,36 @@ public final class ClipWriter implements Runnable {
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
         } catch (Exception e) {
-            if (FAILED.incrementAndGet() == 1) {
-                LOG.error("clip {} not written: {}; alerts go on; further clip failures are only counted",
-                        file.getFileName(), e.getMessage());
-            }
+            failed(e);
         } finally {
-            try {
-                avcodec_parameters_free(parameters);
-                drain();
-                if (complete) {
-                    Files.move(Path.of(temp), file, java.nio.file.StandardCopyOption.ATOMIC_MOVE);
-                } else {
-                    Files.deleteIfExists(Path.of(temp));
-                }
-            } catch (Exception e) {
-                LOG.error("clip {}: cannot finish: {}", file.getFileName(), e.getMessage());
-            }
-            onDone.run();
+            finish(temp, complete);
         }
+    }
+
+    /** Counts a clip that could not be written; logs only the first, so a full disk does not flood the log. */
+    private void failed(Exception e) {
+        if (FAILED.incrementAndGet() == 1) {
+            LOG.error("clip {} not written: {}; alerts go on; further clip failures are only counted",
+                    file.getFileName(), e.getMessage());
+        } else {
+            LOG.debug("clip {} not written: {}", file.getFileName(), e.getMessage());
+        }
+    }
+
+    /** Frees the parameters and any queued packets, puts a complete file in place (or removes it), reports. */
+    private void finish(String temp, boolean complete) {
+        try {
+            avcodec_parameters_free(parameters);
+            drain();
+            if (complete) {
+                Files.move(Path.of(temp), file, java.nio.file.StandardCopyOption.ATOMIC_MOVE);
+            } else {
+                Files.deleteIfExists(Path.of(temp));
+            }
+        } catch (Exception e) {
+            LOG.error("clip {}: cannot finish: {}", file.getFileName(), e.getMessage());
+        }
+        onDone.run();
     }
 
     /** Frees whatever is still queued. */
