@@ -19,12 +19,10 @@ package wayward.flow;
  * owned by this instance ({@link #close()} stops it). Not thread-safe otherwise: one instance per analysis
  * thread. No I/O, no logging.
  */
-public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
+public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     /** A step below this (pixels², squared length) ends the iterations of a point. */
     private static final float CONVERGED_STEP2 = 2.5e-3f;
 
-    private final int width;
-    private final int height;
     private final int levelCount;
     private final int iterations;
     private final int finestIterations;
@@ -47,9 +45,6 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
     private final float[][] initColWeight;
     private final int[][] initRow;
     private final float[][] initRowWeight;
-    private float[][] earlier;
-    private float[][] later;
-    private boolean hasEarlier;
     private final Band[] bands;
     private final float[] pyramidScratch;
     private final GlobalMotion globalMotion;
@@ -72,11 +67,7 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
     }
 
     public GridLucasKanadeFlow(int width, int height, FlowSettings settings) {
-        if (width < 1 || height < 1) {
-            throw new IllegalArgumentException("size: " + width + "x" + height + " (expected at least 1x1)");
-        }
-        this.width = width;
-        this.height = height;
+        super(width, height, settings.stride());
         this.levelCount = settings.levelsFor(width, height);
         this.iterations = settings.iterations();
         this.finestIterations = settings.finestIterations();
@@ -169,11 +160,6 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
     }
 
     @Override
-    public FlowField newField() {
-        return new FlowField(width, height, stride);
-    }
-
-    @Override
     public int levelCount() {
         return levelCount;
     }
@@ -185,53 +171,6 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
 
     public int gridHeight() {
         return gridHeight[0];
-    }
-
-    @Override
-    public void compute(byte[] first, byte[] second, FlowField out) {
-        check(first, "first");
-        check(second, "second");
-        checkField(out);
-        buildPyramid(first, earlier);
-        buildPyramid(second, later);
-        estimate(out);
-        hasEarlier = false;
-    }
-
-    @Override
-    public boolean push(byte[] frame, FlowField out) {
-        check(frame, "frame");
-        checkField(out);
-        buildPyramid(frame, later);
-        boolean estimated = false;
-        if (hasEarlier) {
-            estimate(out);
-            estimated = true;
-        }
-        float[][] t = earlier;
-        earlier = later;
-        later = t;
-        hasEarlier = true;
-        return estimated;
-    }
-
-    @Override
-    public void reset() {
-        hasEarlier = false;
-    }
-
-    private void check(byte[] frame, String name) {
-        if (frame.length != width * height) {
-            throw new IllegalArgumentException(name + ": " + frame.length + " pixels (expected "
-                    + width + "x" + height + " = " + width * height + ")");
-        }
-    }
-
-    private void checkField(FlowField out) {
-        if (out.imageWidth != width || out.imageHeight != height || out.stride != stride) {
-            throw new IllegalArgumentException("out: " + out.imageWidth + "x" + out.imageHeight + " every "
-                    + out.stride + " px (expected " + width + "x" + height + " every " + stride + " px)");
-        }
     }
 
     // what the band workers do next, and on what (written before each pool run, read by the workers)
@@ -249,7 +188,8 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
      * The smoothed pyramid of a frame. With bands, level 0 and its halving (most of the work) are split by rows;
      * the small coarse levels are halved on this thread.
      */
-    private void buildPyramid(byte[] frame, float[][] pyramid) {
+    @Override
+    void buildPyramid(byte[] frame, float[][] pyramid) {
         if (pool == null || levelCount == 1) {
             Pyramids.buildSmooth(frame, pyramid, levelWidth, levelHeight, pyramidScratch);
             return;
@@ -268,7 +208,8 @@ public final class GridLucasKanadeFlow implements FlowEstimator, AutoCloseable {
         pendingPyramid = null;
     }
 
-    private void estimate(FlowField out) {
+    @Override
+    void estimate(FlowField out) {
         for (int l = levelCount - 1; l >= 0; l--) {
             currentLevel = l;
             // bands only where there is enough work to share: hand-over costs more than a small coarse level

@@ -16,17 +16,12 @@ import java.util.Arrays;
  * <p>All buffers are sized in the constructor for one frame size; {@link #compute} and {@link #push} allocate
  * nothing. Not thread-safe: one instance per analysis thread. No I/O, no logging.
  */
-public final class LucasKanadeFlow implements FlowEstimator {
-    private final int width;
-    private final int height;
+public final class LucasKanadeFlow extends PyramidFlowEstimator {
     private final int levelCount;
     private final int iterations;
     private final int radius;
     private final float lambda;
     private final Level[] levels;
-    private float[][] earlier;
-    private float[][] later;
-    private boolean hasEarlier;
 
     private static final class Level {
         final int w;
@@ -69,11 +64,7 @@ public final class LucasKanadeFlow implements FlowEstimator {
     private final float[] columnAccumulator;
 
     public LucasKanadeFlow(int width, int height, FlowSettings settings) {
-        if (width < 1 || height < 1) {
-            throw new IllegalArgumentException("size: " + width + "x" + height + " (expected at least 1x1)");
-        }
-        this.width = width;
-        this.height = height;
+        super(width, height, 1);
         this.levelCount = settings.levelsFor(width, height);
         this.iterations = settings.iterations();
         this.radius = settings.windowRadius();
@@ -103,77 +94,17 @@ public final class LucasKanadeFlow implements FlowEstimator {
     }
 
     @Override
-    public FlowField newField() {
-        return new FlowField(width, height);
-    }
-
-    @Override
     public int levelCount() {
         return levelCount;
     }
 
-    /**
-     * Flow from {@code first} to {@code second}, both gray 8-bit frames of this estimator's size (row-major,
-     * stride = width). Writes {@code out}; allocates nothing. Forgets any frame given to {@link #push}.
-     */
     @Override
-    public void compute(byte[] first, byte[] second, FlowField out) {
-        checkFrame(first, "first");
-        checkFrame(second, "second");
-        checkField(out);
-        buildPyramid(first, earlier);
-        buildPyramid(second, later);
-        estimate(out);
-        hasEarlier = false;
-    }
-
-    /**
-     * Feeds the next frame of a stream. From the second call on, writes the flow from the previous frame to
-     * this one into {@code out} and returns true; the first call only stores the frame and returns false.
-     * Each frame's pyramid is built once. Allocates nothing.
-     */
-    @Override
-    public boolean push(byte[] frame, FlowField out) {
-        checkFrame(frame, "frame");
-        checkField(out);
-        buildPyramid(frame, later);
-        boolean estimated = false;
-        if (hasEarlier) {
-            estimate(out);
-            estimated = true;
-        }
-        float[][] t = earlier;
-        earlier = later;
-        later = t;
-        hasEarlier = true;
-        return estimated;
-    }
-
-    /** Drops the stored frame, e.g. after a gap in the stream; the next {@link #push} starts afresh. */
-    @Override
-    public void reset() {
-        hasEarlier = false;
-    }
-
-    private void checkFrame(byte[] frame, String name) {
-        if (frame.length != width * height) {
-            throw new IllegalArgumentException(name + ": " + frame.length + " pixels (expected "
-                    + width + "x" + height + " = " + width * height + ")");
-        }
-    }
-
-    private void checkField(FlowField out) {
-        if (out.width != width || out.height != height || out.stride != 1) {
-            throw new IllegalArgumentException("out: " + out.width + "x" + out.height
-                    + " (expected " + width + "x" + height + ")");
-        }
-    }
-
-    private void buildPyramid(byte[] frame, float[][] pyramid) {
+    void buildPyramid(byte[] frame, float[][] pyramid) {
         Pyramids.build(frame, pyramid, levelWidths, levelHeights);
     }
 
-    private void estimate(FlowField out) {
+    @Override
+    void estimate(FlowField out) {
         for (int l = levelCount - 1; l >= 0; l--) {
             final Level lv = levels[l];
             gradients(earlier[l], lv.ix, lv.iy, lv.w, lv.h);
