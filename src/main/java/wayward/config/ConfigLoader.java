@@ -134,32 +134,162 @@ public final class ConfigLoader {
                     s.error("url", url, "an http:// or https:// URL with a host");
                 }
                 double timeout = s.number("timeout_seconds", 5.0, 0.1, 300);
-                int retries = s.integer("retries", 3, 0, 100);
+                double maxBackoff = s.number("max_backoff_seconds", 60, 1, 3600);
+                java.util.Map<String, String> headers = headers(s);
+                String caFile = caFile(s, base, url != null && url.regionMatches(true, 0, "https:", 0, 6));
                 String secretFile = s.string("secret_file", null, "a file holding the signing secret");
-                byte[] secret = null;
-                if (secretFile != null) {
-                    Path p = base.resolve(secretFile).normalize();
-                    try {
-                        // the file's content, without a trailing line break, is the secret
-                        String text = Files.readString(p).replaceAll("[\\r\\n]+$", "");
-                        if (text.isEmpty()) {
-                            s.error("secret_file", secretFile, "a file holding a non-empty secret (" + p + " is empty)");
-                        } else {
-                            secret = text.getBytes(java.nio.charset.StandardCharsets.UTF_8);
-                        }
-                    } catch (IOException e) {
-                        s.error("secret_file", secretFile, "a readable file holding the signing secret (" + p
-                                + ": " + (e instanceof NoSuchFileException ? "not found" : e.getMessage()) + ")");
-                    }
-                }
+                byte[] secret = secretFile == null ? null : secret(s, base, "secret_file", secretFile, "signing secret");
                 s.finish();
                 if (url != null) {
-                    webhooks.add(new WebhookConfig(url, timeout, retries, secretFile, secret));
+                    webhooks.add(new WebhookConfig(url, timeout, maxBackoff, headers, caFile, secretFile, secret));
                 }
             }
         }
+
+        MqttConfig mqtt = null;
+        TomlTable mqttTable = top.table("mqtt");
+        if (mqttTable != null) {
+            mqtt = mqtt(new Scope(errors, mqttTable, "mqtt", root.inputPositionOf(List.of("mqtt"))), base);
+        }
+
+        long outboxMaxBytes = 256L << 20;
+        TomlTable outboxTable = top.table("outbox");
+        if (outboxTable != null) {
+            Scope s = new Scope(errors, outboxTable, "outbox", root.inputPositionOf(List.of("outbox")));
+            outboxMaxBytes = (long) (s.number("max_mb", 256, 1, 1_000_000) * (1 << 20));
+            s.finish();
+        }
         top.finish();
-        return new SiteConfig(file, dataDir, flow, cameras, webhooks, clips);
+        return new SiteConfig(file, dataDir, flow, cameras, webhooks, clips, mqtt, outboxMaxBytes);
+    }
+
+    private static MqttConfig mqtt(Scope s, Path base) {
+        String expected = "mqtt://host[:port] or mqtts://host[:port]";
+        String url = s.requiredString("url", expected);
+        boolean tls = false;
+        if (url != null) {
+            java.net.URI u = null;
+            try {
+                u = new java.net.URI(url);
+            } catch (java.net.URISyntaxException e) {
+                // reported below
+            }
+            String scheme = u == null || u.getScheme() == null ? "" : u.getScheme().toLowerCase(Locale.ROOT);
+            if (u == null || !(scheme.equals("mqtt") || scheme.equals("mqtts")) || u.getHost() == null
+                    || (u.getRawPath() != null && !u.getRawPath().isEmpty()) || u.getRawUserInfo() != null) {
+                s.error("url", url, expected + " (user name and password go in username and password_file)");
+                url = null;
+            } else {
+                tls = scheme.equals("mqtts");
+            }
+        }
+        String prefix = s.string("topic_prefix", "wayward", "topic levels without wildcards, e.g. \"yard/north\"");
+        if (!prefix.matches("[^#+/\\u0000]+(/[^#+/\\u0000]+)*")) {
+            s.error("topic_prefix", prefix, "topic levels without '+', '#', empty levels or a leading or trailing '/'");
+            prefix = "wayward";
+        }
+        String host;
+        try {
+            host = java.net.InetAddress.getLocalHost().getHostName();
+        } catch (IOException e) {
+            host = "host";
+        }
+        String defaultId = ("wayward-" + host.replaceAll("[^A-Za-z0-9-]", "-"));
+        defaultId = defaultId.substring(0, Math.min(23, defaultId.length()));
+        String clientId = s.string("client_id", defaultId, "1 to 23 letters, digits or '-'");
+        if (!clientId.matches("[A-Za-z0-9-]{1,23}")) {
+            // MQTT 3.1.1 §3.1.3.1: every broker must accept 1 to 23 of these characters
+            s.error("client_id", clientId, "1 to 23 letters, digits or '-' (what every MQTT 3.1.1 broker accepts)");
+        }
+        String username = s.string("username", null, "a user name");
+        String passwordFile = s.string("password_file", null, "a file holding the password");
+        byte[] password = null;
+        if (passwordFile != null) {
+            if (username == null) {
+                s.error("password_file", passwordFile, "to come with username");
+            }
+            password = secret(s, base, "password_file", passwordFile, "password");
+        }
+        int keepAlive = s.integer("keep_alive_seconds", 30, 5, 3600);
+        String caFile = caFile(s, base, tls);
+        int inFlight = s.integer("in_flight", 16, 1, 1000);
+        double maxBackoff = s.number("max_backoff_seconds", 30, 1, 3600);
+        s.finish();
+        return url == null ? null : new MqttConfig(url, prefix, clientId, username, passwordFile, password, keepAlive,
+                caFile, inFlight, maxBackoff);
+    }
+
+    /** The {@code headers} inline table: names and values as strings; our own headers may not be replaced. */
+    private static java.util.Map<String, String> headers(Scope s) {
+        java.util.Map<String, String> out = new java.util.LinkedHashMap<>();
+        Object v = s.raw("headers");
+        if (v == null) {
+            return out;
+        }
+        if (!(v instanceof TomlTable)) {
+            s.error("headers", v, "a table of header names and string values, e.g. { \"Authorization\" = \"Bearer …\" }");
+            return out;
+        }
+        TomlTable t = (TomlTable) v;
+        for (String name : t.keySet()) {
+            Object value = t.get(List.of(name));
+            String lower = name.toLowerCase(Locale.ROOT);
+            if (!name.matches("[!#$%&'*+.^_`|~0-9A-Za-z-]+")) {
+                s.error("headers", name, "header names made of letters, digits and - (RFC 9110 token)");
+            } else if (Set.of("host", "content-type", "content-length", "connection", "user-agent",
+                    "transfer-encoding").contains(lower) || lower.startsWith("x-wayward-")) {
+                s.error("headers", name, "a header wayward does not set itself");
+            } else if (!(value instanceof String) || ((String) value).matches(".*[\\r\\n].*")) {
+                s.error("headers", value, "a string value on one line for header " + name);
+            } else {
+                out.put(name, (String) value);
+            }
+        }
+        return out;
+    }
+
+    /** The optional {@code ca_file}: a readable PEM file with at least one certificate; resolved path or null. */
+    private static String caFile(Scope s, Path base, boolean tls) {
+        String caFile = s.string("ca_file", null, "a PEM file of CA certificates");
+        if (caFile == null) {
+            return null;
+        }
+        if (!tls) {
+            s.error("ca_file", caFile, "only with an https:// or mqtts:// url");
+            return null;
+        }
+        Path p = base.resolve(caFile).normalize();
+        try (java.io.InputStream in = Files.newInputStream(p)) {
+            if (java.security.cert.CertificateFactory.getInstance("X.509").generateCertificates(in).isEmpty()) {
+                s.error("ca_file", caFile, "a PEM file of CA certificates (" + p + " holds none)");
+                return null;
+            }
+        } catch (IOException e) {
+            s.error("ca_file", caFile, "a readable PEM file of CA certificates (" + p + ": "
+                    + (e instanceof NoSuchFileException ? "not found" : e.getMessage()) + ")");
+            return null;
+        } catch (java.security.cert.CertificateException e) {
+            s.error("ca_file", caFile, "a PEM file of CA certificates (" + p + ": " + e.getMessage() + ")");
+            return null;
+        }
+        return p.toString();
+    }
+
+    /** The content of a secret file without a trailing line break, or null after reporting. */
+    private static byte[] secret(Scope s, Path base, String key, String file, String what) {
+        Path p = base.resolve(file).normalize();
+        try {
+            String text = Files.readString(p).replaceAll("[\\r\\n]+$", "");
+            if (text.isEmpty()) {
+                s.error(key, file, "a file holding a non-empty " + what + " (" + p + " is empty)");
+                return null;
+            }
+            return text.getBytes(java.nio.charset.StandardCharsets.UTF_8);
+        } catch (IOException e) {
+            s.error(key, file, "a readable file holding the " + what + " (" + p + ": "
+                    + (e instanceof NoSuchFileException ? "not found" : e.getMessage()) + ")");
+            return null;
+        }
     }
 
     private static CameraConfig camera(Scope s, Path base) {

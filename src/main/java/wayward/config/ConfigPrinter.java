@@ -79,11 +79,42 @@ public final class ConfigPrinter {
             b.append("\n[[webhook]]\n");
             b.append("url = ").append(quote(maskUrl(w.url()))).append('\n');
             b.append("timeout_seconds = ").append(num(w.timeoutSeconds())).append('\n');
-            b.append("retries = ").append(w.retries()).append('\n');
+            b.append("max_backoff_seconds = ").append(num(w.maxBackoffSeconds())).append('\n');
+            if (!w.headers().isEmpty()) {
+                b.append("headers = { ");
+                int n = 0;
+                for (String h : w.headers().keySet()) {
+                    b.append(n++ == 0 ? "" : ", ").append(quote(h)).append(" = \"***\"");
+                }
+                b.append(" }   # values are not printed\n");
+            }
+            if (w.caFile() != null) {
+                b.append("ca_file = ").append(quote(w.caFile())).append('\n');
+            }
             if (w.secretFile() != null) {
                 b.append("secret_file = ").append(quote(w.secretFile())).append("   # the secret itself is never printed\n");
             }
         }
+        MqttConfig m = c.mqtt();
+        if (m != null) {
+            b.append("\n[mqtt]\n");
+            b.append("url = ").append(quote(maskUrl(m.url()))).append('\n');
+            b.append("topic_prefix = ").append(quote(m.topicPrefix())).append('\n');
+            b.append("client_id = ").append(quote(m.clientId())).append('\n');
+            if (m.username() != null) {
+                b.append("username = ").append(quote(m.username())).append('\n');
+            }
+            if (m.passwordFile() != null) {
+                b.append("password_file = ").append(quote(m.passwordFile())).append("   # the password itself is never printed\n");
+            }
+            b.append("keep_alive_seconds = ").append(m.keepAliveSeconds()).append('\n');
+            if (m.caFile() != null) {
+                b.append("ca_file = ").append(quote(m.caFile())).append('\n');
+            }
+            b.append("in_flight = ").append(m.inFlight()).append('\n');
+            b.append("max_backoff_seconds = ").append(num(m.maxBackoffSeconds())).append('\n');
+        }
+        b.append("\n[outbox]\nmax_mb = ").append(num(c.outboxMaxBytes() / (double) (1 << 20))).append('\n');
         return b.toString();
     }
 

@@ -8,14 +8,16 @@ import java.util.List;
  * config file's folder.
  *
  * @param file     the config file as the user named it (for messages)
- * @param dataDir  folder for the event log and, later, outbox and clips
+ * @param dataDir  folder for the event log, the outbox and the clips
  * @param flow     flow estimator settings shared by all cameras
  * @param cameras  at least one camera
  * @param webhooks zero or more webhook destinations
  * @param clips    evidence clip settings
+ * @param mqtt     the MQTT broker, or null
+ * @param outboxMaxBytes bound on the durable outbox's size on disk
  */
 public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
-        List<WebhookConfig> webhooks, ClipConfig clips) {
+        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes) {
     public SiteConfig {
         cameras = List.copyOf(cameras);
         webhooks = List.copyOf(webhooks);

@@ -1,5 +1,7 @@
 package wayward.delivery;
 
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.ArrayBlockingQueue;
@@ -9,16 +11,27 @@ import java.util.concurrent.atomic.AtomicLong;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.event.Event;
+import wayward.event.EventJson;
 
 /**
- * Fans event phases out to sinks. Each sink has its own bounded queue and thread, so a slow or failing
- * destination never delays analysis or the other sinks. {@link #publish} never blocks: when a sink's queue is
- * full the event is dropped for that sink, counted and logged (a later issue puts a durable outbox here).
+ * Fans event phases out. Local sinks (event log, standard output) each have a bounded queue and thread;
+ * network destinations (webhooks, MQTT) are fed from the durable {@link Outbox}: an outbox writer thread
+ * appends each phase and forces it to disk, then every destination's {@link Courier} takes it from there.
+ * {@link #publish} never blocks, so a slow or failing destination never delays analysis or the others. Only
+ * a full in-memory queue (a stuck disk) drops a phase, and that is counted and logged.
  */
 public final class EventBus implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(EventBus.class);
 
+    private static final int WRITE_QUEUE = 10_000;
+
     private final List<Lane> lanes = new ArrayList<>();
+    private final List<Courier> couriers = new ArrayList<>();
+    private final AtomicLong notAccepted = new AtomicLong();
+    private Outbox outbox;
+    private BlockingQueue<byte[]> writeQueue;
+    private Thread writer;
+    private volatile boolean writerClosing;
 
     private static final class Lane {
         final EventSink sink;
@@ -67,8 +80,91 @@ public final class EventBus implements AutoCloseable {
         lane.thread.start();
     }
 
+    /**
+     * Feeds network destinations from {@code outbox} from now on: starts the outbox writer thread. Before
+     * {@link #add(Destination, long, long)} and any publish.
+     */
+    public synchronized void useOutbox(Outbox outbox) {
+        this.outbox = outbox;
+        this.writeQueue = new ArrayBlockingQueue<>(WRITE_QUEUE);
+        this.writer = new Thread(this::write, "outbox-writer");
+        this.writer.setDaemon(true);
+        this.writer.start();
+    }
+
+    /** Adds a destination fed from the outbox and starts its courier. */
+    public synchronized Courier add(Destination d, long baseBackoffMillis, long maxBackoffMillis) throws IOException {
+        if (outbox == null) {
+            throw new IllegalStateException("a destination needs the outbox");
+        }
+        Courier c = new Courier(outbox, d, baseBackoffMillis, maxBackoffMillis);
+        couriers.add(c);
+        c.start();
+        return c;
+    }
+
+    public synchronized List<Courier> couriers() {
+        return List.copyOf(couriers);
+    }
+
+    /** Event phases that never reached the outbox (its queue was full or the disk failed at shutdown). */
+    public long notAccepted() {
+        return notAccepted.get();
+    }
+
+    /** The outbox writer: batches what is queued, appends and forces it, retries a failing disk. */
+    private void write() {
+        List<byte[]> batch = new ArrayList<>();
+        long failingSince = 0;
+        try {
+            while (true) {
+                if (batch.isEmpty()) {
+                    byte[] first = writeQueue.poll(200, TimeUnit.MILLISECONDS);
+                    if (first == null) {
+                        if (writerClosing) {
+                            return;
+                        }
+                        continue;
+                    }
+                    batch.add(first);
+                    writeQueue.drainTo(batch, 255);
+                }
+                try {
+                    outbox.append(batch);
+                    if (failingSince != 0) {
+                        LOG.info("outbox: writing works again");
+                        failingSince = 0;
+                    }
+                    batch.clear();
+                } catch (IOException ex) {
+                    if (failingSince == 0) {
+                        failingSince = System.nanoTime();
+                        LOG.error("outbox: cannot write to {} ({}); {} event phases held in memory, retrying",
+                                outbox.folder(), ex.toString(), batch.size() + writeQueue.size());
+                    }
+                    if (writerClosing) {
+                        notAccepted.addAndGet(batch.size() + writeQueue.size());
+                        LOG.error("outbox: {} event phases could not be written before shutdown and are lost",
+                                batch.size() + writeQueue.size());
+                        return;
+                    }
+                    Thread.sleep(1000);
+                }
+            }
+        } catch (InterruptedException ie) {
+            Thread.currentThread().interrupt();
+        }
+    }
+
     /** Queues an event phase for every sink. Never blocks; any thread. */
     public void publish(Event e) {
+        if (writeQueue != null) {
+            if (!writeQueue.offer(EventJson.toJson(e).getBytes(StandardCharsets.UTF_8))) {
+                long n = notAccepted.incrementAndGet();
+                LOG.error("outbox: write queue full, event {} {} {} lost for webhooks and MQTT ({} so far)",
+                        e.id(), e.kind().jsonName(), e.phase().jsonName(), n);
+            }
+        }
         for (Lane lane : lanes) {
             if (!lane.queue.offer(e)) {
                 long n = lane.dropped.incrementAndGet();
@@ -93,6 +189,22 @@ public final class EventBus implements AutoCloseable {
      */
     public void close(long timeoutMillis) {
         long deadline = System.nanoTime() + timeoutMillis * 1_000_000L;
+        if (writer != null) {
+            // first everything onto the disk, then the couriers get the rest of the time
+            writerClosing = true;
+            try {
+                writer.join(Math.max(1, timeoutMillis / 2));
+            } catch (InterruptedException ie) {
+                Thread.currentThread().interrupt();
+            }
+            for (Courier c : couriers) {
+                c.stopBy(deadline);
+            }
+            for (Courier c : couriers) {
+                c.awaitStop(deadline);
+            }
+            outbox.close();
+        }
         for (Lane lane : lanes) {
             lane.closing = true;
         }

@@ -22,32 +22,26 @@ import io.netty.handler.codec.http.HttpMethod;
 import io.netty.handler.codec.http.HttpObjectAggregator;
 import io.netty.handler.codec.http.HttpVersion;
 import io.netty.handler.ssl.SslContext;
-import io.netty.handler.ssl.SslContextBuilder;
 import io.netty.handler.timeout.ReadTimeoutHandler;
 import io.netty.util.concurrent.DefaultThreadFactory;
 import java.net.URI;
 import java.nio.charset.StandardCharsets;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ExecutionException;
-import java.util.concurrent.ThreadLocalRandom;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.TimeoutException;
-import javax.net.ssl.SSLException;
-import org.slf4j.Logger;
-import org.slf4j.LoggerFactory;
 import wayward.config.ConfigPrinter;
 import wayward.config.WebhookConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 
 /**
- * POSTs each event phase as JSON to a webhook URL over Netty (HTTP/1.1, one connection per attempt, HTTPS with
- * the JDK's trust store). 2xx = delivered; 4xx other than 408 and 429 = refused, given up and logged; other
- * answers, timeouts and connection errors are retried with exponential backoff and jitter, up to the
- * configured number of retries. Called by its delivery thread only (see {@link EventBus}).
+ * POSTs each event phase as JSON to a webhook URL over Netty (HTTP/1.1, one connection per attempt; HTTPS with
+ * the JDK's trust store plus an optional CA file, host name checked). 2xx = delivered; 4xx other than 408 and
+ * 429 = refused for good; other answers, timeouts and connection errors = try again (the {@link Courier}
+ * waits with backoff and jitter and the phase stays in the outbox meanwhile). One attempt per {@link #send}.
  */
-public final class WebhookSender implements EventSink {
-    private static final Logger LOG = LoggerFactory.getLogger(WebhookSender.class);
+public final class WebhookSender implements Destination {
     /** Header naming the event, so receivers can drop duplicates of an at-least-once delivery. */
     public static final String EVENT_ID_HEADER = "X-Wayward-Event-Id";
 
@@ -56,30 +50,19 @@ public final class WebhookSender implements EventSink {
     private final String shownUrl;
     private final EventLoopGroup group;
     private final SslContext ssl;
-    private final long baseBackoffMillis;
     private final WebhookSignature signature;
 
-    /** Outcome of one attempt. */
-    private enum Outcome { DELIVERED, REFUSED, RETRY }
+    /** Outcome of one attempt by status code. */
+    enum Outcome { DELIVERED, REFUSED, RETRY }
 
     public WebhookSender(WebhookConfig config) {
-        this(config, 1000);
-    }
-
-    /** @param baseBackoffMillis wait before the first retry; doubles each time (tests use a short one) */
-    public WebhookSender(WebhookConfig config, long baseBackoffMillis) {
         this.config = config;
         this.uri = URI.create(config.url());
         this.shownUrl = ConfigPrinter.maskUrl(config.url());
-        this.baseBackoffMillis = baseBackoffMillis;
         this.signature = config.secret() != null ? new WebhookSignature(config.secret()) : null;
         this.group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("webhook", true),
                 NioIoHandler.newFactory());
-        try {
-            this.ssl = "https".equalsIgnoreCase(uri.getScheme()) ? SslContextBuilder.forClient().build() : null;
-        } catch (SSLException e) {
-            throw new IllegalStateException("TLS set-up for " + shownUrl + " failed: " + e.getMessage(), e);
-        }
+        this.ssl = "https".equalsIgnoreCase(uri.getScheme()) ? TlsTrust.clientContext(config.caFile(), shownUrl) : null;
     }
 
     @Override
@@ -88,40 +71,29 @@ public final class WebhookSender implements EventSink {
     }
 
     @Override
-    public void deliver(Event event) throws InterruptedException {
+    public String key() {
+        return "webhook-" + TlsTrust.shortHash(config.url());
+    }
+
+    @Override
+    public CompletableFuture<Result> send(long seq, Event event) {
         byte[] body = EventJson.toJson(event).getBytes(StandardCharsets.UTF_8);
-        long backoff = baseBackoffMillis;
-        for (int attempt = 0; attempt <= config.retries(); attempt++) {
-            String why;
-            try {
-                int status = post(body, event.id());
-                Outcome o = classify(status);
-                if (o == Outcome.DELIVERED) {
-                    if (attempt > 0) {
-                        LOG.info("{}: event {} delivered after {} retries", name(), event.id(), attempt);
-                    }
-                    return;
-                }
-                if (o == Outcome.REFUSED) {
-                    LOG.error("{}: event {} refused with HTTP {}; not retried", name(), event.id(), status);
-                    return;
-                }
-                why = "HTTP " + status;
-            } catch (TimeoutException e) {
-                why = "no answer within " + config.timeoutSeconds() + " s";
-            } catch (ExecutionException e) {
-                Throwable c = e.getCause() != null ? e.getCause() : e;
-                why = c.getMessage() != null ? c.getMessage() : c.getClass().getSimpleName();
-            }
-            if (attempt == config.retries()) {
-                LOG.error("{}: event {} {} {} not delivered after {} attempts (last: {})", name(), event.id(),
-                        event.kind().jsonName(), event.phase().jsonName(), attempt + 1, why);
-                return;
-            }
-            long wait = backoff + ThreadLocalRandom.current().nextLong(backoff / 4 + 1);
-            LOG.warn("{}: event {} attempt {} failed ({}); retrying in {} ms", name(), event.id(), attempt + 1, why, wait);
-            Thread.sleep(wait);
-            backoff = Math.min(backoff * 2, 60_000);
+        try {
+            int status = post(body, event.id());
+            return CompletableFuture.completedFuture(switch (classify(status)) {
+                case DELIVERED -> Result.DELIVERED;
+                case REFUSED -> Result.refused("HTTP " + status);
+                case RETRY -> Result.retry("HTTP " + status);
+            });
+        } catch (TimeoutException e) {
+            return CompletableFuture.completedFuture(Result.retry("no answer within " + config.timeoutSeconds() + " s"));
+        } catch (ExecutionException e) {
+            Throwable c = e.getCause() != null ? e.getCause() : e;
+            return CompletableFuture.completedFuture(
+                    Result.retry(c.getMessage() != null ? c.getMessage() : c.getClass().getSimpleName()));
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            return CompletableFuture.completedFuture(Result.retry("interrupted"));
         }
     }
 
@@ -186,6 +158,9 @@ public final class WebhookSender implements EventSink {
         req.headers().set(HttpHeaderNames.CONTENT_LENGTH, body.length);
         req.headers().set(HttpHeaderNames.CONNECTION, HttpHeaderValues.CLOSE);
         req.headers().set(HttpHeaderNames.USER_AGENT, "wayward");
+        for (java.util.Map.Entry<String, String> h : config.headers().entrySet()) {
+            req.headers().set(h.getKey(), h.getValue());
+        }
         req.headers().set(EVENT_ID_HEADER, eventId);
         if (signature != null) {
             // signed per attempt: the timestamp is the sending time, so a receiver can refuse stale replays

@@ -2,9 +2,12 @@ package wayward.event;
 
 import com.fasterxml.jackson.core.JsonFactory;
 import com.fasterxml.jackson.core.JsonGenerator;
+import com.fasterxml.jackson.core.JsonParser;
+import com.fasterxml.jackson.core.JsonToken;
 import java.io.IOException;
 import java.io.StringWriter;
 import java.io.UncheckedIOException;
+import java.time.Instant;
 import java.time.format.DateTimeFormatter;
 
 /**
@@ -45,6 +48,78 @@ public final class EventJson {
             throw new UncheckedIOException(ex);
         }
         return out.toString();
+    }
+
+    /**
+     * Reads back an event phase written by {@link #toJson} (the outbox keeps phases in that form). Unknown
+     * fields are ignored, so records written by a newer version still read.
+     *
+     * @throws IllegalArgumentException when the bytes are not such an object
+     */
+    public static Event parse(byte[] json) {
+        String id = null, camera = null, zone = null, clip = null, snapshot = null, at = null;
+        EventKind kind = null;
+        Event.Phase phase = null;
+        double stream = Double.NaN, heading = Double.NaN, speed = Double.NaN, coverage = Double.NaN;
+        double duration = Double.NaN;
+        try (JsonParser p = JSON.createParser(json)) {
+            if (p.nextToken() != JsonToken.START_OBJECT) {
+                throw new IllegalArgumentException("not a JSON object");
+            }
+            while (p.nextToken() == JsonToken.FIELD_NAME) {
+                String name = p.currentName();
+                JsonToken t = p.nextToken();
+                switch (name) {
+                    case "id" -> id = p.getText();
+                    case "camera" -> camera = p.getText();
+                    case "zone" -> zone = p.getText();
+                    case "kind" -> kind = kindOf(p.getText());
+                    case "phase" -> phase = phaseOf(p.getText());
+                    case "stream_s" -> stream = p.getDoubleValue();
+                    case "at" -> at = p.getText();
+                    case "heading_deg" -> heading = p.getDoubleValue();
+                    case "speed" -> speed = p.getDoubleValue();
+                    case "coverage" -> coverage = p.getDoubleValue();
+                    case "duration_s" -> duration = p.getDoubleValue();
+                    case "clip" -> clip = p.getText();
+                    case "snapshot" -> snapshot = p.getText();
+                    default -> {
+                        if (t.isStructStart()) {
+                            p.skipChildren();
+                        }
+                    }
+                }
+            }
+        } catch (IOException e) {
+            throw new IllegalArgumentException("not valid JSON: " + e.getMessage());
+        }
+        if (at == null) {
+            throw new IllegalArgumentException("no \"at\" field");
+        }
+        try {
+            return new Event(id, camera, zone, kind, phase, stream, Instant.parse(at), heading, speed, coverage,
+                    duration, clip, snapshot);
+        } catch (java.time.format.DateTimeParseException e) {
+            throw new IllegalArgumentException("\"at\" is not an ISO-8601 instant: " + at);
+        }
+    }
+
+    private static EventKind kindOf(String name) {
+        for (EventKind k : EventKind.values()) {
+            if (k.jsonName().equals(name)) {
+                return k;
+            }
+        }
+        throw new IllegalArgumentException("unknown kind " + name);
+    }
+
+    private static Event.Phase phaseOf(String name) {
+        for (Event.Phase ph : Event.Phase.values()) {
+            if (ph.jsonName().equals(name)) {
+                return ph;
+            }
+        }
+        throw new IllegalArgumentException("unknown phase " + name);
     }
 
     /** Writes a number rounded to 1/scale, or nothing for NaN. */

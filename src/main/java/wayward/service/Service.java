@@ -14,7 +14,10 @@ import wayward.config.ConfigPrinter;
 import wayward.config.SiteConfig;
 import wayward.config.WebhookConfig;
 import wayward.delivery.EventBus;
+import wayward.config.MqttConfig;
 import wayward.delivery.EventLog;
+import wayward.delivery.MqttPublisher;
+import wayward.delivery.Outbox;
 import wayward.delivery.PrintSink;
 import wayward.delivery.WebhookSender;
 
@@ -30,6 +33,7 @@ public final class Service {
             + "falls under privacy law (signage, retention limits, access to recordings): follow local law, "
             + "site rules and licensed practice.";
     private static final int QUEUE_CAPACITY = 10_000;
+    private static final long SEGMENT_BYTES = 8L << 20;
 
     /** How the cameras are read. */
     public enum Mode {
@@ -83,9 +87,28 @@ public final class Service {
             EventLog log = new EventLog(config.dataDir());
             bus.add(log, QUEUE_CAPACITY);
             LOG.info("events are written to {}", log.file());
-            for (WebhookConfig w : config.webhooks()) {
-                bus.add(new WebhookSender(w), QUEUE_CAPACITY);
-                LOG.info("events are posted to {}", ConfigPrinter.maskUrl(w.url()));
+            if (!config.webhooks().isEmpty() || config.mqtt() != null) {
+                Outbox outbox = Outbox.open(config.dataDir().resolve("outbox"), config.outboxMaxBytes(),
+                        SEGMENT_BYTES);
+                long runStart = outbox.nextSeq();
+                bus.useOutbox(outbox);
+                LOG.info("events for webhooks and MQTT go through the outbox in {} (at most {} MB, delivered at "
+                        + "least once)", outbox.folder(), config.outboxMaxBytes() >> 20);
+                for (WebhookConfig w : config.webhooks()) {
+                    bus.add(new WebhookSender(w), 1000, (long) (w.maxBackoffSeconds() * 1000));
+                    LOG.info("events are posted to {}", ConfigPrinter.maskUrl(w.url()));
+                }
+                if (config.mqtt() != null) {
+                    List<String> zones = new ArrayList<>();
+                    for (CameraConfig c : cameras) {
+                        for (wayward.config.ZoneConfig z : c.zones()) {
+                            zones.add(c.id() + "/" + z.id());
+                        }
+                    }
+                    MqttConfig m = config.mqtt();
+                    bus.add(new MqttPublisher(m, zones, runStart), 1000, (long) (m.maxBackoffSeconds() * 1000));
+                    LOG.info("events are published to {} under {}/", ConfigPrinter.maskUrl(m.url()), m.topicPrefix());
+                }
             }
         }
         if (mode != Mode.RUN) {

@@ -39,6 +39,10 @@ class ConfigLoaderTest {
         "zone-missing.toml | 1:1: camera[0].zone: missing (expected at least one [[camera.zone]] table)",
         "device-key-on-a-file.toml | 4:1: camera[0].device_fps: 15 (expected no such key for a source that is not a webcam (/dev/videoN))",
         "rtsp-transport-unknown.toml | 4:1: camera[0].rtsp_transport: \"multicast\" (expected \"tcp\" or \"udp\")",
+        "mqtt-url-not-mqtt.toml | 11:1: mqtt.url: \"http://broker.yard.example:1883\" (expected mqtt://host[:port] or mqtts://host[:port] (user name and password go in username and password_file))",
+        "mqtt-client-id-too-long.toml | 12:1: mqtt.client_id: \"wayward-north-yard-gate-house-1\" (expected 1 to 23 letters, digits or '-' (what every MQTT 3.1.1 broker accepts))",
+        "webhook-own-header.toml | 12:1: webhook[0].headers: \"Content-Type\" (expected a header wayward does not set itself)",
+        "webhook-ca-without-https.toml | 12:1: webhook[0].ca_file: \"yard-ca.pem\" (expected only with an https:// or mqtts:// url)",
     })
     void reportsOneLocatedLinePerMistake(String fixture, String expected) {
         assertEquals(List.of(DIR + fixture + ":" + expected), errorsOf(fixture));
@@ -99,6 +103,10 @@ class ConfigLoaderTest {
         assertEquals(0.5, ramp.rule().holdSeconds());
         assertFalse(cam.zones().get(1).hasHeading(), "staff-door has no heading");
         assertEquals(1, c.webhooks().size());
+        assertEquals(java.util.Map.of("Authorization", "Bearer yard-ops-token"), c.webhooks().get(0).headers());
+        assertEquals("yard/north", c.mqtt().topicPrefix());
+        assertEquals("wayward-north-1", c.mqtt().clientId());
+        assertEquals(256L << 20, c.outboxMaxBytes());
         assertEquals(Path.of("/var/lib/wayward"), c.dataDir());
     }
 

@@ -46,4 +46,26 @@ class EventJsonTest {
         assertEquals(0.0386, m.get("coverage"));
         assertFalse(m.containsKey("duration_s"), "NaN values are left out");
     }
+
+    @Test
+    void readsBackWhatItWroteSoTheOutboxCanHoldTheJson() {
+        Event e = new Event("e-2", "yard-mast-2", "lane-2-out", EventKind.WRONG_WAY, Event.Phase.END, 16.8,
+                Instant.parse("2026-12-02T10:15:34.750Z"), 181.2, 40.5, 0.061, 4.5, "clips/a.mp4", "clips/a.jpg");
+        String json = EventJson.toJson(e);
+        Event back = EventJson.parse(json.getBytes(java.nio.charset.StandardCharsets.UTF_8));
+        assertEquals(e, back);
+        assertEquals(json, EventJson.toJson(back), "the same bytes go out again");
+        Event camera = new Event("o-1", "yard-mast-2", null, EventKind.CAMERA_LOST, Event.Phase.START, 3,
+                Instant.parse("2026-12-02T10:00:00Z"), Double.NaN, Double.NaN, Double.NaN, Double.NaN);
+        assertEquals(EventJson.toJson(camera),
+                EventJson.toJson(EventJson.parse(EventJson.toJson(camera).getBytes(java.nio.charset.StandardCharsets.UTF_8))));
+    }
+
+    @Test
+    void refusesWhatIsNotAnEventPhase() {
+        for (String bad : new String[] {"[]", "{\"id\":\"x\"}", "{\"id\":\"x\",\"camera\":\"c\",\"kind\":\"nope\"}", "{"}) {
+            org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                    () -> EventJson.parse(bad.getBytes(java.nio.charset.StandardCharsets.UTF_8)), bad);
+        }
+    }
 }

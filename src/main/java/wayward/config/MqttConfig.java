@@ -1,0 +1,42 @@
+package wayward.config;
+
+/**
+ * The {@code [mqtt]} table: one broker that receives every event phase.
+ *
+ * @param url               mqtt://host[:port] (TCP, 1883) or mqtts://host[:port] (TLS, 8883)
+ * @param topicPrefix       first topic level(s), e.g. "wayward" or "yard/north"
+ * @param clientId          MQTT client identifier (also names the status topic)
+ * @param username          login name, or null for an anonymous connection
+ * @param passwordFile      file holding the password, or null
+ * @param password          the password's bytes (never logged or printed), or null
+ * @param keepAliveSeconds  MQTT keep-alive; a ping is sent when nothing else was
+ * @param caFile            PEM file of extra certificate authorities for mqtts, besides the JDK's, or null
+ * @param inFlight          event phases published and not yet acknowledged at most
+ * @param maxBackoffSeconds longest wait between reconnect attempts
+ */
+public record MqttConfig(String url, String topicPrefix, String clientId, String username, String passwordFile,
+        byte[] password, int keepAliveSeconds, String caFile, int inFlight, double maxBackoffSeconds) {
+
+    /** Defaults for everything but the broker address (tests). */
+    public static MqttConfig of(String url, String topicPrefix, String clientId) {
+        return new MqttConfig(url, topicPrefix, clientId, null, null, null, 30, null, 16, 30);
+    }
+
+    /** The same settings with a login. */
+    public MqttConfig withLogin(String user, byte[] secret) {
+        return new MqttConfig(url, topicPrefix, clientId, user, passwordFile, secret, keepAliveSeconds, caFile,
+                inFlight, maxBackoffSeconds);
+    }
+
+    /** The same settings trusting the CA certificates in {@code file}. */
+    public MqttConfig withCaFile(String file) {
+        return new MqttConfig(url, topicPrefix, clientId, username, passwordFile, password, keepAliveSeconds, file,
+                inFlight, maxBackoffSeconds);
+    }
+
+    @Override
+    public String toString() {
+        return "MqttConfig[url=" + ConfigPrinter.maskUrl(url) + ", clientId=" + clientId + ", username=" + username
+                + "]";
+    }
+}

@@ -1,0 +1,222 @@
+package wayward.delivery;
+
+import java.io.IOException;
+import java.util.ArrayDeque;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ThreadLocalRandom;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.TimeoutException;
+import java.util.concurrent.atomic.AtomicLong;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import wayward.event.Event;
+import wayward.event.EventJson;
+
+/**
+ * Carries event phases from the outbox to one destination, in outbox order, on its own thread. Up to the
+ * destination's window is outstanding at once; progress advances (and is forced to disk) only past phases
+ * that were delivered or refused for good, so after a crash or restart delivery resumes where it stopped and
+ * a phase is delivered at least once. Failed attempts are retried forever with exponential backoff and jitter;
+ * what a destination cannot take stays in the outbox.
+ */
+public final class Courier {
+    private static final Logger LOG = LoggerFactory.getLogger(Courier.class);
+
+    private final Outbox outbox;
+    private final Destination destination;
+    private final Outbox.Progress progress;
+    private final Outbox.Reader reader;
+    private final long baseBackoffMillis;
+    private final long maxBackoffMillis;
+    private final Thread thread;
+    private final AtomicLong delivered = new AtomicLong();
+    private final AtomicLong refused = new AtomicLong();
+    private final AtomicLong retries = new AtomicLong();
+    private volatile long drainUntilNanos = Long.MAX_VALUE;
+    private volatile boolean draining;
+
+    private static final class Pending {
+        final long seq;
+        final Event event;
+        java.util.concurrent.CompletableFuture<Destination.Result> answer;
+        int attempts = 1;
+
+        Pending(long seq, Event event, java.util.concurrent.CompletableFuture<Destination.Result> answer) {
+            this.seq = seq;
+            this.event = event;
+            this.answer = answer;
+        }
+    }
+
+    public Courier(Outbox outbox, Destination destination, long baseBackoffMillis, long maxBackoffMillis)
+            throws IOException {
+        this.outbox = outbox;
+        this.destination = destination;
+        this.progress = outbox.progress(destination.key());
+        this.reader = outbox.reader(progress.next());
+        this.baseBackoffMillis = baseBackoffMillis;
+        this.maxBackoffMillis = Math.max(baseBackoffMillis, maxBackoffMillis);
+        this.thread = new Thread(this::loop, "deliver-" + destination.key());
+        this.thread.setDaemon(true);
+    }
+
+    public void start() {
+        long backlog = Math.max(0, outbox.nextSeq() - progress.next());
+        if (backlog > 0) {
+            LOG.info("{}: {} event phases waiting in the outbox from before; delivering them first",
+                    destination.name(), backlog);
+        }
+        thread.start();
+    }
+
+    public Destination destination() {
+        return destination;
+    }
+
+    public long delivered() {
+        return delivered.get();
+    }
+
+    public long refused() {
+        return refused.get();
+    }
+
+    public long retries() {
+        return retries.get();
+    }
+
+    /** The next outbox seq this destination still has to take. */
+    public long next() {
+        return progress.next();
+    }
+
+    private void loop() {
+        ArrayDeque<Pending> pending = new ArrayDeque<>();
+        boolean caughtUp = false;
+        long backoff = baseBackoffMillis;
+        try {
+            while (true) {
+                while (pending.size() < destination.window()) {
+                    Outbox.Entry e = reader.next(pending.isEmpty() ? 200 : 0, TimeUnit.MILLISECONDS);
+                    if (e == null) {
+                        break;
+                    }
+                    Event ev;
+                    try {
+                        ev = EventJson.parse(e.payload());
+                    } catch (IllegalArgumentException bad) {
+                        LOG.error("{}: outbox record {} is not an event phase ({}); skipped", destination.name(),
+                                e.seq(), bad.getMessage());
+                        if (pending.isEmpty()) {
+                            progress.save(e.seq() + 1);
+                        }
+                        continue;
+                    }
+                    pending.add(new Pending(e.seq(), ev, destination.send(e.seq(), ev)));
+                }
+                if (pending.isEmpty()) {
+                    if (!caughtUp) {
+                        caughtUp = true;
+                        destination.caughtUp();
+                    }
+                    if (draining) {
+                        return;
+                    }
+                    continue;
+                }
+                Pending head = pending.peek();
+                Destination.Result r;
+                try {
+                    r = head.answer.get(200, TimeUnit.MILLISECONDS);
+                } catch (TimeoutException t) {
+                    if (draining && System.nanoTime() > drainUntilNanos) {
+                        return;
+                    }
+                    continue;
+                } catch (ExecutionException x) {
+                    r = Destination.Result.retry(String.valueOf(x.getCause()));
+                }
+                switch (r.status()) {
+                    case DELIVERED -> {
+                        if (head.attempts > 1) {
+                            LOG.info("{}: event {} delivered after {} attempts", destination.name(), head.event.id(),
+                                    head.attempts);
+                        }
+                        delivered.incrementAndGet();
+                        pending.poll();
+                        progress.save(head.seq + 1);
+                        backoff = baseBackoffMillis;
+                    }
+                    case REFUSED -> {
+                        LOG.error("{}: event {} {} {} refused ({}); not retried", destination.name(), head.event.id(),
+                                head.event.kind().jsonName(), head.event.phase().jsonName(), r.detail());
+                        refused.incrementAndGet();
+                        pending.poll();
+                        progress.save(head.seq + 1);
+                    }
+                    case RETRY -> {
+                        long wait = backoff + ThreadLocalRandom.current().nextLong(backoff / 4 + 1);
+                        LOG.warn("{}: event {} attempt {} failed ({}); retrying in {} ms", destination.name(),
+                                head.event.id(), head.attempts, r.detail(), wait);
+                        if (draining && System.nanoTime() + wait * 1_000_000L > drainUntilNanos) {
+                            return;
+                        }
+                        Thread.sleep(wait);
+                        backoff = Math.min(backoff * 2, maxBackoffMillis);
+                        retries.incrementAndGet();
+                        head.attempts++;
+                        head.answer = destination.send(head.seq, head.event);
+                    }
+                }
+            }
+        } catch (InterruptedException ie) {
+            Thread.currentThread().interrupt();
+        } catch (IOException | RuntimeException e) {
+            LOG.error("{}: delivery stopped: {}", destination.name(), e.toString());
+        } finally {
+            try {
+                reader.close();
+            } catch (IOException e) {
+                LOG.debug("{}: {}", destination.name(), e.toString());
+            }
+        }
+    }
+
+    /**
+     * Delivers what it can until the outbox is empty for this destination or the deadline passes, then stops
+     * the thread and closes the destination. What is left stays in the outbox for the next start.
+     */
+    public void finish(long deadlineNanos) {
+        stopBy(deadlineNanos);
+        awaitStop(deadlineNanos);
+    }
+
+    /** Asks the thread to stop once the outbox is empty for it or the deadline has passed. */
+    public void stopBy(long deadlineNanos) {
+        drainUntilNanos = deadlineNanos;
+        draining = true;
+    }
+
+    /** Waits for the thread (interrupting it after the deadline), then closes the destination. */
+    public void awaitStop(long deadlineNanos) {
+        try {
+            thread.join(Math.max(1, (deadlineNanos - System.nanoTime()) / 1_000_000L) + 500);
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+        }
+        if (thread.isAlive()) {
+            thread.interrupt();
+            try {
+                thread.join(2000);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        }
+        long left = outbox.nextSeq() - progress.next();
+        if (left > 0) {
+            LOG.warn("{}: {} event phases not delivered yet; they wait in the outbox ({}) for the next start",
+                    destination.name(), left, outbox.folder());
+        }
+        destination.close();
+    }
+}

@@ -1,0 +1,494 @@
+package wayward.delivery;
+
+import com.fasterxml.jackson.core.JsonFactory;
+import com.fasterxml.jackson.core.JsonGenerator;
+import io.netty.bootstrap.Bootstrap;
+import io.netty.buffer.Unpooled;
+import io.netty.channel.Channel;
+import io.netty.channel.ChannelFuture;
+import io.netty.channel.ChannelHandlerContext;
+import io.netty.channel.ChannelInitializer;
+import io.netty.channel.ChannelOption;
+import io.netty.channel.EventLoop;
+import io.netty.channel.EventLoopGroup;
+import io.netty.channel.MultiThreadIoEventLoopGroup;
+import io.netty.channel.SimpleChannelInboundHandler;
+import io.netty.channel.nio.NioIoHandler;
+import io.netty.channel.socket.SocketChannel;
+import io.netty.channel.socket.nio.NioSocketChannel;
+import io.netty.handler.codec.mqtt.MqttConnAckMessage;
+import io.netty.handler.codec.mqtt.MqttConnectReturnCode;
+import io.netty.handler.codec.mqtt.MqttDecoder;
+import io.netty.handler.codec.mqtt.MqttEncoder;
+import io.netty.handler.codec.mqtt.MqttFixedHeader;
+import io.netty.handler.codec.mqtt.MqttMessage;
+import io.netty.handler.codec.mqtt.MqttMessageBuilders;
+import io.netty.handler.codec.mqtt.MqttMessageIdVariableHeader;
+import io.netty.handler.codec.mqtt.MqttMessageType;
+import io.netty.handler.codec.mqtt.MqttPublishMessage;
+import io.netty.handler.codec.mqtt.MqttPublishVariableHeader;
+import io.netty.handler.codec.mqtt.MqttQoS;
+import io.netty.handler.codec.mqtt.MqttVersion;
+import io.netty.handler.ssl.SslContext;
+import io.netty.handler.timeout.IdleState;
+import io.netty.handler.timeout.IdleStateEvent;
+import io.netty.handler.timeout.IdleStateHandler;
+import io.netty.util.concurrent.DefaultThreadFactory;
+import java.io.IOException;
+import java.io.StringWriter;
+import java.io.UncheckedIOException;
+import java.net.URI;
+import java.nio.charset.StandardCharsets;
+import java.time.Instant;
+import java.time.format.DateTimeFormatter;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.ThreadLocalRandom;
+import java.util.concurrent.TimeUnit;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import wayward.config.ConfigPrinter;
+import wayward.config.MqttConfig;
+import wayward.event.Event;
+import wayward.event.EventJson;
+import wayward.event.EventKind;
+
+/**
+ * Publishes event phases to an MQTT broker, MQTT 3.1.1 (OASIS standard) through Netty's MQTT codec, over TCP
+ * or TLS. Every publish is QoS 1; a publish counts as delivered when its PUBACK arrives. The session is kept
+ * (clean session 0), and after a reconnect every unacknowledged publish is sent again with its packet
+ * identifier and the DUP flag (MQTT 3.1.1 §4.4). Keep-alive pings when idle; reconnect with exponential
+ * backoff and jitter; the will marks the service offline when the connection dies.
+ *
+ * <p>Topics, below the configured prefix:
+ * <ul>
+ * <li>{@code <camera>/<zone>/event}: every phase of a zone event (not retained)</li>
+ * <li>{@code <camera>/<zone>/state}: retained {@code alert} (with the event id) or {@code clear}</li>
+ * <li>{@code <camera>/event} and retained {@code <camera>/state} ({@code lost} / {@code watching}):
+ *     camera health</li>
+ * <li>{@code status/<client id>}: retained {@code online}; the will sets {@code offline}</li>
+ * </ul>
+ * All network work runs on one Netty event loop thread; {@link #send} may be called from the courier thread.
+ */
+public final class MqttPublisher implements Destination {
+    private static final Logger LOG = LoggerFactory.getLogger(MqttPublisher.class);
+    private static final JsonFactory JSON = new JsonFactory();
+
+    private final MqttConfig config;
+    private final String shownUrl;
+    private final String host;
+    private final int port;
+    private final SslContext ssl;
+    private final EventLoopGroup group;
+    private final EventLoop loop;
+    private final List<String> zones;
+    private final long runStartSeq;
+    private final String statusTopic;
+
+    // confined to the event loop thread
+    private final LinkedHashMap<Integer, Outgoing> inFlight = new LinkedHashMap<>();
+    private final Map<String, String> openThisRun = new HashMap<>();
+    private Channel channel;
+    private boolean connected;
+    private boolean closing;
+    private int nextPacketId = 1;
+    private long backoffMillis;
+    private String lastProblem;
+    private int failedAttempts;
+
+    /** One QoS 1 publish waiting for its PUBACK. */
+    private static final class Outgoing {
+        final String topic;
+        final byte[] payload;
+        final boolean retain;
+        final CompletableFuture<Void> acked = new CompletableFuture<>();
+        boolean sent;
+
+        Outgoing(String topic, byte[] payload, boolean retain) {
+            this.topic = topic;
+            this.payload = payload;
+            this.retain = retain;
+        }
+    }
+
+    /**
+     * @param zones       every configured zone as "camera/zone"; their state topics are set to clear once the
+     *                    outbox backlog is delivered, unless this run has an open alert there
+     * @param runStartSeq the first outbox seq of this run (phases before it come from an earlier run)
+     */
+    public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq) {
+        this.config = config;
+        this.shownUrl = ConfigPrinter.maskUrl(config.url());
+        URI uri = URI.create(config.url());
+        boolean tls = "mqtts".equalsIgnoreCase(uri.getScheme());
+        this.host = uri.getHost();
+        this.port = uri.getPort() > 0 ? uri.getPort() : (tls ? 8883 : 1883);
+        this.ssl = tls ? TlsTrust.clientContext(config.caFile(), shownUrl) : null;
+        this.zones = List.copyOf(zones);
+        this.runStartSeq = runStartSeq;
+        this.statusTopic = config.topicPrefix() + "/status/" + config.clientId();
+        this.backoffMillis = 1000;
+        this.group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("mqtt", true),
+                NioIoHandler.newFactory());
+        this.loop = group.next();
+        loop.execute(this::connect);
+    }
+
+    @Override
+    public String name() {
+        return "mqtt " + shownUrl;
+    }
+
+    @Override
+    public String key() {
+        return "mqtt-" + TlsTrust.shortHash(config.url() + " " + config.clientId());
+    }
+
+    @Override
+    public int window() {
+        return Math.max(1, config.inFlight());
+    }
+
+    /** The topic of a phase's own message. */
+    public static String eventTopic(String prefix, Event e) {
+        return prefix + "/" + e.camera() + (e.zone() != null ? "/" + e.zone() : "") + "/event";
+    }
+
+    /** The retained state topic a phase updates. */
+    public static String stateTopic(String prefix, String camera, String zone) {
+        return prefix + "/" + camera + (zone != null ? "/" + zone : "") + "/state";
+    }
+
+    @Override
+    public CompletableFuture<Result> send(long seq, Event e) {
+        byte[] body = EventJson.toJson(e).getBytes(StandardCharsets.UTF_8);
+        String stateTopic = stateTopic(config.topicPrefix(), e.camera(), e.zone());
+        byte[] state = statePayload(e);
+        CompletableFuture<Result> done = new CompletableFuture<>();
+        loop.execute(() -> {
+            if (e.zone() != null && seq >= runStartSeq) {
+                String key = e.camera() + "/" + e.zone();
+                if (e.phase() == Event.Phase.START) {
+                    openThisRun.put(key, e.id());
+                } else {
+                    openThisRun.remove(key);
+                }
+            }
+            CompletableFuture<Void> a = publish(eventTopic(config.topicPrefix(), e), body, false);
+            CompletableFuture<Void> b = publish(stateTopic, state, true);
+            CompletableFuture.allOf(a, b).whenComplete((v, x) -> done.complete(
+                    x == null ? Result.DELIVERED : Result.retry(String.valueOf(x))));
+        });
+        return done;
+    }
+
+    @Override
+    public void caughtUp() {
+        loop.execute(() -> {
+            for (String z : zones) {
+                if (!openThisRun.containsKey(z)) {
+                    int slash = z.indexOf('/');
+                    publish(stateTopic(config.topicPrefix(), z.substring(0, slash), z.substring(slash + 1)),
+                            json(g -> {
+                                g.writeStringField("state", "clear");
+                                g.writeStringField("at", now());
+                            }), true);
+                }
+            }
+        });
+    }
+
+    /** The retained state a phase sets: alert/clear for zones, lost/watching for cameras. */
+    static byte[] statePayload(Event e) {
+        String state;
+        if (e.zone() != null) {
+            state = e.phase() == Event.Phase.START ? "alert" : "clear";
+        } else {
+            state = e.kind() == EventKind.CAMERA_LOST && e.phase() == Event.Phase.START ? "lost" : "watching";
+        }
+        return json(g -> {
+            g.writeStringField("state", state);
+            g.writeStringField("event", e.id());
+            g.writeStringField("kind", e.kind().jsonName());
+            g.writeStringField("at", DateTimeFormatter.ISO_INSTANT.format(e.at()));
+        });
+    }
+
+    private interface Fields {
+        void write(JsonGenerator g) throws IOException;
+    }
+
+    private static byte[] json(Fields f) {
+        StringWriter out = new StringWriter(128);
+        try (JsonGenerator g = JSON.createGenerator(out)) {
+            g.writeStartObject();
+            f.write(g);
+            g.writeEndObject();
+        } catch (IOException ex) {
+            throw new UncheckedIOException(ex);
+        }
+        return out.toString().getBytes(StandardCharsets.UTF_8);
+    }
+
+    private static String now() {
+        return DateTimeFormatter.ISO_INSTANT.format(Instant.now());
+    }
+
+    private byte[] statusPayload(String state) {
+        return json(g -> {
+            g.writeStringField("state", state);
+            g.writeStringField("client", config.clientId());
+            if (!"offline".equals(state) || closing) {
+                g.writeStringField("at", now());
+            }
+        });
+    }
+
+    /** Queues a QoS 1 publish and sends it now if connected. Event loop only. */
+    private CompletableFuture<Void> publish(String topic, byte[] payload, boolean retain) {
+        Outgoing o = new Outgoing(topic, payload, retain);
+        int id = allocatePacketId();
+        inFlight.put(id, o);
+        if (connected) {
+            write(id, o);
+        }
+        return o.acked;
+    }
+
+    private int allocatePacketId() {
+        // MQTT 3.1.1 §2.3.1: a non-zero 16-bit identifier not in use by another unacknowledged publish
+        while (inFlight.containsKey(nextPacketId)) {
+            nextPacketId = nextPacketId % 65535 + 1;
+        }
+        int id = nextPacketId;
+        nextPacketId = nextPacketId % 65535 + 1;
+        return id;
+    }
+
+    private void write(int id, Outgoing o) {
+        boolean dup = o.sent;
+        o.sent = true;
+        MqttPublishMessage m = new MqttPublishMessage(
+                new MqttFixedHeader(MqttMessageType.PUBLISH, dup, MqttQoS.AT_LEAST_ONCE, o.retain, 0),
+                new MqttPublishVariableHeader(o.topic, id), Unpooled.wrappedBuffer(o.payload));
+        channel.writeAndFlush(m);
+    }
+
+    private void connect() {
+        if (closing) {
+            return;
+        }
+        Bootstrap b = new Bootstrap()
+                .group(loop)
+                .channel(NioSocketChannel.class)
+                .option(ChannelOption.CONNECT_TIMEOUT_MILLIS, 10_000)
+                .handler(new ChannelInitializer<SocketChannel>() {
+                    @Override
+                    protected void initChannel(SocketChannel ch) {
+                        if (ssl != null) {
+                            ch.pipeline().addLast(ssl.newHandler(ch.alloc(), host, port));
+                        }
+                        int keepAlive = config.keepAliveSeconds();
+                        // a broker that says nothing for 1.5 keep-alive periods is gone (MQTT 3.1.1 §3.1.2.10)
+                        ch.pipeline().addLast(new IdleStateHandler(keepAlive * 3 / 2, keepAlive, 0));
+                        ch.pipeline().addLast(new MqttDecoder());
+                        ch.pipeline().addLast(MqttEncoder.INSTANCE);
+                        ch.pipeline().addLast(new Handler());
+                    }
+                });
+        ChannelFuture f = b.connect(host, port);
+        f.addListener(done -> {
+            if (!done.isSuccess()) {
+                problem(describe(done.cause()));
+                scheduleReconnect();
+            }
+        });
+    }
+
+    private static String describe(Throwable t) {
+        Throwable c = t;
+        while (c.getCause() != null && c.getCause() != c) {
+            c = c.getCause();
+        }
+        String m = c.getMessage() != null ? c.getMessage() : c.getClass().getSimpleName();
+        return t == c ? m : (t.getMessage() != null ? t.getMessage() : m);
+    }
+
+    /** Logs a problem once while it lasts; a different problem is logged again. */
+    private void problem(String what) {
+        failedAttempts++;
+        if (!what.equals(lastProblem)) {
+            LOG.warn("{}: {}; {} event phases waiting, retrying with backoff up to {} s", name(), what,
+                    inFlight.size(), (long) config.maxBackoffSeconds());
+            lastProblem = what;
+        } else {
+            LOG.debug("{}: {} (attempt {})", name(), what, failedAttempts);
+        }
+    }
+
+    private void scheduleReconnect() {
+        if (closing) {
+            return;
+        }
+        long wait = backoffMillis + ThreadLocalRandom.current().nextLong(backoffMillis / 4 + 1);
+        backoffMillis = Math.min(backoffMillis * 2, (long) (config.maxBackoffSeconds() * 1000));
+        loop.schedule(this::connect, wait, TimeUnit.MILLISECONDS);
+    }
+
+    private final class Handler extends SimpleChannelInboundHandler<MqttMessage> {
+        private String dropReason;
+
+        @Override
+        public void channelActive(ChannelHandlerContext ctx) {
+            channel = ctx.channel();
+            MqttMessageBuilders.ConnectBuilder c = MqttMessageBuilders.connect()
+                    .protocolVersion(MqttVersion.MQTT_3_1_1)
+                    .clientId(config.clientId())
+                    .cleanSession(false)
+                    .keepAlive(config.keepAliveSeconds())
+                    .willFlag(true)
+                    .willQoS(MqttQoS.AT_LEAST_ONCE)
+                    .willRetain(true)
+                    .willTopic(statusTopic)
+                    .willMessage(statusPayload("offline"));
+            if (config.username() != null) {
+                c.hasUser(true).username(config.username());
+                if (config.password() != null) {
+                    c.hasPassword(true).password(config.password());
+                }
+            }
+            ctx.writeAndFlush(c.build());
+        }
+
+        @Override
+        protected void channelRead0(ChannelHandlerContext ctx, MqttMessage m) {
+            if (m.decoderResult().isFailure()) {
+                dropReason = "broker sent a malformed packet (" + m.decoderResult().cause() + ")";
+                ctx.close();
+                return;
+            }
+            switch (m.fixedHeader().messageType()) {
+                case CONNACK -> connAck(ctx, (MqttConnAckMessage) m);
+                case PUBACK -> {
+                    int id = ((MqttMessageIdVariableHeader) m.variableHeader()).messageId();
+                    Outgoing o = inFlight.remove(id);
+                    if (o != null) {
+                        o.acked.complete(null);
+                    }
+                }
+                case PINGRESP -> {
+                    // the idle handler counts it as traffic
+                }
+                default -> LOG.debug("{}: ignoring {}", name(), m.fixedHeader().messageType());
+            }
+        }
+
+        private void connAck(ChannelHandlerContext ctx, MqttConnAckMessage m) {
+            MqttConnectReturnCode code = m.variableHeader().connectReturnCode();
+            if (code != MqttConnectReturnCode.CONNECTION_ACCEPTED) {
+                dropReason = switch (code) {
+                    case CONNECTION_REFUSED_BAD_USER_NAME_OR_PASSWORD ->
+                            "broker refused the login of user '" + config.username()
+                                    + "': bad user name or password (CONNACK code 4)";
+                    case CONNECTION_REFUSED_NOT_AUTHORIZED ->
+                            "broker refused the connection: not authorised"
+                                    + (config.username() == null ? " (no username configured)" : " for user '"
+                                    + config.username() + "'") + " (CONNACK code 5)";
+                    case CONNECTION_REFUSED_IDENTIFIER_REJECTED ->
+                            "broker rejected the client id '" + config.clientId() + "' (CONNACK code 2)";
+                    default -> "broker refused the connection: " + code;
+                };
+                ctx.close();
+                return;
+            }
+            connected = true;
+            if (failedAttempts > 0) {
+                LOG.info("{}: connected again after {} failed attempts; sending {} unacknowledged publishes",
+                        name(), failedAttempts, inFlight.size());
+            } else {
+                LOG.info("{}: connected as {} (session present: {})", name(), config.clientId(),
+                        m.variableHeader().isSessionPresent());
+            }
+            failedAttempts = 0;
+            lastProblem = null;
+            backoffMillis = 1000;
+            // everything still unacknowledged, in its order (DUP set on those sent before), then the status
+            for (Map.Entry<Integer, Outgoing> en : new ArrayList<>(inFlight.entrySet())) {
+                write(en.getKey(), en.getValue());
+            }
+            publish(statusTopic, statusPayload("online"), true);
+        }
+
+        @Override
+        public void userEventTriggered(ChannelHandlerContext ctx, Object evt) throws Exception {
+            if (evt instanceof IdleStateEvent idle) {
+                if (idle.state() == IdleState.WRITER_IDLE) {
+                    ctx.writeAndFlush(new MqttMessage(new MqttFixedHeader(MqttMessageType.PINGREQ, false,
+                            MqttQoS.AT_MOST_ONCE, false, 0)));
+                } else if (idle.state() == IdleState.READER_IDLE) {
+                    dropReason = "broker silent for " + config.keepAliveSeconds() * 3 / 2 + " s";
+                    ctx.close();
+                }
+                return;
+            }
+            super.userEventTriggered(ctx, evt);
+        }
+
+        @Override
+        public void exceptionCaught(ChannelHandlerContext ctx, Throwable cause) {
+            if (dropReason == null) {
+                dropReason = describe(cause);
+            }
+            ctx.close();
+        }
+
+        @Override
+        public void channelInactive(ChannelHandlerContext ctx) {
+            boolean was = connected;
+            connected = false;
+            channel = null;
+            if (closing) {
+                return;
+            }
+            String why = dropReason != null ? dropReason : "connection closed by the broker";
+            problem(was ? "connection lost (" + why + ")" : why);
+            scheduleReconnect();
+        }
+    }
+
+    /**
+     * Publishes the retained offline status, waits briefly for it, disconnects cleanly (so no will is sent)
+     * and stops the event loop. Unacknowledged event phases stay in the outbox.
+     */
+    @Override
+    public void close() {
+        CompletableFuture<Void> done = new CompletableFuture<>();
+        loop.execute(() -> {
+            if (!connected) {
+                closing = true;
+                done.complete(null);
+                return;
+            }
+            closing = true;
+            publish(statusTopic, statusPayload("offline"), true).orTimeout(2, TimeUnit.SECONDS)
+                    .whenComplete((v, x) -> loop.execute(() -> {
+                        if (channel != null) {
+                            Channel ch = channel;
+                            ch.writeAndFlush(new MqttMessage(new MqttFixedHeader(MqttMessageType.DISCONNECT,
+                                    false, MqttQoS.AT_MOST_ONCE, false, 0))).addListener(f -> ch.close());
+                        }
+                        done.complete(null);
+                    }));
+        });
+        try {
+            done.get(4, TimeUnit.SECONDS);
+        } catch (Exception e) {
+            LOG.debug("{}: close: {}", name(), e.toString());
+        }
+        group.shutdownGracefully(0, 2, TimeUnit.SECONDS).awaitUninterruptibly(3000);
+    }
+}

@@ -1,0 +1,30 @@
+package wayward.delivery;
+
+import ch.qos.logback.classic.Logger;
+import ch.qos.logback.classic.spi.ILoggingEvent;
+import ch.qos.logback.core.read.ListAppender;
+import java.util.List;
+import org.slf4j.LoggerFactory;
+
+/** Collects the formatted log lines of one class while a test runs. */
+final class LogCapture implements AutoCloseable {
+    private final Logger logger;
+    private final ListAppender<ILoggingEvent> appender = new ListAppender<>();
+
+    LogCapture(Class<?> source) {
+        logger = (Logger) LoggerFactory.getLogger(source);
+        appender.start();
+        logger.addAppender(appender);
+    }
+
+    List<String> lines() {
+        synchronized (appender.list) {
+            return appender.list.stream().map(e -> e.getLevel() + " " + e.getFormattedMessage()).toList();
+        }
+    }
+
+    @Override
+    public void close() {
+        logger.detachAppender(appender);
+    }
+}
