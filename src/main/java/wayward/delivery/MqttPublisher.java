@@ -42,7 +42,6 @@ import java.nio.charset.StandardCharsets;
 import java.time.Instant;
 import java.time.format.DateTimeFormatter;
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -91,7 +90,8 @@ public final class MqttPublisher implements Destination {
 
     // confined to the event loop thread
     private final LinkedHashMap<Integer, Outgoing> inFlight = new LinkedHashMap<>();
-    private final Map<String, String> openThisRun = new HashMap<>();
+    /** Zones ("camera/zone") that had a phase in this run; their retained state is already current. */
+    private final java.util.Set<String> touchedThisRun = new java.util.HashSet<>();
     private Channel channel;
     private boolean connected;
     private boolean closing;
@@ -116,8 +116,9 @@ public final class MqttPublisher implements Destination {
     }
 
     /**
-     * @param zones       every configured zone as "camera/zone"; their state topics are set to clear once the
-     *                    outbox backlog is delivered, unless this run has an open alert there
+     * @param zones       every configured zone as "camera/zone"; once the outbox backlog is delivered, the state
+     *                    of each zone without a phase in this run is set to clear (an alert left open by a
+     *                    crashed earlier run does not stay retained forever)
      * @param runStartSeq the first outbox seq of this run (phases before it come from an earlier run)
      */
     public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq) {
@@ -171,12 +172,7 @@ public final class MqttPublisher implements Destination {
         CompletableFuture<Result> done = new CompletableFuture<>();
         loop.execute(() -> {
             if (e.zone() != null && seq >= runStartSeq) {
-                String key = e.camera() + "/" + e.zone();
-                if (e.phase() == Event.Phase.START) {
-                    openThisRun.put(key, e.id());
-                } else {
-                    openThisRun.remove(key);
-                }
+                touchedThisRun.add(e.camera() + "/" + e.zone());
             }
             CompletableFuture<Void> a = publish(eventTopic(config.topicPrefix(), e), body, false);
             CompletableFuture<Void> b = publish(stateTopic, state, true);
@@ -190,7 +186,7 @@ public final class MqttPublisher implements Destination {
     public void caughtUp() {
         loop.execute(() -> {
             for (String z : zones) {
-                if (!openThisRun.containsKey(z)) {
+                if (!touchedThisRun.contains(z)) {
                     int slash = z.indexOf('/');
                     publish(stateTopic(config.topicPrefix(), z.substring(0, slash), z.substring(slash + 1)),
                             json(g -> {
@@ -322,7 +318,7 @@ public final class MqttPublisher implements Destination {
     private void problem(String what) {
         failedAttempts++;
         if (!what.equals(lastProblem)) {
-            LOG.warn("{}: {}; {} event phases waiting, retrying with backoff up to {} s", name(), what,
+            LOG.warn("{}: {}; {} publishes waiting, retrying with backoff up to {} s", name(), what,
                     inFlight.size(), (long) config.maxBackoffSeconds());
             lastProblem = what;
         } else {
@@ -344,6 +340,12 @@ public final class MqttPublisher implements Destination {
 
         @Override
         public void channelActive(ChannelHandlerContext ctx) {
+            if (ctx.channel().localAddress().equals(ctx.channel().remoteAddress())) {
+                // TCP can connect a socket to itself when nothing listens on a port of the ephemeral range
+                dropReason = "nothing listens on " + host + ":" + port;
+                ctx.close();
+                return;
+            }
             channel = ctx.channel();
             MqttMessageBuilders.ConnectBuilder c = MqttMessageBuilders.connect()
                     .protocolVersion(MqttVersion.MQTT_3_1_1)
