@@ -80,7 +80,7 @@ class RunWebhookIT {
         server.start();
         try {
             Path config = YardSite.config(dir, YardSite.clip().toString(),
-                    "[[webhook]]", "url = \"http://127.0.0.1:" + server.getAddress().getPort() + "/hook\"", "retries = 3");
+                    "[[webhook]]", "url = \"http://127.0.0.1:" + server.getAddress().getPort() + "/hook\"", "max_backoff_seconds = 5");
             ProcessRunner.Result r = ProcessRunner.run(List.of("java", "-jar", ProcessRunner.jar().toString(),
                     "run", "--config", config.toString()), dir, 150);
             assertEquals(0, r.exitCode(), r.stderr());
@@ -95,6 +95,53 @@ class RunWebhookIT {
             assertEquals(bodies, log, "event log and webhook carry the same records");
             checkEvidence(dir.resolve("data"), start, end, log);
         } finally {
+            server.stop(0);
+        }
+    }
+
+    @Test
+    @Timeout(value = 180, unit = TimeUnit.SECONDS)
+    void aStalledReceiverDoesNotHoldUpAnalysis(@TempDir Path dir) throws Exception {
+        java.util.concurrent.CountDownLatch release = new java.util.concurrent.CountDownLatch(1);
+        List<String> bodies = new CopyOnWriteArrayList<>();
+        AtomicInteger calls = new AtomicInteger();
+        HttpServer server = HttpServer.create(new InetSocketAddress("127.0.0.1", 0), 0);
+        server.setExecutor(java.util.concurrent.Executors.newFixedThreadPool(2));
+        server.createContext("/hook", ex -> {
+            calls.incrementAndGet();
+            String body = new String(ex.getRequestBody().readAllBytes(), StandardCharsets.UTF_8);
+            try {
+                release.await(); // the receiver hangs until the test lets it answer
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+            bodies.add(body);
+            ex.sendResponseHeaders(200, -1);
+            ex.close();
+        });
+        server.start();
+        Process service = null;
+        try {
+            Path config = YardSite.config(dir, YardSite.clip().toString(), "[clips]", "enabled = false",
+                    "[[webhook]]", "url = \"http://127.0.0.1:" + server.getAddress().getPort() + "/hook\"",
+                    "timeout_seconds = 300");
+            service = YardSite.startService(dir, config);
+            Path log = dir.resolve("data/events.jsonl");
+            // analysis goes on: the end phase is decided and logged while the first POST still hangs
+            YardSite.awaitEvent(log, "wrong_way", "end", 1, 90);
+            assertEquals(1, calls.get(), "one request, unanswered");
+            assertEquals(0, bodies.size());
+            release.countDown();
+            long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(30);
+            while (bodies.size() < 2 && System.nanoTime() < deadline) {
+                TimeUnit.MILLISECONDS.sleep(100); // polling for the deliveries, not a synchronisation sleep
+            }
+            assertEquals(Files.readAllLines(log, StandardCharsets.UTF_8), bodies, "both phases, in order");
+        } finally {
+            release.countDown();
+            if (service != null) {
+                service.destroyForcibly().waitFor();
+            }
             server.stop(0);
         }
     }
