@@ -85,8 +85,9 @@ public final class VideoSource implements Runnable {
     private final FrameSlot slot;
     private final Health health;
     private final ClipRecorder clips;
-    private boolean lost;
-    private boolean connectedOnce;
+    private volatile boolean lost;
+    private volatile boolean connectedOnce;
+    private volatile long reconnects;
     private long lastFrameNanos;
     private volatile boolean stopping;
     private volatile String fileFailure;
@@ -106,10 +107,10 @@ public final class VideoSource implements Runnable {
     private double lastSeconds = -1;
     private double nominalFrameSeconds = 1.0 / 25;
     private double nextDue;
-    private long frameIndex;
+    private volatile long frameIndex;
     private long wallStartNanos;
     private double wallStartStream;
-    private long decodeErrors;
+    private volatile long decodeErrors;
 
     // buffers, capture thread only
     private byte[] luma = new byte[0];
@@ -140,6 +141,21 @@ public final class VideoSource implements Runnable {
 
     public long decodeErrors() {
         return decodeErrors;
+    }
+
+    /** Pictures decoded so far (all passes and connections). Any thread. */
+    public long framesIn() {
+        return frameIndex;
+    }
+
+    /** Reconnect attempts of a live source so far. Any thread. */
+    public long reconnects() {
+        return reconnects;
+    }
+
+    /** True while frames arrive: connected once and not lost since. Any thread. */
+    public boolean delivering() {
+        return connectedOnce && !lost;
     }
 
     /** For a file that gave no frame at all: why (FFmpeg's reason); otherwise null. */
@@ -199,6 +215,7 @@ public final class VideoSource implements Runnable {
                 LOG.warn("camera {}: stream {} {}; reconnecting in {} ms", cameraId, shown,
                         failure != null ? "failed (" + failure + ")" : "ended", backoffMillis + jitter);
                 Thread.sleep(backoffMillis + jitter);
+                reconnects++;
                 backoffMillis = Math.min(30_000, backoffMillis * 2);
                 offsetSeconds = lastSeconds + nominalFrameSeconds;
                 firstSeconds = Double.NaN;

@@ -236,11 +236,30 @@ public final class Main {
     }
 
     private static int serve(Service s) throws Exception {
-        Thread hook = new Thread(s::stop, "shutdown");
+        wayward.http.StatusServer[] server = new wayward.http.StatusServer[1];
+        Runnable stopAll = () -> {
+            s.stop();
+            synchronized (server) {
+                if (server[0] != null) {
+                    server[0].close(); // last, so health and metrics answer while the rest shuts down
+                    server[0] = null;
+                }
+            }
+        };
+        Thread hook = new Thread(stopAll, "shutdown");
         Runtime.getRuntime().addShutdownHook(hook);
         s.start();
+        if (s.config().http() != null) {
+            try {
+                synchronized (server) {
+                    server[0] = wayward.http.StatusServer.start(s.config().http(), s);
+                }
+            } catch (java.io.IOException e) {
+                org.slf4j.LoggerFactory.getLogger(Main.class).error("status server: {}", e.getMessage());
+            }
+        }
         s.awaitEnd();
-        s.stop();
+        stopAll.run();
         try {
             Runtime.getRuntime().removeShutdownHook(hook);
         } catch (IllegalStateException shuttingDown) {

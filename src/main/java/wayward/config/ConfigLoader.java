@@ -63,11 +63,13 @@ public final class ConfigLoader {
     private static SiteConfig bind(TomlParseResult root, Path base, Path file, Errors errors) {
         Scope top = new Scope(errors, root, "", TomlPosition.positionAt(1, 1));
         Path dataDir = base.resolve("data");
+        HttpConfig http = new HttpConfig("127.0.0.1", 8786, null, null);
         TomlTable serviceTable = top.table("service");
         if (serviceTable != null) {
             Scope s = new Scope(errors, serviceTable, "service", root.inputPositionOf(List.of("service")));
             String dir = s.string("data_dir", "data", "a folder path");
             dataDir = base.resolve(dir).normalize();
+            http = http(s, base);
             s.finish();
         }
         FlowConfig flow = FlowConfig.DEFAULTS;
@@ -160,7 +162,36 @@ public final class ConfigLoader {
             s.finish();
         }
         top.finish();
-        return new SiteConfig(file, dataDir, flow, cameras, webhooks, clips, mqtt, outboxMaxBytes);
+        return new SiteConfig(file, dataDir, flow, cameras, webhooks, clips, mqtt, outboxMaxBytes, http);
+    }
+
+    /** {@code http} ("host:port" or "off") and {@code token_file} of [service]; null when off. */
+    private static HttpConfig http(Scope s, Path base) {
+        String expected = "\"host:port\" such as \"127.0.0.1:8786\", or \"off\"";
+        String address = s.string("http", "127.0.0.1:8786", expected);
+        String tokenFile = s.string("token_file", null, "a file holding the bearer token for the status server");
+        byte[] token = tokenFile == null ? null : secret(s, base, "token_file", tokenFile, "bearer token");
+        if (address.equals("off")) {
+            return null;
+        }
+        int colon = address.lastIndexOf(':');
+        String host = colon > 0 ? address.substring(0, colon) : "";
+        int port = -1;
+        try {
+            port = colon > 0 ? Integer.parseInt(address.substring(colon + 1)) : -1;
+        } catch (NumberFormatException e) {
+            // reported below
+        }
+        if (host.isEmpty() || port < 0 || port > 65535 || !host.matches("[A-Za-z0-9.:\\[\\]-]+")) {
+            s.error("http", address, expected);
+            return null;
+        }
+        HttpConfig c = new HttpConfig(host, port, tokenFile, token);
+        if (!c.loopback() && tokenFile == null) {
+            s.error("http", address, "a loopback address such as 127.0.0.1:8786, or token_file set as well "
+                    + "(anything but /health needs the token when the server is reachable from elsewhere)");
+        }
+        return c;
     }
 
     private static MqttConfig mqtt(Scope s, Path base) {

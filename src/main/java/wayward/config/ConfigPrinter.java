@@ -16,6 +16,10 @@ public final class ConfigPrinter {
         b.append("# effective configuration of ").append(c.file()).append(" (defaults filled in, secrets masked)\n");
         b.append("[service]\n");
         b.append("data_dir = ").append(quote(c.dataDir().toString())).append('\n');
+        b.append("http = ").append(quote(c.http() == null ? "off" : c.http().host() + ":" + c.http().port())).append('\n');
+        if (c.http() != null && c.http().tokenFile() != null) {
+            b.append("token_file = ").append(quote(c.http().tokenFile())).append("   # the token itself is never printed\n");
+        }
         b.append("\n[flow]\n");
         b.append("levels = ").append(c.flow().levels()).append('\n');
         b.append("iterations = ").append(c.flow().iterations()).append('\n');

@@ -15,9 +15,10 @@ import java.util.List;
  * @param clips    evidence clip settings
  * @param mqtt     the MQTT broker, or null
  * @param outboxMaxBytes bound on the durable outbox's size on disk
+ * @param http     the status server, or null when off
  */
 public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
-        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes) {
+        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http) {
     public SiteConfig {
         cameras = List.copyOf(cameras);
         webhooks = List.copyOf(webhooks);

@@ -85,6 +85,11 @@ public final class Courier {
         return retries.get();
     }
 
+    /** Event phases in the outbox this destination has not yet taken. */
+    public long pending() {
+        return Math.max(0, outbox.nextSeq() - progress.next());
+    }
+
     /** The next outbox seq this destination still has to take. */
     public long next() {
         return progress.next();

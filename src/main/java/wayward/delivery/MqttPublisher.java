@@ -1,7 +1,5 @@
 package wayward.delivery;
 
-import com.fasterxml.jackson.core.JsonFactory;
-import com.fasterxml.jackson.core.JsonGenerator;
 import io.netty.bootstrap.Bootstrap;
 import io.netty.buffer.Unpooled;
 import io.netty.channel.Channel;
@@ -34,9 +32,6 @@ import io.netty.handler.timeout.IdleState;
 import io.netty.handler.timeout.IdleStateEvent;
 import io.netty.handler.timeout.IdleStateHandler;
 import io.netty.util.concurrent.DefaultThreadFactory;
-import java.io.IOException;
-import java.io.StringWriter;
-import java.io.UncheckedIOException;
 import java.net.URI;
 import java.nio.charset.StandardCharsets;
 import java.time.Instant;
@@ -75,7 +70,6 @@ import wayward.event.EventKind;
  */
 public final class MqttPublisher implements Destination {
     private static final Logger LOG = LoggerFactory.getLogger(MqttPublisher.class);
-    private static final JsonFactory JSON = new JsonFactory();
 
     private final MqttConfig config;
     private final String shownUrl;
@@ -214,20 +208,8 @@ public final class MqttPublisher implements Destination {
         });
     }
 
-    private interface Fields {
-        void write(JsonGenerator g) throws IOException;
-    }
-
-    private static byte[] json(Fields f) {
-        StringWriter out = new StringWriter(128);
-        try (JsonGenerator g = JSON.createGenerator(out)) {
-            g.writeStartObject();
-            f.write(g);
-            g.writeEndObject();
-        } catch (IOException ex) {
-            throw new UncheckedIOException(ex);
-        }
-        return out.toString().getBytes(StandardCharsets.UTF_8);
+    private static byte[] json(EventJson.Fields f) {
+        return EventJson.object(f).getBytes(StandardCharsets.UTF_8);
     }
 
     private static String now() {

@@ -122,6 +122,24 @@ public final class EventJson {
         throw new IllegalArgumentException("unknown phase " + name);
     }
 
+    /** Writes the fields of one JSON object. */
+    public interface Fields {
+        void write(JsonGenerator g) throws IOException;
+    }
+
+    /** One JSON object on one line, its fields written by {@code f} (status payloads, API answers). */
+    public static String object(Fields f) {
+        StringWriter out = new StringWriter(256);
+        try (JsonGenerator g = JSON.createGenerator(out)) {
+            g.writeStartObject();
+            f.write(g);
+            g.writeEndObject();
+        } catch (IOException ex) {
+            throw new UncheckedIOException(ex);
+        }
+        return out.toString();
+    }
+
     /** Writes a number rounded to 1/scale, or nothing for NaN. */
     private static void number(JsonGenerator g, String name, double value, double scale) throws IOException {
         if (!Double.isNaN(value) && !Double.isInfinite(value)) {

@@ -40,6 +40,10 @@ public final class CameraPipeline {
     private final Thread captureThread;
     private final Thread analysisThread;
     private volatile long analysedFrames;
+    private volatile long analysisNanos;
+    private final java.util.concurrent.atomic.AtomicLongArray zoneCoverage;
+    private final java.util.concurrent.atomic.AtomicLongArray zoneAgainst;
+    private final java.util.concurrent.atomic.AtomicLongArray zoneEvents;
     private volatile double lastStreamSeconds;
 
     // analysis-thread state
@@ -95,6 +99,14 @@ public final class CameraPipeline {
         }, "analysis-" + camera.id());
         for (ZoneConfig z : camera.zones()) {
             rules.add(new ZoneRule(camera.id(), z.id(), z.hasHeading(), z.rule(), clock));
+        }
+        int zones = camera.zones().size();
+        this.zoneCoverage = new java.util.concurrent.atomic.AtomicLongArray(zones);
+        this.zoneAgainst = new java.util.concurrent.atomic.AtomicLongArray(zones);
+        this.zoneEvents = new java.util.concurrent.atomic.AtomicLongArray(zones);
+        for (int z = 0; z < zones; z++) {
+            zoneCoverage.set(z, Double.doubleToRawLongBits(Double.NaN));
+            zoneAgainst.set(z, Double.doubleToRawLongBits(Double.NaN));
         }
     }
 
@@ -162,6 +174,48 @@ public final class CameraPipeline {
         return analysedFrames;
     }
 
+    /** Pictures decoded by the capture thread. */
+    public long framesIn() {
+        return source.framesIn();
+    }
+
+    public long decodeErrors() {
+        return source.decodeErrors();
+    }
+
+    public long reconnects() {
+        return source.reconnects();
+    }
+
+    /** True while the source delivers pictures (false before the first and during an outage). */
+    public boolean delivering() {
+        return source.delivering();
+    }
+
+    /** Wall time spent in flow, zone meters and rules so far, seconds. */
+    public double analysisSeconds() {
+        return analysisNanos / 1e9;
+    }
+
+    public CameraConfig config() {
+        return camera;
+    }
+
+    /** The zone's latest coverage (share of its pixels moving), 0..1; NaN before the first reading. */
+    public double zoneCoverage(int zone) {
+        return Double.longBitsToDouble(zoneCoverage.get(zone));
+    }
+
+    /** The zone's latest share of pixels moving against its heading, 0..1; NaN before the first reading. */
+    public double zoneAgainst(int zone) {
+        return Double.longBitsToDouble(zoneAgainst.get(zone));
+    }
+
+    /** Events started in the zone so far. */
+    public long zoneEvents(int zone) {
+        return zoneEvents.get(zone);
+    }
+
     public long droppedFrames() {
         return slot.dropped();
     }
@@ -190,20 +244,28 @@ public final class CameraPipeline {
                 if (!Double.isNaN(previous) && (dt <= 0 || dt > MAX_GAP_SECONDS)) {
                     flow.reset();
                 }
+                long began = System.nanoTime();
                 boolean estimated = flow.push(f.pixels, field);
                 previous = t;
                 lastStreamSeconds = t;
                 analysedFrames++;
                 if (!estimated || dt <= 0 || dt > MAX_GAP_SECONDS) {
+                    analysisNanos += System.nanoTime() - began;
                     continue;
                 }
                 for (int z = 0; z < meters.size(); z++) {
                     meters.get(z).measure(field, dt, t, reading);
+                    zoneCoverage.set(z, Double.doubleToRawLongBits(reading.coverage));
+                    zoneAgainst.set(z, Double.doubleToRawLongBits(reading.against));
                     Event e = rules.get(z).update(reading);
                     if (e != null) {
+                        if (e.phase() == Event.Phase.START) {
+                            zoneEvents.incrementAndGet(z);
+                        }
                         emit(withEvidence(e, camera.zones().get(z), f));
                     }
                 }
+                analysisNanos += System.nanoTime() - began;
             }
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();

@@ -51,6 +51,8 @@ public final class Service {
     private final PrintStream stdout;
     private final int maxLoops;
     private final EventBus bus = new EventBus();
+    private final wayward.delivery.RecentEvents recent = new wayward.delivery.RecentEvents(200);
+    private Outbox outbox;
     private final List<CameraPipeline> pipelines = new ArrayList<>();
     private final CountDownLatch ended = new CountDownLatch(1);
     private wayward.clip.EvidenceWriter evidenceWriter;
@@ -88,8 +90,7 @@ public final class Service {
             bus.add(log, QUEUE_CAPACITY);
             LOG.info("events are written to {}", log.file());
             if (!config.webhooks().isEmpty() || config.mqtt() != null) {
-                Outbox outbox = Outbox.open(config.dataDir().resolve("outbox"), config.outboxMaxBytes(),
-                        SEGMENT_BYTES);
+                outbox = Outbox.open(config.dataDir().resolve("outbox"), config.outboxMaxBytes(), SEGMENT_BYTES);
                 long runStart = outbox.nextSeq();
                 bus.useOutbox(outbox);
                 LOG.info("events for webhooks and MQTT go through the outbox in {} (at most {} MB, delivered at "
@@ -114,6 +115,7 @@ public final class Service {
         if (mode != Mode.RUN) {
             bus.add(new PrintSink(stdout), QUEUE_CAPACITY);
         }
+        bus.add(recent, QUEUE_CAPACITY);
         Clock clock = Clock.systemUTC();
         CameraPipeline.Evidence evidence = null;
         if (mode != Mode.REPLAY && config.clips().enabled()) {
@@ -178,6 +180,23 @@ public final class Service {
 
     public List<CameraPipeline> pipelines() {
         return List.copyOf(pipelines);
+    }
+
+    public SiteConfig config() {
+        return config;
+    }
+
+    public EventBus bus() {
+        return bus;
+    }
+
+    /** The outbox, or null when no webhook or broker is configured (or in replay). */
+    public Outbox outbox() {
+        return outbox;
+    }
+
+    public wayward.delivery.RecentEvents recentEvents() {
+        return recent;
     }
 
     /** Orderly shutdown, each step time-limited. Idempotent; any thread. */

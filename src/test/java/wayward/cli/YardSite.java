@@ -20,6 +20,9 @@ final class YardSite {
     /** Writes site.toml into {@code dir} for a camera reading {@code source}; extra tables go first. */
     static Path config(Path dir, String source, String... extraTables) throws IOException {
         List<String> lines = new ArrayList<>(List.of("[service]", "data_dir = \"data\""));
+        if (List.of(extraTables).stream().noneMatch(l -> l.startsWith("http ="))) {
+            lines.add("http = \"off\""); // tests that want the status server pass their own address
+        }
         lines.addAll(List.of(extraTables));
         lines.addAll(List.of(
                 "[[camera]]",

@@ -42,6 +42,7 @@ class ConfigLoaderTest {
         "mqtt-url-not-mqtt.toml | 11:1: mqtt.url: \"http://broker.yard.example:1883\" (expected mqtt://host[:port] or mqtts://host[:port] (user name and password go in username and password_file))",
         "mqtt-client-id-too-long.toml | 12:1: mqtt.client_id: \"wayward-north-yard-gate-house-1\" (expected 1 to 23 letters, digits or '-' (what every MQTT 3.1.1 broker accepts))",
         "webhook-own-header.toml | 12:1: webhook[0].headers: \"Content-Type\" (expected a header wayward does not set itself)",
+        "http-open-without-token.toml | 2:1: service.http: \"0.0.0.0:8786\" (expected a loopback address such as 127.0.0.1:8786, or token_file set as well (anything but /health needs the token when the server is reachable from elsewhere))",
         "webhook-ca-without-https.toml | 12:1: webhook[0].ca_file: \"yard-ca.pem\" (expected only with an https:// or mqtts:// url)",
     })
     void reportsOneLocatedLinePerMistake(String fixture, String expected) {
@@ -107,6 +108,7 @@ class ConfigLoaderTest {
         assertEquals("yard/north", c.mqtt().topicPrefix());
         assertEquals("wayward-north-1", c.mqtt().clientId());
         assertEquals(256L << 20, c.outboxMaxBytes());
+        assertEquals(8786, c.http().port());
         assertEquals(Path.of("/var/lib/wayward"), c.dataDir());
     }
 

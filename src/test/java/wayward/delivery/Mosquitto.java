@@ -44,7 +44,7 @@ public final class Mosquitto implements AutoCloseable {
      * A free loopback port below the ephemeral range, so no client socket can get it as its own port while
      * the broker is down (which would make connecting to it connect a socket to itself).
      */
-    static int freePort() throws IOException {
+    public static int freePort() throws IOException {
         for (int i = 0; i < 200; i++) {
             int p = 20000 + ThreadLocalRandom.current().nextInt(12000);
             try (ServerSocket s = new ServerSocket()) {

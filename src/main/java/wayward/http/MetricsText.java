@@ -1,0 +1,165 @@
+package wayward.http;
+
+import java.lang.management.ManagementFactory;
+import java.lang.management.MemoryMXBean;
+import java.util.List;
+import java.util.Locale;
+import wayward.clip.ClipWriter;
+import wayward.config.ZoneConfig;
+import wayward.delivery.Courier;
+import wayward.delivery.EventBus;
+import wayward.delivery.Outbox;
+import wayward.service.CameraPipeline;
+import wayward.service.Service;
+
+/**
+ * The service's figures in the Prometheus text exposition format (version 0.0.4): one HELP and TYPE line per
+ * family, then its samples. Built on each scrape from the live counters; any thread.
+ */
+final class MetricsText {
+    private final StringBuilder b = new StringBuilder(4096);
+
+    private MetricsText() {
+    }
+
+    static String of(Service service) {
+        MetricsText m = new MetricsText();
+        m.cameras(service.pipelines());
+        m.delivery(service.bus(), service.outbox());
+        m.process();
+        return m.b.toString();
+    }
+
+    private void family(String name, String type, String help) {
+        b.append("# HELP ").append(name).append(' ').append(help).append('\n');
+        b.append("# TYPE ").append(name).append(' ').append(type).append('\n');
+    }
+
+    private void sample(String name, double value, String... labels) {
+        b.append(name);
+        if (labels.length > 0) {
+            b.append('{');
+            for (int i = 0; i < labels.length; i += 2) {
+                b.append(i == 0 ? "" : ",").append(labels[i]).append("=\"").append(escape(labels[i + 1])).append('"');
+            }
+            b.append('}');
+        }
+        b.append(' ').append(number(value)).append('\n');
+    }
+
+    /** Label values escape backslash, double quote and line feed (exposition format). */
+    static String escape(String v) {
+        return v.replace("\\", "\\\\").replace("\"", "\\\"").replace("\n", "\\n");
+    }
+
+    static String number(double v) {
+        if (Double.isNaN(v)) {
+            return "NaN";
+        }
+        if (Double.isInfinite(v)) {
+            return v > 0 ? "+Inf" : "-Inf";
+        }
+        if (v == Math.rint(v) && Math.abs(v) < 1e15) {
+            return Long.toString((long) v);
+        }
+        return String.format(Locale.ROOT, "%.6g", v);
+    }
+
+    private interface CameraValue {
+        double of(CameraPipeline p);
+    }
+
+    private void perCamera(List<CameraPipeline> ps, String name, String type, String help, CameraValue v) {
+        family(name, type, help);
+        for (CameraPipeline p : ps) {
+            sample(name, v.of(p), "camera", p.id());
+        }
+    }
+
+    private interface ZoneValue {
+        double of(CameraPipeline p, int zone);
+    }
+
+    private void perZone(List<CameraPipeline> ps, String name, String type, String help, ZoneValue v) {
+        family(name, type, help);
+        for (CameraPipeline p : ps) {
+            List<ZoneConfig> zones = p.config().zones();
+            for (int z = 0; z < zones.size(); z++) {
+                sample(name, v.of(p, z), "camera", p.id(), "zone", zones.get(z).id());
+            }
+        }
+    }
+
+    private void cameras(List<CameraPipeline> ps) {
+        perCamera(ps, "wayward_camera_up", "gauge", "1 while the camera delivers pictures, else 0.",
+                p -> p.delivering() ? 1 : 0);
+        perCamera(ps, "wayward_camera_frames_in_total", "counter", "Pictures decoded from the camera.",
+                CameraPipeline::framesIn);
+        perCamera(ps, "wayward_camera_frames_analysed_total", "counter", "Pictures the flow estimator took.",
+                CameraPipeline::analysedFrames);
+        perCamera(ps, "wayward_camera_frames_dropped_total", "counter",
+                "Pictures replaced by a newer one before analysis took them.", CameraPipeline::droppedFrames);
+        perCamera(ps, "wayward_camera_decode_errors_total", "counter", "Packets the decoder refused.",
+                CameraPipeline::decodeErrors);
+        perCamera(ps, "wayward_camera_reconnects_total", "counter", "Reconnect attempts of the source.",
+                CameraPipeline::reconnects);
+        perCamera(ps, "wayward_camera_analysis_seconds_total", "counter",
+                "Wall time spent in flow, zone meters and rules.", CameraPipeline::analysisSeconds);
+        perCamera(ps, "wayward_camera_stream_seconds", "gauge", "Stream time of the newest analysed picture.",
+                CameraPipeline::streamSeconds);
+        perZone(ps, "wayward_zone_coverage", "gauge", "Share of the zone's pixels moving, newest reading (0..1).",
+                CameraPipeline::zoneCoverage);
+        perZone(ps, "wayward_zone_against", "gauge",
+                "Share of the zone's pixels moving against its heading, newest reading (0..1).",
+                CameraPipeline::zoneAgainst);
+        perZone(ps, "wayward_zone_events_total", "counter", "Events started in the zone.", CameraPipeline::zoneEvents);
+        family("wayward_clips_failed_total", "counter", "Evidence clips that could not be written.");
+        sample("wayward_clips_failed_total", ClipWriter.failedClips());
+    }
+
+    private interface CourierValue {
+        double of(Courier c);
+    }
+
+    private void perDestination(List<Courier> cs, String name, String type, String help, CourierValue v) {
+        family(name, type, help);
+        for (Courier c : cs) {
+            sample(name, v.of(c), "destination", c.destination().key(), "name", c.destination().name());
+        }
+    }
+
+    private void delivery(EventBus bus, Outbox outbox) {
+        List<Courier> cs = bus.couriers();
+        perDestination(cs, "wayward_delivery_pending", "gauge", "Event phases in the outbox not yet delivered.",
+                Courier::pending);
+        perDestination(cs, "wayward_delivery_delivered_total", "counter", "Event phases delivered.",
+                Courier::delivered);
+        perDestination(cs, "wayward_delivery_retries_total", "counter", "Repeated delivery attempts.",
+                Courier::retries);
+        perDestination(cs, "wayward_delivery_refused_total", "counter",
+                "Event phases refused for good by the destination.", Courier::refused);
+        family("wayward_outbox_bytes", "gauge", "Size of the outbox segments on disk.");
+        sample("wayward_outbox_bytes", outbox == null ? 0 : outbox.bytes());
+        family("wayward_outbox_lost_total", "counter",
+                "Event phases removed by the outbox size bound before a destination had them.");
+        sample("wayward_outbox_lost_total", outbox == null ? 0 : outbox.lostRecords());
+        family("wayward_outbox_not_accepted_total", "counter", "Event phases that never reached the outbox.");
+        sample("wayward_outbox_not_accepted_total", bus.notAccepted());
+    }
+
+    private void process() {
+        MemoryMXBean mem = ManagementFactory.getMemoryMXBean();
+        family("wayward_jvm_heap_used_bytes", "gauge", "Java heap in use.");
+        sample("wayward_jvm_heap_used_bytes", mem.getHeapMemoryUsage().getUsed());
+        family("wayward_jvm_heap_max_bytes", "gauge", "Java heap limit.");
+        sample("wayward_jvm_heap_max_bytes", mem.getHeapMemoryUsage().getMax());
+        family("wayward_jvm_threads", "gauge", "Live Java threads.");
+        sample("wayward_jvm_threads", ManagementFactory.getThreadMXBean().getThreadCount());
+        family("wayward_process_uptime_seconds", "gauge", "Seconds since the process started.");
+        sample("wayward_process_uptime_seconds", ManagementFactory.getRuntimeMXBean().getUptime() / 1000.0);
+        if (ManagementFactory.getOperatingSystemMXBean() instanceof com.sun.management.OperatingSystemMXBean os) {
+            family("wayward_process_cpu_seconds_total", "counter", "CPU time used by the process.");
+            sample("wayward_process_cpu_seconds_total", os.getProcessCpuTime() / 1e9);
+        }
+    }
+}

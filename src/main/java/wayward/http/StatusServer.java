@@ -1,0 +1,87 @@
+package wayward.http;
+
+import io.netty.bootstrap.ServerBootstrap;
+import io.netty.channel.Channel;
+import io.netty.channel.ChannelInitializer;
+import io.netty.channel.EventLoopGroup;
+import io.netty.channel.MultiThreadIoEventLoopGroup;
+import io.netty.channel.nio.NioIoHandler;
+import io.netty.channel.socket.SocketChannel;
+import io.netty.channel.socket.nio.NioServerSocketChannel;
+import io.netty.handler.codec.http.HttpObjectAggregator;
+import io.netty.handler.codec.http.HttpServerCodec;
+import io.netty.handler.stream.ChunkedWriteHandler;
+import io.netty.handler.timeout.IdleStateHandler;
+import io.netty.util.concurrent.DefaultThreadFactory;
+import java.io.IOException;
+import java.net.InetSocketAddress;
+import java.util.concurrent.TimeUnit;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+import wayward.config.HttpConfig;
+import wayward.service.Service;
+
+/**
+ * The status server (Netty, HTTP/1.1): health, Prometheus metrics, a JSON API, clip downloads and the live
+ * view. Requests are bounded (request line 4 KiB, headers 8 KiB, body 16 KiB), idle connections close after
+ * 60 s, and a bearer token guards everything but {@code /health} when one is configured.
+ */
+public final class StatusServer implements AutoCloseable {
+    private static final Logger LOG = LoggerFactory.getLogger(StatusServer.class);
+    static final int MAX_LINE = 4096;
+    static final int MAX_HEADERS = 8192;
+    static final int MAX_BODY = 16 * 1024;
+
+    private final EventLoopGroup group;
+    private final Channel channel;
+
+    private StatusServer(EventLoopGroup group, Channel channel) {
+        this.group = group;
+        this.channel = channel;
+    }
+
+    /** Binds and serves; throws with a plain reason when the address cannot be used. */
+    public static StatusServer start(HttpConfig config, Service service) throws IOException {
+        EventLoopGroup group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("http", true),
+                NioIoHandler.newFactory());
+        StatusHandler.Shared shared = new StatusHandler.Shared(service, config.token());
+        ServerBootstrap b = new ServerBootstrap()
+                .group(group)
+                .channel(NioServerSocketChannel.class)
+                .childHandler(new ChannelInitializer<SocketChannel>() {
+                    @Override
+                    protected void initChannel(SocketChannel ch) {
+                        ch.pipeline().addLast(new IdleStateHandler(0, 0, 60, TimeUnit.SECONDS));
+                        ch.pipeline().addLast(new HttpServerCodec(MAX_LINE, MAX_HEADERS, 8192));
+                        ch.pipeline().addLast(new HttpObjectAggregator(MAX_BODY));
+                        ch.pipeline().addLast(new ChunkedWriteHandler());
+                        ch.pipeline().addLast(new StatusHandler(shared));
+                    }
+                });
+        try {
+            Channel ch = b.bind(config.host(), config.port()).sync().channel();
+            InetSocketAddress at = (InetSocketAddress) ch.localAddress();
+            LOG.info("status server on http://{}:{}/ (health, metrics, API, live view){}", config.host(),
+                    at.getPort(), config.token() != null ? "; a bearer token is required for all but /health" : "");
+            return new StatusServer(group, ch);
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            group.shutdownGracefully(0, 1, TimeUnit.SECONDS);
+            throw new IOException("interrupted while binding " + config.host() + ":" + config.port());
+        } catch (RuntimeException e) {
+            group.shutdownGracefully(0, 1, TimeUnit.SECONDS);
+            throw new IOException("cannot listen on " + config.host() + ":" + config.port() + " (" + e.getMessage()
+                    + "); set [service] http to another address or \"off\"", e);
+        }
+    }
+
+    public int port() {
+        return ((InetSocketAddress) channel.localAddress()).getPort();
+    }
+
+    @Override
+    public void close() {
+        channel.close().awaitUninterruptibly(2000);
+        group.shutdownGracefully(0, 2, TimeUnit.SECONDS).awaitUninterruptibly(3000);
+    }
+}
