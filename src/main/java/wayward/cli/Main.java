@@ -204,7 +204,32 @@ public final class Main {
 
     private static int run(Map<String, String> opts, PrintStream err) throws Exception {
         SiteConfig c = loadConfig("run", opts, null, err);
-        return serve(new Service(c, c.cameras(), Service.Mode.RUN, System.out, 0));
+        Service s = new Service(c, c.cameras(), Service.Mode.RUN, System.out, 0);
+        Path file = Path.of(opts.get("--config"));
+        // SIGHUP (systemctl reload): read the file again; a bad file is refused and the running config stays
+        sun.misc.Signal.handle(new sun.misc.Signal("HUP"), sig -> {
+            Thread t = new Thread(() -> reload(s, file), "reload");
+            t.setDaemon(true);
+            t.start();
+        });
+        return serve(s);
+    }
+
+    private static void reload(Service s, Path file) {
+        org.slf4j.Logger log = org.slf4j.LoggerFactory.getLogger(Main.class);
+        log.info("reload: reading {}", file);
+        SiteConfig next;
+        try {
+            next = wayward.config.ConfigLoader.load(file);
+        } catch (ConfigException e) {
+            for (String line : e.errors()) {
+                log.error("reload: {}", line);
+            }
+            log.error("reload refused ({} {}); the running config stays", e.errors().size(),
+                    e.errors().size() == 1 ? "mistake" : "mistakes");
+            return;
+        }
+        s.reload(next);
     }
 
     private static int demo(Map<String, String> opts, PrintStream out, PrintStream err) throws Exception {

@@ -37,47 +37,7 @@ public final class ConfigPrinter {
         b.append("keep_days = ").append(num(c.clips().keepDays())).append('\n');
         b.append("keep_gb = ").append(num(c.clips().keepGigabytes())).append('\n');
         for (CameraConfig cam : c.cameras()) {
-            b.append("\n[[camera]]\n");
-            b.append("id = ").append(quote(cam.id())).append('\n');
-            b.append("source = ").append(quote(maskUrl(cam.source()))).append('\n');
-            b.append("loop = ").append(cam.loop()).append('\n');
-            b.append("analysis_width = ").append(cam.analysisWidth()).append('\n');
-            b.append("analysis_fps = ").append(num(cam.analysisFps())).append('\n');
-            b.append("remove_camera_motion = ").append(cam.removeCameraMotion()).append('\n');
-            b.append("rtsp_transport = ").append(quote(cam.input().rtspTransport())).append('\n');
-            if (cam.input().deviceSize() != null) {
-                b.append("device_size = ").append(quote(cam.input().deviceSize())).append('\n');
-            }
-            if (cam.input().deviceFps() > 0) {
-                b.append("device_fps = ").append(num(cam.input().deviceFps())).append('\n');
-            }
-            if (cam.input().deviceFormat() != null) {
-                b.append("device_format = ").append(quote(cam.input().deviceFormat())).append('\n');
-            }
-            for (ZoneConfig z : cam.zones()) {
-                b.append("\n  [[camera.zone]]\n");
-                b.append("  id = ").append(quote(z.id())).append('\n');
-                b.append("  polygon = [");
-                double[] xs = z.xs();
-                double[] ys = z.ys();
-                for (int i = 0; i < xs.length; i++) {
-                    b.append(i == 0 ? "" : ", ").append('[').append(num(xs[i])).append(", ").append(num(ys[i])).append(']');
-                }
-                b.append("]\n");
-                if (z.hasHeading()) {
-                    b.append("  heading_deg = ").append(num(z.headingDeg())).append('\n');
-                } else {
-                    b.append("  # heading_deg not set: the zone reports any motion\n");
-                }
-                b.append("  tolerance_deg = ").append(num(z.toleranceDeg())).append('\n');
-                b.append("  min_speed = ").append(num(z.minSpeedPxPerSecond())).append('\n');
-                b.append("  min_confidence = ").append(num(z.minConfidence())).append('\n');
-                b.append("  onset_level = ").append(num(z.rule().onsetLevel())).append('\n');
-                b.append("  release_level = ").append(num(z.rule().releaseLevel())).append('\n');
-                b.append("  hold_seconds = ").append(num(z.rule().holdSeconds())).append('\n');
-                b.append("  clear_seconds = ").append(num(z.rule().clearSeconds())).append('\n');
-                b.append("  rest_seconds = ").append(num(z.rule().restSeconds())).append('\n');
-            }
+            camera(b, cam, true);
         }
         for (WebhookConfig w : c.webhooks()) {
             b.append("\n[[webhook]]\n");
@@ -120,6 +80,60 @@ public final class ConfigPrinter {
         }
         b.append("\n[outbox]\nmax_mb = ").append(num(c.outboxMaxBytes() / (double) (1 << 20))).append('\n');
         return b.toString();
+    }
+
+    /**
+     * The camera's settings in full, secrets included: only for telling whether a camera changed on reload;
+     * never to be logged or printed.
+     */
+    public static String cameraIdentity(CameraConfig cam) {
+        StringBuilder b = new StringBuilder();
+        camera(b, cam, false);
+        return b.toString();
+    }
+
+    private static void camera(StringBuilder b, CameraConfig cam, boolean masked) {
+        b.append("\n[[camera]]\n");
+        b.append("id = ").append(quote(cam.id())).append('\n');
+        b.append("source = ").append(quote(masked ? maskUrl(cam.source()) : cam.source())).append('\n');
+        b.append("loop = ").append(cam.loop()).append('\n');
+        b.append("analysis_width = ").append(cam.analysisWidth()).append('\n');
+        b.append("analysis_fps = ").append(num(cam.analysisFps())).append('\n');
+        b.append("remove_camera_motion = ").append(cam.removeCameraMotion()).append('\n');
+        b.append("rtsp_transport = ").append(quote(cam.input().rtspTransport())).append('\n');
+        if (cam.input().deviceSize() != null) {
+            b.append("device_size = ").append(quote(cam.input().deviceSize())).append('\n');
+        }
+        if (cam.input().deviceFps() > 0) {
+            b.append("device_fps = ").append(num(cam.input().deviceFps())).append('\n');
+        }
+        if (cam.input().deviceFormat() != null) {
+            b.append("device_format = ").append(quote(cam.input().deviceFormat())).append('\n');
+        }
+        for (ZoneConfig z : cam.zones()) {
+            b.append("\n  [[camera.zone]]\n");
+            b.append("  id = ").append(quote(z.id())).append('\n');
+            b.append("  polygon = [");
+            double[] xs = z.xs();
+            double[] ys = z.ys();
+            for (int i = 0; i < xs.length; i++) {
+                b.append(i == 0 ? "" : ", ").append('[').append(num(xs[i])).append(", ").append(num(ys[i])).append(']');
+            }
+            b.append("]\n");
+            if (z.hasHeading()) {
+                b.append("  heading_deg = ").append(num(z.headingDeg())).append('\n');
+            } else {
+                b.append("  # heading_deg not set: the zone reports any motion\n");
+            }
+            b.append("  tolerance_deg = ").append(num(z.toleranceDeg())).append('\n');
+            b.append("  min_speed = ").append(num(z.minSpeedPxPerSecond())).append('\n');
+            b.append("  min_confidence = ").append(num(z.minConfidence())).append('\n');
+            b.append("  onset_level = ").append(num(z.rule().onsetLevel())).append('\n');
+            b.append("  release_level = ").append(num(z.rule().releaseLevel())).append('\n');
+            b.append("  hold_seconds = ").append(num(z.rule().holdSeconds())).append('\n');
+            b.append("  clear_seconds = ").append(num(z.rule().clearSeconds())).append('\n');
+            b.append("  rest_seconds = ").append(num(z.rule().restSeconds())).append('\n');
+        }
     }
 
     /**

@@ -45,7 +45,9 @@ public final class Service {
         REPLAY
     }
 
-    private final SiteConfig config;
+    private volatile SiteConfig config;
+    private final Clock clock = Clock.systemUTC();
+    private CameraPipeline.Evidence evidence;
     private final List<CameraConfig> cameras;
     private final Mode mode;
     private final PrintStream stdout;
@@ -53,7 +55,7 @@ public final class Service {
     private final EventBus bus = new EventBus();
     private final wayward.delivery.RecentEvents recent = new wayward.delivery.RecentEvents(200);
     private Outbox outbox;
-    private final List<CameraPipeline> pipelines = new ArrayList<>();
+    private final List<CameraPipeline> pipelines = new java.util.concurrent.CopyOnWriteArrayList<>();
     private final CountDownLatch ended = new CountDownLatch(1);
     private wayward.clip.EvidenceWriter evidenceWriter;
     private java.util.concurrent.ScheduledExecutorService retention;
@@ -116,7 +118,6 @@ public final class Service {
             bus.add(new PrintSink(stdout), QUEUE_CAPACITY);
         }
         bus.add(recent, QUEUE_CAPACITY);
-        Clock clock = Clock.systemUTC();
         CameraPipeline.Evidence evidence = null;
         if (mode != Mode.REPLAY && config.clips().enabled()) {
             evidenceWriter = new wayward.clip.EvidenceWriter();
@@ -130,13 +131,12 @@ public final class Service {
             });
             retention.scheduleWithFixedDelay(this::sweep, 0, 10, java.util.concurrent.TimeUnit.MINUTES);
         }
+        this.evidence = evidence;
         for (CameraConfig c : cameras) {
-            CameraPipeline p = new CameraPipeline(c, config.flow(), bus::publish, clock, mode == Mode.REPLAY,
-                    mode != Mode.REPLAY, maxLoops, evidence);
-            pipelines.add(p);
+            pipelines.add(pipeline(c, config.flow()));
         }
         for (CameraPipeline p : pipelines) {
-            LOG.info("camera {}: starting on {}", p.id(), ConfigPrinter.maskUrl(sourceOf(p.id())));
+            LOG.info("camera {}: starting on {}", p.id(), ConfigPrinter.maskUrl(p.config().source()));
             p.start();
         }
         Thread watcher = new Thread(this::watch, "service-watch");
@@ -144,29 +144,110 @@ public final class Service {
         watcher.start();
     }
 
-    private String sourceOf(String id) {
-        for (CameraConfig c : cameras) {
-            if (c.id().equals(id)) {
-                return c.source();
-            }
-        }
-        return "?";
+    private CameraPipeline pipeline(CameraConfig c, wayward.config.FlowConfig flow) {
+        return new CameraPipeline(c, flow, bus::publish, clock, mode == Mode.REPLAY, mode != Mode.REPLAY, maxLoops,
+                evidence);
     }
 
     /** Ends the wait when every camera has ended by itself (files without loop). */
     private void watch() {
         try {
-            for (CameraPipeline p : pipelines) {
-                while (!p.join(1000)) {
+            while (true) {
+                Thread.sleep(500);
+                synchronized (this) {
                     if (stopped) {
+                        return;
+                    }
+                    if (pipelines.stream().noneMatch(CameraPipeline::running)) {
+                        ended.countDown();
                         return;
                     }
                 }
             }
-            ended.countDown();
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
         }
+    }
+
+    /** The settings outside [flow] and the cameras, as text, for telling whether they changed. */
+    private static String rest(SiteConfig c) {
+        return ConfigPrinter.toToml(new SiteConfig(c.file(), c.dataDir(), wayward.config.FlowConfig.DEFAULTS,
+                List.of(), c.webhooks(), c.clips(), c.mqtt(), c.outboxMaxBytes(), c.http()));
+    }
+
+    /**
+     * Applies a new, already checked config to the running service: cameras that were removed stop, new ones
+     * start, changed ones restart, unchanged ones keep running untouched. A change of [flow] restarts every
+     * camera. Changes elsewhere ([service], [clips], [[webhook]], [mqtt], [outbox]) wait for the next restart,
+     * and the log says so. Any thread; one reload at a time.
+     */
+    public synchronized void reload(SiteConfig next) {
+        if (stopped) {
+            return;
+        }
+        boolean flowChanged = !next.flow().equals(config.flow());
+        if (flowChanged) {
+            LOG.info("reload: [flow] changed; every camera restarts");
+        }
+        java.util.Map<String, CameraConfig> wanted = new java.util.LinkedHashMap<>();
+        for (CameraConfig c : next.cameras()) {
+            wanted.put(c.id(), c);
+        }
+        List<CameraPipeline> keep = new ArrayList<>();
+        List<CameraPipeline> stopping = new ArrayList<>();
+        for (CameraPipeline p : pipelines) {
+            CameraConfig n = wanted.get(p.id());
+            if (n == null) {
+                LOG.info("reload: camera {} removed; stopping it", p.id());
+                stopping.add(p);
+            } else if (flowChanged || !ConfigPrinter.cameraIdentity(n).equals(ConfigPrinter.cameraIdentity(p.config()))) {
+                if (!flowChanged) {
+                    LOG.info("reload: camera {} changed; restarting it", p.id());
+                }
+                stopping.add(p);
+            } else {
+                LOG.info("reload: camera {} unchanged; it keeps running", p.id());
+                keep.add(p);
+            }
+        }
+        for (CameraPipeline p : stopping) {
+            p.stop();
+        }
+        for (CameraPipeline p : stopping) {
+            try {
+                if (!p.join(5000)) {
+                    LOG.warn("camera {}: did not stop within 5 s", p.id());
+                }
+                p.awaitClips(10_000);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                return;
+            }
+        }
+        List<CameraPipeline> now = new ArrayList<>();
+        for (CameraConfig c : next.cameras()) {
+            CameraPipeline kept = keep.stream().filter(p -> p.id().equals(c.id())).findFirst().orElse(null);
+            if (kept != null) {
+                now.add(kept);
+                continue;
+            }
+            CameraPipeline p = pipeline(c, next.flow());
+            if (pipelines.stream().noneMatch(old -> old.id().equals(c.id()))) {
+                LOG.info("reload: camera {} added; starting on {}", c.id(), ConfigPrinter.maskUrl(c.source()));
+            }
+            p.start();
+            now.add(p);
+        }
+        pipelines.clear();
+        pipelines.addAll(now);
+        if (!rest(next).equals(rest(config))) {
+            LOG.warn("reload: changes to [service], [clips], [[webhook]], [mqtt] or [outbox] take effect at the "
+                    + "next restart; the running values stay");
+            next = new SiteConfig(next.file(), config.dataDir(), next.flow(), next.cameras(), config.webhooks(),
+                    config.clips(), config.mqtt(), config.outboxMaxBytes(), config.http());
+        }
+        config = next;
+        LOG.info("reload: done; {} cameras", pipelines.size());
     }
 
     /** Blocks until every camera has ended by itself, or {@link #stop} was called. */
