@@ -205,14 +205,20 @@ public final class Main {
     private static int run(Map<String, String> opts, PrintStream err) throws Exception {
         SiteConfig c = loadConfig("run", opts, null, err);
         Service s = new Service(c, c.cameras(), Service.Mode.RUN, System.out, 0);
-        Path file = Path.of(opts.get("--config"));
-        // SIGHUP (systemctl reload): read the file again; a bad file is refused and the running config stays
-        sun.misc.Signal.handle(new sun.misc.Signal("HUP"), sig -> {
-            Thread t = new Thread(() -> reload(s, file), "reload");
-            t.setDaemon(true);
-            t.start();
-        });
-        return serve(s);
+        return serve(s, Path.of(opts.get("--config")));
+    }
+
+    private static void reload(Service s, Path file, wayward.service.SystemdNotify notify) {
+        if (notify != null) {
+            notify.send("RELOADING=1");
+        }
+        try {
+            reload(s, file);
+        } finally {
+            if (notify != null) {
+                notify.send("READY=1\nSTATUS=watching " + s.pipelines().size() + " cameras");
+            }
+        }
     }
 
     private static void reload(Service s, Path file) {
@@ -257,12 +263,18 @@ public final class Main {
         }
         err.println("wayward demo: playing the demo scene as a camera; events follow as JSON lines"
                 + (loops == 0 ? " (Ctrl-C to stop)" : ""));
-        return serve(new Service(c, looped, Service.Mode.DEMO, out, loops));
+        return serve(new Service(c, looped, Service.Mode.DEMO, out, loops), null);
     }
 
-    private static int serve(Service s) throws Exception {
+    /** Runs the service until its cameras end or a signal stops it; {@code reloadFrom}: SIGHUP re-reads it. */
+    private static int serve(Service s, Path reloadFrom) throws Exception {
         wayward.http.StatusServer[] server = new wayward.http.StatusServer[1];
+        wayward.service.SystemdNotify[] notify = new wayward.service.SystemdNotify[1];
+        java.util.concurrent.atomic.AtomicBoolean stopping = new java.util.concurrent.atomic.AtomicBoolean();
         Runnable stopAll = () -> {
+            if (notify[0] != null && stopping.compareAndSet(false, true)) {
+                notify[0].send("STOPPING=1");
+            }
             s.stop();
             synchronized (server) {
                 if (server[0] != null) {
@@ -283,8 +295,24 @@ public final class Main {
                 org.slf4j.LoggerFactory.getLogger(Main.class).error("status server: {}", e.getMessage());
             }
         }
+        notify[0] = wayward.service.SystemdNotify.fromEnvironment(s);
+        if (reloadFrom != null) {
+            // SIGHUP (systemctl reload): read the file again; a bad file is refused and the running config stays
+            sun.misc.Signal.handle(new sun.misc.Signal("HUP"), sig -> {
+                Thread t = new Thread(() -> reload(s, reloadFrom, notify[0]), "reload");
+                t.setDaemon(true);
+                t.start();
+            });
+        }
+        if (notify[0] != null) {
+            notify[0].send("READY=1\nSTATUS=watching " + s.pipelines().size() + " cameras\nMAINPID="
+                    + ProcessHandle.current().pid());
+        }
         s.awaitEnd();
         stopAll.run();
+        if (notify[0] != null) {
+            notify[0].close();
+        }
         try {
             Runtime.getRuntime().removeShutdownHook(hook);
         } catch (IllegalStateException shuttingDown) {
