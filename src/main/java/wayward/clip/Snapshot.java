@@ -28,6 +28,57 @@ public final class Snapshot {
      * @param minStepPixels  shortest displacement drawn, analysis pixels per frame pair
      */
     public static BufferedImage draw(GrayFrame frame, FlowField flow, double[] xs, double[] ys, double minStepPixels) {
+        BufferedImage img = gray(frame);
+        Polygon zone = polygon(xs, ys, frame);
+        Graphics2D g = graphics(img);
+        outline(g, zone);
+        arrows(g, flow, zone, minStepPixels);
+        g.dispose();
+        return img;
+    }
+
+    /**
+     * The live view: the frame, every zone's outline with its permitted heading as a white arrow from its
+     * centre, and the flow arrows of the whole picture.
+     *
+     * @param headings per zone, degrees clockwise from image-up, NaN for none
+     */
+    public static BufferedImage live(GrayFrame frame, FlowField flow, java.util.List<double[]> xs,
+            java.util.List<double[]> ys, double[] headings, double minStepPixels) {
+        BufferedImage img = gray(frame);
+        Graphics2D g = graphics(img);
+        arrows(g, flow, null, minStepPixels);
+        for (int z = 0; z < xs.size(); z++) {
+            Polygon p = polygon(xs.get(z), ys.get(z), frame);
+            outline(g, p);
+            if (!Double.isNaN(headings[z])) {
+                double cx = 0;
+                double cy = 0;
+                for (int i = 0; i < p.npoints; i++) {
+                    cx += p.xpoints[i];
+                    cy += p.ypoints[i];
+                }
+                cx /= p.npoints;
+                cy /= p.npoints;
+                double a = Math.toRadians(headings[z]);
+                double len = 20 * SCALE;
+                double ex = cx + len * Math.sin(a);
+                double ey = cy - len * Math.cos(a);
+                g.setStroke(new BasicStroke(3f));
+                g.setColor(Color.WHITE);
+                g.drawLine((int) cx, (int) cy, (int) ex, (int) ey);
+                double back = Math.atan2(ey - cy, ex - cx);
+                for (double side : new double[] {-0.5, 0.5}) {
+                    g.drawLine((int) ex, (int) ey, (int) Math.round(ex - 10 * Math.cos(back + side)),
+                            (int) Math.round(ey - 10 * Math.sin(back + side)));
+                }
+            }
+        }
+        g.dispose();
+        return img;
+    }
+
+    private static BufferedImage gray(GrayFrame frame) {
         int w = frame.width;
         int h = frame.height;
         BufferedImage img = new BufferedImage(w * SCALE, h * SCALE, BufferedImage.TYPE_INT_RGB);
@@ -37,18 +88,34 @@ public final class Snapshot {
                 img.setRGB(x, y, (g << 16) | (g << 8) | g);
             }
         }
+        return img;
+    }
+
+    private static Polygon polygon(double[] xs, double[] ys, GrayFrame frame) {
         Polygon zone = new Polygon();
         for (int i = 0; i < xs.length; i++) {
-            zone.addPoint((int) Math.round(xs[i] * w * SCALE), (int) Math.round(ys[i] * h * SCALE));
+            zone.addPoint((int) Math.round(xs[i] * frame.width * SCALE), (int) Math.round(ys[i] * frame.height * SCALE));
         }
+        return zone;
+    }
+
+    private static Graphics2D graphics(BufferedImage img) {
         Graphics2D g = img.createGraphics();
         g.setRenderingHint(RenderingHints.KEY_ANTIALIASING, RenderingHints.VALUE_ANTIALIAS_ON);
+        return g;
+    }
+
+    private static void outline(Graphics2D g, Polygon zone) {
         g.setStroke(new BasicStroke(3f));
         g.setColor(Color.BLACK);
         g.drawPolygon(zone);
         g.setStroke(new BasicStroke(1.5f));
         g.setColor(Color.WHITE);
         g.drawPolygon(zone);
+    }
+
+    /** An arrow per moving sample (inside {@code zone}, or everywhere when null), coloured by direction. */
+    private static void arrows(Graphics2D g, FlowField flow, Polygon zone, double minStepPixels) {
         double max = 1e-6;
         for (int k = 0; k < flow.u.length; k++) {
             max = Math.max(max, Math.hypot(flow.u[k] - flow.globalU, flow.v[k] - flow.globalV));
@@ -62,7 +129,7 @@ public final class Snapshot {
                 double dv = flow.v[k] - flow.globalV;
                 int px = flow.pixelX(i) * SCALE + SCALE / 2;
                 int py = flow.pixelY(j) * SCALE + SCALE / 2;
-                if (Math.hypot(du, dv) < minStepPixels || !zone.contains(px, py)) {
+                if (Math.hypot(du, dv) < minStepPixels || (zone != null && !zone.contains(px, py))) {
                     continue;
                 }
                 g.setColor(new Color(FlowColours.rgb(du / max, dv / max)));
@@ -77,7 +144,5 @@ public final class Snapshot {
                 }
             }
         }
-        g.dispose();
-        return img;
     }
 }

@@ -414,9 +414,9 @@ public final class ConfigLoader {
                 heading = Double.NaN;
             }
         }
-        double tolerance = z.number("tolerance_deg", 60, 0, 90);
-        double minSpeed = z.number("min_speed", 8, 0, 10000);
-        double minConfidence = z.number("min_confidence", 20, 0, 100000);
+        double tolerance = z.number("tolerance_deg", ZoneConfig.DEFAULT_TOLERANCE_DEG, 0, 90);
+        double minSpeed = z.number("min_speed", ZoneConfig.DEFAULT_MIN_SPEED, 0, 10000);
+        double minConfidence = z.number("min_confidence", ZoneConfig.DEFAULT_MIN_CONFIDENCE, 0, 100000);
         double onset = z.number("onset_level", 0.02, 0.0001, 1);
         double release = z.number("release_level", Math.min(onset, 0.008), 0, 1);
         if (release > onset) {

@@ -18,6 +18,11 @@ import wayward.rule.RuleSettings;
  */
 public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg, double toleranceDeg,
         double minSpeedPxPerSecond, double minConfidence, RuleSettings rule) {
+    /** Defaults of tolerance_deg, min_speed and min_confidence. */
+    public static final double DEFAULT_TOLERANCE_DEG = 60;
+    public static final double DEFAULT_MIN_SPEED = 8;
+    public static final double DEFAULT_MIN_CONFIDENCE = 20;
+
     public ZoneConfig {
         xs = xs.clone();
         ys = ys.clone();

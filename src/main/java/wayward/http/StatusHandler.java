@@ -82,11 +82,16 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
             send(ctx, req, r);
             return;
         }
-        QueryStringDecoder q = new QueryStringDecoder(req.uri());
+        // ";" is part of a value (the polygon), not a separator
+        QueryStringDecoder q = new QueryStringDecoder(req.uri(), StandardCharsets.UTF_8, true, 1024, true);
         String path = q.rawPath();
         try {
             if (path.equals("/health") || path.equals("/health/ready")) {
                 health(ctx, req, path.endsWith("/ready"));
+                return;
+            }
+            if (path.equals("/view.js")) {
+                page(ctx, req, "view.js"); // the page's script holds no site data; the page itself needs the token
                 return;
             }
             if (!authorised(req)) {
@@ -97,13 +102,26 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                 return;
             }
             switch (path) {
+                case "/" -> page(ctx, req, "index.html");
+                case "/api/measure" -> measure(ctx, req, q);
                 case "/metrics" -> send(ctx, req, response(HttpResponseStatus.OK, MetricsText.of(shared.service()),
                         "text/plain; version=0.0.4; charset=utf-8"));
                 case "/api/cameras" -> json(ctx, req, this::cameras);
                 case "/api/events" -> events(ctx, req, q);
                 case "/api/clips" -> json(ctx, req, this::clips);
                 default -> {
-                    if (path.startsWith("/clips/")) {
+                    if (path.startsWith("/view/")) {
+                        CameraPipeline p = camera(path.substring("/view/".length()));
+                        if (p == null) {
+                            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such camera\n", false);
+                        } else {
+                            page(ctx, req, "view.html");
+                        }
+                    } else if (path.startsWith("/live/") && path.endsWith(".jpg")) {
+                        picture(ctx, req, path.substring(6, path.length() - 4));
+                    } else if (path.startsWith("/live/") && path.endsWith(".mjpeg")) {
+                        LiveStream.start(ctx, req, camera(path.substring(6, path.length() - 6)));
+                    } else if (path.startsWith("/clips/")) {
                         clip(ctx, req, path.substring("/clips/".length()));
                     } else {
                         text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page: " + shorten(path) + "\n", false);
@@ -120,16 +138,122 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
         return s.length() > 100 ? s.substring(0, 100) + "…" : s;
     }
 
+    /**
+     * The bearer token from the Authorization header, or from an {@code access_token} query parameter (RFC 6750
+     * §2.3), which a browser's picture and page requests can carry.
+     */
     private boolean authorised(FullHttpRequest req) {
         if (shared.token() == null) {
             return true;
         }
+        String given = null;
         String h = req.headers().get(HttpHeaderNames.AUTHORIZATION);
-        if (h == null || !h.regionMatches(true, 0, "Bearer ", 0, 7)) {
-            return false;
+        if (h != null && h.regionMatches(true, 0, "Bearer ", 0, 7)) {
+            given = h.substring(7).trim();
+        } else {
+            List<String> q = new QueryStringDecoder(req.uri()).parameters().get("access_token");
+            if (q != null && !q.isEmpty()) {
+                given = q.get(0);
+            }
         }
-        byte[] given = h.substring(7).trim().getBytes(StandardCharsets.UTF_8);
-        return MessageDigest.isEqual(given, shared.token()); // constant time for equal lengths
+        return given != null && MessageDigest.isEqual(given.getBytes(StandardCharsets.UTF_8), shared.token());
+    }
+
+    private CameraPipeline camera(String id) {
+        for (CameraPipeline p : shared.service().pipelines()) {
+            if (p.id().equals(id)) {
+                return p;
+            }
+        }
+        return null;
+    }
+
+    /** A page or script from the jar (a fixed set of names, nothing from the file system). */
+    private void page(ChannelHandlerContext ctx, FullHttpRequest req, String name) throws IOException {
+        try (java.io.InputStream in = StatusHandler.class.getResourceAsStream("/wayward/http/" + name)) {
+            if (in == null) {
+                text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page\n", false);
+                return;
+            }
+            String type = name.endsWith(".js") ? "text/javascript; charset=utf-8" : "text/html; charset=utf-8";
+            send(ctx, req, response(HttpResponseStatus.OK, new String(in.readAllBytes(), StandardCharsets.UTF_8), type));
+        }
+    }
+
+    private void picture(ChannelHandlerContext ctx, FullHttpRequest req, String id) throws IOException {
+        CameraPipeline p = camera(id);
+        if (p == null) {
+            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such camera\n", false);
+            return;
+        }
+        p.live().want();
+        byte[] jpg = LiveStream.jpeg(p);
+        if (jpg == null) {
+            FullHttpResponse r = response(HttpResponseStatus.SERVICE_UNAVAILABLE, "no picture yet; try again\n",
+                    "text/plain");
+            r.headers().set(HttpHeaderNames.RETRY_AFTER, "1");
+            send(ctx, req, r);
+            return;
+        }
+        FullHttpResponse r = new DefaultFullHttpResponse(HttpVersion.HTTP_1_1, HttpResponseStatus.OK,
+                Unpooled.wrappedBuffer(jpg));
+        r.headers().set(HttpHeaderNames.CONTENT_TYPE, "image/jpeg");
+        r.headers().set(HttpHeaderNames.CONTENT_LENGTH, jpg.length);
+        r.headers().set(HttpHeaderNames.CACHE_CONTROL, "no-store");
+        send(ctx, req, r);
+    }
+
+    /** Coverage and against share of a drawn zone on the latest flow: camera, polygon=x,y;x,y;…, heading. */
+    private void measure(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q) {
+        CameraPipeline p = camera(first(q, "camera", ""));
+        if (p == null) {
+            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such camera\n", false);
+            return;
+        }
+        double[][] poly;
+        double heading;
+        double tolerance;
+        try {
+            String[] points = first(q, "polygon", "").split(";");
+            if (points.length < 3 || points.length > 64) {
+                throw new IllegalArgumentException("3 to 64 points");
+            }
+            poly = new double[2][points.length];
+            for (int i = 0; i < points.length; i++) {
+                String[] xy = points[i].split(",");
+                poly[0][i] = Double.parseDouble(xy[0]);
+                poly[1][i] = Double.parseDouble(xy[1]);
+                if (xy.length != 2 || !(poly[0][i] >= 0 && poly[0][i] <= 1 && poly[1][i] >= 0 && poly[1][i] <= 1)) {
+                    throw new IllegalArgumentException("points x,y from 0 to 1");
+                }
+            }
+            String h = first(q, "heading", "");
+            heading = h.isEmpty() ? Double.NaN : Double.parseDouble(h);
+            if (!Double.isNaN(heading) && !(heading >= 0 && heading < 360)) {
+                throw new IllegalArgumentException("heading from 0 up to 360");
+            }
+            tolerance = Double.parseDouble(first(q, "tolerance", Double.toString(ZoneConfig.DEFAULT_TOLERANCE_DEG)));
+            if (!(tolerance >= 0 && tolerance <= 90)) {
+                throw new IllegalArgumentException("tolerance from 0 to 90");
+            }
+        } catch (RuntimeException e) {
+            text(ctx, req, HttpResponseStatus.BAD_REQUEST, "polygon=x,y;x,y;x,y (fractions), heading=deg, "
+                    + "tolerance=deg: " + e.getMessage() + "\n", false);
+            return;
+        }
+        p.live().want();
+        double[] m = p.live().measure(poly[0], poly[1], heading, tolerance, ZoneConfig.DEFAULT_MIN_SPEED,
+                ZoneConfig.DEFAULT_MIN_CONFIDENCE, p.config().removeCameraMotion());
+        String body = json(g -> {
+            number(g, "coverage", m == null ? Double.NaN : m[0]);
+            number(g, "against", m == null ? Double.NaN : m[1]);
+        });
+        send(ctx, req, response(HttpResponseStatus.OK, body + "\n", "application/json"));
+    }
+
+    private static String first(QueryStringDecoder q, String name, String fallback) {
+        List<String> v = q.parameters().get(name);
+        return v == null || v.isEmpty() ? fallback : v.get(0);
     }
 
     private void health(ChannelHandlerContext ctx, FullHttpRequest req, boolean readiness) {

@@ -41,6 +41,7 @@ public final class CameraPipeline {
     private final Thread analysisThread;
     private volatile long analysedFrames;
     private volatile long analysisNanos;
+    private final LiveView live = new LiveView();
     private final java.util.concurrent.atomic.AtomicLongArray zoneCoverage;
     private final java.util.concurrent.atomic.AtomicLongArray zoneAgainst;
     private final java.util.concurrent.atomic.AtomicLongArray zoneEvents;
@@ -201,6 +202,11 @@ public final class CameraPipeline {
         return camera;
     }
 
+    /** The latest frame and flow for the live view. */
+    public LiveView live() {
+        return live;
+    }
+
     /** The zone's latest coverage (share of its pixels moving), 0..1; NaN before the first reading. */
     public double zoneCoverage(int zone) {
         return Double.longBitsToDouble(zoneCoverage.get(zone));
@@ -253,6 +259,7 @@ public final class CameraPipeline {
                     analysisNanos += System.nanoTime() - began;
                     continue;
                 }
+                live.offer(f, field, dt);
                 for (int z = 0; z < meters.size(); z++) {
                     meters.get(z).measure(field, dt, t, reading);
                     zoneCoverage.set(z, Double.doubleToRawLongBits(reading.coverage));

@@ -1,0 +1,84 @@
+package wayward.http;
+
+import io.netty.buffer.ByteBuf;
+import io.netty.buffer.Unpooled;
+import io.netty.channel.ChannelFutureListener;
+import io.netty.channel.ChannelHandlerContext;
+import io.netty.handler.codec.http.DefaultHttpContent;
+import io.netty.handler.codec.http.DefaultHttpResponse;
+import io.netty.handler.codec.http.FullHttpRequest;
+import io.netty.handler.codec.http.HttpHeaderNames;
+import io.netty.handler.codec.http.HttpHeaderValues;
+import io.netty.handler.codec.http.HttpResponse;
+import io.netty.handler.codec.http.HttpResponseStatus;
+import io.netty.handler.codec.http.HttpVersion;
+import io.netty.util.concurrent.ScheduledFuture;
+import java.awt.image.BufferedImage;
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.util.concurrent.TimeUnit;
+import javax.imageio.ImageIO;
+import wayward.config.ZoneConfig;
+import wayward.service.CameraPipeline;
+
+/**
+ * The live view as MJPEG over HTTP (multipart/x-mixed-replace, one JPEG per part): the analysis frame with
+ * zones, headings and flow arrows, up to 5 pictures a second, only new ones, and none while the client is not
+ * reading (the channel is not writable). Runs on the connection's event loop until the client goes.
+ */
+final class LiveStream {
+    static final String BOUNDARY = "waywardframe";
+
+    private LiveStream() {
+    }
+
+    /** The current live picture as JPEG, or null before the first one. */
+    static byte[] jpeg(CameraPipeline p) throws IOException {
+        double minStep = ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps();
+        BufferedImage img = p.live().render(p.config().zones(), minStep);
+        if (img == null) {
+            return null;
+        }
+        ByteArrayOutputStream out = new ByteArrayOutputStream(64 * 1024);
+        ImageIO.write(img, "jpg", out);
+        return out.toByteArray();
+    }
+
+    static void start(ChannelHandlerContext ctx, FullHttpRequest req, CameraPipeline p) {
+        if (p == null) {
+            ctx.writeAndFlush(new io.netty.handler.codec.http.DefaultFullHttpResponse(HttpVersion.HTTP_1_1,
+                    HttpResponseStatus.NOT_FOUND, Unpooled.copiedBuffer("no such camera\n", StandardCharsets.UTF_8)))
+                    .addListener(ChannelFutureListener.CLOSE);
+            return;
+        }
+        HttpResponse r = new DefaultHttpResponse(HttpVersion.HTTP_1_1, HttpResponseStatus.OK);
+        r.headers().set(HttpHeaderNames.CONTENT_TYPE, "multipart/x-mixed-replace; boundary=" + BOUNDARY);
+        r.headers().set(HttpHeaderNames.TRANSFER_ENCODING, HttpHeaderValues.CHUNKED);
+        r.headers().set(HttpHeaderNames.CACHE_CONTROL, "no-store");
+        r.headers().set(HttpHeaderNames.CONNECTION, HttpHeaderValues.CLOSE);
+        ctx.writeAndFlush(r);
+        long[] sent = {-1};
+        ScheduledFuture<?> task = ctx.executor().scheduleAtFixedRate(() -> {
+            p.live().want();
+            long copies = p.live().copies();
+            if (!ctx.channel().isActive() || !ctx.channel().isWritable() || copies == sent[0]) {
+                return;
+            }
+            try {
+                byte[] jpg = jpeg(p);
+                if (jpg == null) {
+                    return;
+                }
+                sent[0] = copies;
+                byte[] head = ("--" + BOUNDARY + "\r\nContent-Type: image/jpeg\r\nContent-Length: " + jpg.length
+                        + "\r\n\r\n").getBytes(StandardCharsets.US_ASCII);
+                ByteBuf part = Unpooled.wrappedBuffer(head, jpg, "\r\n".getBytes(StandardCharsets.US_ASCII));
+                ctx.writeAndFlush(new DefaultHttpContent(part));
+            } catch (IOException | RuntimeException e) {
+                ctx.close();
+            }
+        }, 0, 200, TimeUnit.MILLISECONDS);
+        ctx.channel().closeFuture().addListener(f -> task.cancel(false));
+    }
+}
