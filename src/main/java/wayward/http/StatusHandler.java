@@ -311,6 +311,13 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                 ZoneConfig zc = zones.get(z);
                 g.writeStartObject();
                 g.writeStringField("id", zc.id());
+                g.writeArrayFieldStart("polygon");
+                double[] xs = zc.xs();
+                double[] ys = zc.ys();
+                for (int i = 0; i < xs.length; i++) {
+                    g.writeArray(new double[] {xs[i], ys[i]}, 0, 2);
+                }
+                g.writeEndArray();
                 if (zc.hasHeading()) {
                     g.writeNumberField("heading_deg", zc.headingDeg());
                     g.writeNumberField("tolerance_deg", zc.toleranceDeg());

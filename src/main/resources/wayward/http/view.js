@@ -55,13 +55,33 @@ function bearing(dx, dy) {
   return ((b % 360) + 360) % 360;
 }
 
-draw.addEventListener("mousedown", (ev) => { press = at(ev); drag = null; });
-draw.addEventListener("mousemove", (ev) => { if (press && closed) drag = at(ev); });
+// pressing on a corner of a closed zone moves that corner; pressing elsewhere drags the heading
+let corner = -1;
+function cornerAt(p) {
+  const [w, h] = size();
+  return points.findIndex(q => Math.hypot((q[0] - p[0]) * w, (q[1] - p[1]) * h) < 8);
+}
+draw.addEventListener("mousedown", (ev) => {
+  press = at(ev); drag = null;
+  corner = closed ? cornerAt(press) : -1;
+});
+draw.addEventListener("mousemove", (ev) => {
+  if (!press || !closed) return;
+  const p = at(ev);
+  if (corner >= 0) {
+    points[corner] = [Math.min(1, Math.max(0, p[0])), Math.min(1, Math.max(0, p[1]))];
+    snippet();
+  } else {
+    drag = p;
+  }
+});
 draw.addEventListener("mouseup", (ev) => {
   const p = at(ev);
   const [w, h] = size();
   const moved = press ? Math.hypot((p[0] - press[0]) * w, (p[1] - press[1]) * h) : 0;
-  if (closed && moved > 8) {
+  if (corner >= 0) {
+    corner = -1;
+  } else if (closed && moved > 8) {
     heading = bearing((p[0] - press[0]) * w, (p[1] - press[1]) * h);
   } else if (!closed) {
     if (points.length >= 3) {
@@ -78,6 +98,17 @@ draw.addEventListener("mouseup", (ev) => {
 });
 document.getElementById("restart").addEventListener("click", () => {
   points = []; closed = false; heading = null; series.length = 0; snippet();
+});
+// start from a configured zone: its corners and heading, to move and turn
+document.getElementById("edit").addEventListener("click", () => {
+  const z = zones.find(z => z.id === existing.value);
+  if (!z) return;
+  points = z.polygon.map(p => [p[0], p[1]]);
+  closed = true;
+  heading = z.heading_deg === undefined ? null : z.heading_deg;
+  zoneId.value = z.id;
+  series.length = 0;
+  snippet();
 });
 zoneId.addEventListener("input", snippet);
 document.getElementById("copy").addEventListener("click", () => navigator.clipboard.writeText(toml.textContent));

@@ -190,6 +190,18 @@ class LiveViewIT {
             // the chart gets measurements of the drawn zone from /api/measure
             await(cdp, "series.filter(s => s.coverage !== null).length >= 3", Pattern.compile("true"), 20);
 
+            // a configured zone, moved: its first corner dragged from (0.31, 0.98) to (0.25, 0.95)
+            await(cdp, "document.getElementById('existing').options.length", Pattern.compile("2"), 20);
+            cdp.eval("(() => { const s = document.getElementById('existing'); s.value = 'lane-2-out';"
+                    + " document.getElementById('edit').click(); return s.value; })()");
+            cdp.mouse("mousePressed", left + 0.31 * width, top + 0.98 * height, 1);
+            cdp.mouse("mouseMoved", left + 0.28 * width, top + 0.965 * height, 1);
+            cdp.mouse("mouseMoved", left + 0.25 * width, top + 0.95 * height, 1);
+            cdp.mouse("mouseReleased", left + 0.25 * width, top + 0.95 * height, 0);
+            assertEquals(String.join("\n", "[[camera.zone]]", "id = \"lane-2-out\"",
+                    "polygon = [[0.25, 0.95], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]", "heading_deg = 0", ""),
+                    cdp.eval("window.waywardSnippet()"));
+
             String shot = cdp.call("Page.captureScreenshot", "{\"format\":\"png\"}");
             Matcher data = Pattern.compile("\"data\":\"([^\"]+)\"").matcher(shot);
             assertTrue(data.find());
