@@ -21,7 +21,10 @@ public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg,
     /** Defaults of tolerance_deg, min_speed and min_confidence. */
     public static final double DEFAULT_TOLERANCE_DEG = 60;
     public static final double DEFAULT_MIN_SPEED = 8;
-    public static final double DEFAULT_MIN_CONFIDENCE = 20;
+    public static final double DEFAULT_MIN_CONFIDENCE = 8;
+    /** Defaults of min_travel_px and quick_travel_px (analysis pixels; chosen on the detection suite). */
+    public static final double DEFAULT_MIN_TRAVEL_PX = 10;
+    public static final double DEFAULT_QUICK_TRAVEL_PX = 30;
 
     public ZoneConfig {
         xs = xs.clone();

@@ -73,6 +73,10 @@ public final class ZoneRule {
      *
      * @return the event phase this reading decided, or null
      */
+    /** Pending: distance the movement against the heading has carried since the pending phase began. */
+    private double travel;
+    private double lastT;
+
     public Event update(ZoneReading r) {
         final double t = r.streamSeconds;
         final boolean wrongWay = kind == EventKind.WRONG_WAY;
@@ -85,6 +89,8 @@ public final class ZoneRule {
                 if (signal >= settings.onsetLevel()) {
                     state = State.PENDING;
                     pendingSince = t;
+                    travel = 0;
+                    lastT = t;
                     clearMeasurements();
                     accumulate(r, signal, wrongWay);
                     return startIfHeld(t);
@@ -95,6 +101,10 @@ public final class ZoneRule {
                     state = State.IDLE;
                     return null;
                 }
+                if (wrongWay && !Double.isNaN(r.againstSpeed)) {
+                    travel += r.againstSpeed * (t - lastT); // px/s × s: how far the movement against carried
+                }
+                lastT = t;
                 accumulate(r, signal, wrongWay);
                 return startIfHeld(t);
             case ACTIVE:
@@ -123,7 +133,13 @@ public final class ZoneRule {
     }
 
     private Event startIfHeld(double t) {
-        if (t - pendingSince + EPSILON_SECONDS < settings.holdSeconds()) {
+        boolean held = t - pendingSince + EPSILON_SECONDS >= settings.holdSeconds();
+        if (kind == EventKind.WRONG_WAY) {
+            boolean quick = travel + 1e-6 >= settings.quickTravelPx();
+            if (!quick && (!held || travel + 1e-6 < settings.minTravelPx())) {
+                return null;
+            }
+        } else if (!held) {
             return null;
         }
         state = State.ACTIVE;

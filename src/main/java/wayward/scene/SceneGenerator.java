@@ -26,6 +26,8 @@ import wayward.zone.ZoneMeter;
  */
 public final class SceneGenerator {
     private final Scene scene;
+    /** Slower than this (pixels per second) a mover counts as standing, not as going the wrong way. */
+    public static final double AGAINST_MIN_SPEED = 5;
 
     public SceneGenerator(Scene scene) {
         this.scene = scene;
@@ -42,6 +44,17 @@ public final class SceneGenerator {
             textures.add(texture(pixels(m.width(), w), pixels(m.height(), h), new SplittableRandom(scene.seed() * 31 + i + 1)));
         }
         SplittableRandom noise = new SplittableRandom(scene.seed() ^ 0x5DEECE66DL);
+        Scene.Nuisances nu = scene.nuisances();
+        List<float[]> swayTextures = new ArrayList<>();
+        for (int i = 0; i < nu.sways().size(); i++) {
+            Scene.Sway sw = nu.sways().get(i);
+            swayTextures.add(foliage(pixels(sw.width(), w), pixels(sw.height(), h), new SplittableRandom(scene.seed() * 97 + i)));
+        }
+        SplittableRandom rainRandom = new SplittableRandom(scene.seed() * 13 + 7);
+        SplittableRandom shakeRandom = new SplittableRandom(scene.seed() * 17 + 3);
+        double shakePhaseX = shakeRandom.nextDouble() * 2 * Math.PI;
+        double shakePhaseY = shakeRandom.nextDouble() * 2 * Math.PI;
+        float[] shifted = new float[w * h];
         float[] canvas = new float[w * h];
         byte[] bytes = new byte[w * h];
         ByteBuffer buffer = ByteBuffer.wrap(bytes);
@@ -60,14 +73,48 @@ public final class SceneGenerator {
             rec.start();
             for (int f = 0; f < frames; f++) {
                 double t = f / scene.fps();
-                System.arraycopy(background, 0, canvas, 0, canvas.length);
+                // the camera's own movement: shake (two sinusoids) and a lasting bump; the world shifts the other way
+                double ox = 0;
+                double oy = 0;
+                if (nu.shakePx() > 0) {
+                    ox += nu.shakePx() * Math.sin(2 * Math.PI * nu.shakeHz() * t + shakePhaseX);
+                    oy += nu.shakePx() * Math.sin(2 * Math.PI * nu.shakeHz() * 1.37 * t + shakePhaseY);
+                }
+                if (nu.bump() != null && t >= nu.bump().atSeconds()) {
+                    ox += nu.bump().dxPx();
+                    oy += nu.bump().dyPx();
+                }
+                if (ox == 0 && oy == 0) {
+                    System.arraycopy(background, 0, canvas, 0, canvas.length);
+                } else {
+                    shift(background, canvas, w, h, ox, oy);
+                }
+                for (int i = 0; i < nu.sways().size(); i++) {
+                    Scene.Sway sw = nu.sways().get(i);
+                    double a = sw.amplitudePx() * Math.sin(2 * Math.PI * t / sw.periodSeconds());
+                    double ang = Math.toRadians(sw.angleDeg());
+                    draw(canvas, w, h, swayTextures.get(i), pixels(sw.width(), w), pixels(sw.height(), h),
+                            sw.x() * w + a * Math.sin(ang) - ox, sw.y() * h - a * Math.cos(ang) - oy);
+                }
                 for (int i = 0; i < scene.movers().size(); i++) {
                     Scene.Mover m = scene.movers().get(i);
                     if (t >= m.startSeconds() && t <= m.endSeconds()) {
                         double[] c = m.centreAt(t);
                         draw(canvas, w, h, textures.get(i), pixels(m.width(), w), pixels(m.height(), h),
-                                c[0] * w, c[1] * h);
+                                c[0] * w - ox, c[1] * h - oy);
                     }
+                }
+                if (nu.shadow() != null && t >= nu.shadow().startSeconds() && t <= nu.shadow().endSeconds()) {
+                    shadow(canvas, w, h, nu.shadow(), t);
+                }
+                double[] light = light(nu.lights(), t);
+                if (light[0] != 1 || light[1] != 0) {
+                    for (int p = 0; p < canvas.length; p++) {
+                        canvas[p] = (float) (canvas[p] * light[0] + light[1]);
+                    }
+                }
+                if (nu.rain() != null) {
+                    rain(canvas, w, h, nu.rain(), rainRandom);
                 }
                 for (int p = 0; p < canvas.length; p++) {
                     double v = canvas[p] + scene.noise() * gaussian(noise);
@@ -80,6 +127,84 @@ public final class SceneGenerator {
             rec.stop();
         }
         writeTruth(truth, video.getFileName().toString());
+    }
+
+    /** The background seen by a camera moved by (ox, oy) pixels: bilinear, edges repeated. */
+    private static void shift(float[] src, float[] dst, int w, int h, double ox, double oy) {
+        for (int y = 0; y < h; y++) {
+            double sy = Math.max(0, Math.min(h - 1.001, y + oy));
+            int y0 = (int) sy;
+            double fy = sy - y0;
+            for (int x = 0; x < w; x++) {
+                double sx = Math.max(0, Math.min(w - 1.001, x + ox));
+                int x0 = (int) sx;
+                double fx = sx - x0;
+                int i = y0 * w + x0;
+                double a = src[i] + fx * (src[i + 1] - src[i]);
+                double b = src[i + w] + fx * (src[i + w + 1] - src[i + w]);
+                dst[y * w + x] = (float) (a + fy * (b - a));
+            }
+        }
+    }
+
+    /** Gain and offset of the picture's brightness at t from the light changes (ramped linearly). */
+    static double[] light(List<Scene.Light> lights, double t) {
+        double gain = 1;
+        double offset = 0;
+        for (Scene.Light l : lights) {
+            if (t < l.atSeconds()) {
+                break;
+            }
+            double a = l.rampSeconds() <= 0 ? 1 : Math.min(1, (t - l.atSeconds()) / l.rampSeconds());
+            gain += a * (l.gain() - gain);
+            offset += a * (l.offset() - offset);
+        }
+        return new double[] {gain, offset};
+    }
+
+    /** A soft vertical band of shade (cos² across its width) at its place at t. */
+    private static void shadow(float[] canvas, int w, int h, Scene.Shadow s, double t) {
+        double a = (t - s.startSeconds()) / (s.endSeconds() - s.startSeconds());
+        double centre = (s.fromX() + a * (s.toX() - s.fromX())) * w;
+        double half = s.width() * w / 2;
+        for (int x = Math.max(0, (int) (centre - half)); x < Math.min(w, (int) (centre + half) + 1); x++) {
+            double d = (x + 0.5 - centre) / half;
+            if (Math.abs(d) >= 1) {
+                continue;
+            }
+            double c = Math.cos(d * Math.PI / 2);
+            float factor = (float) (1 - s.darkness() * c * c);
+            for (int y = 0; y < h; y++) {
+                canvas[y * w + x] *= factor;
+            }
+        }
+    }
+
+    /** Short bright streaks at random places (new every frame). */
+    private static void rain(float[] canvas, int w, int h, Scene.Rain r, SplittableRandom random) {
+        double ang = Math.toRadians(r.angleDeg());
+        double dx = Math.sin(ang);
+        double dy = -Math.cos(ang);
+        for (int k = 0; k < r.streaksPerFrame(); k++) {
+            double x = random.nextDouble() * w;
+            double y = random.nextDouble() * h;
+            for (int step = 0; step < r.lengthPx(); step++) {
+                int px = (int) (x + dx * step);
+                int py = (int) (y + dy * step);
+                if (px >= 0 && px < w && py >= 0 && py < h) {
+                    canvas[py * w + px] += (float) r.brightness();
+                }
+            }
+        }
+    }
+
+    /** Leaves: bright and dark speckles at a few scales, rounded corners. */
+    private static float[] foliage(int tw, int th, SplittableRandom r) {
+        float[] t = new float[tw * th];
+        for (int i = 0; i < t.length; i++) {
+            t[i] = (float) (70 + r.nextDouble() * 110);
+        }
+        return t;
     }
 
     private static int pixels(double fraction, int size) {
@@ -229,8 +354,9 @@ public final class SceneGenerator {
                 g.writeStringField("id", m.id());
                 g.writeNumberField("start_s", m.startSeconds());
                 g.writeNumberField("end_s", m.endSeconds());
-                double bearing = ZoneMeter.bearingDeg((m.toX() - m.fromX()) * scene.width(),
-                        (m.toY() - m.fromY()) * scene.height());
+                int last = m.ts().length - 1;
+                double bearing = ZoneMeter.bearingDeg((m.xs()[last] - m.xs()[0]) * scene.width(),
+                        (m.ys()[last] - m.ys()[0]) * scene.height());
                 g.writeNumberField("heading_deg", Math.round(bearing * 10) / 10.0);
                 g.writeNumberField("speed_px_s", Math.round(m.speedPxPerSecond(scene.width(), scene.height()) * 10) / 10.0);
                 g.writeArrayFieldStart("zones");
@@ -243,7 +369,15 @@ public final class SceneGenerator {
                     g.writeStringField("zone", z.id());
                     g.writeNumberField("enter_s", Math.round(inside[0] * 1000) / 1000.0);
                     g.writeNumberField("exit_s", Math.round(inside[1] * 1000) / 1000.0);
-                    g.writeBooleanField("against", z.isAgainst(bearing));
+                    List<double[]> against = m.againstIntervals(z, 1.0 / scene.fps(), scene.width(),
+                            scene.height(), AGAINST_MIN_SPEED);
+                    g.writeBooleanField("against", !against.isEmpty());
+                    // each interval inside the zone moving against its heading is one wrong-way passage
+                    g.writeArrayFieldStart("against_intervals");
+                    for (double[] iv : against) {
+                        g.writeArray(new double[] {Math.round(iv[0] * 1000) / 1000.0, Math.round(iv[1] * 1000) / 1000.0}, 0, 2);
+                    }
+                    g.writeEndArray();
                     g.writeEndObject();
                 }
                 g.writeEndArray();

@@ -25,7 +25,7 @@ class ConfigLoaderTest {
     @ParameterizedTest(name = "{0}")
     @CsvSource(delimiter = '|', quoteCharacter = '`', value = {
         "tolerance-out-of-range.toml | 9:3: camera[0].zone[0].tolerance_deg: 120 (expected a number from 0 to 90)",
-        "unknown-key.toml | 12:1: camera[0].zone[1].colour: \"red\" (unknown key; expected one of id, polygon, heading_deg, tolerance_deg, min_speed, min_confidence, onset_level, release_level, hold_seconds, clear_seconds, rest_seconds)",
+        "unknown-key.toml | 12:1: camera[0].zone[1].colour: \"red\" (unknown key; expected one of id, polygon, heading_deg, tolerance_deg, min_speed, min_confidence, onset_level, release_level, hold_seconds, clear_seconds, rest_seconds, min_travel_px, quick_travel_px)",
         "missing-source.toml | 1:1: camera[0].source: missing (expected a video file path or a URL such as rtsp://host/stream)",
         "polygon-point-outside.toml | 7:26: camera[0].zone[0].polygon[1]: [1.2, 0.1] (expected a point [x, y] with x and y from 0 to 1)",
         "release-above-onset.toml | 10:3: camera[0].zone[0].release_level: 0.05 (expected at most onset_level 0.02)",
@@ -82,7 +82,7 @@ class ConfigLoaderTest {
                 DIR + "three-mistakes.toml:11:3: camera[0].zone[0].tolerance_deg: 270 (expected a number from 0 to 90)",
                 DIR + "three-mistakes.toml:12:3: camera[0].zone[0].hold_secs: 0.5 (unknown key; expected one of id, "
                         + "polygon, heading_deg, tolerance_deg, min_speed, min_confidence, onset_level, release_level, "
-                        + "hold_seconds, clear_seconds, rest_seconds)"),
+                        + "hold_seconds, clear_seconds, rest_seconds, min_travel_px, quick_travel_px)"),
                 errorsOf("three-mistakes.toml"));
     }
 

@@ -117,4 +117,54 @@ class ZoneRuleTest {
         assertEquals(Event.Phase.END, end.phase());
         assertNull(rule.finish(1.0));
     }
+
+    /** Readings at 10 per second with a given against speed (px/s). */
+    private static void feedSpeed(ZoneRule rule, double level, double speed, double t0, double t1, List<Event> out) {
+        ZoneReading r = new ZoneReading();
+        for (int k = 0; t0 + k * 0.1 < t1 - 1e-9; k++) {
+            r.streamSeconds = Math.round((t0 + k * 0.1) * 1000) / 1000.0;
+            r.against = level;
+            r.againstHeadingDeg = 180;
+            r.againstSpeed = speed;
+            Event e = rule.update(r);
+            if (e != null) {
+                out.add(e);
+            }
+        }
+    }
+
+    // travel = ∫ speed dt, worked out by hand for the 0.1 s steps below
+    private static final RuleSettings TRAVEL = new RuleSettings(0.05, 0.02, 0.5, 1.0, 2.0, 10, 30);
+
+    @Test
+    void swayingBackAndForthNeverCarriesFarEnough() {
+        ZoneRule rule = new ZoneRule("cam", "lane", true, TRAVEL, CLOCK);
+        List<Event> events = new ArrayList<>();
+        // against for 0.8 s at 10 px/s (8 px), then with the heading for 0.8 s, again and again
+        for (int cycle = 0; cycle < 10; cycle++) {
+            feedSpeed(rule, 0.10, 10, cycle * 1.6, cycle * 1.6 + 0.8, events);
+            feedSpeed(rule, 0.0, 0, cycle * 1.6 + 0.8, cycle * 1.6 + 1.6, events);
+        }
+        assertEquals(List.of(), events, "held 0.8 s each time, but only 7–8 px carried");
+    }
+
+    @Test
+    void aSlowMoverStartsOnceItHasCarriedTheMinimumTravel() {
+        ZoneRule rule = new ZoneRule("cam", "lane", true, TRAVEL, CLOCK);
+        List<Event> events = new ArrayList<>();
+        feedSpeed(rule, 0.10, 12, 1.0, 4.0, events);
+        // pending from 1.0 s; 12 px/s carries 1.2 px per step: 10 px after 9 steps, at 1.9 s (hold alone: 1.5 s)
+        assertEquals(1.9, events.get(0).streamSeconds(), 1e-9);
+    }
+
+    @Test
+    void aFastMoverStartsBeforeTheHoldTime() {
+        ZoneRule rule = new ZoneRule("cam", "lane", true, TRAVEL, CLOCK);
+        List<Event> events = new ArrayList<>();
+        feedSpeed(rule, 0.10, 150, 1.0, 1.4, events);
+        feedSpeed(rule, 0.0, 0, 1.4, 4.0, events);
+        // 15 px per step: 30 px after 2 steps, at 1.2 s, while the hold would need until 1.5 s
+        assertEquals(1.2, events.get(0).streamSeconds(), 1e-9);
+        assertEquals(Event.Phase.START, events.get(0).phase());
+    }
 }
