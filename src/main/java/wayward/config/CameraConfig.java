@@ -13,9 +13,10 @@ import java.util.List;
  * @param removeCameraMotion subtract the picture's dominant motion (shake) before zones are measured
  * @param input         how to open the source (transport, webcam size/rate/format)
  * @param zones         at least one zone
+ * @param tamperAlerts  raise view_blocked, focus_lost, picture_frozen and camera_moved events
  */
 public record CameraConfig(String id, String source, boolean loop, int analysisWidth, double analysisFps,
-        boolean removeCameraMotion, SourceInput input, List<ZoneConfig> zones) {
+        boolean removeCameraMotion, SourceInput input, List<ZoneConfig> zones, boolean tamperAlerts) {
 
     /**
      * Source opening options.
@@ -34,7 +35,8 @@ public record CameraConfig(String id, String source, boolean loop, int analysisW
 
     /** The same camera reading another source (replay, demo). */
     public CameraConfig withSource(String newSource, boolean newLoop) {
-        return new CameraConfig(id, newSource, newLoop, analysisWidth, analysisFps, removeCameraMotion, input, zones);
+        return new CameraConfig(id, newSource, newLoop, analysisWidth, analysisFps, removeCameraMotion, input, zones,
+                tamperAlerts);
     }
 
     /** True when the source is a URL rather than a file. */

@@ -349,6 +349,7 @@ public final class ConfigLoader {
         }
         double fps = s.number("analysis_fps", 10, 0.5, 60);
         boolean removeCameraMotion = s.bool("remove_camera_motion", true);
+        boolean tamperAlerts = s.bool("tamper_alerts", true);
         CameraConfig.SourceInput d = CameraConfig.SourceInput.DEFAULTS;
         String transport = s.string("rtsp_transport", d.rtspTransport(), "\"tcp\" or \"udp\"");
         if (!transport.equals("tcp") && !transport.equals("udp")) {
@@ -396,7 +397,7 @@ public final class ConfigLoader {
         if (id == null || source == null) {
             return null;
         }
-        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones);
+        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones, tamperAlerts);
     }
 
     private static ZoneConfig zone(Scope z) {

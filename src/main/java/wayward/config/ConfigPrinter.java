@@ -100,6 +100,7 @@ public final class ConfigPrinter {
         b.append("analysis_width = ").append(cam.analysisWidth()).append('\n');
         b.append("analysis_fps = ").append(num(cam.analysisFps())).append('\n');
         b.append("remove_camera_motion = ").append(cam.removeCameraMotion()).append('\n');
+        b.append("tamper_alerts = ").append(cam.tamperAlerts()).append('\n');
         b.append("rtsp_transport = ").append(quote(cam.input().rtspTransport())).append('\n');
         if (cam.input().deviceSize() != null) {
             b.append("device_size = ").append(quote(cam.input().deviceSize())).append('\n');

@@ -198,7 +198,9 @@ public final class MqttPublisher implements Destination {
         if (e.zone() != null) {
             state = e.phase() == Event.Phase.START ? "alert" : "clear";
         } else {
-            state = e.kind() == EventKind.CAMERA_LOST && e.phase() == Event.Phase.START ? "lost" : "watching";
+            // camera_lost → lost; a tamper kind → its name (view_blocked, camera_moved, …); any end → watching
+            state = e.phase() == Event.Phase.END || e.kind() == EventKind.CAMERA_BACK ? "watching"
+                    : e.kind() == EventKind.CAMERA_LOST ? "lost" : e.kind().jsonName();
         }
         return json(g -> {
             g.writeStringField("state", state);

@@ -9,7 +9,15 @@ public enum EventKind {
     /** The camera stopped delivering frames. */
     CAMERA_LOST("camera_lost"),
     /** The camera delivers frames again. */
-    CAMERA_BACK("camera_back");
+    CAMERA_BACK("camera_back"),
+    /** The view is blocked: the picture lost its large-scale structure (lens covered, sprayed, turned away). */
+    VIEW_BLOCKED("view_blocked"),
+    /** The picture lost its fine detail while its large-scale structure stayed: out of focus, fogged lens. */
+    FOCUS_LOST("focus_lost"),
+    /** The stream repeats the very same picture: a frozen encoder or a replayed still. */
+    PICTURE_FROZEN("picture_frozen"),
+    /** The whole picture shifted and stayed shifted: the camera was knocked or turned. */
+    CAMERA_MOVED("camera_moved");
 
     private final String jsonName;
 

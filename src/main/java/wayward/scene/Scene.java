@@ -18,8 +18,24 @@ public record Scene(String name, int width, int height, double fps, double secon
 
     /** What a real camera adds besides traffic; all optional, none by default. */
     public record Nuisances(List<Light> lights, double shakePx, double shakeHz, Bump bump, Rain rain,
-            List<Sway> sways, Shadow shadow) {
-        public static final Nuisances NONE = new Nuisances(List.of(), 0, 0, null, null, List.of(), null);
+            List<Sway> sways, Shadow shadow, Tamper tamper) {
+        public static final Nuisances NONE = new Nuisances(List.of(), 0, 0, null, null, List.of(), null, null);
+    }
+
+    /**
+     * From {@code atSeconds}: "cover" (the lens covered: a flat grey picture with noise), "freeze" (the very same
+     * picture again and again) or "blur" (out of focus: a wide box blur).
+     */
+    public record Tamper(String kind, double atSeconds) {
+        /** The event kind a watcher should raise for it. */
+        public String expectedEvent() {
+            return switch (kind) {
+                case "cover" -> "view_blocked";
+                case "freeze" -> "picture_frozen";
+                case "blur" -> "focus_lost";
+                default -> throw new IllegalArgumentException("tamper kind " + kind);
+            };
+        }
     }
 
     /** From {@code atSeconds}, over {@code rampSeconds}, the picture's brightness goes to v·gain + offset. */
@@ -256,8 +272,14 @@ public record Scene(String name, int width, int height, double fps, double secon
         Shadow shadow = sh == null ? null : new Shadow(num(file, sh, "start_s"), num(file, sh, "end_s"),
                 num(file, sh, "from_x"), num(file, sh, "to_x"), opt(file, sh, "width", 0.3),
                 opt(file, sh, "darkness", 0.4));
+        TomlTable tt = t.getTable("tamper");
+        Tamper tamper = null;
+        if (tt != null) {
+            tamper = new Tamper(tt.getString("kind"), num(file, tt, "at_s"));
+            tamper.expectedEvent(); // checks the kind
+        }
         return new Nuisances(lights, shake == null ? 0 : num(file, shake, "amplitude_px"),
-                shake == null ? 0 : opt(file, shake, "hz", 3), bump, rain, sways, shadow);
+                shake == null ? 0 : opt(file, shake, "hz", 3), bump, rain, sways, shadow, tamper);
     }
 
     private static double num(Path file, TomlTable t, String key) {

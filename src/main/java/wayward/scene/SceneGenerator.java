@@ -116,6 +116,20 @@ public final class SceneGenerator {
                 if (nu.rain() != null) {
                     rain(canvas, w, h, nu.rain(), rainRandom);
                 }
+                Scene.Tamper tamper = nu.tamper();
+                boolean tampered = tamper != null && t >= tamper.atSeconds();
+                if (tampered && tamper.kind().equals("freeze")) {
+                    buffer.rewind();
+                    rec.recordImage(w, h, Frame.DEPTH_UBYTE, 1, w, AV_PIX_FMT_GRAY8, buffer); // the last picture again
+                    continue;
+                }
+                if (tampered && tamper.kind().equals("cover")) {
+                    java.util.Arrays.fill(canvas, 38f);
+                }
+                if (tampered && tamper.kind().equals("blur")) {
+                    blur(canvas, shifted, w, h, 6);
+                    blur(canvas, shifted, w, h, 6);
+                }
                 for (int p = 0; p < canvas.length; p++) {
                     double v = canvas[p] + scene.noise() * gaussian(noise);
                     int q = (int) Math.round(v);
@@ -143,6 +157,32 @@ public final class SceneGenerator {
                 double a = src[i] + fx * (src[i + 1] - src[i]);
                 double b = src[i + w] + fx * (src[i + w + 1] - src[i + w]);
                 dst[y * w + x] = (float) (a + fy * (b - a));
+            }
+        }
+    }
+
+    /** Box blur of radius r, rows then columns, through {@code tmp}. */
+    private static void blur(float[] img, float[] tmp, int w, int h, int r) {
+        for (int y = 0; y < h; y++) {
+            for (int x = 0; x < w; x++) {
+                double sum = 0;
+                int n = 0;
+                for (int k = Math.max(0, x - r); k <= Math.min(w - 1, x + r); k++) {
+                    sum += img[y * w + k];
+                    n++;
+                }
+                tmp[y * w + x] = (float) (sum / n);
+            }
+        }
+        for (int y = 0; y < h; y++) {
+            for (int x = 0; x < w; x++) {
+                double sum = 0;
+                int n = 0;
+                for (int k = Math.max(0, y - r); k <= Math.min(h - 1, y + r); k++) {
+                    sum += tmp[k * w + x];
+                    n++;
+                }
+                img[y * w + x] = (float) (sum / n);
             }
         }
     }
@@ -348,6 +388,13 @@ public final class SceneGenerator {
             g.writeNumberField("height", scene.height());
             g.writeNumberField("fps", scene.fps());
             g.writeNumberField("seconds", scene.seconds());
+            Scene.Nuisances nu = scene.nuisances();
+            if (nu.tamper() != null || nu.bump() != null) {
+                g.writeObjectFieldStart("tamper");
+                g.writeStringField("event", nu.tamper() != null ? nu.tamper().expectedEvent() : "camera_moved");
+                g.writeNumberField("at_s", nu.tamper() != null ? nu.tamper().atSeconds() : nu.bump().atSeconds());
+                g.writeEndObject();
+            }
             g.writeArrayFieldStart("movers");
             for (Scene.Mover m : scene.movers()) {
                 g.writeStartObject();

@@ -42,6 +42,7 @@ public final class CameraPipeline {
     private volatile long analysedFrames;
     private volatile long analysisNanos;
     private final LiveView live = new LiveView();
+    private final wayward.rule.TamperWatch tamper;
     private final java.util.concurrent.atomic.AtomicLongArray zoneCoverage;
     private final java.util.concurrent.atomic.AtomicLongArray zoneAgainst;
     private final java.util.concurrent.atomic.AtomicLongArray zoneEvents;
@@ -101,6 +102,7 @@ public final class CameraPipeline {
         for (ZoneConfig z : camera.zones()) {
             rules.add(new ZoneRule(camera.id(), z.id(), z.hasHeading(), z.rule(), clock));
         }
+        this.tamper = camera.tamperAlerts() ? new wayward.rule.TamperWatch(camera.id(), clock) : null;
         int zones = camera.zones().size();
         this.zoneCoverage = new java.util.concurrent.atomic.AtomicLongArray(zones);
         this.zoneAgainst = new java.util.concurrent.atomic.AtomicLongArray(zones);
@@ -272,6 +274,12 @@ public final class CameraPipeline {
                         emit(withEvidence(e, camera.zones().get(z), f));
                     }
                 }
+                if (tamper != null) {
+                    tamper.update(f, field, t);
+                    for (Event e; (e = tamper.poll()) != null; ) {
+                        emit(e);
+                    }
+                }
                 analysisNanos += System.nanoTime() - began;
             }
         } catch (InterruptedException e) {
@@ -281,6 +289,12 @@ public final class CameraPipeline {
         } finally {
             if (flow != null) {
                 flow.close();
+            }
+            if (tamper != null) {
+                tamper.finish(lastStreamSeconds);
+                for (Event e; (e = tamper.poll()) != null; ) {
+                    emit(e);
+                }
             }
             for (int z = 0; z < rules.size(); z++) {
                 Event e = rules.get(z).finish(lastStreamSeconds);

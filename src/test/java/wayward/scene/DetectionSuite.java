@@ -47,13 +47,24 @@ public final class DetectionSuite {
     record Passage(String mover, String zone, double enter, double exit) {
     }
 
-    /** A detector's event: zone and the start's stream time. */
-    record Detection(String zone, double start) {
+    /** A detector's event: zone (null for camera events), kind and the start's stream time. */
+    record Detection(String zone, String kind, double start) {
+        Detection(String zone, double start) {
+            this(zone, "wrong_way", start);
+        }
     }
+
+    /** Event kinds of the tamper watch. */
+    static final java.util.Set<String> TAMPER = java.util.Set.of("view_blocked", "focus_lost", "picture_frozen",
+            "camera_moved");
+
+    /** A tamper alert counts when it starts within this long after the tampering. */
+    static final double TAMPER_SECONDS = 5;
 
     /** The score of one detector on one scenario. */
     record Score(String scenario, boolean nuisance, double seconds, int passages, int caught, int events,
-            int falseAlerts, double maxLatency, double meanLatency) {
+            int falseAlerts, double maxLatency, double meanLatency, String tamperExpected, boolean tamperCaught,
+            int falseTamper) {
         double recall() {
             return passages == 0 ? Double.NaN : (double) caught / passages;
         }
@@ -120,8 +131,14 @@ public final class DetectionSuite {
         }
         List<Detection> found = new ArrayList<>();
         for (String line : out.toString(StandardCharsets.UTF_8).split("\n")) {
-            if (line.contains("\"kind\":\"wrong_way\"") && line.contains("\"phase\":\"start\"")) {
-                found.add(new Detection(field(line, "zone"), Double.parseDouble(field(line, "stream_s"))));
+            if (!line.contains("\"phase\":\"start\"")) {
+                continue;
+            }
+            String kind = field(line, "kind");
+            if (kind.equals("wrong_way")) {
+                found.add(new Detection(field(line, "zone"), kind, Double.parseDouble(field(line, "stream_s"))));
+            } else if (TAMPER.contains(kind)) {
+                found.add(new Detection(null, kind, Double.parseDouble(field(line, "stream_s"))));
             }
         }
         return found;
@@ -203,8 +220,26 @@ public final class DetectionSuite {
         return found;
     }
 
-    /** Matches starts to passages (each start at most one passage, in time order). */
-    static Score score(Scene scene, List<Passage> passages, List<Detection> found) {
+    /** Matches starts to passages (each start at most one passage, in time order), and tamper alerts. */
+    static Score score(Scene scene, List<Passage> passages, List<Detection> all) {
+        List<Detection> found = all.stream().filter(d -> d.kind().equals("wrong_way") || d.kind().equals("motion"))
+                .toList();
+        Scene.Nuisances nu = scene.nuisances();
+        String expected = nu.tamper() != null ? nu.tamper().expectedEvent() : nu.bump() != null ? "camera_moved" : null;
+        double expectedAt = nu.tamper() != null ? nu.tamper().atSeconds() : nu.bump() != null ? nu.bump().atSeconds() : 0;
+        boolean tamperCaught = false;
+        int falseTamper = 0;
+        for (Detection d : all) {
+            if (!TAMPER.contains(d.kind())) {
+                continue;
+            }
+            if (!tamperCaught && d.kind().equals(expected) && d.start() >= expectedAt
+                    && d.start() <= expectedAt + TAMPER_SECONDS) {
+                tamperCaught = true;
+            } else {
+                falseTamper++;
+            }
+        }
         boolean[] used = new boolean[found.size()];
         int caught = 0;
         double sum = 0;
@@ -231,7 +266,7 @@ public final class DetectionSuite {
         }
         boolean nuisance = passages.isEmpty();
         return new Score(scene.name(), nuisance, scene.seconds(), passages.size(), caught, found.size(), falseAlerts,
-                max, caught == 0 ? Double.NaN : sum / caught);
+                max, caught == 0 ? Double.NaN : sum / caught, expected, tamperCaught, falseTamper);
     }
 
     /** Both detectors on every scenario: {ours, baseline} per scenario. */
@@ -256,8 +291,8 @@ public final class DetectionSuite {
     public static String table(List<Score[]> rows) {
         StringBuilder b = new StringBuilder();
         b.append("| scenario | wrong-way passages | wayward: caught | wayward: false alerts | wayward: latency "
-                + "mean / max (s) | MOG2 motion: caught | MOG2 motion: false alerts |\n");
-        b.append("|---|---|---|---|---|---|---|\n");
+                + "mean / max (s) | tamper expected → raised | MOG2 motion: caught | MOG2 motion: false alerts |\n");
+        b.append("|---|---|---|---|---|---|---|---|\n");
         int passages = 0;
         int caught = 0;
         int events = 0;
@@ -274,6 +309,8 @@ public final class DetectionSuite {
             b.append("| ").append(o.scenario()).append(" | ").append(o.passages()).append(" | ")
                     .append(o.caught()).append(" | ").append(o.falseAlerts()).append(" | ")
                     .append(f(o.meanLatency(), "%.2f")).append(" / ").append(f(o.maxLatency(), "%.2f")).append(" | ")
+                    .append(o.tamperExpected() == null ? "–" : o.tamperExpected() + (o.tamperCaught() ? " ✓" : " ✗"))
+                    .append(o.falseTamper() > 0 ? " (+" + o.falseTamper() + " false)" : "").append(" | ")
                     .append(m.caught()).append(" | ").append(m.falseAlerts()).append(" |\n");
             passages += o.passages();
             caught += o.caught();

@@ -15,7 +15,9 @@ import org.junit.jupiter.api.Timeout;
  * recall ≥ 0.98, no false alert in any scenario without a wrong-way mover, onset latency ≤ hold time + 0.5 s.
  * Ground truth: our generator's script of every mover (test-streams/suite/*.scene.toml). The direction-blind
  * baseline, OpenCV's MOG2 through JavaCV, runs beside it and must show what plain motion detection does: it
- * fires on right-way traffic and nuisances. The table is written to target/suite/scores.md.
+ * fires on right-way traffic and nuisances. Tampering (covered lens, frozen picture, lost focus, a knocked
+ * camera) must raise its own event kind within 5 s, and nothing else may raise one. The table is written to
+ * target/suite/scores.md.
  */
 class DetectionSuiteIT {
     @Test
@@ -36,6 +38,10 @@ class DetectionSuiteIT {
             if (ours.nuisance()) {
                 assertEquals(0, ours.falseAlerts(), ours.scenario() + ": no false alert\n" + table);
             }
+            if (ours.tamperExpected() != null) {
+                assertTrue(ours.tamperCaught(), ours.scenario() + ": " + ours.tamperExpected() + " within 5 s\n" + table);
+            }
+            assertEquals(0, ours.falseTamper(), ours.scenario() + ": no other tamper alert\n" + table);
             if (!Double.isNaN(ours.maxLatency())) {
                 assertTrue(ours.maxLatency() <= 0.5, ours.scenario() + ": latency over hold " + ours.maxLatency() + "\n" + table);
             }

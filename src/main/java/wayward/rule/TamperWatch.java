@@ -1,0 +1,345 @@
+package wayward.rule;
+
+import java.time.Clock;
+import java.util.ArrayDeque;
+import java.util.UUID;
+import wayward.event.Event;
+import wayward.event.EventKind;
+import wayward.flow.FlowField;
+import wayward.image.GrayFrame;
+
+/**
+ * Watches a camera for tampering, from picture statistics and the flow's dominant motion, one analysed frame
+ * at a time (analysis thread; buffers sized once per resolution, nothing allocated per frame but the events):
+ * <ul>
+ * <li>{@code view_blocked}: the spread of 8×8 block means (the picture's large-scale structure) falls under
+ *     15 % of its running baseline for 2 s; lights going off scale it by their gain only (0.4 stays above);</li>
+ * <li>{@code focus_lost}: the ratio of fine detail (differences of neighbouring 2×2 block means) to the
+ *     large-scale spread falls under 40 % of its baseline for 3 s; the ratio does not change with brightness;</li>
+ * <li>{@code picture_frozen}: for 3 s most frame pairs are still (under 0.2 % of the pixels change by more
+ *     than 1 grey level; the odd keyframe of a re-encoded still is allowed), on a camera that is normally
+ *     never still (its sensor noise survives the encoder). A compressed static scene is as still as a frozen
+ *     one, so on such a camera this check stays silent rather than cry wolf;</li>
+ * <li>{@code camera_moved}: every 0.5 s the picture is registered on a reference (whole 2×2 blocks, ±12 px,
+ *     brightness means removed); a best shift of 3 analysis pixels or more that lasts 1.5 s is a moved camera
+ *     (shake stays under it, a knock stays); the reference then follows. Its heading is the bearing of the
+ *     picture's content shift.</li>
+ * </ul>
+ * Baselines are running means over about 30 s, updated only while nothing is wrong, after a 2 s warm-up.
+ * Each condition gives a start and, once it is gone for 2 s, an end with the same id.
+ */
+public final class TamperWatch {
+    static final double BLOCKED_SHARE = 0.15;
+    static final double BLOCKED_BACK = 0.5;
+    static final double FOCUS_SHARE = 0.7;
+    static final double FOCUS_BACK = 0.85;
+    static final double FROZEN_SECONDS = 3;
+    static final double STILL_SHARE = 0.002;
+    /** A camera still in at most this share of frame pairs (normally) shows its sensor noise. */
+    static final double NEVER_STILL = 0.05;
+    /** A lasting shift of this many 2×2 blocks (3 analysis pixels) is a moved camera. */
+    static final double MOVED_BLOCKS = 1.5;
+    static final int SEARCH_BLOCKS = 6;
+    static final double MOVED_HOLD = 1.5;
+    static final double BASELINE_SECONDS = 30;
+    static final double WARM_UP_SECONDS = 2;
+    static final double CLEAR_SECONDS = 2;
+
+    private final String camera;
+    private final Clock clock;
+    private final ArrayDeque<Event> out = new ArrayDeque<>();
+    private byte[] previous;
+    private double[] blocks;
+    private int width;
+    private int height;
+    private double startT = Double.NaN;
+    private double lastT = Double.NaN;
+    private double baseSpread = Double.NaN;
+    private double baseRatio = Double.NaN;
+    private double identicalSince = Double.NaN;
+    private double stillness;
+    private double baseStill = Double.NaN;
+    private double shiftX;
+    private double shiftY;
+    private double movedSince = Double.NaN;
+    private final Condition blocked = new Condition(EventKind.VIEW_BLOCKED, 2);
+    private final Condition focus = new Condition(EventKind.FOCUS_LOST, 3);
+    private final Condition frozen = new Condition(EventKind.PICTURE_FROZEN, 0);
+    private final Condition moved = new Condition(EventKind.CAMERA_MOVED, 0);
+
+    /** One tamper condition: pending → active (start) → gone for CLEAR_SECONDS (end). */
+    private final class Condition {
+        final EventKind kind;
+        final double hold;
+        double since = Double.NaN;
+        double goneSince = Double.NaN;
+        String id;
+        double startedAt;
+
+        Condition(EventKind kind, double hold) {
+            this.kind = kind;
+            this.hold = hold;
+        }
+
+        boolean active() {
+            return id != null;
+        }
+
+        /** Feeds whether the condition holds now (and, for an end, whether it is clearly gone). */
+        void update(boolean holds, boolean gone, double t, double headingDeg) {
+            if (id == null) {
+                if (!holds) {
+                    since = Double.NaN;
+                    return;
+                }
+                if (Double.isNaN(since)) {
+                    since = t;
+                }
+                if (t - since + 1e-9 >= hold) {
+                    id = UUID.randomUUID().toString();
+                    startedAt = t;
+                    goneSince = Double.NaN;
+                    out.add(new Event(id, camera, null, kind, Event.Phase.START, t, clock.instant(), headingDeg,
+                            Double.NaN, Double.NaN, Double.NaN));
+                }
+                return;
+            }
+            if (!gone) {
+                goneSince = Double.NaN;
+                return;
+            }
+            if (Double.isNaN(goneSince)) {
+                goneSince = t;
+            }
+            if (t - goneSince + 1e-9 >= CLEAR_SECONDS) {
+                out.add(new Event(id, camera, null, kind, Event.Phase.END, t, clock.instant(), Double.NaN,
+                        Double.NaN, Double.NaN, t - startedAt));
+                id = null;
+                since = Double.NaN;
+            }
+        }
+    }
+
+    public TamperWatch(String camera, Clock clock) {
+        this.camera = camera;
+        this.clock = clock;
+    }
+
+    /** Measures one analysed frame and its flow (the pair ending at it); then drain {@link #poll()}. */
+    public void update(GrayFrame f, FlowField field, double t) {
+        if (previous == null || width != f.width || height != f.height) {
+            width = f.width;
+            height = f.height;
+            previous = new byte[width * height];
+            blocks = new double[(width / 2) * (height / 2)];
+            System.arraycopy(f.pixels, 0, previous, 0, previous.length);
+            startT = t;
+            lastT = t;
+            baseSpread = Double.NaN;
+            baseRatio = Double.NaN;
+            return;
+        }
+        double dt = Math.max(0, t - lastT);
+        lastT = t;
+        // frozen: hardly a pixel changed since the previous analysed frame (|difference| over 1 grey level)
+        byte[] p = f.pixels;
+        int changed = 0;
+        for (int i = 0; i < previous.length; i++) {
+            int d = (p[i] & 0xff) - (previous[i] & 0xff);
+            if (d > 1 || d < -1) {
+                changed++;
+            }
+        }
+        System.arraycopy(p, 0, previous, 0, previous.length);
+        double changedShare = (double) changed / previous.length;
+        boolean still = changedShare < STILL_SHARE;
+        // stillness: a running share of still frame pairs over about 1 s, so that the odd keyframe of a
+        // re-encoded frozen picture (a few pixels change) does not break the run
+        stillness += Math.min(1, dt / 1.0) * ((still ? 1 : 0) - stillness);
+        boolean mostlyStill = stillness >= 0.6;
+        if (!mostlyStill) {
+            identicalSince = Double.NaN;
+        } else if (Double.isNaN(identicalSince)) {
+            identicalSince = t;
+        }
+        // only where the picture is normally never still (sensor noise survives the encoder): a compressed
+        // static scene is as still as a frozen one, and there a freeze cannot be told from pixels
+        boolean noisyCamera = baseStill <= NEVER_STILL;
+        double spread = spread(f);
+        double detail = detail();
+        double ratio = spread > 1e-6 ? detail / spread : 0;
+        lastSpread = spread;
+        lastRatio = ratio;
+        // camera moved: every 0.5 s, the shift that best registers the 2×2-block picture on the reference
+        boolean flat = !Double.isNaN(baseSpread) && spread < 0.5 * baseSpread;
+        frozen.update(noisyCamera && mostlyStill && !flat && !blocked.active()
+                && t - identicalSince + 1e-9 >= FROZEN_SECONDS - 1, stillness < 0.3, t, Double.NaN);
+        if (reference == null) {
+            reference = blocks.clone(); // once per resolution
+        } else if (!flat && t - lastRegistration + 1e-9 >= 0.5) {
+            lastRegistration = t;
+            register();
+            boolean shifted = Math.hypot(shiftX, shiftY) >= MOVED_BLOCKS;
+            if (!shifted) {
+                movedSince = Double.NaN;
+                if (!moved.active()) {
+                    System.arraycopy(blocks, 0, reference, 0, blocks.length); // follow slow changes
+                }
+            } else if (Double.isNaN(movedSince)) {
+                movedSince = t;
+            }
+            boolean wasMoved = moved.active();
+            moved.update(shifted && t - movedSince + 1e-9 >= MOVED_HOLD, !shifted, t,
+                    wayward.zone.ZoneMeter.bearingDeg(-shiftX, -shiftY));
+            if (!wasMoved && moved.active()) {
+                System.arraycopy(blocks, 0, reference, 0, blocks.length); // the new position is the new reference
+                movedSince = Double.NaN;
+            }
+        }
+        if (t - startT < WARM_UP_SECONDS || Double.isNaN(baseSpread)) {
+            // warm-up: plain means
+            double n = Math.max(1, (t - startT) / Math.max(dt, 1e-3));
+            baseSpread = Double.isNaN(baseSpread) ? spread : baseSpread + (spread - baseSpread) / n;
+            baseRatio = Double.isNaN(baseRatio) ? ratio : baseRatio + (ratio - baseRatio) / n;
+            baseStill = Double.isNaN(baseStill) ? (still ? 1 : 0) : baseStill + ((still ? 1 : 0) - baseStill) / n;
+            return;
+        }
+        blocked.update(spread < BLOCKED_SHARE * baseSpread, spread > BLOCKED_BACK * baseSpread, t, Double.NaN);
+        boolean focusBad = !blocked.active() && spread >= BLOCKED_SHARE * baseSpread && ratio < FOCUS_SHARE * baseRatio;
+        focus.update(focusBad, ratio > FOCUS_BACK * baseRatio, t, Double.NaN);
+        boolean normal = !blocked.active() && !focus.active() && Double.isNaN(blocked.since)
+                && Double.isNaN(focus.since) && spread >= 0.5 * baseSpread;
+        if (normal) {
+            double a = Math.min(1, dt / BASELINE_SECONDS);
+            baseSpread += a * (spread - baseSpread);
+            baseRatio += a * (ratio - baseRatio);
+            if (!frozen.active() && !mostlyStill) {
+                baseStill += a * ((still ? 1 : 0) - baseStill);
+            }
+        }
+    }
+
+    private double[] reference;
+    private double lastRegistration = Double.NEGATIVE_INFINITY;
+
+    /**
+     * The whole-block shift (±{@link #SEARCH_BLOCKS}) minimising the mean absolute difference, means removed,
+     * between the 2×2-block picture and the reference over their overlap; into shiftX/shiftY (blocks). Movers
+     * cover a small part of the picture, so the best shift is the camera's.
+     */
+    private void register() {
+        int bw = width / 2;
+        int bh = height / 2;
+        double meanNow = 0;
+        double meanRef = 0;
+        for (int i = 0; i < blocks.length; i++) {
+            meanNow += blocks[i];
+            meanRef += reference[i];
+        }
+        meanNow /= blocks.length;
+        meanRef /= blocks.length;
+        double best = Double.MAX_VALUE;
+        int bestX = 0;
+        int bestY = 0;
+        for (int dy = -SEARCH_BLOCKS; dy <= SEARCH_BLOCKS; dy++) {
+            for (int dx = -SEARCH_BLOCKS; dx <= SEARCH_BLOCKS; dx++) {
+                double sum = 0;
+                int n = 0;
+                for (int y = Math.max(0, -dy); y < Math.min(bh, bh - dy); y += 2) {
+                    int row = y * bw;
+                    int refRow = (y + dy) * bw;
+                    for (int x = Math.max(0, -dx); x < Math.min(bw, bw - dx); x += 2) {
+                        sum += Math.abs((blocks[row + x] - meanNow) - (reference[refRow + x + dx] - meanRef));
+                        n++;
+                    }
+                }
+                double mad = n == 0 ? Double.MAX_VALUE : sum / n;
+                // a small preference for no shift: equal scores keep the camera where it was
+                if (mad < best - 1e-6 || (dx == 0 && dy == 0 && mad <= best * 1.02)) {
+                    best = mad;
+                    bestX = dx;
+                    bestY = dy;
+                }
+            }
+        }
+        shiftX = bestX;
+        shiftY = bestY;
+    }
+
+    /** Standard deviation of the 8×8 block means; fills the 2×2 block means for {@link #detail}. */
+    private double spread(GrayFrame f) {
+        int bw = width / 2;
+        int bh = height / 2;
+        byte[] p = f.pixels;
+        for (int by = 0; by < bh; by++) {
+            int row = 2 * by * width;
+            for (int bx = 0; bx < bw; bx++) {
+                int k = row + 2 * bx;
+                blocks[by * bw + bx] = ((p[k] & 0xff) + (p[k + 1] & 0xff) + (p[k + width] & 0xff)
+                        + (p[k + width + 1] & 0xff)) * 0.25;
+            }
+        }
+        double sum = 0;
+        double sum2 = 0;
+        int n = 0;
+        for (int y = 0; y + 4 <= bh; y += 4) {
+            for (int x = 0; x + 4 <= bw; x += 4) {
+                double m = 0;
+                for (int j = 0; j < 4; j++) {
+                    for (int i = 0; i < 4; i++) {
+                        m += blocks[(y + j) * bw + x + i];
+                    }
+                }
+                m /= 16;
+                sum += m;
+                sum2 += m * m;
+                n++;
+            }
+        }
+        if (n == 0) {
+            return 0;
+        }
+        double mean = sum / n;
+        return Math.sqrt(Math.max(0, sum2 / n - mean * mean));
+    }
+
+    /** Mean absolute difference of neighbouring 2×2 block means (fine detail, with the noise halved). */
+    private double detail() {
+        int bw = width / 2;
+        int bh = height / 2;
+        double sum = 0;
+        int n = 0;
+        for (int y = 0; y + 1 < bh; y++) {
+            for (int x = 0; x + 1 < bw; x++) {
+                double c = blocks[y * bw + x];
+                sum += Math.abs(blocks[y * bw + x + 1] - c) + Math.abs(blocks[(y + 1) * bw + x] - c);
+                n += 2;
+            }
+        }
+        return n == 0 ? 0 : sum / n;
+    }
+
+    private double lastSpread;
+    private double lastRatio;
+
+    /** For tests and tuning: latest spread, its baseline, latest ratio, its baseline, the summed shift. */
+    double[] figures() {
+        return new double[] {lastSpread, baseSpread, lastRatio, baseRatio, Math.hypot(shiftX, shiftY), baseStill, stillness};
+    }
+
+    /** The next event this watch raised, or null. */
+    public Event poll() {
+        return out.poll();
+    }
+
+    /** Ends what is active at the end of the stream (replay). */
+    public void finish(double t) {
+        for (Condition c : new Condition[] {blocked, focus, frozen, moved}) {
+            if (c.active()) {
+                out.add(new Event(c.id, camera, null, c.kind, Event.Phase.END, t, clock.instant(), Double.NaN,
+                        Double.NaN, Double.NaN, t - c.startedAt));
+                c.id = null;
+            }
+        }
+    }
+}

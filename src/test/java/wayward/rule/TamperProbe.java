@@ -1,0 +1,77 @@
+package wayward.rule;
+
+import java.nio.ByteBuffer;
+import java.time.Clock;
+import org.bytedeco.ffmpeg.global.avutil;
+import org.bytedeco.javacv.FFmpegFrameGrabber;
+import org.bytedeco.javacv.Frame;
+import wayward.config.FlowConfig;
+import wayward.event.Event;
+import wayward.flow.FlowEstimator;
+import wayward.flow.FlowField;
+import wayward.image.GrayFrame;
+
+/** Prints the tamper watch's figures over a video, for tuning: {@code TamperProbe VIDEO [fps]}. */
+public final class TamperProbe {
+    private TamperProbe() {
+    }
+
+    public static void main(String[] args) throws Exception {
+        try (FFmpegFrameGrabber g = new FFmpegFrameGrabber(args[0])) {
+            g.setPixelFormat(avutil.AV_PIX_FMT_GRAY8);
+            g.start(); // full size; downscaled by area as the service does
+            wayward.image.AreaDownscaler down = new wayward.image.AreaDownscaler(g.getImageWidth(), g.getImageHeight(), 320, 180);
+            byte[] full = new byte[g.getImageWidth() * g.getImageHeight()];
+            double fps = g.getFrameRate();
+            FlowEstimator flow = FlowEstimator.create(320, 180, FlowConfig.DEFAULTS.toSettings());
+            FlowField field = flow.newField();
+            TamperWatch w = new TamperWatch("probe", Clock.systemUTC());
+            GrayFrame f = new GrayFrame(320, 180);
+            Frame frame;
+            int i = 0;
+            byte[] prev = null;
+            byte[] prevFull = null;
+            while ((frame = g.grabImage()) != null) {
+                ByteBuffer b = (ByteBuffer) frame.image[0];
+                for (int y = 0; y < frame.imageHeight; y++) {
+                    b.position(y * frame.imageStride);
+                    b.get(full, y * frame.imageWidth, frame.imageWidth);
+                }
+                down.downscale(full, 0, frame.imageWidth, f);
+                double t = i++ / fps;
+                if (prev != null && t > 5 && t < 5.6) {
+                    int diff = 0;
+                    int full0 = 0;
+                    for (int k = 0; k < prev.length; k++) {
+                        if (prev[k] != f.pixels[k]) {
+                            diff++;
+                        }
+                    }
+                    for (int k = 0; k < full.length; k++) {
+                        if (prevFull[k] != full[k]) {
+                            full0++;
+                        }
+                    }
+                    System.out.println("t=" + t + " analysis pixels changed " + diff + ", full-size " + full0);
+                }
+                if (prev == null) {
+                    prev = new byte[f.pixels.length];
+                    prevFull = new byte[full.length];
+                }
+                System.arraycopy(f.pixels, 0, prev, 0, prev.length);
+                System.arraycopy(full, 0, prevFull, 0, full.length);
+                if (flow.push(f.pixels, field)) {
+                    w.update(f, field, t);
+                }
+                for (Event e; (e = w.poll()) != null; ) {
+                    System.out.println("EVENT " + e.kind().jsonName() + " " + e.phase().jsonName() + " " + t);
+                }
+                if (i % 15 == 0) {
+                    double[] x = w.figures();
+                    System.out.printf("t=%.1f spread=%.2f base=%.2f ratio=%.3f base=%.3f shift=%.2f baseStill=%.3f stillness=%.2f%n", t,
+                            x[0], x[1], x[2], x[3], x[4], x[5], x[6]);
+                }
+            }
+        }
+    }
+}
