@@ -198,7 +198,28 @@ public final class Main {
     }
 
     private static int check(Map<String, String> opts, PrintStream out, PrintStream err) throws Exit {
-        out.print(ConfigPrinter.toToml(loadConfig("check", opts, null, err)));
+        SiteConfig c = loadConfig("check", opts, null, err);
+        out.print(ConfigPrinter.toToml(c));
+        // what zones that learn their heading have learned so far (data_dir/learned)
+        for (CameraConfig cam : c.cameras()) {
+            for (wayward.config.ZoneConfig z : cam.zones()) {
+                if (!z.learnsHeading()) {
+                    continue;
+                }
+                Path f = Service.learnedFolder(c.dataDir(), cam.id()).resolve(z.id() + ".heading");
+                String learned = "not learned yet";
+                try {
+                    for (String line : Files.readAllLines(f)) {
+                        if (line.startsWith("heading_deg = ")) {
+                            learned = "learned heading_deg = " + line.substring(14).trim() + " (" + f + ")";
+                        }
+                    }
+                } catch (java.io.IOException e) {
+                    // not learned yet
+                }
+                out.println("# camera " + cam.id() + " zone " + z.id() + ": " + learned);
+            }
+        }
         return OK;
     }
 

@@ -427,6 +427,12 @@ public final class ConfigLoader {
         double hold = z.number("hold_seconds", 0.5, 0, 600);
         double clear = z.number("clear_seconds", 1.0, 0, 600);
         double rest = z.number("rest_seconds", 2.0, 0, 3600);
+        double learn = z.number("learn_heading_seconds", 0, 0, 86400);
+        if (learn > 0 && !Double.isNaN(heading)) {
+            z.error("learn_heading_seconds", z.raw("learn_heading_seconds"), "no learning when heading_deg is set "
+                    + "(leave out one of them)");
+            learn = 0;
+        }
         double minTravel = z.number("min_travel_px", ZoneConfig.DEFAULT_MIN_TRAVEL_PX, 0, 10000);
         double quickTravel = z.number("quick_travel_px", ZoneConfig.DEFAULT_QUICK_TRAVEL_PX, 1, 10000);
         z.finish();
@@ -435,7 +441,7 @@ public final class ConfigLoader {
         }
         return new ZoneConfig(id, polygon[0], polygon[1], heading, tolerance, minSpeed, minConfidence,
                 new RuleSettings(Math.max(onset, 0.0001), Math.max(0, Math.min(release, onset)), hold, clear, rest,
-                        minTravel, quickTravel));
+                        minTravel, quickTravel), learn);
     }
 
     static boolean isHttpUrl(String url) {

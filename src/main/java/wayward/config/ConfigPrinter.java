@@ -123,6 +123,9 @@ public final class ConfigPrinter {
             b.append("]\n");
             if (z.hasHeading()) {
                 b.append("  heading_deg = ").append(num(z.headingDeg())).append('\n');
+            } else if (z.learnsHeading()) {
+                b.append("  learn_heading_seconds = ").append(num(z.learnHeadingSeconds()))
+                        .append("   # the heading is learned from traffic and kept in data_dir/learned\n");
             } else {
                 b.append("  # heading_deg not set: the zone reports any motion\n");
             }

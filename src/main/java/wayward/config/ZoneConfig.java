@@ -15,9 +15,11 @@ import wayward.rule.RuleSettings;
  * @param minSpeedPxPerSecond slowest motion that counts, analysis pixels per second
  * @param minConfidence       weakest flow confidence that votes, (grey levels per pixel)²
  * @param rule                hysteresis levels and times
+ * @param learnHeadingSeconds without heading_deg: seconds of traffic from which to learn the heading (then
+ *                            the zone alerts on movement against it); 0 = a motion zone
  */
 public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg, double toleranceDeg,
-        double minSpeedPxPerSecond, double minConfidence, RuleSettings rule) {
+        double minSpeedPxPerSecond, double minConfidence, RuleSettings rule, double learnHeadingSeconds) {
     /** Defaults of tolerance_deg, min_speed and min_confidence. */
     public static final double DEFAULT_TOLERANCE_DEG = 60;
     public static final double DEFAULT_MIN_SPEED = 8;
@@ -43,5 +45,10 @@ public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg,
 
     public boolean hasHeading() {
         return !Double.isNaN(headingDeg);
+    }
+
+    /** True when the zone learns its heading from traffic. */
+    public boolean learnsHeading() {
+        return !hasHeading() && learnHeadingSeconds > 0;
     }
 }

@@ -318,10 +318,13 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                     g.writeArray(new double[] {xs[i], ys[i]}, 0, 2);
                 }
                 g.writeEndArray();
-                if (zc.hasHeading()) {
-                    g.writeNumberField("heading_deg", zc.headingDeg());
+                double h = p.zoneHeading(z);
+                if (!Double.isNaN(h)) {
+                    g.writeNumberField("heading_deg", Math.round(h * 10) / 10.0);
                     g.writeNumberField("tolerance_deg", zc.toleranceDeg());
                 }
+                g.writeStringField("heading_source", zc.hasHeading() ? "configured" : !zc.learnsHeading() ? "none"
+                        : p.zoneLearning(z) ? "learning" : "learned");
                 g.writeNumberField("onset_level", zc.rule().onsetLevel());
                 g.writeNumberField("release_level", zc.rule().releaseLevel());
                 number(g, "coverage", p.zoneCoverage(z));

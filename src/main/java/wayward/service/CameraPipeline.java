@@ -20,6 +20,7 @@ import wayward.image.GrayFrame;
 import wayward.rule.ZoneRule;
 import wayward.zone.ZoneMask;
 import wayward.zone.ZoneMeter;
+import wayward.zone.HeadingLearner;
 import wayward.zone.ZoneReading;
 
 /**
@@ -42,6 +43,11 @@ public final class CameraPipeline {
     private volatile long analysedFrames;
     private volatile long analysisNanos;
     private final LiveView live = new LiveView();
+    private final Clock clock;
+    /** Per zone: the heading in use (configured or learned), NaN for a motion zone or one still learning. */
+    private final double[] headings;
+    private final HeadingLearner[] learners;
+    private volatile java.nio.file.Path learnedDir;
     private final wayward.rule.TamperWatch tamper;
     private final java.util.concurrent.atomic.AtomicLongArray zoneCoverage;
     private final java.util.concurrent.atomic.AtomicLongArray zoneAgainst;
@@ -99,8 +105,18 @@ public final class CameraPipeline {
             MDC.put("camera", camera.id());
             analyse();
         }, "analysis-" + camera.id());
-        for (ZoneConfig z : camera.zones()) {
-            rules.add(new ZoneRule(camera.id(), z.id(), z.hasHeading(), z.rule(), clock));
+        this.clock = clock;
+        this.headings = new double[camera.zones().size()];
+        this.learners = new HeadingLearner[camera.zones().size()];
+        for (int i = 0; i < camera.zones().size(); i++) {
+            ZoneConfig z = camera.zones().get(i);
+            headings[i] = z.headingDeg();
+            if (z.learnsHeading()) {
+                learners[i] = new HeadingLearner(z.learnHeadingSeconds());
+                rules.add(null); // no events while learning
+            } else {
+                rules.add(new ZoneRule(camera.id(), z.id(), z.hasHeading(), z.rule(), clock));
+            }
         }
         this.tamper = camera.tamperAlerts() ? new wayward.rule.TamperWatch(camera.id(), clock) : null;
         int zones = camera.zones().size();
@@ -204,6 +220,89 @@ public final class CameraPipeline {
         return camera;
     }
 
+    /**
+     * Where learned headings are kept (data_dir/learned/&lt;camera&gt;); a heading found there is used at once.
+     * Before {@link #start}; without it (replay) learning stays in memory.
+     */
+    public void learnInto(java.nio.file.Path dir) {
+        this.learnedDir = dir;
+        for (int i = 0; i < learners.length; i++) {
+            if (learners[i] == null) {
+                continue;
+            }
+            java.nio.file.Path f = dir.resolve(camera.zones().get(i).id() + ".heading");
+            try {
+                if (java.nio.file.Files.isRegularFile(f)) {
+                    for (String line : java.nio.file.Files.readAllLines(f)) {
+                        if (line.startsWith("heading_deg = ")) {
+                            double h = Double.parseDouble(line.substring(14).trim());
+                            if (h >= 0 && h < 360) {
+                                useLearned(i, h);
+                                LOG.info("camera {} zone {}: heading {}° learned earlier ({})", camera.id(),
+                                        camera.zones().get(i).id(), String.format(java.util.Locale.ROOT, "%.1f", h), f);
+                            }
+                        }
+                    }
+                }
+            } catch (java.io.IOException | NumberFormatException e) {
+                LOG.warn("camera {} zone {}: cannot read the learned heading in {} ({}); learning again", camera.id(),
+                        camera.zones().get(i).id(), f, e.toString());
+            }
+        }
+    }
+
+    /** The zone's heading in use: configured, learned, or NaN (motion zone, or still learning). */
+    public double zoneHeading(int zone) {
+        return headings[zone];
+    }
+
+    /** True while the zone is still learning its heading. */
+    public boolean zoneLearning(int zone) {
+        return learners[zone] != null;
+    }
+
+    /** Analysis thread: one reading into the learner; on success the zone becomes a wrong-way zone. */
+    private void learn(int z, double dt) {
+        HeadingLearner l = learners[z];
+        l.add(reading, dt);
+        double h = l.heading();
+        if (Double.isNaN(h)) {
+            return;
+        }
+        ZoneConfig zc = camera.zones().get(z);
+        LOG.info("camera {} zone {}: learned heading {}° from {} s of traffic; alerts on movement against it from now",
+                camera.id(), zc.id(), String.format(java.util.Locale.ROOT, "%.1f", h),
+                String.format(java.util.Locale.ROOT, "%.0f", l.movingSeconds()));
+        useLearned(z, h);
+        java.nio.file.Path dir = learnedDir;
+        if (dir != null) {
+            java.nio.file.Path f = dir.resolve(zc.id() + ".heading");
+            try {
+                java.nio.file.Files.createDirectories(dir);
+                java.nio.file.Path tmp = dir.resolve(zc.id() + ".heading.part");
+                java.nio.file.Files.writeString(tmp, "# learned by wayward from " + String.format(java.util.Locale.ROOT,
+                        "%.0f", l.movingSeconds()) + " s of traffic; delete this file to learn again\n"
+                        + "heading_deg = " + String.format(java.util.Locale.ROOT, "%.1f", h) + "\n");
+                java.nio.file.Files.move(tmp, f, java.nio.file.StandardCopyOption.REPLACE_EXISTING,
+                        java.nio.file.StandardCopyOption.ATOMIC_MOVE);
+            } catch (java.io.IOException e) {
+                LOG.warn("camera {} zone {}: cannot keep the learned heading in {} ({}); it is learned again next start",
+                        camera.id(), zc.id(), f, e.toString());
+            }
+        }
+    }
+
+    private void useLearned(int z, double h) {
+        ZoneConfig zc = camera.zones().get(z);
+        headings[z] = h;
+        learners[z] = null;
+        rules.set(z, new ZoneRule(camera.id(), zc.id(), true, zc.rule(), clock));
+        if (z < meters.size()) {
+            meters.set(z, new ZoneMeter(meters.get(z).mask(), h, zc.toleranceDeg(), zc.minSpeedPxPerSecond(),
+                    zc.minConfidence(), camera.removeCameraMotion()));
+        }
+    }
+
     /** The latest frame and flow for the live view. */
     public LiveView live() {
         return live;
@@ -266,6 +365,10 @@ public final class CameraPipeline {
                     meters.get(z).measure(field, dt, t, reading);
                     zoneCoverage.set(z, Double.doubleToRawLongBits(reading.coverage));
                     zoneAgainst.set(z, Double.doubleToRawLongBits(reading.against));
+                    if (learners[z] != null) {
+                        learn(z, dt);
+                        continue;
+                    }
                     Event e = rules.get(z).update(reading);
                     if (e != null) {
                         if (e.phase() == Event.Phase.START) {
@@ -297,6 +400,9 @@ public final class CameraPipeline {
                 }
             }
             for (int z = 0; z < rules.size(); z++) {
+                if (rules.get(z) == null) {
+                    continue;
+                }
                 Event e = rules.get(z).finish(lastStreamSeconds);
                 if (e != null) {
                     emit(withEvidence(e, camera.zones().get(z), null));
@@ -364,7 +470,7 @@ public final class CameraPipeline {
             if (mask.size() == 0) {
                 LOG.warn("camera {} zone {}: covers no pixel at {}x{}", camera.id(), z.id(), w, h);
             }
-            meters.add(new ZoneMeter(mask, z.headingDeg(), z.toleranceDeg(), z.minSpeedPxPerSecond(), z.minConfidence(),
+            meters.add(new ZoneMeter(mask, headings[meters.size()], z.toleranceDeg(), z.minSpeedPxPerSecond(), z.minConfidence(),
                     camera.removeCameraMotion()));
         }
         LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {} zones", camera.id(), w, h,

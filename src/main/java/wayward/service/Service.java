@@ -145,8 +145,17 @@ public final class Service {
     }
 
     private CameraPipeline pipeline(CameraConfig c, wayward.config.FlowConfig flow) {
-        return new CameraPipeline(c, flow, bus::publish, clock, mode == Mode.REPLAY, mode != Mode.REPLAY, maxLoops,
-                evidence);
+        CameraPipeline p = new CameraPipeline(c, flow, bus::publish, clock, mode == Mode.REPLAY, mode != Mode.REPLAY,
+                maxLoops, evidence);
+        if (mode != Mode.REPLAY) {
+            p.learnInto(learnedFolder(config.dataDir(), c.id()));
+        }
+        return p;
+    }
+
+    /** Where the learned headings of a camera's zones are kept. */
+    public static java.nio.file.Path learnedFolder(java.nio.file.Path dataDir, String camera) {
+        return dataDir.resolve("learned").resolve(camera);
     }
 
     /** Ends the wait when every camera has ended by itself (files without loop). */

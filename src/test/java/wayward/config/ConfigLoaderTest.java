@@ -25,7 +25,7 @@ class ConfigLoaderTest {
     @ParameterizedTest(name = "{0}")
     @CsvSource(delimiter = '|', quoteCharacter = '`', value = {
         "tolerance-out-of-range.toml | 9:3: camera[0].zone[0].tolerance_deg: 120 (expected a number from 0 to 90)",
-        "unknown-key.toml | 12:1: camera[0].zone[1].colour: \"red\" (unknown key; expected one of id, polygon, heading_deg, tolerance_deg, min_speed, min_confidence, onset_level, release_level, hold_seconds, clear_seconds, rest_seconds, min_travel_px, quick_travel_px)",
+        "unknown-key.toml | 12:1: camera[0].zone[1].colour: \"red\" (unknown key; expected one of id, polygon, heading_deg, tolerance_deg, min_speed, min_confidence, onset_level, release_level, hold_seconds, clear_seconds, rest_seconds, learn_heading_seconds, min_travel_px, quick_travel_px)",
         "missing-source.toml | 1:1: camera[0].source: missing (expected a video file path or a URL such as rtsp://host/stream)",
         "polygon-point-outside.toml | 7:26: camera[0].zone[0].polygon[1]: [1.2, 0.1] (expected a point [x, y] with x and y from 0 to 1)",
         "release-above-onset.toml | 10:3: camera[0].zone[0].release_level: 0.05 (expected at most onset_level 0.02)",
@@ -43,6 +43,7 @@ class ConfigLoaderTest {
         "mqtt-client-id-too-long.toml | 12:1: mqtt.client_id: \"wayward-north-yard-gate-house-1\" (expected 1 to 23 letters, digits or '-' (what every MQTT 3.1.1 broker accepts))",
         "webhook-own-header.toml | 12:1: webhook[0].headers: \"Content-Type\" (expected a header wayward does not set itself)",
         "http-open-without-token.toml | 2:1: service.http: \"0.0.0.0:8786\" (expected a loopback address such as 127.0.0.1:8786, or token_file set as well (anything but /health needs the token when the server is reachable from elsewhere))",
+        "learn-with-heading.toml | 9:3: camera[0].zone[0].learn_heading_seconds: 60 (expected no learning when heading_deg is set (leave out one of them))",
         "webhook-ca-without-https.toml | 12:1: webhook[0].ca_file: \"yard-ca.pem\" (expected only with an https:// or mqtts:// url)",
     })
     void reportsOneLocatedLinePerMistake(String fixture, String expected) {
@@ -82,7 +83,7 @@ class ConfigLoaderTest {
                 DIR + "three-mistakes.toml:11:3: camera[0].zone[0].tolerance_deg: 270 (expected a number from 0 to 90)",
                 DIR + "three-mistakes.toml:12:3: camera[0].zone[0].hold_secs: 0.5 (unknown key; expected one of id, "
                         + "polygon, heading_deg, tolerance_deg, min_speed, min_confidence, onset_level, release_level, "
-                        + "hold_seconds, clear_seconds, rest_seconds, min_travel_px, quick_travel_px)"),
+                        + "hold_seconds, clear_seconds, rest_seconds, learn_heading_seconds, min_travel_px, quick_travel_px)"),
                 errorsOf("three-mistakes.toml"));
     }
 
