@@ -36,7 +36,11 @@ final class LiveStream {
     /** The current live picture as JPEG, or null before the first one. */
     static byte[] jpeg(CameraPipeline p) throws IOException {
         double minStep = ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps();
-        BufferedImage img = p.live().render(p.config().zones(), minStep);
+        double[] headings = new double[p.config().zones().size()];
+        for (int z = 0; z < headings.length; z++) {
+            headings[z] = p.zoneHeading(z);
+        }
+        BufferedImage img = p.live().render(p.config().zones(), headings, minStep);
         if (img == null) {
             return null;
         }

@@ -72,15 +72,15 @@ public final class LiveView {
         }
     }
 
-    /** The picture with zones, headings and flow arrows, or null before the first copy. */
-    public BufferedImage render(List<ZoneConfig> zones, double minStepPixels) {
+    /** The picture with zones, their headings in use (configured or learned) and flow arrows, or null before the first copy. */
+    public BufferedImage render(List<ZoneConfig> zones, double[] headingsInUse, double minStepPixels) {
         List<double[]> xs = new ArrayList<>();
         List<double[]> ys = new ArrayList<>();
         double[] headings = new double[zones.size()];
         for (int z = 0; z < zones.size(); z++) {
             xs.add(zones.get(z).xs());
             ys.add(zones.get(z).ys());
-            headings[z] = zones.get(z).headingDeg();
+            headings[z] = headingsInUse[z];
         }
         lock.lock();
         try {
