@@ -39,8 +39,10 @@ public final class Main {
             "commands:",
             "  run     --config FILE                     run the service on the configured cameras",
             "  check   --config FILE                     check a config; print the effective config (secrets masked)",
-            "  replay  --config FILE --input VIDEO [--camera ID]",
+            "  replay  --config FILE --input VIDEO [--camera ID] [--report DIR]",
             "                                            analyse a recorded file as fast as possible; events on stdout",
+            "  what-if --report DIR [--onset-level X] [--release-level X] [--hold-seconds S] ...",
+            "                                            re-run only the rules of a replay report with other settings",
             "  demo    [--config FILE] [--loops N]       run on the bundled demo scene (conf/demo.toml), looped",
             "  flow    --input A --input B --output OUT.flo [--picture OUT.png]",
             "          --input VIDEO --at SECONDS --output OUT.flo [--picture OUT.png]",
@@ -66,12 +68,25 @@ public final class Main {
                 "Exit 0 when it is usable; otherwise every mistake on one line each (file:line:column: key: value",
                 "(expected ...)) and exit 78."));
         COMMAND_HELP.put("replay", String.join("\n",
-                "usage: java -jar wayward.jar replay --config FILE --input VIDEO [--camera ID]",
+                "usage: java -jar wayward.jar replay --config FILE --input VIDEO [--camera ID] [--report DIR]",
                 "",
                 "Runs the same analysis on a recorded file as fast as the CPU allows, with the zones and rules of",
                 "one configured camera (--camera, needed when the config has several). Every event phase is printed",
                 "as one JSON line on standard output; nothing is sent to webhooks. Progress goes to standard error",
-                "when it is a terminal."));
+                "when it is a terminal.",
+                "",
+                "--report DIR writes a tuning report: per zone a CSV of every reading (stream time, coverage, share",
+                "moving against, speeds, headings, the rule's state), a PNG plot with the onset and release levels",
+                "and the events shaded, events.jsonl, and index.html gathering them. Then try other levels in a",
+                "fraction of a second with: wayward what-if --report DIR --onset-level 0.03"));
+        COMMAND_HELP.put("what-if", String.join("\n",
+                "usage: java -jar wayward.jar what-if --report DIR [--onset-level X] [--release-level X]",
+                "           [--hold-seconds S] [--clear-seconds S] [--rest-seconds S] [--min-travel-px P]",
+                "           [--quick-travel-px P]",
+                "",
+                "Re-runs only the zone rules on the readings a 'replay --report' saved, with the given settings in",
+                "place of the saved ones, and prints the event phases as JSON lines, as a full replay with those",
+                "settings would (the readings do not depend on the rule). Then a summary line on standard error."));
         COMMAND_HELP.put("demo", String.join("\n",
                 "usage: java -jar wayward.jar demo [--config FILE] [--loops N]",
                 "",
@@ -123,13 +138,15 @@ public final class Main {
             return OK;
         }
         if (!COMMAND_HELP.containsKey(command)) {
-            err.println("wayward: unknown command '" + command + "' (expected run, check, replay, demo, flow or help)");
+            err.println("wayward: unknown command '" + command + "' (expected run, check, replay, what-if, demo, flow or help)");
             return USAGE;
         }
         Map<String, String> opts = new LinkedHashMap<>();
         Set<String> allowed = switch (command) {
             case "run", "check" -> Set.of("--config");
-            case "replay" -> Set.of("--config", "--input", "--camera");
+            case "replay" -> Set.of("--config", "--input", "--camera", "--report");
+            case "what-if" -> Set.of("--report", "--onset-level", "--release-level", "--hold-seconds",
+                    "--clear-seconds", "--rest-seconds", "--min-travel-px", "--quick-travel-px");
             case "demo" -> Set.of("--config", "--loops");
             case "flow" -> Set.of("--input", "--at", "--output", "--picture");
             default -> Set.of("--scene", "--video", "--truth");
@@ -161,6 +178,7 @@ public final class Main {
                 case "check" -> check(opts, out, err);
                 case "run" -> run(opts, err);
                 case "replay" -> replay(opts, out, err);
+                case "what-if" -> whatIf(opts, out, err);
                 case "demo" -> demo(opts, out, err);
                 case "flow" -> flow(opts, out, err);
                 default -> makeScene(opts, out, err);
@@ -373,6 +391,12 @@ public final class Main {
         String source = CameraConfig.isUrl(input) ? input : Path.of(input).toAbsolutePath().toString();
         CameraConfig replayed = cam.withSource(source, false);
         Service s = new Service(c, List.of(replayed), Service.Mode.REPLAY, out, 0);
+        wayward.report.ReplayReport report = null;
+        if (opts.containsKey("--report")) {
+            report = new wayward.report.ReplayReport();
+            s.listenReadings(report);
+            s.bus().add(report, 100_000);
+        }
         s.start();
         boolean terminal = System.console() != null;
         long started = System.nanoTime();
@@ -393,6 +417,54 @@ public final class Main {
             err.println("wayward replay: --input " + input + ": cannot read it as video (" + failure + ")");
             return NO_INPUT;
         }
+        if (report != null) {
+            Path index = report.write(Path.of(opts.get("--report")));
+            err.println("wayward replay: report written to " + index);
+        }
+        return OK;
+    }
+
+    private static int whatIf(Map<String, String> opts, PrintStream out, PrintStream err) throws Exception {
+        String dir = opts.get("--report");
+        if (dir == null) {
+            err.println("wayward what-if: --report DIR is required (a folder written by replay --report)");
+            return USAGE;
+        }
+        if (!Files.isDirectory(Path.of(dir)) || wayward.report.WhatIf.series(Path.of(dir)).isEmpty()) {
+            err.println("wayward what-if: --report " + dir + ": no replay report there (expected the .csv series "
+                    + "that replay --report writes)");
+            return NO_INPUT;
+        }
+        Map<String, Double> overrides = new LinkedHashMap<>();
+        for (Map.Entry<String, String> o : opts.entrySet()) {
+            if (o.getKey().equals("--report")) {
+                continue;
+            }
+            String key = o.getKey().substring(2).replace('-', '_');
+            try {
+                double v = Double.parseDouble(o.getValue());
+                if (!(v >= 0) || (key.endsWith("_level") && v > 1)) {
+                    throw new NumberFormatException();
+                }
+                overrides.put(key, v);
+            } catch (NumberFormatException e) {
+                err.println("wayward what-if: " + o.getKey() + " " + o.getValue() + " (expected a number of 0 or more"
+                        + (key.endsWith("_level") ? ", at most 1" : "") + ")");
+                return USAGE;
+            }
+        }
+        long began = System.nanoTime();
+        List<wayward.event.Event> events;
+        try {
+            events = wayward.report.WhatIf.run(Path.of(dir), overrides);
+        } catch (IllegalArgumentException e) {
+            err.println("wayward what-if: " + e.getMessage());
+            return USAGE;
+        }
+        wayward.report.WhatIf.print(events, out);
+        long starts = events.stream().filter(e -> e.phase() == wayward.event.Event.Phase.START).count();
+        err.printf(java.util.Locale.ROOT, "wayward what-if: %d events with %s (%.0f ms)%n", starts,
+                overrides.isEmpty() ? "the saved settings" : overrides, (System.nanoTime() - began) / 1e6);
         return OK;
     }
 

@@ -68,15 +68,15 @@ public final class ZoneRule {
         return state.name().toLowerCase(java.util.Locale.ROOT);
     }
 
+    /** Pending: distance the movement against the heading has carried since the pending phase began. */
+    private double travel;
+    private double lastT;
+
     /**
      * Feeds one reading; readings must come in increasing stream time.
      *
      * @return the event phase this reading decided, or null
      */
-    /** Pending: distance the movement against the heading has carried since the pending phase began. */
-    private double travel;
-    private double lastT;
-
     public Event update(ZoneReading r) {
         final double t = r.streamSeconds;
         final boolean wrongWay = kind == EventKind.WRONG_WAY;

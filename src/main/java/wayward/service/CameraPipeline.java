@@ -48,6 +48,17 @@ public final class CameraPipeline {
     private final double[] headings;
     private final HeadingLearner[] learners;
     private volatile java.nio.file.Path learnedDir;
+    private volatile ReadingListener readings;
+
+    /** Receives every zone reading and the rule's state after it (analysis thread; replay reports). */
+    public interface ReadingListener {
+        void reading(CameraConfig camera, int zone, ZoneReading r, String ruleState);
+    }
+
+    /** Before {@link #start}: every zone reading also goes to {@code l}. */
+    public void listenReadings(ReadingListener l) {
+        this.readings = l;
+    }
     private final wayward.rule.TamperWatch tamper;
     private final java.util.concurrent.atomic.AtomicLongArray zoneCoverage;
     private final java.util.concurrent.atomic.AtomicLongArray zoneAgainst;
@@ -367,9 +378,15 @@ public final class CameraPipeline {
                     zoneAgainst.set(z, Double.doubleToRawLongBits(reading.against));
                     if (learners[z] != null) {
                         learn(z, dt);
+                        if (readings != null) {
+                            readings.reading(camera, z, reading, "learning");
+                        }
                         continue;
                     }
                     Event e = rules.get(z).update(reading);
+                    if (readings != null) {
+                        readings.reading(camera, z, reading, rules.get(z).stateName());
+                    }
                     if (e != null) {
                         if (e.phase() == Event.Phase.START) {
                             zoneEvents.incrementAndGet(z);

@@ -48,6 +48,12 @@ public final class Service {
     private volatile SiteConfig config;
     private final Clock clock = Clock.systemUTC();
     private CameraPipeline.Evidence evidence;
+    private CameraPipeline.ReadingListener readingListener;
+
+    /** Before {@link #start}: every zone reading of every camera goes to {@code l} (replay reports). */
+    public void listenReadings(CameraPipeline.ReadingListener l) {
+        this.readingListener = l;
+    }
     private final List<CameraConfig> cameras;
     private final Mode mode;
     private final PrintStream stdout;
@@ -149,6 +155,9 @@ public final class Service {
                 maxLoops, evidence);
         if (mode != Mode.REPLAY) {
             p.learnInto(learnedFolder(config.dataDir(), c.id()));
+        }
+        if (readingListener != null) {
+            p.listenReadings(readingListener);
         }
         return p;
     }

@@ -1,0 +1,182 @@
+package wayward.report;
+
+import java.awt.BasicStroke;
+import java.awt.Color;
+import java.io.IOException;
+import java.io.Writer;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import org.jfree.chart.ChartUtils;
+import org.jfree.chart.JFreeChart;
+import org.jfree.chart.axis.NumberAxis;
+import org.jfree.chart.plot.IntervalMarker;
+import org.jfree.chart.plot.ValueMarker;
+import org.jfree.chart.plot.XYPlot;
+import org.jfree.chart.renderer.xy.XYLineAndShapeRenderer;
+import org.jfree.data.xy.XYSeries;
+import org.jfree.data.xy.XYSeriesCollection;
+import wayward.config.CameraConfig;
+import wayward.config.ZoneConfig;
+import wayward.delivery.EventSink;
+import wayward.event.Event;
+import wayward.event.EventJson;
+import wayward.service.CameraPipeline;
+import wayward.zone.ZoneReading;
+
+/**
+ * A replay's tuning report: per zone a CSV time series of the readings and the rule's state, a PNG plot of
+ * coverage and against share with the onset and release levels drawn and the events shaded (JFreeChart), the
+ * events as JSON lines, and an index.html that gathers them. Readings arrive on the analysis thread, events on
+ * the bus's thread; {@link #write} after the replay ended.
+ */
+public final class ReplayReport implements CameraPipeline.ReadingListener, EventSink {
+    /** The CSV columns; {@link WhatIf} reads them back. */
+    static final String HEADER = "stream_s,coverage,against,speed,heading_deg,against_speed,against_heading_deg,state";
+
+    private final Map<String, Series> series = new LinkedHashMap<>();
+    private final List<Event> events = new ArrayList<>();
+
+    private static final class Series {
+        final CameraConfig camera;
+        final ZoneConfig zone;
+        final StringBuilder csv = new StringBuilder(1 << 16);
+        final XYSeries coverage = new XYSeries("coverage", false, true);
+        final XYSeries against = new XYSeries("moving against the heading", false, true);
+
+        Series(CameraConfig camera, ZoneConfig zone) {
+            this.camera = camera;
+            this.zone = zone;
+        }
+    }
+
+    private static String key(String camera, String zone) {
+        return camera + "-" + zone;
+    }
+
+    @Override
+    public synchronized void reading(CameraConfig camera, int zone, ZoneReading r, String ruleState) {
+        ZoneConfig z = camera.zones().get(zone);
+        Series s = series.computeIfAbsent(key(camera.id(), z.id()), k -> new Series(camera, z));
+        // full precision: the what-if run must see exactly what the rule saw
+        s.csv.append(r.streamSeconds).append(',').append(r.coverage).append(',').append(r.against).append(',')
+                .append(r.speed).append(',').append(r.headingDeg).append(',').append(r.againstSpeed).append(',')
+                .append(r.againstHeadingDeg).append(',').append(ruleState).append('\n');
+        s.coverage.add(r.streamSeconds, r.coverage);
+        s.against.add(r.streamSeconds, r.against);
+    }
+
+    @Override
+    public String name() {
+        return "replay report";
+    }
+
+    @Override
+    public synchronized void deliver(Event event) {
+        events.add(event);
+    }
+
+    /** Writes the report into {@code dir}; returns the index page. */
+    public synchronized Path write(Path dir) throws IOException {
+        Files.createDirectories(dir);
+        try (Writer w = Files.newBufferedWriter(dir.resolve("events.jsonl"), StandardCharsets.UTF_8)) {
+            for (Event e : events) {
+                w.write(EventJson.toJson(e));
+                w.write('\n');
+            }
+        }
+        StringBuilder html = new StringBuilder("<!doctype html>\n<html lang=\"en\"><head><meta charset=\"utf-8\">"
+                + "<title>wayward replay report</title><style>body{font:14px/1.4 system-ui,sans-serif;margin:2em}"
+                + "img{max-width:100%;border:1px solid #ddd}td,th{padding:2px 8px;text-align:left}</style></head>"
+                + "<body>\n<h1>wayward replay report</h1>\n");
+        for (Series s : series.values()) {
+            String base = key(s.camera.id(), s.zone.id());
+            Path csv = dir.resolve(base + ".csv");
+            Files.writeString(csv, "# camera=" + s.camera.id() + " zone=" + s.zone.id() + " "
+                    + settings(s.zone) + "\n" + HEADER + "\n" + s.csv, StandardCharsets.UTF_8);
+            List<Event> mine = events.stream().filter(e -> s.zone.id().equals(e.zone())
+                    && s.camera.id().equals(e.camera())).toList();
+            ChartUtils.saveChartAsPNG(dir.resolve(base + ".png").toFile(), chart(s, mine), 1200, 420);
+            html.append("<h2>camera ").append(s.camera.id()).append(", zone ").append(s.zone.id()).append("</h2>\n")
+                    .append("<p>").append(settings(s.zone)).append("</p>\n<p><img src=\"").append(base)
+                    .append(".png\" alt=\"coverage and against share over stream time\"></p>\n<p><a href=\"")
+                    .append(base).append(".csv\">").append(base).append(".csv</a> (every reading and the rule's state)")
+                    .append("</p>\n<table><tr><th>event</th><th>kind</th><th>start s</th><th>end s</th></tr>\n");
+            Map<String, double[]> spans = spans(mine);
+            for (Map.Entry<String, double[]> en : spans.entrySet()) {
+                html.append("<tr><td>").append(en.getKey(), 0, 8).append("</td><td>")
+                        .append(mine.get(0).kind().jsonName()).append("</td><td>")
+                        .append(String.format(Locale.ROOT, "%.2f", en.getValue()[0])).append("</td><td>")
+                        .append(Double.isNaN(en.getValue()[1]) ? "–" : String.format(Locale.ROOT, "%.2f", en.getValue()[1]))
+                        .append("</td></tr>\n");
+            }
+            html.append("</table>\n");
+        }
+        html.append("<p><a href=\"events.jsonl\">events.jsonl</a></p>\n</body></html>\n");
+        Path index = dir.resolve("index.html");
+        Files.writeString(index, html, StandardCharsets.UTF_8);
+        return index;
+    }
+
+    static String settings(ZoneConfig z) {
+        return String.format(Locale.ROOT, "heading_deg=%s onset_level=%s release_level=%s hold_seconds=%s "
+                + "clear_seconds=%s rest_seconds=%s min_travel_px=%s quick_travel_px=%s",
+                z.hasHeading() ? Double.toString(z.headingDeg()) : "none", z.rule().onsetLevel(), z.rule().releaseLevel(),
+                z.rule().holdSeconds(), z.rule().clearSeconds(), z.rule().restSeconds(), z.rule().minTravelPx(),
+                z.rule().quickTravelPx());
+    }
+
+    /** Start and end stream times per event id, in start order. */
+    private static Map<String, double[]> spans(List<Event> events) {
+        Map<String, double[]> spans = new LinkedHashMap<>();
+        for (Event e : events) {
+            double[] s = spans.computeIfAbsent(e.id(), k -> new double[] {Double.NaN, Double.NaN});
+            s[e.phase() == Event.Phase.START ? 0 : 1] = e.streamSeconds();
+        }
+        return spans;
+    }
+
+    private static JFreeChart chart(Series s, List<Event> events) {
+        XYSeriesCollection data = new XYSeriesCollection();
+        data.addSeries(s.coverage);
+        data.addSeries(s.against);
+        NumberAxis x = new NumberAxis("stream time (s)");
+        NumberAxis y = new NumberAxis("share of the zone's pixels");
+        XYLineAndShapeRenderer r = new XYLineAndShapeRenderer(true, false);
+        r.setSeriesPaint(0, new Color(0x2a6fd6));
+        r.setSeriesPaint(1, new Color(0xd62a2a));
+        r.setSeriesStroke(0, new BasicStroke(1.5f));
+        r.setSeriesStroke(1, new BasicStroke(2f));
+        XYPlot plot = new XYPlot(data, x, y, r);
+        plot.setBackgroundPaint(Color.WHITE);
+        plot.setRangeGridlinePaint(new Color(0xdddddd));
+        plot.setDomainGridlinePaint(new Color(0xdddddd));
+        for (double[] span : spans(events).values()) {
+            double end = Double.isNaN(span[1]) ? s.coverage.getMaxX() : span[1];
+            IntervalMarker m = new IntervalMarker(span[0], end, new Color(255, 200, 0, 70));
+            plot.addDomainMarker(m);
+        }
+        ValueMarker onset = new ValueMarker(s.zone.rule().onsetLevel(), new Color(0x444444),
+                new BasicStroke(1.2f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 1f, new float[] {6f, 4f}, 0f));
+        onset.setLabel("onset level " + s.zone.rule().onsetLevel());
+        onset.setLabelAnchor(org.jfree.chart.ui.RectangleAnchor.TOP_RIGHT);
+        onset.setLabelTextAnchor(org.jfree.chart.ui.TextAnchor.BOTTOM_RIGHT);
+        plot.addRangeMarker(onset);
+        ValueMarker release = new ValueMarker(s.zone.rule().releaseLevel(), new Color(0x888888),
+                new BasicStroke(1f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 1f, new float[] {2f, 3f}, 0f));
+        release.setLabel("release level " + s.zone.rule().releaseLevel());
+        release.setLabelAnchor(org.jfree.chart.ui.RectangleAnchor.BOTTOM_RIGHT);
+        release.setLabelTextAnchor(org.jfree.chart.ui.TextAnchor.TOP_RIGHT);
+        plot.addRangeMarker(release);
+        JFreeChart chart = new JFreeChart("camera " + s.camera.id() + ", zone " + s.zone.id()
+                + (s.zone.hasHeading() ? ", heading " + s.zone.headingDeg() + "°" : ""), JFreeChart.DEFAULT_TITLE_FONT,
+                plot, true);
+        chart.setBackgroundPaint(Color.WHITE);
+        return chart;
+    }
+}
