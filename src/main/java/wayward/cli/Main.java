@@ -39,7 +39,7 @@ public final class Main {
             "commands:",
             "  run     --config FILE                     run the service on the configured cameras",
             "  check   --config FILE                     check a config; print the effective config (secrets masked)",
-            "  replay  --config FILE --input VIDEO [--camera ID] [--report DIR]",
+            "  replay  --config FILE --input VIDEO [--camera ID] [--report DIR] [--annotate OUT.mp4]",
             "                                            analyse a recorded file as fast as possible; events on stdout",
             "  what-if --report DIR [--onset-level X] [--release-level X] [--hold-seconds S] ...",
             "                                            re-run only the rules of a replay report with other settings",
@@ -69,6 +69,7 @@ public final class Main {
                 "(expected ...)) and exit 78."));
         COMMAND_HELP.put("replay", String.join("\n",
                 "usage: java -jar wayward.jar replay --config FILE --input VIDEO [--camera ID] [--report DIR]",
+                "           [--annotate OUT.mp4]",
                 "",
                 "Runs the same analysis on a recorded file as fast as the CPU allows, with the zones and rules of",
                 "one configured camera (--camera, needed when the config has several). Every event phase is printed",
@@ -78,7 +79,10 @@ public final class Main {
                 "--report DIR writes a tuning report: per zone a CSV of every reading (stream time, coverage, share",
                 "moving against, speeds, headings, the rule's state), a PNG plot with the onset and release levels",
                 "and the events shaded, events.jsonl, and index.html gathering them. Then try other levels in a",
-                "fraction of a second with: wayward what-if --report DIR --onset-level 0.03"));
+                "fraction of a second with: wayward what-if --report DIR --onset-level 0.03",
+                "",
+                "--annotate OUT.mp4 writes the analysis frames with the flow arrows (Baker et al. colour wheel, the",
+                "wheel in the corner as legend), zones, headings and each rule's state, as H.264."));
         COMMAND_HELP.put("what-if", String.join("\n",
                 "usage: java -jar wayward.jar what-if --report DIR [--onset-level X] [--release-level X]",
                 "           [--hold-seconds S] [--clear-seconds S] [--rest-seconds S] [--min-travel-px P]",
@@ -144,7 +148,7 @@ public final class Main {
         Map<String, String> opts = new LinkedHashMap<>();
         Set<String> allowed = switch (command) {
             case "run", "check" -> Set.of("--config");
-            case "replay" -> Set.of("--config", "--input", "--camera", "--report");
+            case "replay" -> Set.of("--config", "--input", "--camera", "--report", "--annotate");
             case "what-if" -> Set.of("--report", "--onset-level", "--release-level", "--hold-seconds",
                     "--clear-seconds", "--rest-seconds", "--min-travel-px", "--quick-travel-px");
             case "demo" -> Set.of("--config", "--loops");
@@ -394,8 +398,32 @@ public final class Main {
         wayward.report.ReplayReport report = null;
         if (opts.containsKey("--report")) {
             report = new wayward.report.ReplayReport();
-            s.listenReadings(report);
             s.bus().add(report, 100_000);
+        }
+        wayward.report.Annotator annotator = null;
+        if (opts.containsKey("--annotate")) {
+            Path target = Path.of(opts.get("--annotate"));
+            if (!target.getFileName().toString().toLowerCase(java.util.Locale.ROOT).endsWith(".mp4")) {
+                err.println("wayward replay: --annotate " + target + " (expected a file name ending in .mp4)");
+                return USAGE;
+            }
+            if (target.toAbsolutePath().getParent() != null) {
+                Files.createDirectories(target.toAbsolutePath().getParent());
+            }
+            annotator = new wayward.report.Annotator(target, replayed.analysisFps());
+            s.listenFrames(annotator);
+        }
+        wayward.report.ReplayReport r0 = report;
+        wayward.report.Annotator a0 = annotator;
+        if (report != null || annotator != null) {
+            s.listenReadings((camera, zone, reading, state) -> {
+                if (r0 != null) {
+                    r0.reading(camera, zone, reading, state);
+                }
+                if (a0 != null) {
+                    a0.reading(camera, zone, reading, state);
+                }
+            });
         }
         s.start();
         boolean terminal = System.console() != null;
@@ -420,6 +448,10 @@ public final class Main {
         if (report != null) {
             Path index = report.write(Path.of(opts.get("--report")));
             err.println("wayward replay: report written to " + index);
+        }
+        if (annotator != null) {
+            annotator.close();
+            err.println("wayward replay: " + annotator.frames() + " annotated frames written to " + opts.get("--annotate"));
         }
         return OK;
     }

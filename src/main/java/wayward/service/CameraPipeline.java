@@ -55,6 +55,18 @@ public final class CameraPipeline {
         void reading(CameraConfig camera, int zone, ZoneReading r, String ruleState);
     }
 
+    /** Receives every analysed frame with its flow, after the zone readings (analysis thread; annotated replay). */
+    public interface FrameListener {
+        void frame(CameraPipeline pipeline, GrayFrame frame, FlowField field, double streamSeconds);
+    }
+
+    private volatile FrameListener frames;
+
+    /** Before {@link #start}: every analysed frame also goes to {@code l}. */
+    public void listenFrames(FrameListener l) {
+        this.frames = l;
+    }
+
     /** Before {@link #start}: every zone reading also goes to {@code l}. */
     public void listenReadings(ReadingListener l) {
         this.readings = l;
@@ -401,6 +413,9 @@ public final class CameraPipeline {
                     }
                 }
                 analysisNanos += System.nanoTime() - began;
+                if (frames != null) {
+                    frames.frame(this, f, field, t);
+                }
             }
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();

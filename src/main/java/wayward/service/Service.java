@@ -49,6 +49,12 @@ public final class Service {
     private final Clock clock = Clock.systemUTC();
     private CameraPipeline.Evidence evidence;
     private CameraPipeline.ReadingListener readingListener;
+    private CameraPipeline.FrameListener frameListener;
+
+    /** Before {@link #start}: every analysed frame of every camera goes to {@code l} (annotated replay). */
+    public void listenFrames(CameraPipeline.FrameListener l) {
+        this.frameListener = l;
+    }
 
     /** Before {@link #start}: every zone reading of every camera goes to {@code l} (replay reports). */
     public void listenReadings(CameraPipeline.ReadingListener l) {
@@ -158,6 +164,9 @@ public final class Service {
         }
         if (readingListener != null) {
             p.listenReadings(readingListener);
+        }
+        if (frameListener != null) {
+            p.listenFrames(frameListener);
         }
         return p;
     }
