@@ -8,7 +8,6 @@ import java.awt.Graphics2D;
 import java.awt.image.BufferedImage;
 import java.io.IOException;
 import java.nio.file.Path;
-import java.util.ArrayList;
 import java.util.List;
 import org.bytedeco.javacv.FFmpegFrameRecorder;
 import org.bytedeco.javacv.Java2DFrameConverter;
@@ -52,16 +51,11 @@ public final class Annotator implements CameraPipeline.FrameListener, CameraPipe
     @Override
     public void frame(CameraPipeline p, GrayFrame f, FlowField field, double t) {
         List<ZoneConfig> zones = p.config().zones();
-        List<double[]> xs = new ArrayList<>();
-        List<double[]> ys = new ArrayList<>();
         double[] headings = new double[zones.size()];
         for (int z = 0; z < zones.size(); z++) {
-            xs.add(zones.get(z).xs());
-            ys.add(zones.get(z).ys());
             headings[z] = p.zoneHeading(z);
         }
-        BufferedImage img = Snapshot.live(f, field, xs, ys, headings,
-                ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps());
+        BufferedImage img = Snapshot.live(f, field, zones, headings, ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps());
         Graphics2D g = img.createGraphics();
         if (legend == null) {
             legend = wheel(48);

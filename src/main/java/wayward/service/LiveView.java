@@ -1,7 +1,6 @@
 package wayward.service;
 
 import java.awt.image.BufferedImage;
-import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.locks.ReentrantLock;
 import wayward.clip.Snapshot;
@@ -74,17 +73,9 @@ public final class LiveView {
 
     /** The picture with zones, their headings in use (configured or learned) and flow arrows, or null before the first copy. */
     public BufferedImage render(List<ZoneConfig> zones, double[] headingsInUse, double minStepPixels) {
-        List<double[]> xs = new ArrayList<>();
-        List<double[]> ys = new ArrayList<>();
-        double[] headings = new double[zones.size()];
-        for (int z = 0; z < zones.size(); z++) {
-            xs.add(zones.get(z).xs());
-            ys.add(zones.get(z).ys());
-            headings[z] = headingsInUse[z];
-        }
         lock.lock();
         try {
-            return frame == null ? null : Snapshot.live(frame, field, xs, ys, headings, minStepPixels);
+            return frame == null ? null : Snapshot.live(frame, field, zones, headingsInUse, minStepPixels);
         } finally {
             lock.unlock();
         }
