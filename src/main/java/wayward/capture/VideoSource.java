@@ -88,6 +88,29 @@ public final class VideoSource implements Runnable {
     private volatile boolean lost;
     private volatile boolean connectedOnce;
     private volatile long reconnects;
+    private volatile boolean measure;
+    private volatile long decodeCpu;
+    private volatile long downscaleCpu;
+    private static final java.lang.management.ThreadMXBean THREADS = java.lang.management.ManagementFactory.getThreadMXBean();
+
+    private static long cpu() {
+        return THREADS.getCurrentThreadCpuTime();
+    }
+
+    /** Before the run: measure the CPU time of decoding and of gray conversion plus downscaling (bench). */
+    public void measureStages() {
+        measure = true;
+    }
+
+    /** CPU nanoseconds spent decoding (send and receive), when measured. */
+    public long decodeCpuNanos() {
+        return decodeCpu;
+    }
+
+    /** CPU nanoseconds spent taking the luma plane and downscaling it, when measured. */
+    public long downscaleCpuNanos() {
+        return downscaleCpu;
+    }
     private long lastFrameNanos;
     private volatile boolean stopping;
     private volatile String fileFailure;
@@ -323,7 +346,12 @@ public final class VideoSource implements Runnable {
                     if (clips != null) {
                         clips.onPacket(pkt, pktSeconds);
                     }
-                    if (avcodec_send_packet(decoder, pkt) < 0) {
+                    long c0 = measure ? cpu() : 0;
+                    int sent = avcodec_send_packet(decoder, pkt);
+                    if (measure) {
+                        decodeCpu += cpu() - c0;
+                    }
+                    if (sent < 0) {
                         decodeErrors++;
                         continue;
                     }
@@ -383,10 +411,17 @@ public final class VideoSource implements Runnable {
 
     private SwsContext drain(AVCodecContext decoder, AVFrame frame, double timeBase, SwsContext sws)
             throws InterruptedException {
-        while (avcodec_receive_frame(decoder, frame) == 0) {
+        while (true) {
+            long c0 = measure ? cpu() : 0;
+            int got = avcodec_receive_frame(decoder, frame);
+            if (measure) {
+                decodeCpu += cpu() - c0;
+            }
+            if (got != 0) {
+                return sws;
+            }
             sws = onFrame(frame, timeBase, sws);
         }
-        return sws;
     }
 
     private SwsContext onFrame(AVFrame f, double timeBase, SwsContext sws) throws InterruptedException {
@@ -444,6 +479,7 @@ public final class VideoSource implements Runnable {
             decodeErrors++;
             return sws;
         }
+        long c0 = measure ? cpu() : 0;
         int stride;
         if (isPlanarLuma(f.format())) {
             stride = f.linesize(0);
@@ -470,6 +506,9 @@ public final class VideoSource implements Runnable {
         }
         GrayFrame out = slot.writable(Math.min(outWidth, w), Math.min(outHeight, h));
         downscaler.downscale(luma, 0, stride, out);
+        if (measure) {
+            downscaleCpu += cpu() - c0;
+        }
         out.streamSeconds = t;
         out.frameIndex = index;
         slot.publish();

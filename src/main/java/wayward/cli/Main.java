@@ -44,6 +44,8 @@ public final class Main {
             "  what-if --report DIR [--onset-level X] [--release-level X] [--hold-seconds S] ...",
             "                                            re-run only the rules of a replay report with other settings",
             "  demo    [--config FILE] [--loops N]       run on the bundled demo scene (conf/demo.toml), looped",
+            "  bench   --input VIDEO [--cameras N] [--config FILE]",
+            "                                            CPU cost per camera and stage, to size a server",
             "  flow    --input A --input B --output OUT.flo [--picture OUT.png]",
             "          --input VIDEO --at SECONDS --output OUT.flo [--picture OUT.png]",
             "                                            optical flow between two pictures (Middlebury .flo + colour wheel PNG)",
@@ -97,6 +99,14 @@ public final class Main {
                 "Runs the service on the bundled demo scene (a one-way lane in a fictional yard) played as a looping",
                 "camera, with conf/demo.toml. Prints every event phase as a JSON line and writes the event log",
                 "under the config's data folder. Runs until Ctrl-C, or for N passes over the scene with --loops."));
+        COMMAND_HELP.put("bench", String.join("\n",
+                "usage: java -jar wayward.jar bench --input VIDEO [--cameras N] [--config FILE]",
+                "",
+                "Runs N cameras (default 1) on the same file at full speed, every frame decoded and analysed at the",
+                "analysis rate, and prints per camera the CPU time of each stage (decode; luma and downscale; flow;",
+                "zones and rules), the CPU a second of video costs, and its ratio to the bare decode cost. With",
+                "--config, the first camera's zones and settings are used; without, one zone over the middle of the",
+                "picture with the default settings. CPU times are the threads' own (ThreadMXBean)."));
         COMMAND_HELP.put("flow", String.join("\n",
                 "usage: java -jar wayward.jar flow --input A.png --input B.png --output OUT.flo [--picture OUT.png]",
                 "       java -jar wayward.jar flow --input VIDEO --at SECONDS --output OUT.flo [--picture OUT.png]",
@@ -142,7 +152,7 @@ public final class Main {
             return OK;
         }
         if (!COMMAND_HELP.containsKey(command)) {
-            err.println("wayward: unknown command '" + command + "' (expected run, check, replay, what-if, demo, flow or help)");
+            err.println("wayward: unknown command '" + command + "' (expected run, check, replay, what-if, demo, bench, flow or help)");
             return USAGE;
         }
         Map<String, String> opts = new LinkedHashMap<>();
@@ -152,6 +162,7 @@ public final class Main {
             case "what-if" -> Set.of("--report", "--onset-level", "--release-level", "--hold-seconds",
                     "--clear-seconds", "--rest-seconds", "--min-travel-px", "--quick-travel-px");
             case "demo" -> Set.of("--config", "--loops");
+            case "bench" -> Set.of("--input", "--cameras", "--config");
             case "flow" -> Set.of("--input", "--at", "--output", "--picture");
             default -> Set.of("--scene", "--video", "--truth");
         };
@@ -184,6 +195,7 @@ public final class Main {
                 case "replay" -> replay(opts, out, err);
                 case "what-if" -> whatIf(opts, out, err);
                 case "demo" -> demo(opts, out, err);
+                case "bench" -> bench(opts, out, err);
                 case "flow" -> flow(opts, out, err);
                 default -> makeScene(opts, out, err);
             };
@@ -452,6 +464,75 @@ public final class Main {
         if (annotator != null) {
             annotator.close();
             err.println("wayward replay: " + annotator.frames() + " annotated frames written to " + opts.get("--annotate"));
+        }
+        return OK;
+    }
+
+    private static int bench(Map<String, String> opts, PrintStream out, PrintStream err) throws Exception {
+        String input = opts.get("--input");
+        if (input == null) {
+            err.println("wayward bench: --input VIDEO is required");
+            return USAGE;
+        }
+        if (!Files.isRegularFile(Path.of(input))) {
+            err.println("wayward bench: --input " + input + ": file not found");
+            return NO_INPUT;
+        }
+        int n = 1;
+        if (opts.containsKey("--cameras")) {
+            try {
+                n = Integer.parseInt(opts.get("--cameras"));
+            } catch (NumberFormatException e) {
+                n = 0;
+            }
+            if (n < 1 || n > 64) {
+                err.println("wayward bench: --cameras " + opts.get("--cameras") + " (expected a whole number from 1 to 64)");
+                return USAGE;
+            }
+        }
+        SiteConfig c;
+        String video = Path.of(input).toAbsolutePath().toString();
+        if (opts.containsKey("--config")) {
+            c = loadConfig("bench", opts, null, err);
+        } else {
+            Path tmp = Files.createTempFile("wayward-bench", ".toml");
+            Files.writeString(tmp, "[service]\nhttp = \"off\"\n[[camera]]\nid = \"bench\"\nsource = \""
+                    + video.replace("\\", "\\\\") + "\"\n[[camera.zone]]\nid = \"middle\"\n"
+                    + "polygon = [[0.25, 0.25], [0.75, 0.25], [0.75, 0.75], [0.25, 0.75]]\nheading_deg = 0\n");
+            try {
+                c = ConfigLoader.load(tmp);
+            } finally {
+                Files.deleteIfExists(tmp);
+            }
+        }
+        CameraConfig first = c.cameras().get(0);
+        List<CameraConfig> copies = new ArrayList<>();
+        for (int i = 1; i <= n; i++) {
+            CameraConfig copy = first.withSource(video, false);
+            copies.add(new CameraConfig(first.id() + "-" + i, copy.source(), false, copy.analysisWidth(),
+                    copy.analysisFps(), copy.removeCameraMotion(), copy.input(), copy.zones(), copy.tamperAlerts()));
+        }
+        Service s = new Service(c, copies, Service.Mode.REPLAY, new PrintStream(java.io.OutputStream.nullOutputStream()), 0);
+        s.measureStages();
+        long wall = System.nanoTime();
+        s.start();
+        s.awaitEnd();
+        s.stop();
+        double wallSeconds = (System.nanoTime() - wall) / 1e9;
+        out.printf(java.util.Locale.ROOT, "bench: %s, %d camera%s, %d cores, %.1f s wall%n", input, n, n == 1 ? "" : "s",
+                Runtime.getRuntime().availableProcessors(), wallSeconds);
+        out.println("camera | frames decoded | analysed | decode ms/frame | luma+downscale ms/analysed | flow ms/analysed"
+                + " | zones+rules ms/analysed | CPU ms per video second | × decode");
+        for (var p : s.pipelines()) {
+            long[] ns = p.stageCpuNanos();
+            long decoded = Math.max(1, p.framesIn());
+            long analysed = Math.max(1, p.analysedFrames());
+            double videoSeconds = Math.max(1e-3, p.streamSeconds());
+            double total = (ns[0] + ns[1] + ns[2] + ns[3]) / 1e6;
+            out.printf(java.util.Locale.ROOT, "%s | %d | %d | %.3f | %.3f | %.3f | %.3f | %.1f | %.2f%n", p.id(),
+                    p.framesIn(), p.analysedFrames(), ns[0] / 1e6 / decoded, ns[1] / 1e6 / analysed,
+                    ns[2] / 1e6 / analysed, ns[3] / 1e6 / analysed, total / videoSeconds,
+                    ns[0] == 0 ? Double.NaN : (double) (ns[0] + ns[1] + ns[2] + ns[3]) / ns[0]);
         }
         return OK;
     }

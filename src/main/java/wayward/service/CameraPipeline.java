@@ -61,6 +61,25 @@ public final class CameraPipeline {
     }
 
     private volatile FrameListener frames;
+    private volatile boolean measure;
+    private volatile long flowCpu;
+    private volatile long zonesCpu;
+    private static final java.lang.management.ThreadMXBean THREADS = java.lang.management.ManagementFactory.getThreadMXBean();
+
+    private static long cpu() {
+        return THREADS.getCurrentThreadCpuTime();
+    }
+
+    /** Before {@link #start}: measure each stage's CPU time (bench). */
+    public void measureStages() {
+        measure = true;
+        source.measureStages();
+    }
+
+    /** CPU nanoseconds per stage so far: decode, downscale, flow, zones and rules (after measureStages). */
+    public long[] stageCpuNanos() {
+        return new long[] {source.decodeCpuNanos(), source.downscaleCpuNanos(), flowCpu, zonesCpu};
+    }
 
     /** Before {@link #start}: every analysed frame also goes to {@code l}. */
     public void listenFrames(FrameListener l) {
@@ -375,7 +394,12 @@ public final class CameraPipeline {
                     flow.reset();
                 }
                 long began = System.nanoTime();
+                long c0 = measure ? cpu() : 0;
                 boolean estimated = flow.push(f.pixels, field);
+                long c1 = measure ? cpu() : 0;
+                if (measure) {
+                    flowCpu += c1 - c0;
+                }
                 previous = t;
                 lastStreamSeconds = t;
                 analysedFrames++;
@@ -413,6 +437,9 @@ public final class CameraPipeline {
                     }
                 }
                 analysisNanos += System.nanoTime() - began;
+                if (measure) {
+                    zonesCpu += cpu() - c1;
+                }
                 if (frames != null) {
                     frames.frame(this, f, field, t);
                 }

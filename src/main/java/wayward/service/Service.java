@@ -50,6 +50,12 @@ public final class Service {
     private CameraPipeline.Evidence evidence;
     private CameraPipeline.ReadingListener readingListener;
     private CameraPipeline.FrameListener frameListener;
+    private boolean measureStages;
+
+    /** Before {@link #start}: every camera measures the CPU time of its stages (bench). */
+    public void measureStages() {
+        this.measureStages = true;
+    }
 
     /** Before {@link #start}: every analysed frame of every camera goes to {@code l} (annotated replay). */
     public void listenFrames(CameraPipeline.FrameListener l) {
@@ -167,6 +173,9 @@ public final class Service {
         }
         if (frameListener != null) {
             p.listenFrames(frameListener);
+        }
+        if (measureStages) {
+            p.measureStages();
         }
         return p;
     }

@@ -60,7 +60,7 @@ class MainTest {
     @Test
     void badCommandLinesExit2WithOneLine() {
         assertEquals(2, run("watch"));
-        assertEquals("wayward: unknown command 'watch' (expected run, check, replay, what-if, demo, flow or help)\n", stderr());
+        assertEquals("wayward: unknown command 'watch' (expected run, check, replay, what-if, demo, bench, flow or help)\n", stderr());
         err.reset();
         assertEquals(2, run("check", "--conf", "x.toml"));
         assertEquals("wayward check: unknown option '--conf' (expected --config)\n", stderr());

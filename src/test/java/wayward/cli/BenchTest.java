@@ -1,0 +1,43 @@
+package wayward.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.util.List;
+import java.util.concurrent.TimeUnit;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.Timeout;
+
+/**
+ * {@code bench} on the demo clip with two cameras: a row per camera, every frame decoded (the clip's 390 at
+ * 15 fps for 26 s, from its scene file), the analysis rate's share analysed, and stage costs that add up (the
+ * ratio to decode is the sum of the stages over decode, so at least 1). Figures themselves are not asserted:
+ * speed is measured, not tested.
+ */
+class BenchTest {
+    @Test
+    @Timeout(value = 120, unit = TimeUnit.SECONDS)
+    void twoCamerasGiveARowEachWithEveryFrameDecoded() {
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        int rc = Main.execute(new String[] {"bench", "--input", "test-streams/yard-lane.mp4", "--cameras", "2"},
+                new PrintStream(out, true, StandardCharsets.UTF_8), new PrintStream(new ByteArrayOutputStream()));
+        assertEquals(0, rc);
+        List<String> lines = List.of(out.toString(StandardCharsets.UTF_8).split("\n"));
+        assertEquals(4, lines.size(), lines.toString());
+        for (String row : lines.subList(2, 4)) {
+            String[] f = row.split(" \\| ");
+            assertTrue(f[0].startsWith("bench-"), row);
+            assertEquals("390", f[1], "every frame decoded: " + row);
+            assertEquals(260, Integer.parseInt(f[2]), 2, "10 of every 15 frames analysed: " + row);
+            double decode = Double.parseDouble(f[3]);
+            double ratio = Double.parseDouble(f[8]);
+            assertTrue(decode > 0 && ratio >= 1, row);
+        }
+        assertEquals(2, Main.execute(new String[] {"bench", "--input", "test-streams/yard-lane.mp4", "--cameras", "0"},
+                new PrintStream(new ByteArrayOutputStream()), new PrintStream(new ByteArrayOutputStream())),
+                "--cameras 0 is a usage error");
+    }
+}
