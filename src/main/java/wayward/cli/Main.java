@@ -516,7 +516,18 @@ public final class Main {
         s.measureStages();
         long wall = System.nanoTime();
         s.start();
-        s.awaitEnd();
+        boolean terminal = System.console() != null;
+        while (!s.awaitEnd(1, java.util.concurrent.TimeUnit.SECONDS)) {
+            if (terminal) {
+                // progress on a terminal only; quiet in logs and CI
+                var p = s.pipelines().get(0);
+                err.printf(java.util.Locale.ROOT, "\rbench: %d cameras, stream %.1f s, %.0f frames/s each   ", n,
+                        p.streamSeconds(), p.framesIn() / Math.max(1e-3, (System.nanoTime() - wall) / 1e9));
+            }
+        }
+        if (terminal) {
+            err.println();
+        }
         s.stop();
         double wallSeconds = (System.nanoTime() - wall) / 1e9;
         out.printf(java.util.Locale.ROOT, "bench: %s, %d camera%s, %d cores, %.1f s wall%n", input, n, n == 1 ? "" : "s",
