@@ -234,6 +234,13 @@ public final class Main {
     private static int check(Map<String, String> opts, PrintStream out, PrintStream err) throws Exit {
         SiteConfig c = loadConfig("check", opts, null, err);
         out.print(ConfigPrinter.toToml(c));
+        if (c.shard() != null) {
+            List<String> ids = new ArrayList<>();
+            c.cameras().forEach(k -> ids.add(k.id()));
+            out.println("# instance " + c.shard().instance() + " of " + String.join(", ", c.shard().instances())
+                    + " watches: " + String.join(", ", wayward.service.Shards.mine(ids, c.shard().instance(),
+                    c.shard().instances())));
+        }
         // what zones that learn their heading have learned so far (data_dir/learned)
         for (CameraConfig cam : c.cameras()) {
             for (wayward.config.ZoneConfig z : cam.zones()) {

@@ -64,13 +64,69 @@ public final class ConfigLoader {
         Scope top = new Scope(errors, root, "", TomlPosition.positionAt(1, 1));
         Path dataDir = base.resolve("data");
         HttpConfig http = new HttpConfig("127.0.0.1", 8786, null, null);
+        String instance = System.getenv("WAYWARD_INSTANCE");
+        List<String> instances = new ArrayList<>();
         TomlTable serviceTable = top.table("service");
         if (serviceTable != null) {
             Scope s = new Scope(errors, serviceTable, "service", root.inputPositionOf(List.of("service")));
             String dir = s.string("data_dir", "data", "a folder path");
             dataDir = base.resolve(dir).normalize();
             http = http(s, base);
+            String configured = s.string("instance", null, ID_EXPECTED);
+            if (instance == null || instance.isBlank()) {
+                instance = configured;
+            }
+            Object list = s.raw("instances");
+            if (list instanceof TomlArray a) {
+                for (int i = 0; i < a.size(); i++) {
+                    if (a.get(i) instanceof String name && name.matches(ID_PATTERN)) {
+                        instances.add(name);
+                    } else {
+                        s.error("instances", list, "a list of instance names (" + ID_EXPECTED + ")");
+                        break;
+                    }
+                }
+            } else if (list != null) {
+                s.error("instances", list, "a list of instance names such as [\"north\", \"south\"]");
+            }
             s.finish();
+        }
+        String fromEnv = System.getenv("WAYWARD_INSTANCES");
+        if (fromEnv != null && !fromEnv.isBlank()) {
+            instances = new ArrayList<>();
+            for (String part : fromEnv.split(",")) {
+                instances.add(part.trim());
+            }
+        }
+        ShardConfig shard = null;
+        if (!instances.isEmpty() || instance != null) {
+            String where = "service.instance";
+            if (instance == null || !instance.matches(ID_PATTERN)) {
+                errors.at(TomlPosition.positionAt(1, 1), where + ": " + render(instance) + " (expected this instance's "
+                        + "name, " + ID_EXPECTED + ", in [service] instance or WAYWARD_INSTANCE)");
+            } else if (instances.isEmpty()) {
+                errors.at(TomlPosition.positionAt(1, 1), "service.instances: missing (expected every instance's name "
+                        + "in [service] instances or WAYWARD_INSTANCES, since instance is " + render(instance) + ")");
+            } else if (!instances.contains(instance)) {
+                errors.at(TomlPosition.positionAt(1, 1), where + ": " + render(instance) + " (expected one of "
+                        + String.join(", ", instances) + ", the instances)");
+            } else {
+                shard = new ShardConfig(instance, instances);
+                // instances on one host must not share an outbox or learned headings: a folder each
+                dataDir = dataDir.resolve(instance);
+            }
+        }
+        String httpFromEnv = System.getenv("WAYWARD_HTTP");
+        if (httpFromEnv != null && !httpFromEnv.isBlank() && http != null) {
+            // per-instance address (the systemd template sets it); the token stays the config's
+            int colon = httpFromEnv.lastIndexOf(':');
+            try {
+                http = httpFromEnv.equals("off") ? null : new HttpConfig(httpFromEnv.substring(0, colon),
+                        Integer.parseInt(httpFromEnv.substring(colon + 1)), http.tokenFile(), http.token());
+            } catch (RuntimeException e) {
+                errors.at(TomlPosition.positionAt(1, 1), "environment WAYWARD_HTTP: " + render(httpFromEnv)
+                        + " (expected \"host:port\" or \"off\")");
+            }
         }
         FlowConfig flow = FlowConfig.DEFAULTS;
         TomlTable flowTable = top.table("flow");
@@ -162,7 +218,15 @@ public final class ConfigLoader {
             s.finish();
         }
         top.finish();
-        return new SiteConfig(file, dataDir, flow, cameras, webhooks, clips, mqtt, outboxMaxBytes, http);
+        if (shard != null && mqtt != null) {
+            // one broker session per instance: the client id carries the instance's name
+            String suffix = "-" + shard.instance();
+            String stem = mqtt.clientId().substring(0, Math.max(1, Math.min(mqtt.clientId().length(), 23 - suffix.length())));
+            String id = (stem + suffix).substring(0, Math.min(23, stem.length() + suffix.length()));
+            mqtt = new MqttConfig(mqtt.url(), mqtt.topicPrefix(), id, mqtt.username(), mqtt.passwordFile(),
+                    mqtt.password(), mqtt.keepAliveSeconds(), mqtt.caFile(), mqtt.inFlight(), mqtt.maxBackoffSeconds());
+        }
+        return new SiteConfig(file, dataDir, flow, cameras, webhooks, clips, mqtt, outboxMaxBytes, http, shard);
     }
 
     /** {@code http} ("host:port" or "off") and {@code token_file} of [service]; null when off. */

@@ -20,6 +20,14 @@ public final class ConfigPrinter {
         if (c.http() != null && c.http().tokenFile() != null) {
             b.append("token_file = ").append(quote(c.http().tokenFile())).append("   # the token itself is never printed\n");
         }
+        if (c.shard() != null) {
+            b.append("instance = ").append(quote(c.shard().instance())).append('\n');
+            b.append("instances = [");
+            for (int i = 0; i < c.shard().instances().size(); i++) {
+                b.append(i == 0 ? "" : ", ").append(quote(c.shard().instances().get(i)));
+            }
+            b.append("]\n");
+        }
         b.append("\n[flow]\n");
         b.append("levels = ").append(c.flow().levels()).append('\n');
         b.append("iterations = ").append(c.flow().iterations()).append('\n');

@@ -16,9 +16,10 @@ import java.util.List;
  * @param mqtt     the MQTT broker, or null
  * @param outboxMaxBytes bound on the durable outbox's size on disk
  * @param http     the status server, or null when off
+ * @param shard    this instance's share of the cameras, or null when one instance watches all
  */
 public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
-        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http) {
+        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http, ShardConfig shard) {
     public SiteConfig {
         cameras = List.copyOf(cameras);
         webhooks = List.copyOf(webhooks);

@@ -97,7 +97,7 @@ public final class Service {
      */
     public Service(SiteConfig config, List<CameraConfig> cameras, Mode mode, PrintStream stdout, int maxLoops) {
         this.config = config;
-        this.cameras = List.copyOf(cameras);
+        this.cameras = mode == Mode.REPLAY ? List.copyOf(cameras) : shareOf(config, cameras);
         this.mode = mode;
         this.stdout = stdout;
         this.maxLoops = maxLoops;
@@ -106,6 +106,12 @@ public final class Service {
     public void start() throws IOException {
         if (mode != Mode.REPLAY) {
             LOG.warn(CAUTION);
+            if (config.shard() != null) {
+                List<String> ids = new ArrayList<>();
+                cameras.forEach(c -> ids.add(c.id()));
+                LOG.info("instance {} of {}: watching {} of {} cameras: {}", config.shard().instance(),
+                        config.shard().instances(), cameras.size(), config.cameras().size(), ids);
+            }
             EventLog log = new EventLog(config.dataDir());
             bus.add(log, QUEUE_CAPACITY);
             LOG.info("events are written to {}", log.file());
@@ -162,6 +168,23 @@ public final class Service {
         watcher.start();
     }
 
+    /** The cameras this instance watches: all of them, or its share when instances share the config. */
+    static List<CameraConfig> shareOf(SiteConfig config, List<CameraConfig> cameras) {
+        if (config.shard() == null) {
+            return List.copyOf(cameras);
+        }
+        List<String> ids = new ArrayList<>();
+        cameras.forEach(c -> ids.add(c.id()));
+        List<String> mine = Shards.mine(ids, config.shard().instance(), config.shard().instances());
+        List<CameraConfig> out = new ArrayList<>();
+        for (CameraConfig c : cameras) {
+            if (mine.contains(c.id())) {
+                out.add(c);
+            }
+        }
+        return out;
+    }
+
     private CameraPipeline pipeline(CameraConfig c, wayward.config.FlowConfig flow) {
         CameraPipeline p = new CameraPipeline(c, flow, bus::publish, clock, mode == Mode.REPLAY, mode != Mode.REPLAY,
                 maxLoops, evidence);
@@ -208,7 +231,7 @@ public final class Service {
     /** The settings outside [flow] and the cameras, as text, for telling whether they changed. */
     private static String rest(SiteConfig c) {
         return ConfigPrinter.toToml(new SiteConfig(c.file(), c.dataDir(), wayward.config.FlowConfig.DEFAULTS,
-                List.of(), c.webhooks(), c.clips(), c.mqtt(), c.outboxMaxBytes(), c.http()));
+                List.of(), c.webhooks(), c.clips(), c.mqtt(), c.outboxMaxBytes(), c.http(), c.shard()));
     }
 
     /**
@@ -226,7 +249,8 @@ public final class Service {
             LOG.info("reload: [flow] changed; every camera restarts");
         }
         java.util.Map<String, CameraConfig> wanted = new java.util.LinkedHashMap<>();
-        for (CameraConfig c : next.cameras()) {
+        List<CameraConfig> nextCameras = mode == Mode.REPLAY ? next.cameras() : shareOf(next, next.cameras());
+        for (CameraConfig c : nextCameras) {
             wanted.put(c.id(), c);
         }
         List<CameraPipeline> keep = new ArrayList<>();
@@ -261,7 +285,7 @@ public final class Service {
             }
         }
         List<CameraPipeline> now = new ArrayList<>();
-        for (CameraConfig c : next.cameras()) {
+        for (CameraConfig c : nextCameras) {
             CameraPipeline kept = keep.stream().filter(p -> p.id().equals(c.id())).findFirst().orElse(null);
             if (kept != null) {
                 now.add(kept);
@@ -280,7 +304,7 @@ public final class Service {
             LOG.warn("reload: changes to [service], [clips], [[webhook]], [mqtt] or [outbox] take effect at the "
                     + "next restart; the running values stay");
             next = new SiteConfig(next.file(), config.dataDir(), next.flow(), next.cameras(), config.webhooks(),
-                    config.clips(), config.mqtt(), config.outboxMaxBytes(), config.http());
+                    config.clips(), config.mqtt(), config.outboxMaxBytes(), config.http(), config.shard());
         }
         config = next;
         LOG.info("reload: done; {} cameras", pipelines.size());
