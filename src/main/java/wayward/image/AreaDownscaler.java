@@ -45,6 +45,40 @@ public final class AreaDownscaler {
         yWeights = weights(srcHeight, dstHeight, yFirst, yCount, yWeightStart);
         rows = new float[srcHeight * dstWidth];
         rowAccumulator = new float[dstWidth];
+        // a whole-number ratio, the same both ways (640×360 → 320×180, 1280×720 → 320×180): k×k block means
+        int k = srcWidth / dstWidth;
+        factor = k > 1 && srcWidth == k * dstWidth && srcHeight == k * dstHeight ? k : 1;
+        blockSums = new int[dstWidth];
+    }
+
+    /** k when the source is exactly k times the target both ways, else 1 (the general weighted path). */
+    private final int factor;
+    private final int[] blockSums;
+
+    /** The k×k block means with integer sums, rounded half up. */
+    private void blocks(byte[] src, int offset, int stride, byte[] out) {
+        final int k = factor;
+        final int area = k * k;
+        final int half = area / 2;
+        final int dw = dstWidth;
+        final int[] sums = blockSums;
+        for (int dy = 0; dy < dstHeight; dy++) {
+            java.util.Arrays.fill(sums, 0);
+            for (int j = 0; j < k; j++) {
+                int p = offset + (dy * k + j) * stride;
+                for (int dx = 0; dx < dw; dx++) {
+                    int s = 0;
+                    for (int i = 0; i < k; i++) {
+                        s += src[p++] & 0xff;
+                    }
+                    sums[dx] += s;
+                }
+            }
+            final int outRow = dy * dw;
+            for (int dx = 0; dx < dw; dx++) {
+                out[outRow + dx] = (byte) ((sums[dx] + half) / area);
+            }
+        }
     }
 
     /** Output height that keeps the aspect ratio for a given output width, rounded to an even number. */
@@ -88,6 +122,10 @@ public final class AreaDownscaler {
         if (stride < srcWidth || offset < 0 || src.length < offset + (long) stride * (srcHeight - 1) + srcWidth) {
             throw new IllegalArgumentException("source buffer: " + src.length + " bytes, stride " + stride
                     + " (expected " + srcWidth + "x" + srcHeight + " pixels)");
+        }
+        if (factor > 1) {
+            blocks(src, offset, stride, dst.pixels);
+            return;
         }
         final int dw = dstWidth;
         final float[] r = rows;

@@ -29,7 +29,7 @@ class AreaDownscalerTest {
     @Test
     void matchesBruteForceAreaMeanOnRandomPicturesAndOddSizes() {
         SplittableRandom r = new SplittableRandom(1);
-        int[][] sizes = {{1, 1, 1, 1}, {7, 5, 3, 2}, {640, 360, 320, 180}, {1280, 720, 320, 180}, {101, 77, 33, 31}};
+        int[][] sizes = {{1, 1, 1, 1}, {7, 5, 3, 2}, {640, 360, 320, 180}, {1280, 720, 320, 180}, {1920, 1080, 640, 360}, {101, 77, 33, 31}};
         for (int[] s : sizes) {
             byte[] src = new byte[s[0] * s[1]];
             for (int i = 0; i < src.length; i++) {
