@@ -107,6 +107,9 @@ final class MetricsText {
                 "Wall time spent in flow, zone meters and rules.", CameraPipeline::analysisSeconds);
         perCamera(ps, "wayward_camera_stream_seconds", "gauge", "Stream time of the newest analysed picture.",
                 CameraPipeline::streamSeconds);
+        perCamera(ps, "wayward_camera_analysis_fps", "gauge",
+                "Frames analysed per second over the last 30 s (under overload, lower than configured).",
+                CameraPipeline::analysisFps);
         perZone(ps, "wayward_zone_coverage", "gauge", "Share of the zone's pixels moving, newest reading (0..1).",
                 CameraPipeline::zoneCoverage);
         perZone(ps, "wayward_zone_against", "gauge",

@@ -235,6 +235,44 @@ public final class CameraPipeline {
         return analysedFrames;
     }
 
+    private long loadAnalysed;
+    private long loadDropped;
+    private volatile double analysisFps = Double.NaN;
+    private boolean behind;
+
+    /**
+     * Every 30 s (service watcher): the analysis rate actually reached. When the analysis thread cannot keep up,
+     * the frame slot hands it the newest picture and drops the stale ones, so capture never falls behind the
+     * camera and the camera's analysis rate sinks instead; this logs when that begins and ends.
+     */
+    void checkLoad(double seconds) {
+        long a = analysedFrames;
+        long d = droppedFrames();
+        long da = a - loadAnalysed;
+        long dd = d - loadDropped;
+        loadAnalysed = a;
+        loadDropped = d;
+        analysisFps = da / seconds;
+        boolean nowBehind = dd > 0.1 * (da + dd);
+        if (nowBehind != behind) {
+            behind = nowBehind;
+            if (nowBehind) {
+                LOG.warn("camera {}: analysis cannot keep up: {} of {} due frames analysed in the last {} s ({} a "
+                        + "second instead of {}); the newest frame is always taken, the rest dropped", camera.id(), da,
+                        da + dd, (long) seconds, String.format(java.util.Locale.ROOT, "%.1f", analysisFps),
+                        camera.analysisFps());
+            } else {
+                LOG.info("camera {}: analysis keeps up again ({} frames a second)", camera.id(),
+                        String.format(java.util.Locale.ROOT, "%.1f", analysisFps));
+            }
+        }
+    }
+
+    /** Frames analysed per second over the last load check (NaN before the first). */
+    public double analysisFps() {
+        return analysisFps;
+    }
+
     /** Pictures decoded by the capture thread. */
     public long framesIn() {
         return source.framesIn();

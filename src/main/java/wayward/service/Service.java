@@ -211,6 +211,7 @@ public final class Service {
     /** Ends the wait when every camera has ended by itself (files without loop). */
     private void watch() {
         try {
+            int ticks = 0;
             while (true) {
                 Thread.sleep(500);
                 synchronized (this) {
@@ -220,6 +221,11 @@ public final class Service {
                     if (pipelines.stream().noneMatch(CameraPipeline::running)) {
                         ended.countDown();
                         return;
+                    }
+                }
+                if (++ticks % 60 == 0 && mode != Mode.REPLAY) {
+                    for (CameraPipeline p : pipelines) {
+                        p.checkLoad(30);
                     }
                 }
             }

@@ -12,8 +12,8 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 
 /**
- * {@code bench} on the demo clip with two cameras: a row per camera, every frame decoded (the clip's 390 at
- * 15 fps for 26 s, from its scene file), the analysis rate's share analysed, and stage costs that add up (the
+ * {@code bench} on the demo clip with two cameras: a row per camera, every frame after the 5 s warm-up decoded
+ * (the clip is 26 s at 15 fps, from its scene file), the analysis rate's share analysed, and stage costs that add up (the
  * ratio to decode is the sum of the stages over decode, so at least 1). Figures themselves are not asserted:
  * speed is measured, not tested.
  */
@@ -30,8 +30,12 @@ class BenchTest {
         for (String row : lines.subList(2, 4)) {
             String[] f = row.split(" \\| ");
             assertTrue(f[0].startsWith("bench-"), row);
-            assertEquals("390", f[1], "every frame decoded: " + row);
-            assertEquals(260, Integer.parseInt(f[2]), 2, "10 of every 15 frames analysed: " + row);
+            // after the 5 s warm-up: about 21 s of the clip's 26 at 15 fps decoded (the decoder runs a few frames
+            // ahead of analysis when the counters are taken), 10 a second analysed
+            int decoded = Integer.parseInt(f[1]);
+            int analysed = Integer.parseInt(f[2]);
+            assertTrue(decoded >= 250 && decoded <= 330, "decoded after warm-up: " + row);
+            assertEquals(decoded * 2.0 / 3, analysed, 10, "10 of every 15 frames analysed: " + row);
             double decode = Double.parseDouble(f[3]);
             double ratio = Double.parseDouble(f[8]);
             assertTrue(decode > 0 && ratio >= 1, row);
