@@ -247,16 +247,15 @@ public final class Main {
                 if (!z.learnsHeading()) {
                     continue;
                 }
-                Path f = Service.learnedFolder(c.dataDir(), cam.id()).resolve(z.id() + ".heading");
-                String learned = "not learned yet";
+                Path f = wayward.service.LearnedHeadings.file(
+                        wayward.service.LearnedHeadings.folder(c.dataDir(), cam.id()), z.id());
+                String learned;
                 try {
-                    for (String line : Files.readAllLines(f)) {
-                        if (line.startsWith("heading_deg = ")) {
-                            learned = "learned heading_deg = " + line.substring(14).trim() + " (" + f + ")";
-                        }
-                    }
+                    double h = wayward.service.LearnedHeadings.read(f);
+                    learned = Double.isNaN(h) ? "not learned yet"
+                            : "learned heading_deg = " + String.format(java.util.Locale.ROOT, "%.1f", h) + " (" + f + ")";
                 } catch (java.io.IOException e) {
-                    // not learned yet
+                    learned = "cannot read what was learned (" + e.getMessage() + "); it is learned again at start";
                 }
                 out.println("# camera " + cam.id() + " zone " + z.id() + ": " + learned);
             }

@@ -310,23 +310,17 @@ public final class CameraPipeline {
             if (learners[i] == null) {
                 continue;
             }
-            java.nio.file.Path f = dir.resolve(camera.zones().get(i).id() + ".heading");
+            java.nio.file.Path f = LearnedHeadings.file(dir, camera.zones().get(i).id());
             try {
-                if (java.nio.file.Files.isRegularFile(f)) {
-                    for (String line : java.nio.file.Files.readAllLines(f)) {
-                        if (line.startsWith("heading_deg = ")) {
-                            double h = Double.parseDouble(line.substring(14).trim());
-                            if (h >= 0 && h < 360) {
-                                useLearned(i, h);
-                                LOG.info("camera {} zone {}: heading {}° learned earlier ({})", camera.id(),
-                                        camera.zones().get(i).id(), String.format(java.util.Locale.ROOT, "%.1f", h), f);
-                            }
-                        }
-                    }
+                double h = LearnedHeadings.read(f);
+                if (!Double.isNaN(h)) {
+                    useLearned(i, h);
+                    LOG.info("camera {} zone {}: heading {}° learned earlier ({})", camera.id(),
+                            camera.zones().get(i).id(), String.format(java.util.Locale.ROOT, "%.1f", h), f);
                 }
-            } catch (java.io.IOException | NumberFormatException e) {
-                LOG.warn("camera {} zone {}: cannot read the learned heading in {} ({}); learning again", camera.id(),
-                        camera.zones().get(i).id(), f, e.toString());
+            } catch (java.io.IOException e) {
+                LOG.warn("camera {} zone {}: cannot read the learned heading ({}); learning again", camera.id(),
+                        camera.zones().get(i).id(), e.getMessage());
             }
         }
     }
@@ -356,15 +350,9 @@ public final class CameraPipeline {
         useLearned(z, h);
         java.nio.file.Path dir = learnedDir;
         if (dir != null) {
-            java.nio.file.Path f = dir.resolve(zc.id() + ".heading");
+            java.nio.file.Path f = LearnedHeadings.file(dir, zc.id());
             try {
-                java.nio.file.Files.createDirectories(dir);
-                java.nio.file.Path tmp = dir.resolve(zc.id() + ".heading.part");
-                java.nio.file.Files.writeString(tmp, "# learned by wayward from " + String.format(java.util.Locale.ROOT,
-                        "%.0f", l.movingSeconds()) + " s of traffic; delete this file to learn again\n"
-                        + "heading_deg = " + String.format(java.util.Locale.ROOT, "%.1f", h) + "\n");
-                java.nio.file.Files.move(tmp, f, java.nio.file.StandardCopyOption.REPLACE_EXISTING,
-                        java.nio.file.StandardCopyOption.ATOMIC_MOVE);
+                LearnedHeadings.write(f, h, l.movingSeconds());
             } catch (java.io.IOException e) {
                 LOG.warn("camera {} zone {}: cannot keep the learned heading in {} ({}); it is learned again next start",
                         camera.id(), zc.id(), f, e.toString());

@@ -189,7 +189,7 @@ public final class Service {
         CameraPipeline p = new CameraPipeline(c, flow, bus::publish, clock, mode == Mode.REPLAY, mode != Mode.REPLAY,
                 maxLoops, evidence);
         if (mode != Mode.REPLAY) {
-            p.learnInto(learnedFolder(config.dataDir(), c.id()));
+            p.learnInto(LearnedHeadings.folder(config.dataDir(), c.id()));
         }
         if (readingListener != null) {
             p.listenReadings(readingListener);
@@ -203,10 +203,6 @@ public final class Service {
         return p;
     }
 
-    /** Where the learned headings of a camera's zones are kept. */
-    public static java.nio.file.Path learnedFolder(java.nio.file.Path dataDir, String camera) {
-        return dataDir.resolve("learned").resolve(camera);
-    }
 
     /** Ends the wait when every camera has ended by itself (files without loop). */
     private void watch() {
