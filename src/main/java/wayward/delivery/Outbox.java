@@ -45,6 +45,8 @@ public final class Outbox implements AutoCloseable {
     /** A payload larger than this is damage, not an event record. */
     static final int MAX_PAYLOAD = 1 << 20;
     private static final String PREFIX = "segment-";
+    /** Progress records are checksummed like a record without payload. */
+    private static final byte[] NO_PAYLOAD = new byte[0];
     private static final String SUFFIX = ".log";
 
     private final Path dir;
@@ -422,9 +424,7 @@ public final class Outbox implements AutoCloseable {
             b.flip();
             if (b.remaining() == 12) {
                 long seq = b.getLong();
-                CRC32C crc = new CRC32C();
-                crc.update(ByteBuffer.allocate(8).putLong(0, seq));
-                if ((int) crc.getValue() == b.getInt()) {
+                if (checksum(seq, NO_PAYLOAD) == b.getInt()) {
                     next = seq;
                     return seq;
                 }
@@ -442,9 +442,7 @@ public final class Outbox implements AutoCloseable {
                 ch = FileChannel.open(file, StandardOpenOption.CREATE, StandardOpenOption.WRITE);
             }
             ByteBuffer b = ByteBuffer.allocate(12).putLong(seq);
-            CRC32C crc = new CRC32C();
-            crc.update(ByteBuffer.allocate(8).putLong(0, seq));
-            b.putInt((int) crc.getValue()).flip();
+            b.putInt(checksum(seq, NO_PAYLOAD)).flip();
             while (b.hasRemaining()) {
                 ch.write(b, b.position());
             }

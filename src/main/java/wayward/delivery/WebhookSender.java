@@ -52,9 +52,6 @@ public final class WebhookSender implements Destination {
     private final SslContext ssl;
     private final WebhookSignature signature;
 
-    /** Outcome of one attempt by status code. */
-    enum Outcome { DELIVERED, REFUSED, RETRY }
-
     public WebhookSender(WebhookConfig config) {
         this.config = config;
         this.uri = URI.create(config.url());
@@ -80,11 +77,7 @@ public final class WebhookSender implements Destination {
         byte[] body = EventJson.toJson(event).getBytes(StandardCharsets.UTF_8);
         try {
             int status = post(body, event.id());
-            return CompletableFuture.completedFuture(switch (classify(status)) {
-                case DELIVERED -> Result.DELIVERED;
-                case REFUSED -> Result.refused("HTTP " + status);
-                case RETRY -> Result.retry("HTTP " + status);
-            });
+            return CompletableFuture.completedFuture(classify(status));
         } catch (TimeoutException e) {
             return CompletableFuture.completedFuture(Result.retry("no answer within " + config.timeoutSeconds() + " s"));
         } catch (ExecutionException e) {
@@ -97,14 +90,15 @@ public final class WebhookSender implements Destination {
         }
     }
 
-    static Outcome classify(int status) {
+    /** 2xx delivered; 4xx other than 408 and 429 refused for good; the rest tried again. */
+    static Result classify(int status) {
         if (status >= 200 && status < 300) {
-            return Outcome.DELIVERED;
+            return Result.DELIVERED;
         }
         if (status >= 400 && status < 500 && status != 408 && status != 429) {
-            return Outcome.REFUSED;
+            return Result.refused("HTTP " + status);
         }
-        return Outcome.RETRY;
+        return Result.retry("HTTP " + status);
     }
 
     /** One POST; returns the status code. */

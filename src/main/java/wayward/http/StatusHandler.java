@@ -244,7 +244,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
         p.live().want();
         double[] m = p.live().measure(poly[0], poly[1], heading, tolerance, ZoneConfig.DEFAULT_MIN_SPEED,
                 ZoneConfig.DEFAULT_MIN_CONFIDENCE, p.config().removeCameraMotion());
-        String body = json(g -> {
+        String body = EventJson.object(g -> {
             number(g, "coverage", m == null ? Double.NaN : m[0]);
             number(g, "against", m == null ? Double.NaN : m[1]);
         });
@@ -263,7 +263,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                 down.add(p.id());
             }
         }
-        String body = json(g -> {
+        String body = EventJson.object(g -> {
             g.writeBooleanField("alive", true);
             g.writeBooleanField("ready", down.isEmpty());
             g.writeArrayFieldStart("cameras_down");
@@ -276,12 +276,8 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
         send(ctx, req, response(s, body + "\n", "application/json"));
     }
 
-    private static String json(EventJson.Fields f) {
-        return EventJson.object(f);
-    }
-
     private void json(ChannelHandlerContext ctx, FullHttpRequest req, EventJson.Fields f) {
-        send(ctx, req, response(HttpResponseStatus.OK, json(f) + "\n", "application/json"));
+        send(ctx, req, response(HttpResponseStatus.OK, EventJson.object(f) + "\n", "application/json"));
     }
 
     private static void number(JsonGenerator g, String name, double v) throws IOException {

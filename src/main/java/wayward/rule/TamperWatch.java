@@ -56,7 +56,7 @@ public final class TamperWatch {
     private double lastT = Double.NaN;
     private double baseSpread = Double.NaN;
     private double baseRatio = Double.NaN;
-    private double identicalSince = Double.NaN;
+    private double stillSince = Double.NaN;
     private double stillness;
     private double baseStill = Double.NaN;
     private double shiftX;
@@ -158,9 +158,9 @@ public final class TamperWatch {
         stillness += Math.min(1, dt / 1.0) * ((still ? 1 : 0) - stillness);
         boolean mostlyStill = stillness >= 0.6;
         if (!mostlyStill) {
-            identicalSince = Double.NaN;
-        } else if (Double.isNaN(identicalSince)) {
-            identicalSince = t;
+            stillSince = Double.NaN;
+        } else if (Double.isNaN(stillSince)) {
+            stillSince = t;
         }
         // only where the picture is normally never still (sensor noise survives the encoder): a compressed
         // static scene is as still as a frozen one, and there a freeze cannot be told from pixels
@@ -172,8 +172,9 @@ public final class TamperWatch {
         lastRatio = ratio;
         // camera moved: every 0.5 s, the shift that best registers the 2×2-block picture on the reference
         boolean flat = !Double.isNaN(baseSpread) && spread < 0.5 * baseSpread;
+        // the running share takes about 1 s to pass 0.6 after a freeze, so 2 s more make FROZEN_SECONDS
         frozen.update(noisyCamera && mostlyStill && !flat && !blocked.active()
-                && t - identicalSince + 1e-9 >= FROZEN_SECONDS - 1, stillness < 0.3, t, Double.NaN);
+                && t - stillSince + 1e-9 >= FROZEN_SECONDS - 1, stillness < 0.3, t, Double.NaN);
         if (reference == null) {
             reference = blocks.clone(); // once per resolution
         } else if (!flat && t - lastRegistration + 1e-9 >= 0.5) {

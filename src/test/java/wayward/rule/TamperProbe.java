@@ -29,8 +29,6 @@ public final class TamperProbe {
             GrayFrame f = new GrayFrame(320, 180);
             Frame frame;
             int i = 0;
-            byte[] prev = null;
-            byte[] prevFull = null;
             while ((frame = g.grabImage()) != null) {
                 ByteBuffer b = (ByteBuffer) frame.image[0];
                 for (int y = 0; y < frame.imageHeight; y++) {
@@ -39,27 +37,6 @@ public final class TamperProbe {
                 }
                 down.downscale(full, 0, frame.imageWidth, f);
                 double t = i++ / fps;
-                if (prev != null && t > 5 && t < 5.6) {
-                    int diff = 0;
-                    int full0 = 0;
-                    for (int k = 0; k < prev.length; k++) {
-                        if (prev[k] != f.pixels[k]) {
-                            diff++;
-                        }
-                    }
-                    for (int k = 0; k < full.length; k++) {
-                        if (prevFull[k] != full[k]) {
-                            full0++;
-                        }
-                    }
-                    System.out.println("t=" + t + " analysis pixels changed " + diff + ", full-size " + full0);
-                }
-                if (prev == null) {
-                    prev = new byte[f.pixels.length];
-                    prevFull = new byte[full.length];
-                }
-                System.arraycopy(f.pixels, 0, prev, 0, prev.length);
-                System.arraycopy(full, 0, prevFull, 0, full.length);
                 if (flow.push(f.pixels, field)) {
                     w.update(f, field, t);
                 }
