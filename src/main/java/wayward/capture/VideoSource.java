@@ -88,18 +88,31 @@ public final class VideoSource implements Runnable {
     private volatile boolean lost;
     private volatile boolean connectedOnce;
     private volatile long reconnects;
-    private volatile boolean measure;
+    /** Stream time from which stage CPU is counted (bench); NaN: not measured. */
+    private volatile double measureFrom = Double.NaN;
+    /** Capture thread: counting has begun (the first frame at or after measureFrom was decoded). */
+    private boolean measure;
     private volatile long decodeCpu;
     private volatile long downscaleCpu;
+    private volatile long decodedBeforeMeasuring = -1;
     private static final java.lang.management.ThreadMXBean THREADS = java.lang.management.ManagementFactory.getThreadMXBean();
 
     private static long cpu() {
         return THREADS.getCurrentThreadCpuTime();
     }
 
-    /** Before the run: measure the CPU time of decoding and of gray conversion plus downscaling (bench). */
-    public void measureStages() {
-        measure = true;
+    /**
+     * Before the run: measure the CPU time of decoding and of gray conversion plus downscaling from stream time
+     * {@code fromSeconds} on (bench; the seconds before it are JIT warm-up).
+     */
+    public void measureStages(double fromSeconds) {
+        measureFrom = fromSeconds;
+    }
+
+    /** Frames decoded since counting began, or 0 before it. */
+    public long framesMeasured() {
+        long before = decodedBeforeMeasuring;
+        return before < 0 ? 0 : frameIndex - before;
     }
 
     /** CPU nanoseconds spent decoding (send and receive), when measured. */
@@ -457,6 +470,10 @@ public final class VideoSource implements Runnable {
             }
         }
         lastSeconds = t;
+        if (!measure && t >= measureFrom) {
+            measure = true; // from this frame on (its decode was just before: the count starts with the next)
+            decodedBeforeMeasuring = frameIndex + 1;
+        }
         long index = frameIndex++;
         lastFrameNanos = System.nanoTime();
         connectedOnce = true;

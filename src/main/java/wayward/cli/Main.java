@@ -519,29 +519,17 @@ public final class Main {
                     copy.analysisFps(), copy.removeCameraMotion(), copy.input(), copy.zones(), copy.tamperAlerts()));
         }
         Service s = new Service(c, copies, Service.Mode.REPLAY, new PrintStream(java.io.OutputStream.nullOutputStream()), 0);
-        s.measureStages();
+        // the first seconds of stream are JIT warm-up: each camera counts only from there on
+        double warmup = 5;
+        s.measureStages(warmup);
         long wall = System.nanoTime();
         s.start();
         boolean terminal = System.console() != null;
-        // the first seconds of stream are JIT warm-up: counted apart, the figures are the steady state after them
-        double warmup = 5;
         int cams = n;
-        long[][] base = null;
-        long lastProgress = 0;
-        while (!s.awaitEnd(100, java.util.concurrent.TimeUnit.MILLISECONDS)) {
-            var ps = s.pipelines();
-            if (base == null && ps.stream().allMatch(p -> p.streamSeconds() >= warmup)) {
-                base = new long[ps.size()][];
-                for (int i = 0; i < ps.size(); i++) {
-                    long[] ns = ps.get(i).stageCpuNanos();
-                    base[i] = new long[] {ns[0], ns[1], ns[2], ns[3], ps.get(i).framesIn(), ps.get(i).analysedFrames(),
-                        Math.round(ps.get(i).streamSeconds() * 1e6)};
-                }
-            }
-            if (terminal && System.nanoTime() - lastProgress > 1_000_000_000L) {
+        while (!s.awaitEnd(1, java.util.concurrent.TimeUnit.SECONDS)) {
+            if (terminal) {
                 // progress on a terminal only; quiet in logs and CI
-                lastProgress = System.nanoTime();
-                var p = ps.get(0);
+                var p = s.pipelines().get(0);
                 err.printf(java.util.Locale.ROOT, "\rbench: %d cameras, stream %.1f s, %.0f frames/s each   ", cams,
                         p.streamSeconds(), p.framesIn() / Math.max(1e-3, (System.nanoTime() - wall) / 1e9));
             }
@@ -551,29 +539,25 @@ public final class Main {
         }
         s.stop();
         double wallSeconds = (System.nanoTime() - wall) / 1e9;
-        out.printf(java.util.Locale.ROOT, "bench: %s, %d camera%s, %d cores, %.1f s wall; %s%n", input, n,
-                n == 1 ? "" : "s", Runtime.getRuntime().availableProcessors(), wallSeconds,
-                base == null ? "the whole clip (shorter than the 5 s warm-up)" : "after the first 5 s of stream (warm-up)");
+        if (s.pipelines().stream().anyMatch(p -> p.stageFigures()[5] == 0)) {
+            err.println("wayward bench: --input " + input + ": too short to measure (the first " + (int) warmup
+                    + " s are warm-up; give a recording of at least 15 s)");
+            return NO_INPUT;
+        }
+        out.printf(java.util.Locale.ROOT, "bench: %s, %d camera%s, %d cores, %.1f s wall; after the first %.0f s of "
+                + "stream (warm-up)%n", input, n, n == 1 ? "" : "s", Runtime.getRuntime().availableProcessors(),
+                wallSeconds, warmup);
         out.println("camera | frames decoded | analysed | decode ms/frame | luma+downscale ms/analysed | flow ms/analysed"
                 + " | zones+rules ms/analysed | CPU ms per video second | × decode");
-        var ps = s.pipelines();
-        for (int i = 0; i < ps.size(); i++) {
-            var p = ps.get(i);
-            long[] ns = p.stageCpuNanos().clone();
-            long[] b = base == null ? new long[7] : base[i];
-            for (int k = 0; k < 4; k++) {
-                ns[k] -= b[k];
-            }
-            long decodedN = p.framesIn() - b[4];
-            long analysedN = p.analysedFrames() - b[5];
-            long decoded = Math.max(1, decodedN);
-            long analysed = Math.max(1, analysedN);
-            double videoSeconds = Math.max(1e-3, p.streamSeconds() - b[6] / 1e6);
-            double total = (ns[0] + ns[1] + ns[2] + ns[3]) / 1e6;
+        for (var p : s.pipelines()) {
+            double[] m = p.stageFigures();
+            double decoded = Math.max(1, m[4]);
+            double analysed = Math.max(1, m[5]);
+            double total = (m[0] + m[1] + m[2] + m[3]) / 1e6;
             out.printf(java.util.Locale.ROOT, "%s | %d | %d | %.3f | %.3f | %.3f | %.3f | %.1f | %.2f%n", p.id(),
-                    decodedN, analysedN, ns[0] / 1e6 / decoded, ns[1] / 1e6 / analysed,
-                    ns[2] / 1e6 / analysed, ns[3] / 1e6 / analysed, total / videoSeconds,
-                    ns[0] == 0 ? Double.NaN : (double) (ns[0] + ns[1] + ns[2] + ns[3]) / ns[0]);
+                    (long) m[4], (long) m[5], m[0] / 1e6 / decoded, m[1] / 1e6 / analysed, m[2] / 1e6 / analysed,
+                    m[3] / 1e6 / analysed, total / Math.max(1e-3, m[6]),
+                    m[0] == 0 ? Double.NaN : (m[0] + m[1] + m[2] + m[3]) / m[0]);
         }
         return OK;
     }

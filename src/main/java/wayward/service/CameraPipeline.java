@@ -61,24 +61,38 @@ public final class CameraPipeline {
     }
 
     private volatile FrameListener frames;
-    private volatile boolean measure;
+    private volatile double measureFrom = Double.NaN;
+    /** Analysis thread: counting has begun. */
+    private boolean measure;
     private volatile long flowCpu;
     private volatile long zonesCpu;
+    private volatile long analysedBeforeMeasuring = -1;
+    private volatile double streamAtMeasuring = Double.NaN;
     private static final java.lang.management.ThreadMXBean THREADS = java.lang.management.ManagementFactory.getThreadMXBean();
 
     private static long cpu() {
         return THREADS.getCurrentThreadCpuTime();
     }
 
-    /** Before {@link #start}: measure each stage's CPU time (bench). */
-    public void measureStages() {
-        measure = true;
-        source.measureStages();
+    /**
+     * Before {@link #start}: measure each stage's CPU time from stream time {@code fromSeconds} on (bench), each
+     * thread starting its own count when its frames reach that time.
+     */
+    public void measureStages(double fromSeconds) {
+        measureFrom = fromSeconds;
+        source.measureStages(fromSeconds);
     }
 
-    /** CPU nanoseconds per stage so far: decode, downscale, flow, zones and rules (after measureStages). */
-    public long[] stageCpuNanos() {
-        return new long[] {source.decodeCpuNanos(), source.downscaleCpuNanos(), flowCpu, zonesCpu};
+    /**
+     * What was measured since counting began: CPU nanoseconds of decode, downscale, flow, zones and rules, then
+     * frames decoded, frames analysed and stream seconds covered (all 0 before counting began).
+     */
+    public double[] stageFigures() {
+        long before = analysedBeforeMeasuring;
+        double from = streamAtMeasuring;
+        return new double[] {source.decodeCpuNanos(), source.downscaleCpuNanos(), flowCpu, zonesCpu,
+            source.framesMeasured(), before < 0 ? 0 : analysedFrames - before,
+            Double.isNaN(from) ? 0 : lastStreamSeconds - from};
     }
 
     /** Before {@link #start}: every analysed frame also goes to {@code l}. */
@@ -420,6 +434,11 @@ public final class CameraPipeline {
                     flow.reset();
                 }
                 long began = System.nanoTime();
+                if (!measure && t >= measureFrom) {
+                    measure = true;
+                    analysedBeforeMeasuring = analysedFrames;
+                    streamAtMeasuring = Double.isNaN(previous) ? t : previous;
+                }
                 long c0 = measure ? cpu() : 0;
                 boolean estimated = flow.push(f.pixels, field);
                 long c1 = measure ? cpu() : 0;

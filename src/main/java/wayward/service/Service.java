@@ -50,11 +50,11 @@ public final class Service {
     private CameraPipeline.Evidence evidence;
     private CameraPipeline.ReadingListener readingListener;
     private CameraPipeline.FrameListener frameListener;
-    private boolean measureStages;
+    private double measureFrom = Double.NaN;
 
-    /** Before {@link #start}: every camera measures the CPU time of its stages (bench). */
-    public void measureStages() {
-        this.measureStages = true;
+    /** Before {@link #start}: every camera measures the CPU time of its stages from that stream time on (bench). */
+    public void measureStages(double fromSeconds) {
+        this.measureFrom = fromSeconds;
     }
 
     /** Before {@link #start}: every analysed frame of every camera goes to {@code l} (annotated replay). */
@@ -197,8 +197,8 @@ public final class Service {
         if (frameListener != null) {
             p.listenFrames(frameListener);
         }
-        if (measureStages) {
-            p.measureStages();
+        if (!Double.isNaN(measureFrom)) {
+            p.measureStages(measureFrom);
         }
         return p;
     }
