@@ -68,10 +68,8 @@ public final class CameraPipeline {
     private volatile long zonesCpu;
     private volatile long analysedBeforeMeasuring = -1;
     private volatile double streamAtMeasuring = Double.NaN;
-    private static final java.lang.management.ThreadMXBean THREADS = java.lang.management.ManagementFactory.getThreadMXBean();
-
     private static long cpu() {
-        return THREADS.getCurrentThreadCpuTime();
+        return VideoSource.cpu();
     }
 
     /**
