@@ -19,9 +19,10 @@ public final class TamperProbe {
     public static void main(String[] args) throws Exception {
         try (FFmpegFrameGrabber g = new FFmpegFrameGrabber(args[0])) {
             g.setPixelFormat(avutil.AV_PIX_FMT_GRAY8);
-            g.start(); // full size; downscaled by area as the service does
-            wayward.image.AreaDownscaler down = new wayward.image.AreaDownscaler(g.getImageWidth(), g.getImageHeight(), 320, 180);
-            byte[] full = new byte[g.getImageWidth() * g.getImageHeight()];
+            g.setImageWidth(320); // downscaled by swscale's area filter, as the service does
+            g.setImageHeight(180);
+            g.setImageScalingFlags(org.bytedeco.ffmpeg.global.swscale.SWS_AREA);
+            g.start();
             double fps = g.getFrameRate();
             FlowEstimator flow = FlowEstimator.create(320, 180, FlowConfig.DEFAULTS.toSettings());
             FlowField field = flow.newField();
@@ -33,9 +34,8 @@ public final class TamperProbe {
                 ByteBuffer b = (ByteBuffer) frame.image[0];
                 for (int y = 0; y < frame.imageHeight; y++) {
                     b.position(y * frame.imageStride);
-                    b.get(full, y * frame.imageWidth, frame.imageWidth);
+                    b.get(f.pixels, y * frame.imageWidth, frame.imageWidth);
                 }
-                down.downscale(full, 0, frame.imageWidth, f);
                 double t = i++ / fps;
                 if (flow.push(f.pixels, field)) {
                     w.update(f, field, t);
