@@ -7,17 +7,17 @@ import java.util.List;
 import org.slf4j.LoggerFactory;
 
 /** Collects the formatted log lines of one class while a test runs. */
-final class LogCapture implements AutoCloseable {
+public final class LogCapture implements AutoCloseable {
     private final Logger logger;
     private final ListAppender<ILoggingEvent> appender = new ListAppender<>();
 
-    LogCapture(Class<?> source) {
+    public LogCapture(Class<?> source) {
         logger = (Logger) LoggerFactory.getLogger(source);
         appender.start();
         logger.addAppender(appender);
     }
 
-    List<String> lines() {
+    public List<String> lines() {
         synchronized (appender.list) {
             return appender.list.stream().map(e -> e.getLevel() + " " + e.getFormattedMessage()).toList();
         }
