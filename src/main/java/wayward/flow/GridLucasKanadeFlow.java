@@ -354,6 +354,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 final float w10 = (1f - ax) * ay;
                 final float w11 = ax * ay;
                 final int shift = (wy0 - cy) * w + (wx0 - cx);
+                // a single step (the finest level's default) uses these residuals only: nothing to keep
+                final boolean keep = !finest || finestIterations > 1;
                 for (int dy = -r; dy <= r; dy++) {
                     final int row = (cy + dy) * w + cx;
                     for (int dx = -r; dx <= r; dx++) {
@@ -363,9 +365,11 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         final float tv = i0[p];
                         final int q = p + shift;
                         final float d = w00 * i1[q] + w01 * i1[q + 1] + w10 * i1[q + w] + w11 * i1[q + w + 1] - tv;
-                        t[k] = tv;
-                        gx[k] = ix;
-                        gy[k] = iy;
+                        if (keep) {
+                            t[k] = tv;
+                            gx[k] = ix;
+                            gy[k] = iy;
+                        }
                         sx += ix;
                         sy += iy;
                         sxx += ix * ix;
