@@ -132,6 +132,8 @@ public final class TamperWatch {
             height = f.height;
             previous = new byte[width * height];
             blocks = new double[(width / 2) * (height / 2)];
+            centred = new double[blocks.length];
+            centredReference = new double[blocks.length];
             System.arraycopy(f.pixels, 0, previous, 0, previous.length);
             startT = t;
             lastT = t;
@@ -221,6 +223,9 @@ public final class TamperWatch {
     }
 
     private double[] reference;
+    /** Scratch of {@link #register}: the blocks and the reference with their means removed. */
+    private double[] centred;
+    private double[] centredReference;
     private double lastRegistration = Double.NEGATIVE_INFINITY;
 
     /**
@@ -239,6 +244,13 @@ public final class TamperWatch {
         }
         meanNow /= blocks.length;
         meanRef /= blocks.length;
+        // means removed once here rather than in the 169 × 3600-sample search below (the same values)
+        final double[] now = centred;
+        final double[] ref = centredReference;
+        for (int i = 0; i < blocks.length; i++) {
+            now[i] = blocks[i] - meanNow;
+            ref[i] = reference[i] - meanRef;
+        }
         double best = Double.MAX_VALUE;
         int bestX = 0;
         int bestY = 0;
@@ -250,7 +262,7 @@ public final class TamperWatch {
                     int row = y * bw;
                     int refRow = (y + dy) * bw;
                     for (int x = Math.max(0, -dx); x < Math.min(bw, bw - dx); x += 2) {
-                        sum += Math.abs((blocks[row + x] - meanNow) - (reference[refRow + x + dx] - meanRef));
+                        sum += Math.abs(now[row + x] - ref[refRow + x + dx]);
                         n++;
                     }
                 }
