@@ -290,7 +290,6 @@ public final class VideoSource implements Runnable {
         }
         AVCodecContext decoder = null;
         AVFrame frame = null;
-        SwsContext sws = null;
         try {
             grabber.start();
             AVFormatContext fmt = grabber.getFormatContext();
@@ -371,15 +370,16 @@ public final class VideoSource implements Runnable {
                 } finally {
                     av_packet_unref(pkt);
                 }
-                sws = drain(decoder, frame, timeBase, sws);
+                drain(decoder, frame, timeBase);
             }
             if (!stopping) {
                 avcodec_send_packet(decoder, (AVPacket) null);
-                sws = drain(decoder, frame, timeBase, sws);
+                drain(decoder, frame, timeBase);
             }
         } finally {
             if (sws != null) {
                 sws_freeContext(sws);
+                sws = null;
             }
             if (frame != null) {
                 av_frame_free(frame);
@@ -422,8 +422,7 @@ public final class VideoSource implements Runnable {
         return raw - firstSeconds + offsetSeconds;
     }
 
-    private SwsContext drain(AVCodecContext decoder, AVFrame frame, double timeBase, SwsContext sws)
-            throws InterruptedException {
+    private void drain(AVCodecContext decoder, AVFrame frame, double timeBase) throws InterruptedException {
         while (true) {
             long c0 = measure ? cpu() : 0;
             int got = avcodec_receive_frame(decoder, frame);
@@ -431,13 +430,13 @@ public final class VideoSource implements Runnable {
                 decodeCpu += cpu() - c0;
             }
             if (got != 0) {
-                return sws;
+                return;
             }
-            sws = onFrame(frame, timeBase, sws);
+            onFrame(frame, timeBase);
         }
     }
 
-    private SwsContext onFrame(AVFrame f, double timeBase, SwsContext sws) throws InterruptedException {
+    private void onFrame(AVFrame f, double timeBase) throws InterruptedException {
         long ts = f.best_effort_timestamp();
         if (ts == AV_NOPTS_VALUE) {
             ts = f.pts();
@@ -487,14 +486,14 @@ public final class VideoSource implements Runnable {
         }
         double interval = 1.0 / options.analysisFps();
         if (t + 1e-6 < nextDue) {
-            return sws;
+            return;
         }
         nextDue = Math.max(nextDue + interval, t + interval * 0.5);
         int w = f.width();
         int h = f.height();
         if (w < 2 || h < 2) {
             decodeErrors++;
-            return sws;
+            return;
         }
         long c0 = measure ? cpu() : 0;
         if (outWidth == 0) {
@@ -506,11 +505,13 @@ public final class VideoSource implements Runnable {
         // swscale's area filter shrinks straight to analysis size, natively; for formats whose plane 0 is luma
         // that plane is read as a gray picture (no chroma is touched), others are converted
         int format = isPlanarLuma(f.format()) ? AV_PIX_FMT_GRAY8 : f.format();
+        // (on failure the old context is freed and null returned: the field must follow at once)
         sws = sws_getCachedContext(sws, w, h, format, ow, oh, AV_PIX_FMT_GRAY8, SWS_AREA,
                 null, null, (DoublePointer) null);
         if (sws == null) {
-            throw new IllegalStateException("cannot convert pixel format " + f.format() + " (" + w + "x" + h
-                    + ") to gray");
+            BytePointer name = org.bytedeco.ffmpeg.global.avutil.av_get_pix_fmt_name(f.format());
+            throw new IllegalStateException("cannot convert pixel format " + (name == null ? "#" + f.format()
+                    : name.getString()) + " (" + w + "x" + h + ") to gray");
         }
         int stride = (ow + 31) & ~31;
         ensureGrayNative(stride, oh);
@@ -530,9 +531,10 @@ public final class VideoSource implements Runnable {
         out.streamSeconds = t;
         out.frameIndex = index;
         slot.publish();
-        return sws;
     }
 
+    /** The shrink to analysis size; capture thread only, freed at the end of each pass. */
+    private SwsContext sws;
     private BytePointer grayNative;
     private PointerPointer<BytePointer> grayPlanes;
     private IntPointer grayStrides;
