@@ -1,0 +1,117 @@
+package wayward.rule;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.time.Clock;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+import org.junit.jupiter.api.Test;
+import wayward.event.Event;
+import wayward.event.EventKind;
+import wayward.flow.FlowField;
+import wayward.image.GrayFrame;
+
+/**
+ * The moved-camera check against pictures shifted by a known whole number of pixels (the truth is the shift
+ * the test applies): a scene with texture at every scale, 10 frames a second with fresh sensor noise in each,
+ * cut from a larger canvas at an offset that jumps once.
+ */
+class TamperWatchTest {
+    private static final int W = 320;
+    private static final int H = 180;
+    private static final int MARGIN = 24;
+
+    private static int[] canvas() {
+        SplittableRandom r = new SplittableRandom(7);
+        int cw = W + 2 * MARGIN;
+        int ch = H + 2 * MARGIN;
+        int[] c = new int[cw * ch];
+        // blobs of several sizes on a gradient, like parked trailers, lane marks and gravel
+        for (int y = 0; y < ch; y++) {
+            for (int x = 0; x < cw; x++) {
+                c[y * cw + x] = 70 + 60 * x / cw + 20 * y / ch;
+            }
+        }
+        for (int i = 0; i < 120; i++) {
+            int bx = r.nextInt(cw);
+            int by = r.nextInt(ch);
+            int size = 2 + r.nextInt(14);
+            int v = r.nextInt(-60, 61);
+            for (int y = Math.max(0, by - size); y < Math.min(ch, by + size); y++) {
+                for (int x = Math.max(0, bx - size); x < Math.min(cw, bx + size); x++) {
+                    c[y * cw + x] += v;
+                }
+            }
+        }
+        return c;
+    }
+
+    /** Runs 4 s at offset (0, 0), then 5 s with the picture's content moved by (dx, dy) pixels. */
+    private static List<Event> run(int dx, int dy, TamperWatch[] watchOut) {
+        int[] c = canvas();
+        int cw = W + 2 * MARGIN;
+        SplittableRandom noise = new SplittableRandom(11);
+        TamperWatch w = new TamperWatch("yard-gate-1", Clock.systemUTC());
+        watchOut[0] = w;
+        FlowField field = new FlowField(W, H, 4);
+        GrayFrame f = new GrayFrame(W, H);
+        List<Event> events = new ArrayList<>();
+        for (int i = 0; i < 90; i++) {
+            double t = i / 10.0;
+            // content moved right by dx: the camera now sees at x what was at x - dx
+            int ox = MARGIN - (t >= 4 ? dx : 0);
+            int oy = MARGIN - (t >= 4 ? dy : 0);
+            for (int y = 0; y < H; y++) {
+                for (int x = 0; x < W; x++) {
+                    int v = c[(y + oy) * cw + x + ox] + noise.nextInt(-3, 4);
+                    f.pixels[y * W + x] = (byte) Math.max(0, Math.min(255, v));
+                }
+            }
+            w.update(f, field, t);
+            for (Event e; (e = w.poll()) != null; ) {
+                events.add(e);
+            }
+        }
+        return events;
+    }
+
+    /** Starts of camera_moved (each ends 2 s later: the new position becomes the reference). */
+    private static List<Event> moved(List<Event> events) {
+        return events.stream().filter(e -> e.kind() == EventKind.CAMERA_MOVED && e.phase() == Event.Phase.START)
+                .toList();
+    }
+
+    @Test
+    void aStillCameraIsNotMoved() {
+        TamperWatch[] w = new TamperWatch[1];
+        List<Event> events = run(0, 0, w);
+        assertEquals(List.of(), events);
+        assertEquals(0.0, w[0].figures()[4], 1e-9);
+    }
+
+    @Test
+    void findsKnownShiftsAcrossTheSearchRange() {
+        // shifts in pixels; the search works in 2×2 blocks up to ±6 (±12 px)
+        int[][] shifts = {{4, 0}, {0, -6}, {-8, 4}, {10, 10}, {-12, -2}, {6, -12}};
+        for (int[] s : shifts) {
+            TamperWatch[] w = new TamperWatch[1];
+            List<Event> events = moved(run(s[0], s[1], w));
+            assertEquals(1, events.size(), "shift " + s[0] + "," + s[1] + ": " + events);
+            Event e = events.get(0);
+            // held 1.5 s from the first registration after the jump at 4.0 s
+            assertTrue(e.streamSeconds() >= 5.5 && e.streamSeconds() <= 6.5, "start at " + e.streamSeconds());
+            double want = wayward.zone.ZoneMeter.bearingDeg(s[0], s[1]);
+            double diff = Math.abs(((e.headingDeg() - want) % 360 + 540) % 360 - 180);
+            assertTrue(diff < 1e-6, "shift " + s[0] + "," + s[1] + ": heading " + e.headingDeg() + ", want " + want);
+        }
+    }
+
+    @Test
+    void aShiftUnderThreePixelsIsShakeNotAMove() {
+        TamperWatch[] w = new TamperWatch[1];
+        assertEquals(List.of(), moved(run(2, 0, w)));
+        assertEquals(List.of(), moved(run(-2, 2, w)));
+    }
+}
