@@ -104,9 +104,11 @@ public final class Main {
                 "",
                 "Runs N cameras (default 1) on the same file at full speed, every frame decoded and analysed at the",
                 "analysis rate, and prints per camera the CPU time of each stage (decode; luma and downscale; flow;",
-                "zones and rules), the CPU a second of video costs, and its ratio to the bare decode cost. With",
-                "--config, the first camera's zones and settings are used; without, one zone over the middle of the",
-                "picture with the default settings. CPU times are the threads' own (ThreadMXBean)."));
+                "zones and rules), the CPU a second of video costs, and its ratio to the decode stage (which skips",
+                "H.264's deblocking filter; `ffmpeg -threads 1 -benchmark -i VIDEO -f null -` shows a full decode).",
+                "The first 5 s of stream are JIT warm-up and not counted. With --config, the first camera's zones",
+                "and settings are used; without, one zone over the middle of the picture with the default",
+                "settings. CPU times are the threads' own (ThreadMXBean)."));
         COMMAND_HELP.put("flow", String.join("\n",
                 "usage: java -jar wayward.jar flow --input A.png --input B.png --output OUT.flo [--picture OUT.png]",
                 "       java -jar wayward.jar flow --input VIDEO --at SECONDS --output OUT.flo [--picture OUT.png]",
