@@ -136,6 +136,7 @@ public final class TamperWatch {
             centredReference = new double[blocks.length];
             coarse = new double[(width / 4) * (height / 4)];
             coarseReference = new double[coarse.length];
+            reference = null; // a new size starts a new reference
             System.arraycopy(f.pixels, 0, previous, 0, previous.length);
             startT = t;
             lastT = t;
@@ -180,7 +181,7 @@ public final class TamperWatch {
         frozen.update(noisyCamera && mostlyStill && !flat && !blocked.active()
                 && t - stillSince + 1e-9 >= FROZEN_SECONDS - 1, stillness < 0.3, t, Double.NaN);
         if (reference == null) {
-            reference = blocks.clone(); // once per resolution
+            reference = blocks.clone(); // once per size
         } else if (!flat && t - lastRegistration + 1e-9 >= 0.5) {
             lastRegistration = t;
             register();

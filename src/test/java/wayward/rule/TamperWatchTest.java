@@ -114,4 +114,28 @@ class TamperWatchTest {
         assertEquals(List.of(), moved(run(2, 0, w)));
         assertEquals(List.of(), moved(run(-2, 2, w)));
     }
+
+    @Test
+    void aPictureOfAnotherSizeStartsAfresh() {
+        // a camera switched to a smaller stream mid-run: the registration must not compare across sizes
+        TamperWatch w = new TamperWatch("yard-gate-1", Clock.systemUTC());
+        SplittableRandom r = new SplittableRandom(3);
+        List<Event> events = new ArrayList<>();
+        int[][] sizes = {{W, H}, {160, 120}};
+        double t = 0;
+        for (int[] size : sizes) {
+            GrayFrame f = new GrayFrame(size[0], size[1]);
+            FlowField field = new FlowField(size[0], size[1], 4);
+            for (int i = 0; i < 40; i++, t += 0.1) {
+                for (int p = 0; p < f.pixels.length; p++) {
+                    f.pixels[p] = (byte) (80 + (p % size[0]) / 3 + r.nextInt(-3, 4));
+                }
+                w.update(f, field, t);
+                for (Event e; (e = w.poll()) != null; ) {
+                    events.add(e);
+                }
+            }
+        }
+        assertEquals(List.of(), moved(events));
+    }
 }
