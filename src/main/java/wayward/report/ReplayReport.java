@@ -161,22 +161,25 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
             IntervalMarker m = new IntervalMarker(span[0], end, new Color(255, 200, 0, 70));
             plot.addDomainMarker(m);
         }
-        ValueMarker onset = new ValueMarker(s.zone.rule().onsetLevel(), new Color(0x444444),
-                new BasicStroke(1.2f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 1f, new float[] {6f, 4f}, 0f));
-        onset.setLabel("onset level " + s.zone.rule().onsetLevel());
-        onset.setLabelAnchor(org.jfree.chart.ui.RectangleAnchor.TOP_RIGHT);
-        onset.setLabelTextAnchor(org.jfree.chart.ui.TextAnchor.BOTTOM_RIGHT);
-        plot.addRangeMarker(onset);
-        ValueMarker release = new ValueMarker(s.zone.rule().releaseLevel(), new Color(0x888888),
-                new BasicStroke(1f, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 1f, new float[] {2f, 3f}, 0f));
-        release.setLabel("release level " + s.zone.rule().releaseLevel());
-        release.setLabelAnchor(org.jfree.chart.ui.RectangleAnchor.BOTTOM_RIGHT);
-        release.setLabelTextAnchor(org.jfree.chart.ui.TextAnchor.TOP_RIGHT);
-        plot.addRangeMarker(release);
+        plot.addRangeMarker(level("onset level", s.zone.rule().onsetLevel(), 0x444444, 1.2f, new float[] {6f, 4f},
+                true));
+        plot.addRangeMarker(level("release level", s.zone.rule().releaseLevel(), 0x888888, 1f, new float[] {2f, 3f},
+                false));
         JFreeChart chart = new JFreeChart("camera " + s.camera.id() + ", zone " + s.zone.id()
                 + (s.zone.hasHeading() ? ", heading " + s.zone.headingDeg() + "°" : ""), JFreeChart.DEFAULT_TITLE_FONT,
                 plot, true);
         chart.setBackgroundPaint(Color.WHITE);
         return chart;
+    }
+
+    /** A dashed horizontal line at a rule level, labelled at the right: above the line, or below it. */
+    private static ValueMarker level(String name, double value, int grey, float width, float[] dash, boolean above) {
+        ValueMarker m = new ValueMarker(value, new Color(grey),
+                new BasicStroke(width, BasicStroke.CAP_BUTT, BasicStroke.JOIN_MITER, 1f, dash, 0f));
+        m.setLabel(name + " " + value);
+        m.setLabelAnchor(above ? org.jfree.chart.ui.RectangleAnchor.TOP_RIGHT
+                : org.jfree.chart.ui.RectangleAnchor.BOTTOM_RIGHT);
+        m.setLabelTextAnchor(above ? org.jfree.chart.ui.TextAnchor.BOTTOM_RIGHT : org.jfree.chart.ui.TextAnchor.TOP_RIGHT);
+        return m;
     }
 }
