@@ -327,6 +327,9 @@ public final class VideoSource implements Runnable {
                 clips.onStream(stream.codecpar(), stream.time_base(), 1.0 / nominalFrameSeconds);
             }
             frame = av_frame_alloc();
+            // views of the frame's own plane and stride arrays, valid while it lives: no wrapper per picture
+            framePlanes = frame.data();
+            frameStrides = frame.linesize();
             untimedStartNanos = 0;
             boolean keySeen = false;
             lastFrameNanos = System.nanoTime();
@@ -515,7 +518,7 @@ public final class VideoSource implements Runnable {
         }
         int stride = (ow + 31) & ~31;
         ensureGrayNative(stride, oh);
-        sws_scale(sws, f.data(), f.linesize(), 0, h, grayPlanes, grayStrides);
+        sws_scale(sws, framePlanes, frameStrides, 0, h, grayPlanes, grayStrides);
         GrayFrame out = slot.writable(ow, oh);
         if (stride == ow) {
             grayNative.position(0).get(out.pixels, 0, ow * oh);
@@ -535,6 +538,9 @@ public final class VideoSource implements Runnable {
 
     /** The shrink to analysis size; capture thread only, freed at the end of each pass. */
     private SwsContext sws;
+    /** The decoded frame's plane pointers and line sizes (views into the AVFrame of the current pass). */
+    private PointerPointer<?> framePlanes;
+    private IntPointer frameStrides;
     private BytePointer grayNative;
     private PointerPointer<BytePointer> grayPlanes;
     private IntPointer grayStrides;
