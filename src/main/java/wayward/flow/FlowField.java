@@ -25,6 +25,19 @@ public final class FlowField {
      */
     public final float[] confidence;
     /**
+     * Largest eigenvalue of the same tensor, (grey levels per pixel)²: large on any edge or texture. A sample
+     * whose {@link #confidence} is low but whose {@code edge} is high lies on a straight edge: there the flow's
+     * component across the edge (along {@link #normalX}, {@link #normalY}) is measured, the component along the
+     * edge is not (the aperture problem).
+     */
+    public final float[] edge;
+    /**
+     * Unit vector of the window's strongest gradient direction (the edge normal), sign arbitrary; (0, 0) where
+     * the window has no gradient.
+     */
+    public final float[] normalX;
+    public final float[] normalY;
+    /**
      * Dominant motion of the whole picture (median over confident samples), pixels per frame pair: the camera's
      * own shake or drift. Written with every estimate.
      */
@@ -52,6 +65,57 @@ public final class FlowField {
         this.u = new float[width * height];
         this.v = new float[width * height];
         this.confidence = new float[width * height];
+        this.edge = new float[width * height];
+        this.normalX = new float[width * height];
+        this.normalY = new float[width * height];
+    }
+
+    /** Copies every sample and the dominant motion of a field of the same layout; allocates nothing. */
+    public void copyFrom(FlowField o) {
+        if (o.imageWidth != imageWidth || o.imageHeight != imageHeight || o.stride != stride) {
+            throw new IllegalArgumentException("field: " + o.imageWidth + "x" + o.imageHeight + " every " + o.stride
+                    + " px (expected " + imageWidth + "x" + imageHeight + " every " + stride + " px)");
+        }
+        System.arraycopy(o.u, 0, u, 0, u.length);
+        System.arraycopy(o.v, 0, v, 0, v.length);
+        System.arraycopy(o.confidence, 0, confidence, 0, confidence.length);
+        System.arraycopy(o.edge, 0, edge, 0, edge.length);
+        System.arraycopy(o.normalX, 0, normalX, 0, normalX.length);
+        System.arraycopy(o.normalY, 0, normalY, 0, normalY.length);
+        globalU = o.globalU;
+        globalV = o.globalV;
+    }
+
+    /**
+     * Writes the eigen-analysis of a window's mean structure tensor [[a, b], [b, c]] into sample {@code i}:
+     * {@link #confidence} (smallest eigenvalue), {@link #edge} (largest) and the unit normal of the largest.
+     */
+    public void setTensor(int i, float a, float b, float c) {
+        final float half = 0.5f * (a - c);
+        final float mean = 0.5f * (a + c);
+        final float root = (float) Math.sqrt(half * half + b * b);
+        final float small = mean - root;
+        confidence[i] = small > 0f ? small : 0f;
+        edge[i] = mean + root > 0f ? mean + root : 0f;
+        // eigenvector of the largest eigenvalue: (half + root, b) or (b, root - half), whichever is longer
+        float nx;
+        float ny;
+        if (half >= 0f) {
+            nx = half + root;
+            ny = b;
+        } else {
+            nx = b;
+            ny = root - half;
+        }
+        final float len2 = nx * nx + ny * ny;
+        if (len2 > 1e-20f) {
+            final float inv = (float) (1.0 / Math.sqrt(len2));
+            normalX[i] = nx * inv;
+            normalY[i] = ny * inv;
+        } else {
+            normalX[i] = 0f;
+            normalY[i] = 0f;
+        }
     }
 
     /** Samples along a side of {@code size} pixels: positions stride/2, stride/2 + stride, ... up to size − 1. */
@@ -93,6 +157,11 @@ public final class FlowField {
                 d.u[o] = lerp2(u, j0, j1, i0, i1, wx, wy);
                 d.v[o] = lerp2(v, j0, j1, i0, i1, wx, wy);
                 d.confidence[o] = lerp2(confidence, j0, j1, i0, i1, wx, wy);
+                d.edge[o] = lerp2(edge, j0, j1, i0, i1, wx, wy);
+                // the nearest sample's normal (normals do not interpolate)
+                int near = (wy < 0.5f ? j0 : j1) * width + (wx < 0.5f ? i0 : i1);
+                d.normalX[o] = normalX[near];
+                d.normalY[o] = normalY[near];
             }
         }
         return d;

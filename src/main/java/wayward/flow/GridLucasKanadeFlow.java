@@ -40,6 +40,10 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[][] gridU;
     private final float[][] gridV;
     private final float[][] gridConfidence;
+    /** The finest level's mean-free structure tensor per grid point (a, b, c of [[a, b], [b, c]]). */
+    private final float[] tensorA;
+    private final float[] tensorB;
+    private final float[] tensorC;
     // per level: where each grid column / row of this level falls on the next coarser level's grid
     private final int[][] initCol;
     private final float[][] initColWeight;
@@ -105,6 +109,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             w = Math.max(1, w / 2);
             h = Math.max(1, h / 2);
         }
+        tensorA = new float[gridU[0].length];
+        tensorB = new float[gridU[0].length];
+        tensorC = new float[gridU[0].length];
         initCol = new int[levelCount][];
         initColWeight = new float[levelCount][];
         initRow = new int[levelCount][];
@@ -234,7 +241,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         }
         System.arraycopy(gridU[0], 0, out.u, 0, out.u.length);
         System.arraycopy(gridV[0], 0, out.v, 0, out.v.length);
-        System.arraycopy(gridConfidence[0], 0, out.confidence, 0, out.confidence.length);
+        for (int g = 0; g < out.u.length; g++) {
+            out.setTensor(g, tensorA[g], tensorB[g], tensorC[g]);
+        }
         globalMotion.measure(out);
     }
 
@@ -431,6 +440,11 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float half = 0.5f * (cxx - cyy) * invN;
         final float e = 0.5f * (cxx + cyy) * invN - (float) Math.sqrt(half * half + cxy * cxy * invN * invN);
         gc[g] = e > 0f ? e : 0f;
+        if (finest) {
+            tensorA[g] = cxx * invN;
+            tensorB[g] = cxy * invN;
+            tensorC[g] = cyy * invN;
+        }
         final float a = cxx + lambda;
         final float c = cyy + lambda;
         final float det = a * c - cxy * cxy;

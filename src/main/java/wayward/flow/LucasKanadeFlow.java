@@ -122,7 +122,7 @@ public final class LucasKanadeFlow extends PyramidFlowEstimator {
         final Level fine = levels[0];
         System.arraycopy(fine.u, 0, out.u, 0, fine.u.length);
         System.arraycopy(fine.v, 0, out.v, 0, fine.v.length);
-        smallestEigenvalue(fine, out.confidence);
+        tensors(fine, out);
         globalMotion.measure(out);
     }
 
@@ -254,17 +254,12 @@ public final class LucasKanadeFlow extends PyramidFlowEstimator {
         }
     }
 
-    private void smallestEigenvalue(Level lv, float[] out) {
+    private void tensors(Level lv, FlowField out) {
         final int side = 2 * radius + 1;
         final float norm = 1f / (side * side);
         final int n = lv.w * lv.h;
         for (int i = 0; i < n; i++) {
-            final float a = lv.gxx[i] * norm;
-            final float b = lv.gxy[i] * norm;
-            final float c = lv.gyy[i] * norm;
-            final float half = 0.5f * (a - c);
-            final float e = 0.5f * (a + c) - (float) Math.sqrt(half * half + b * b);
-            out[i] = e > 0f ? e : 0f;
+            out.setTensor(i, lv.gxx[i] * norm, lv.gxy[i] * norm, lv.gyy[i] * norm);
         }
     }
 

@@ -48,11 +48,7 @@ public final class LiveView {
             if (field == null || field.width != fl.width || field.height != fl.height || field.stride != fl.stride) {
                 field = new FlowField(fl.imageWidth, fl.imageHeight, fl.stride);
             }
-            System.arraycopy(fl.u, 0, field.u, 0, fl.u.length);
-            System.arraycopy(fl.v, 0, field.v, 0, fl.v.length);
-            System.arraycopy(fl.confidence, 0, field.confidence, 0, fl.confidence.length);
-            field.globalU = fl.globalU;
-            field.globalV = fl.globalV;
+            field.copyFrom(fl);
             dt = frameSeconds;
             copies++;
             lastCopy = now;

@@ -103,7 +103,12 @@ class LucasKanadeFlowTest {
         LucasKanadeFlow flow = new LucasKanadeFlow(W, H, FlowSettings.defaults());
         FlowField f = new FlowField(W, H);
         flow.compute(edge, edge, f);
-        assertEquals(0f, f.confidence[(H / 2) * W + W / 2], 1e-3f);
+        int centre = (H / 2) * W + W / 2;
+        assertEquals(0f, f.confidence[centre], 1e-3f);
+        // but the edge itself is strong, and its normal is horizontal: the gradient points across the edge
+        assertTrue(f.edge[centre] > 100, "edge " + f.edge[centre]);
+        assertEquals(1f, Math.abs(f.normalX[centre]), 1e-4f);
+        assertEquals(0f, f.normalY[centre], 1e-4f);
     }
 
     @Test
