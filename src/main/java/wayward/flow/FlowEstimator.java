@@ -17,6 +17,17 @@ public interface FlowEstimator extends AutoCloseable {
      */
     boolean push(byte[] frame, FlowField out);
 
+    /**
+     * The flow from {@code first} to {@code second} at every pixel, for pictures, files and benchmarks (not the
+     * analysis loop: allocates a new field). Estimators that solve on a grid fill in the pixels between their
+     * points in the way that suits them; by default, bilinear interpolation ({@link FlowField#toDense()}).
+     */
+    default FlowField computeDense(byte[] first, byte[] second) {
+        FlowField grid = newField();
+        compute(first, second, grid);
+        return grid.toDense();
+    }
+
     /** Drops the stored frame (after a gap); the next {@link #push} starts afresh. */
     void reset();
 

@@ -25,7 +25,7 @@ public record FlowSettings(int levels, int iterations, int finestIterations, int
     public static FlowSettings defaults() {
         // measured on the accuracy suite (DEVELOPERS.md): a single step on the full-size level and a sparser
         // grid on the coarse levels are both faster and, with sensor noise, more accurate than more work
-        return new FlowSettings(0, 3, 1, 2, 1.0f, 4, 8, 1);
+        return new FlowSettings(0, 3, 1, 2, 1.0f, 4, 4, 1);
     }
 
     public FlowSettings withStride(int newStride, int newCoarseStride) {

@@ -8,9 +8,17 @@ package wayward.flow;
  * the window the brightness difference is taken about its mean, so a change of light between frames does not
  * read as motion (the offset is solved for and eliminated). The confidence is the smallest eigenvalue of the
  * window's mean-free structure tensor (Shi &amp; Tomasi 1994). Iterations stop early once a step is below
- * 1/20 pixel. After each level the grid is smoothed, each point weighted by its confidence, so points on flat
- * ground or straight edges (where a window alone cannot tell the motion) take their textured neighbours'
- * motion. The pyramid is low-passed before each halving so fine texture does not alias on coarse levels.
+ * 1/20 pixel. The pyramid is low-passed before each halving so fine texture does not alias on coarse levels.
+ *
+ * <p>Small movers over still ground. Where the coarser level's neighbours disagree (a motion boundary), a point
+ * starts from whichever of them, their blend, or no motion explains its window best, instead of from a blend
+ * that belongs to neither side. After each level a fill runs: a point with texture and a small residual keeps
+ * its motion, averaged only with neighbours that move alike (so sensor noise is smoothed but a boundary is not
+ * crossed); any other point (flat ground, a straight edge, a window across a boundary) takes the least-squares
+ * motion of its own and its neighbours' structure tensors, each neighbour weighted by how alike the windows'
+ * brightness is. An edge's tensor constrains only the motion across it, so an edge point keeps its own normal
+ * motion and borrows the rest, and a plain surface framed by edges of several directions takes the full motion
+ * of its rim; the support a filled point gathered passes on, weakened, to the next point inwards.
  *
  * <p>The work per frame is about (pixels / stride²) × window area × iterations, instead of pixels × window
  * area. The result is the grid itself ({@link FlowField} with this stride); {@link FlowField#toDense()}
@@ -40,10 +48,24 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[][] gridU;
     private final float[][] gridV;
     private final float[][] gridConfidence;
-    /** The finest level's mean-free structure tensor per grid point (a, b, c of [[a, b], [b, c]]). */
-    private final float[] tensorA;
-    private final float[] tensorB;
-    private final float[] tensorC;
+    /** Per level and grid point: the window's mean-free structure tensor [[a, b], [b, c]] per window pixel. */
+    private final float[][] gridA;
+    private final float[][] gridB;
+    private final float[][] gridC;
+    /**
+     * Per level and grid point, during the fill: the support of the current motion, a tensor like the data's
+     * (current and next pass, swapped like gridU/smoothU).
+     */
+    private final float[][] supportA;
+    private final float[][] supportB;
+    private final float[][] supportC;
+    private final float[][] nextA;
+    private final float[][] nextB;
+    private final float[][] nextC;
+    /** Per level and grid point: the window's residual after its last step, per pixel, grey levels². */
+    private final float[][] gridResidual;
+    /** Per level and grid point: the window's mean brightness in the earlier frame, grey levels. */
+    private final float[][] gridMean;
     // per level: where each grid column / row of this level falls on the next coarser level's grid
     private final int[][] initCol;
     private final float[][] initColWeight;
@@ -109,9 +131,30 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             w = Math.max(1, w / 2);
             h = Math.max(1, h / 2);
         }
-        tensorA = new float[gridU[0].length];
-        tensorB = new float[gridU[0].length];
-        tensorC = new float[gridU[0].length];
+        gridA = new float[levelCount][];
+        gridB = new float[levelCount][];
+        gridC = new float[levelCount][];
+        gridMean = new float[levelCount][];
+        gridResidual = new float[levelCount][];
+        supportA = new float[levelCount][];
+        supportB = new float[levelCount][];
+        supportC = new float[levelCount][];
+        nextA = new float[levelCount][];
+        nextB = new float[levelCount][];
+        nextC = new float[levelCount][];
+        for (int l = 0; l < levelCount; l++) {
+            gridA[l] = new float[gridU[l].length];
+            gridB[l] = new float[gridU[l].length];
+            gridC[l] = new float[gridU[l].length];
+            gridMean[l] = new float[gridU[l].length];
+            gridResidual[l] = new float[gridU[l].length];
+            supportA[l] = new float[gridU[l].length];
+            supportB[l] = new float[gridU[l].length];
+            supportC[l] = new float[gridU[l].length];
+            nextA[l] = new float[gridU[l].length];
+            nextB[l] = new float[gridU[l].length];
+            nextC[l] = new float[gridU[l].length];
+        }
         initCol = new int[levelCount][];
         initColWeight = new float[levelCount][];
         initRow = new int[levelCount][];
@@ -184,8 +227,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private static final int SOLVE = 0;
     private static final int PYRAMID_ROWS = 1;
     private static final int PYRAMID_COLUMNS = 2;
-    private static final int SMOOTH_ROWS = 3;
-    private static final int SMOOTH_COLUMNS = 4;
+    private static final int FILL = 3;
     private int phase;
     private int currentLevel;
     private byte[] pendingFrame;
@@ -227,22 +269,35 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             } else {
                 solveRows(l, 0, gridHeight[l], bands[0]);
             }
-            for (int pass = 0; pass < SMOOTH_PASSES; pass++) {
+            initSupport(l);
+            for (int pass = 0; pass < FILL_PASSES; pass++) {
                 if (shared) {
-                    phase = SMOOTH_ROWS;
-                    pool.runAll();
-                    phase = SMOOTH_COLUMNS;
+                    phase = FILL;
                     pool.runAll();
                 } else {
-                    smoothRows(l, 0, gridHeight[l]);
-                    smoothColumns(l, 0, gridHeight[l]);
+                    fillRows(l, 0, gridHeight[l]);
                 }
+                float[] t = gridU[l];
+                gridU[l] = smoothU[l];
+                smoothU[l] = t;
+                t = gridV[l];
+                gridV[l] = smoothV[l];
+                smoothV[l] = t;
+                t = supportA[l];
+                supportA[l] = nextA[l];
+                nextA[l] = t;
+                t = supportB[l];
+                supportB[l] = nextB[l];
+                nextB[l] = t;
+                t = supportC[l];
+                supportC[l] = nextC[l];
+                nextC[l] = t;
             }
         }
         System.arraycopy(gridU[0], 0, out.u, 0, out.u.length);
         System.arraycopy(gridV[0], 0, out.v, 0, out.v.length);
         for (int g = 0; g < out.u.length; g++) {
-            out.setTensor(g, tensorA[g], tensorB[g], tensorC[g]);
+            out.setTensor(g, gridA[0][g], gridB[0][g], gridC[0][g]);
         }
         globalMotion.measure(out);
     }
@@ -268,11 +323,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         h * b / count, h * (b + 1) / count);
                 break;
             }
-            case SMOOTH_ROWS:
-                smoothRows(l, gridHeight[l] * b / count, gridHeight[l] * (b + 1) / count);
-                break;
             default:
-                smoothColumns(l, gridHeight[l] * b / count, gridHeight[l] * (b + 1) / count);
+                fillRows(l, gridHeight[l] * b / count, gridHeight[l] * (b + 1) / count);
                 break;
         }
     }
@@ -316,11 +368,85 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     final float topV = cv[r0 + c0] + wx * (cv[r0 + c1] - cv[r0 + c0]);
                     final float bottomV = cv[r1 + c0] + wx * (cv[r1 + c1] - cv[r1 + c0]);
                     v0 = scaleY * (topV + wy * (bottomV - topV));
+                    // where the coarse neighbours disagree (a motion boundary), blending them gives a motion that
+                    // belongs to neither side: start from whichever explains this window best instead
+                    float loU = cu[r0 + c0];
+                    float hiU = loU;
+                    float loV = cv[r0 + c0];
+                    float hiV = loV;
+                    for (int q = 1; q < 4; q++) {
+                        final int o = ((q & 2) == 0 ? r0 : r1) + ((q & 1) == 0 ? c0 : c1);
+                        loU = Math.min(loU, cu[o]);
+                        hiU = Math.max(hiU, cu[o]);
+                        loV = Math.min(loV, cv[o]);
+                        hiV = Math.max(hiV, cv[o]);
+                    }
+                    if ((hiU - loU) * scaleX + (hiV - loV) * scaleY > START_SPREAD) {
+                        float best = windowCost(i0, i1, w, h, cx, cy, u0, v0);
+                        // and the still ground's own motion: a fixed camera sees mostly still ground, which the
+                        // coarse level may have dragged along with a mover next to it
+                        final float still = windowCost(i0, i1, w, h, cx, cy, 0f, 0f);
+                        if (still < best) {
+                            best = still;
+                            u0 = 0f;
+                            v0 = 0f;
+                        }
+                        for (int q = 0; q < 4; q++) {
+                            final int o = ((q & 2) == 0 ? r0 : r1) + ((q & 1) == 0 ? c0 : c1);
+                            final float cu0 = scaleX * cu[o];
+                            final float cv0 = scaleY * cv[o];
+                            final float cost = windowCost(i0, i1, w, h, cx, cy, cu0, cv0);
+                            if (cost < best) {
+                                best = cost;
+                                u0 = cu0;
+                                v0 = cv0;
+                            }
+                        }
+                    }
                 }
                 final int g = j * gw + i;
-                solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l == 0);
+                solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l);
             }
         }
+    }
+
+    /** Spread of the coarse neighbours' motion (sum of u and v ranges, pixels) above which starts are compared. */
+    static final float START_SPREAD = 0.5f;
+
+    /**
+     * Sum of squared mean-free differences between the window around (cx, cy) in the earlier frame and the later
+     * frame moved by (u, v), bilinear, borders replicated: how badly that motion explains the window.
+     */
+    private float windowCost(float[] i0, float[] i1, int w, int h, int cx, int cy, float u, float v) {
+        final int r = radius;
+        float fx = cx + u;
+        float fy = cy + v;
+        fx = fx < 0f ? 0f : (fx > w - 1 ? w - 1 : fx);
+        fy = fy < 0f ? 0f : (fy > h - 1 ? h - 1 : fy);
+        final int ix = (int) fx;
+        final int iy = (int) fy;
+        final float ax = fx - ix;
+        final float ay = fy - iy;
+        final float w00 = (1f - ax) * (1f - ay);
+        final float w01 = ax * (1f - ay);
+        final float w10 = (1f - ax) * ay;
+        final float w11 = ax * ay;
+        float sd = 0f;
+        float sdd = 0f;
+        for (int dy = -r; dy <= r; dy++) {
+            final int y = clamp(cy + dy, h) * w;
+            final int y0 = clamp(iy + dy, h) * w;
+            final int y1 = clamp(iy + dy + 1, h) * w;
+            for (int dx = -r; dx <= r; dx++) {
+                final int x0 = clamp(ix + dx, w);
+                final int x1 = clamp(ix + dx + 1, w);
+                final float d = w00 * i1[y0 + x0] + w01 * i1[y0 + x1] + w10 * i1[y1 + x0] + w11 * i1[y1 + x1]
+                        - i0[y + clamp(cx + dx, w)];
+                sd += d;
+                sdd += d * d;
+            }
+        }
+        return sdd - sd * sd / windowPixels;
     }
 
     /**
@@ -329,7 +455,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * inside the picture, the first residuals too, so a single-step solve reads each pixel once.
      */
     private void solvePoint(float[] i0, float[] i1, int w, int h, int cx, int cy, float u0, float v0, Band band,
-            float[] gu, float[] gv, float[] gc, int g, boolean finest) {
+            float[] gu, float[] gv, float[] gc, int g, int l) {
+        final boolean finest = l == 0;
         final int r = radius;
         final int n = windowPixels;
         final float[] t = band.t;
@@ -343,7 +470,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         float sxy = 0f;
         float syy = 0f;
         float sd = 0f;
+        float st = 0f;
         float sxd = 0f;
+        float sdd = 0f;
         float syd = 0f;
         boolean firstResidualsDone = false;
         int k = 0;
@@ -374,6 +503,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         final float tv = i0[p];
                         final int q = p + shift;
                         final float d = w00 * i1[q] + w01 * i1[q + 1] + w10 * i1[q + w] + w11 * i1[q + w + 1] - tv;
+                        st += tv;
                         if (keep) {
                             t[k] = tv;
                             gx[k] = ix;
@@ -386,6 +516,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         syy += iy * iy;
                         sd += d;
                         sxd += ix * d;
+                        sdd += d * d;
                         syd += iy * d;
                         k++;
                     }
@@ -399,6 +530,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         final float ix = 0.5f * (i0[p + 1] - i0[p - 1]);
                         final float iy = 0.5f * (i0[p + w] - i0[p - w]);
                         t[k] = i0[p];
+                        st += t[k];
                         gx[k] = ix;
                         gy[k] = iy;
                         sx += ix;
@@ -421,6 +553,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     final float ix = 0.5f * (i0[row + clamp(x + 1, w)] - i0[row + clamp(x - 1, w)]);
                     final float iy = 0.5f * (i0[down + x] - i0[up + x]);
                     t[k] = i0[row + x];
+                    st += t[k];
                     gx[k] = ix;
                     gy[k] = iy;
                     sx += ix;
@@ -440,16 +573,17 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float half = 0.5f * (cxx - cyy) * invN;
         final float e = 0.5f * (cxx + cyy) * invN - (float) Math.sqrt(half * half + cxy * cxy * invN * invN);
         gc[g] = e > 0f ? e : 0f;
-        if (finest) {
-            tensorA[g] = cxx * invN;
-            tensorB[g] = cxy * invN;
-            tensorC[g] = cyy * invN;
-        }
+        gridA[l][g] = cxx * invN;
+        gridB[l][g] = cxy * invN;
+        gridC[l][g] = cyy * invN;
+        gridMean[l][g] = st * invN;
         final float a = cxx + lambda;
         final float c = cyy + lambda;
         final float det = a * c - cxy * cxy;
         float u = u0;
         float v = v0;
+        // what the window's motion leaves unexplained, per pixel (grey levels²): unknown until residuals are taken
+        float residual = UNKNOWN_RESIDUAL;
         if (det > 1e-3f) {
             final float ia = c / det;
             final float ib = -cxy / det;
@@ -470,6 +604,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     final float w10 = (1f - ax) * ay;
                     final float w11 = ax * ay;
                     sd = 0f;
+                    sdd = 0f;
                     sxd = 0f;
                     syd = 0f;
                     k = 0;
@@ -483,6 +618,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                                 final float d = warped - t[k];
                                 sd += d;
                                 sxd += gx[k] * d;
+                                sdd += d * d;
                                 syd += gy[k] * d;
                                 k++;
                             }
@@ -498,6 +634,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                                 final float d = warped - t[k];
                                 sd += d;
                                 sxd += gx[k] * d;
+                                sdd += d * d;
                                 syd += gy[k] * d;
                                 k++;
                             }
@@ -510,6 +647,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 final float dv = -(ib * bx + ic * by);
                 u += du;
                 v += dv;
+                // the linearised residual after this step: |d|² − bᵀG⁻¹b, mean-free
+                final float left = sdd - sd * sd * invN + bx * du + by * dv;
+                residual = (left > 0f ? left : 0f) * invN;
                 if (du * du + dv * dv < CONVERGED_STEP2) {
                     break;
                 }
@@ -517,100 +657,259 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         }
         gu[g] = u;
         gv[g] = v;
+        gridResidual[l][g] = residual;
     }
 
-    /**
-     * Passes of the confidence-weighted grid smoothing after each level, and the weight of a point's own value
-     * against each neighbour's. Chosen on the OpenCV comparison suite (DEVELOPERS.md): 3 passes with self
-     * weight 3 filled flat areas best (suite mean EPE 0.136 px; 2: 0.138, 4: 0.141).
-     */
-    static final int SMOOTH_PASSES = 3;
+    /** Fill passes after each level: each carries motion one grid point further into flat ground. */
+    static final int FILL_PASSES = 3;
     /** Grid points a level needs before its rows are split into bands. */
     static final int MIN_SHARED_POINTS = 1024;
-    static final float SELF_WEIGHT = 3f;
+    /** Smallest eigenvalue, (grey levels per pixel)², from which a point keeps its own motion untouched. */
+    static final float FILL_KEEP = 4f;
+    /** Weight of a point's own structure tensor against each neighbour's in the fill. */
+    static final float FILL_SELF = 2f;
+    /** Brightness difference, grey levels, at which a neighbour's weight has fallen to a half. */
+    static final float FILL_BRIGHTNESS = 8f;
+    /** Residual per pixel (grey levels²) up to which a textured point keeps its own motion. */
+    static final float FILL_RESIDUAL_KEEP = 30f;
+    /** Residual per pixel (grey levels²) at which a point's weight in the fill halves. */
+    static final float FILL_RESIDUAL = 20f;
+    /** Residual recorded for a window whose motion could not be solved: no weight in the fill. */
+    static final float UNKNOWN_RESIDUAL = 1e6f;
+    /** Motion difference, pixels, at which a textured point's neighbour weight halves. */
+    static final float FILL_ALIKE = 0.25f;
+    /** Share of a filled point's support that it hands on in the next pass. */
+    static final float FILL_DECAY = 0.6f;
+    /** Tensor weight pulling a point towards its own current motion: keeps a point with no support still. */
+    static final float FILL_HOLD = 1e-2f;
 
     /**
-     * Confidence-weighted 3×3 mean of a level's grid: points on flat ground or edges (no confidence) take the
-     * motion of their textured neighbours; textured points keep most of their own.
+     * One fill pass over grid rows [j0, j1) of level l, from gridU/gridV into smoothU/smoothV (the caller swaps).
+     * A point with enough texture ({@link #FILL_KEEP}) keeps its motion: a small mover is not pulled towards the
+     * still ground around it. Any other point takes the motion that best agrees with its own structure tensor and
+     * its 3×3 neighbours' tensors, each neighbour weighted by how alike the two windows' brightness is: the
+     * least-squares combination (Σ wⱼ Gⱼ)⁻¹ Σ wⱼ Gⱼ uⱼ. An edge point's tensor constrains only the motion across
+     * its edge, so a plain surface framed by edges of several directions gets the full motion of its rim, and an
+     * edge point keeps its own motion across the edge while borrowing the part along it.
      */
-    /** First half of a smoothing pass: horizontal 3-sums of c, c·u, c·v for grid rows [j0, j1). */
-    private void smoothRows(int l, int j0, int j1) {
-        final int gw = gridWidth[l];
-        final float[] u = gridU[l];
-        final float[] v = gridV[l];
-        final float[] c = gridConfidence[l];
-        final float[] hc = smoothC;
-        final float[] hu = smoothU[l];
-        final float[] hv = smoothV[l];
-        for (int j = j0; j < j1; j++) {
-            final int row = j * gw;
-            float cPrev = 0f;
-            float uPrev = 0f;
-            float vPrev = 0f;
-            float cHere = c[row];
-            float uHere = cHere * u[row];
-            float vHere = cHere * v[row];
-            for (int i = 0; i < gw; i++) {
-                float cNext = 0f;
-                float uNext = 0f;
-                float vNext = 0f;
-                if (i + 1 < gw) {
-                    cNext = c[row + i + 1];
-                    uNext = cNext * u[row + i + 1];
-                    vNext = cNext * v[row + i + 1];
-                }
-                hc[row + i] = cPrev + cHere + cNext;
-                hu[row + i] = uPrev + uHere + uNext;
-                hv[row + i] = vPrev + vHere + vNext;
-                cPrev = cHere;
-                uPrev = uHere;
-                vPrev = vHere;
-                cHere = cNext;
-                uHere = uNext;
-                vHere = vNext;
-            }
-        }
-    }
-
-    /**
-     * Second half: vertical 3-sums of the row sums and the weighted mean for grid rows [j0, j1), written back
-     * into the grid. Each row reads only its own point's old value, so bands may write back at once.
-     */
-    private void smoothColumns(int l, int j0, int j1) {
+    private void fillRows(int l, int j0, int j1) {
         final int gw = gridWidth[l];
         final int gh = gridHeight[l];
         final float[] u = gridU[l];
         final float[] v = gridV[l];
+        final float[] nu = smoothU[l];
+        final float[] nv = smoothV[l];
         final float[] c = gridConfidence[l];
-        final float[] hc = smoothC;
-        final float[] hu = smoothU[l];
-        final float[] hv = smoothV[l];
-        final float self = SELF_WEIGHT;
+        final float[] ta = supportA[l];
+        final float[] tb = supportB[l];
+        final float[] tc = supportC[l];
+        final float[] na = nextA[l];
+        final float[] nb = nextB[l];
+        final float[] nc = nextC[l];
+        final float decay = FILL_DECAY;
+        final float invAlike = 1f / (FILL_ALIKE * FILL_ALIKE);
+        // on the coarse levels a small mover spans few points and its motion differs from the ground's by little
+        // there: textured points keep their own motion; only the full-size level averages alike neighbours
+        final boolean denoise = l == 0;
+        final float[] mean = gridMean[l];
+        final float[] res = gridResidual[l];
+        final float resKeep = FILL_RESIDUAL_KEEP;
+        final float invRes = 1f / FILL_RESIDUAL;
+        final float keep = FILL_KEEP;
+        final float self = FILL_SELF;
+        final float inv2 = 1f / (FILL_BRIGHTNESS * FILL_BRIGHTNESS);
         for (int j = j0; j < j1; j++) {
-            final int row = j * gw;
-            final int up = j > 0 ? row - gw : -1;
-            final int down = j + 1 < gh ? row + gw : -1;
+            final int jFrom = j > 0 ? j - 1 : 0;
+            final int jTo = j + 1 < gh ? j + 1 : gh - 1;
             for (int i = 0; i < gw; i++) {
-                final int k = row + i;
-                float sc = hc[k];
-                float su = hu[k];
-                float sv = hv[k];
-                if (up >= 0) {
-                    sc += hc[up + i];
-                    su += hu[up + i];
-                    sv += hv[up + i];
+                final int k = j * gw + i;
+                final boolean kept = c[k] >= keep && res[k] <= resKeep;
+                if (kept) {
+                    na[k] = ta[k];
+                    nb[k] = tb[k];
+                    nc[k] = tc[k];
+                    if (!denoise) {
+                        nu[k] = u[k];
+                        nv[k] = v[k];
+                        continue;
+                    }
                 }
-                if (down >= 0) {
-                    sc += hc[down + i];
-                    su += hu[down + i];
-                    sv += hv[down + i];
+                final float m = mean[k];
+                final float ws = self;
+                final float uk = u[k];
+                final float vk = v[k];
+                float a = ws * ta[k] + FILL_HOLD;
+                float b = ws * tb[k];
+                float cc = ws * tc[k] + FILL_HOLD;
+                float ru = a * u[k] + b * v[k];
+                float rv = b * u[k] + cc * v[k];
+                final int iFrom = i > 0 ? i - 1 : 0;
+                final int iTo = i + 1 < gw ? i + 1 : gw - 1;
+                for (int jj = jFrom; jj <= jTo; jj++) {
+                    final int row = jj * gw;
+                    for (int ii = iFrom; ii <= iTo; ii++) {
+                        final int q = row + ii;
+                        if (q == k) {
+                            continue;
+                        }
+                        final float dm = mean[q] - m;
+                        float wq = 1f / (1f + dm * dm * inv2);
+                        if (kept) {
+                            // a textured point averages only with neighbours that move alike: sensor noise is
+                            // smoothed out, a motion boundary is not crossed
+                            final float du = u[q] - uk;
+                            final float dv = v[q] - vk;
+                            final float apart = (du * du + dv * dv) * invAlike;
+                            wq = apart < 4f ? wq / (1f + apart) : 0f;
+                        }
+                        final float qa = wq * ta[q];
+                        final float qb = wq * tb[q];
+                        final float qc = wq * tc[q];
+                        a += qa;
+                        b += qb;
+                        cc += qc;
+                        ru += qa * u[q] + qb * v[q];
+                        rv += qb * u[q] + qc * v[q];
+                    }
                 }
-                final float ws = self * c[k];
-                final float norm = 1f / (ws + sc + 1e-3f);
-                u[k] = (ws * u[k] + su + 1e-3f * u[k]) * norm;
-                v[k] = (ws * v[k] + sv + 1e-3f * v[k]) * norm;
+                final float det = a * cc - b * b;
+                if (det > 1e-12f) {
+                    nu[k] = (cc * ru - b * rv) / det;
+                    nv[k] = (a * rv - b * ru) / det;
+                } else {
+                    nu[k] = u[k];
+                    nv[k] = v[k];
+                }
+                if (!kept) {
+                    // the support found here passes on, weakened, to the points this one fills next
+                    na[k] = decay * a;
+                    nb[k] = decay * b;
+                    nc[k] = decay * cc;
+                }
             }
         }
+    }
+
+    /**
+     * Starting support of level l's points before the fill: the data's structure tensor, weakened where the
+     * window's own motion leaves much unexplained (a window across a motion boundary fits neither side).
+     */
+    private void initSupport(int l) {
+        final float[] ta = gridA[l];
+        final float[] tb = gridB[l];
+        final float[] tc = gridC[l];
+        final float[] res = gridResidual[l];
+        final float[] sa = supportA[l];
+        final float[] sb = supportB[l];
+        final float[] sc = supportC[l];
+        final float invRes = 1f / FILL_RESIDUAL;
+        for (int k = 0; k < ta.length; k++) {
+            final float wk = 1f / (1f + res[k] * invRes);
+            sa[k] = wk * ta[k];
+            sb[k] = wk * tb[k];
+            sc[k] = wk * tc[k];
+        }
+    }
+
+    /** Brightness residual, grey levels, at which a candidate motion's weight in {@link #densify} halves. */
+    static final float DENSE_RESIDUAL = 6f;
+
+    /**
+     * The flow at every pixel of the last pair given to {@link #compute} (not {@link #push}), from its grid {@code grid} (this
+     * estimator's output): each pixel weighs the motions of the four grid points around it by their bilinear
+     * weight and by how well each explains the pixel itself (the later frame moved by that motion against the
+     * earlier one), so a pixel at a motion boundary takes the motion of its own side instead of a blend of both.
+     * For pictures, files and benchmarks, not the analysis loop (reads every pixel). Allocates nothing.
+     */
+    public void densify(FlowField grid, FlowField dense) {
+        if (grid.imageWidth != width || grid.imageHeight != height || grid.stride != stride) {
+            throw new IllegalArgumentException("grid: " + grid.imageWidth + "x" + grid.imageHeight + " every "
+                    + grid.stride + " px (expected this estimator's " + width + "x" + height + " every " + stride + ")");
+        }
+        if (dense.imageWidth != width || dense.imageHeight != height || dense.stride != 1) {
+            throw new IllegalArgumentException("dense: " + dense.imageWidth + "x" + dense.imageHeight + " every "
+                    + dense.stride + " px (expected " + width + "x" + height + " every pixel)");
+        }
+        final float[] i0 = earlier[0];
+        final float[] i1 = later[0];
+        final int w = width;
+        final int h = height;
+        final int gw = grid.width;
+        final int gh = grid.height;
+        final int s = stride;
+        final float inv2 = 1f / (DENSE_RESIDUAL * DENSE_RESIDUAL);
+        for (int y = 0; y < h; y++) {
+            float gyf = (float) (y - s / 2) / s;
+            gyf = gyf < 0 ? 0 : Math.min(gyf, gh - 1);
+            final int j0 = Math.min((int) gyf, Math.max(0, gh - 2));
+            final int j1 = Math.min(j0 + 1, gh - 1);
+            final float by = gyf - j0;
+            for (int x = 0; x < w; x++) {
+                float gxf = (float) (x - s / 2) / s;
+                gxf = gxf < 0 ? 0 : Math.min(gxf, gw - 1);
+                final int c0 = Math.min((int) gxf, Math.max(0, gw - 2));
+                final int c1 = Math.min(c0 + 1, gw - 1);
+                final float bx = gxf - c0;
+                final float t = i0[y * w + x];
+                float sw = 0f;
+                float su = 0f;
+                float sv = 0f;
+                float sc = 0f;
+                float se = 0f;
+                for (int q = 0; q < 4; q++) {
+                    final int g = ((q & 2) == 0 ? j0 : j1) * gw + ((q & 1) == 0 ? c0 : c1);
+                    final float beta = ((q & 2) == 0 ? 1f - by : by) * ((q & 1) == 0 ? 1f - bx : bx);
+                    if (beta <= 0f) {
+                        continue;
+                    }
+                    final float gu = grid.u[g];
+                    final float gv = grid.v[g];
+                    final float r = sample(i1, w, h, x + gu, y + gv) - t;
+                    final float wq = beta / (1f + r * r * inv2);
+                    sw += wq;
+                    su += wq * gu;
+                    sv += wq * gv;
+                    sc += wq * grid.confidence[g];
+                    se += wq * grid.edge[g];
+                }
+                final int o = y * w + x;
+                final float norm = sw > 0f ? 1f / sw : 0f;
+                dense.u[o] = su * norm;
+                dense.v[o] = sv * norm;
+                dense.confidence[o] = sc * norm;
+                dense.edge[o] = se * norm;
+                final int near = (by < 0.5f ? j0 : j1) * gw + (bx < 0.5f ? c0 : c1);
+                dense.normalX[o] = grid.normalX[near];
+                dense.normalY[o] = grid.normalY[near];
+            }
+        }
+        dense.globalU = grid.globalU;
+        dense.globalV = grid.globalV;
+    }
+
+    /** The grid flow of the pair, then {@link #densify}: each pixel takes the motion of its own side. */
+    @Override
+    public FlowField computeDense(byte[] first, byte[] second) {
+        FlowField grid = newField();
+        compute(first, second, grid);
+        FlowField dense = new FlowField(width, height);
+        densify(grid, dense);
+        return dense;
+    }
+
+    /** Bilinear value at a real position, borders replicated. */
+    private static float sample(float[] img, int w, int h, float x, float y) {
+        x = x < 0f ? 0f : (x > w - 1 ? w - 1 : x);
+        y = y < 0f ? 0f : (y > h - 1 ? h - 1 : y);
+        final int ix = (int) x;
+        final int iy = (int) y;
+        final int ix1 = ix + 1 < w ? ix + 1 : ix;
+        final int iy1 = iy + 1 < h ? iy + 1 : iy;
+        final float ax = x - ix;
+        final float ay = y - iy;
+        final float top = img[iy * w + ix] + ax * (img[iy * w + ix1] - img[iy * w + ix]);
+        final float bottom = img[iy1 * w + ix] + ax * (img[iy1 * w + ix1] - img[iy1 * w + ix]);
+        return top + ay * (bottom - top);
     }
 
     private static int clamp(int i, int size) {

@@ -77,9 +77,7 @@ public final class FlowTool {
                     + b.height() + " (expected the same size)");
         }
         FlowEstimator e = FlowEstimator.create(a.width(), a.height(), FlowSettings.defaults());
-        FlowField f = e.newField();
-        e.compute(a.pixels(), b.pixels(), f);
-        return f.toDense();
+        return e.computeDense(a.pixels(), b.pixels());
     }
 
     /** Writes OUT.flo and the picture; returns the largest speed (the legend's rim), pixels per frame pair. */
