@@ -42,6 +42,10 @@ public class FlowBenchmark {
     @Param({"2"})
     public int radius;
 
+    /** Grid spacing on the coarser levels; 0 = the default settings' own. */
+    @Param({"0"})
+    public int coarse;
+
     private FlowEstimator flow;
     private FlowField field;
     private byte[] a;
@@ -56,7 +60,8 @@ public class FlowBenchmark {
         byte[][] ab = BenchFrames.pair(w, h);
         a = ab[0];
         b = ab[1];
-        flow = FlowEstimator.create(w, h, FlowSettings.defaults().withStride(stride, 2 * stride).withIterations(iterations, finest));
+        flow = FlowEstimator.create(w, h, FlowSettings.defaults().withStride(stride,
+                coarse == 0 ? FlowSettings.defaults().coarseStride() : coarse).withIterations(iterations, finest));
         field = flow.newField();
         flow.push(a, field);
     }
