@@ -1,5 +1,8 @@
 package wayward.flow;
 
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -7,6 +10,7 @@ import java.util.Locale;
 import java.util.Map;
 import java.util.SplittableRandom;
 import java.util.TreeMap;
+import java.util.function.Predicate;
 import java.util.function.UnaryOperator;
 import org.bytedeco.opencv.global.opencv_core;
 import org.bytedeco.opencv.opencv_core.Mat;
@@ -38,12 +42,16 @@ import org.bytedeco.opencv.opencv_video.DISOpticalFlow;
  * </ul>
  * Aggregates are plain means over cases (each case weighs the same, whatever the object's size).
  *
- * <p>Run by hand (DEVELOPERS.md, "Benchmarks"); prints Markdown tables:
- * {@code java -cp target/classes:target/test-classes:$(cat target/cp.txt) wayward.flow.ObjectMotionBench [--fast | --every=N]}.
- * {@code --fast} scores every {@value #FAST_EVERY}th case of each half. Methods run on one thread.
+ * <p>Run by hand (DEVELOPERS.md, "Benchmarks"); prints Markdown tables (about 40 s for all 960 cases):
+ * {@code java -cp target/classes:target/test-classes:$(cat target/cp.txt) wayward.flow.ObjectMotionBench
+ * [--fast | --every=N] [--csv=FILE]}, the classpath from {@code mvn -B -q dependency:build-classpath
+ * -Dmdep.outputFile=target/cp.txt -Dmdep.includeScope=test}. {@code --fast} scores every {@value #FAST_EVERY}th
+ * case of each half (about 5 s). Methods run on one thread.
  *
- * <p>From code: {@link #score(FlowSettings, List)} with {@link #cases(Half, int)} scores any settings of
- * wayward's estimator; {@link #score(Method, List, UnaryOperator)} any method.
+ * <p>From code (while changing the estimator): {@code score(settings, fastCases(Half.TUNE)).mean()} or
+ * {@code .by(Group.SIZE)} scores any settings of wayward's estimator ({@link #score(FlowSettings, List)});
+ * {@link #score(FlowEstimator, List)} an estimator built by the caller; {@link #score(Method, List, UnaryOperator)}
+ * any method with any densification. Not thread-safe; allocates freely (test code).
  */
 public final class ObjectMotionBench {
     /** Object sides, pixels. */
@@ -181,6 +189,11 @@ public final class ObjectMotionBench {
             parts.forEach((k, v) -> out.put(labels.get(k), meanOf(v)));
             return out;
         }
+    }
+
+    /** The cases of {@code --fast}: every {@value #FAST_EVERY}th case of a half (69 of 480). */
+    static List<ObjectMotionCase> fastCases(Half half) {
+        return cases(half, FAST_EVERY);
     }
 
     /** Every case of a half, in enumeration order (size, texture, motion, background, noise: innermost last). */
@@ -449,17 +462,21 @@ public final class ObjectMotionBench {
     // ---------------------------------------------------------------------------------------------- report
 
     /**
-     * Prints the tables. Arguments: {@code --fast} (every {@value #FAST_EVERY}th case) or {@code --every=N}.
+     * Prints the tables on stdout. Arguments: {@code --fast} (every {@value #FAST_EVERY}th case) or
+     * {@code --every=N}; {@code --csv=FILE} also writes every case's scores for every method, one line each.
      */
-    public static void main(String[] args) {
+    public static void main(String[] args) throws IOException {
         int every = 1;
+        Path csv = null;
         for (String a : args) {
             if (a.equals("--fast")) {
                 every = FAST_EVERY;
             } else if (a.startsWith("--every=")) {
                 every = Integer.parseInt(a.substring("--every=".length()));
+            } else if (a.startsWith("--csv=")) {
+                csv = Path.of(a.substring("--csv=".length()));
             } else {
-                throw new IllegalArgumentException("argument: " + a + " (expected --fast or --every=N)");
+                throw new IllegalArgumentException("argument: " + a + " (expected --fast, --every=N or --csv=FILE)");
             }
         }
         opencv_core.setNumThreads(1);
@@ -479,6 +496,25 @@ public final class ObjectMotionBench {
         double seconds = (System.nanoTime() - t0) / 1e9;
         System.out.print(report(results, every));
         System.out.printf(Locale.ROOT, "%n%d cases in %.0f s.%n", caseCount, seconds);
+        if (csv != null) {
+            Files.writeString(csv, csv(results));
+        }
+    }
+
+    /** Every case's scores, one line per method and case, with the case's factors. */
+    static String csv(Map<Half, List<Result>> results) {
+        StringBuilder sb = new StringBuilder("method,half,index,background,background_photo,size_px,texture,"
+                + "texture_photo,motion_px,angle_deg,noise_sigma,seed,caught,object_epe_px,ring_epe_px,millis\n");
+        results.values().forEach(list -> list.forEach(r -> r.cases().forEach(c -> {
+            ObjectMotionCase k = c.testCase();
+            sb.append(String.format(Locale.ROOT, "%s,%s,%d,%s,%s,%d,%s,%s,%s,%.1f,%s,%d,%.4f,%.4f,%.4f,%.2f%n",
+                    r.method(), k.half().label, k.index(), k.background().label,
+                    k.backgroundPhoto() == null ? "" : k.backgroundPhoto(), k.sizePx(), k.texture().label,
+                    k.texturePhoto() == null ? "" : k.texturePhoto(), trim(k.motionPx()), k.angleDeg(),
+                    trim(k.noiseSigma()), k.seed(), c.score().caught(), c.score().objectEpe(), c.score().ringEpe(),
+                    c.millis()));
+        })));
+        return sb.toString();
     }
 
     static String report(Map<Half, List<Result>> results, int every) {
@@ -506,20 +542,40 @@ public final class ObjectMotionBench {
         for (Group g : Group.values()) {
             sb.append(breakdown(tune, g));
         }
+        // on grey the ring is featureless (any flow there is a guess), so the photo backgrounds show the
+        // interplay of motion, size and a textured still surround on their own
+        Predicate<ObjectMotionCase> photo = c -> c.background() == ObjectMotionCase.BackgroundKind.PHOTO;
+        sb.append(breakdown(tune, Group.MOTION, photo, "Tune half, photo backgrounds only, by motion"));
+        sb.append(breakdown(tune, Group.SIZE, photo, "Tune half, photo backgrounds only, by size"));
         return sb.toString();
     }
 
     /** A table of one half's results per level of a group; cells "caught / object EPE / ring EPE". */
     static String breakdown(List<Result> results, Group g) {
+        return breakdown(results, g, c -> true, "Tune half by " + g.label);
+    }
+
+    /** The same over the cases that pass {@code filter}. */
+    static String breakdown(List<Result> results, Group g, Predicate<ObjectMotionCase> filter, String title) {
+        List<Result> kept = new ArrayList<>();
+        for (Result r : results) {
+            List<CaseScore> some = new ArrayList<>();
+            for (CaseScore c : r.cases()) {
+                if (filter.test(c.testCase())) {
+                    some.add(c);
+                }
+            }
+            kept.add(new Result(r.method(), some));
+        }
         StringBuilder sb = new StringBuilder();
-        Map<String, Score> first = results.get(0).by(g);
-        sb.append(String.format(Locale.ROOT, "%n#### Tune half by %s (caught / object EPE / ring EPE)%n%n", g.label));
+        Map<String, Score> first = kept.get(0).by(g);
+        sb.append(String.format(Locale.ROOT, "%n#### %s (caught / object EPE / ring EPE)%n%n", title));
         sb.append("| method |");
         first.keySet().forEach(k -> sb.append(' ').append(k).append(" |"));
         sb.append('\n').append("|---|");
         first.keySet().forEach(k -> sb.append("---|"));
         sb.append('\n');
-        for (Result r : results) {
+        for (Result r : kept) {
             sb.append("| ").append(r.method()).append(" |");
             for (Score s : r.by(g).values()) {
                 sb.append(String.format(Locale.ROOT, " %.2f / %.2f / %.2f |", s.caught(), s.objectEpe(), s.ringEpe()));
