@@ -1,0 +1,383 @@
+package wayward.flow;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.HashMap;
+import java.util.Locale;
+import java.util.Map;
+import java.util.SplittableRandom;
+
+/**
+ * One case of the object-motion benchmark ({@link ObjectMotionBench}): a still background of
+ * {@link #WIDTH}×{@link #HEIGHT} pixels with one square object of {@code sizePx} pixels pasted on it in the first
+ * frame and moved by exactly {@code (dx, dy)} pixels in the second.
+ *
+ * <p>Rendering (analytic truth, no resampling of rendered frames): pixel (x, y) covers the unit square
+ * [x − ½, x + ½] × [y − ½, y + ½]. The object occupies the square [ox, ox + s) × [oy, oy + s) in the first frame
+ * (ox, oy real, with a random sub-pixel part) and the same square moved by (dx, dy) in the second. A pixel's value
+ * is {@code (1 − a) · background + ∫ texture} over the part of the pixel the object covers, where {@code a} is
+ * that part's area (exact: both squares are axis-aligned). Plain paint and the rim are integrated exactly; photo
+ * patches (Catmull-Rom bicubic through {@link ImageTexture}) and procedural textures ({@link Textures}) by a 4×4
+ * midpoint rule over the covered part. The texture is defined in the object's own coordinates, so both frames
+ * sample the same continuous object; nothing goes through cv::warpAffine (FLOW-NOTES: it rounds positions to
+ * 1/32 px). Gaussian sensor noise, independent per frame, is added last, then values are rounded to 8 bits.
+ *
+ * <p>Truth: the object's displacement (dx, dy) at every pixel whose centre lies inside the first frame's object
+ * square ({@link Frames#object}), 0 elsewhere. The ring ({@link Frames#ring}) holds the still background around
+ * it: pixels whose centre is within {@link #RING_PX} (Euclidean) of the first frame's square and which the object
+ * touches in neither frame (mixed edge pixels, uncovered and newly occluded pixels are left out).
+ *
+ * @param half          which half of the benchmark the case belongs to
+ * @param index         position of the case in its half's list
+ * @param background    photo or plain grey
+ * @param backgroundPhoto file under {@link ImageTexture#DATA} for a photo background, null for plain
+ * @param sizePx        side of the object's square, pixels
+ * @param texture       what the object is painted with
+ * @param texturePhoto  file under {@link ImageTexture#DATA} for a photo texture, null otherwise
+ * @param motionPx      length of the object's displacement, pixels per frame pair
+ * @param angleDeg      direction of the displacement in image axes (0 = +x, 90 = +y i.e. down the picture)
+ * @param noiseSigma    standard deviation of the sensor noise, grey levels (0 = none)
+ * @param seed          drives every random choice (crop, position, paint, noise)
+ */
+record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind background, String backgroundPhoto,
+        int sizePx, TextureKind texture, String texturePhoto, double motionPx, double angleDeg, double noiseSigma,
+        long seed) {
+    /** Picture size, pixels. */
+    static final int WIDTH = 320;
+    static final int HEIGHT = 240;
+    /** Width of the ring of still background scored around the object, pixels. */
+    static final double RING_PX = 7;
+    /** Smallest distance of the first frame's object from the picture border, pixels. */
+    private static final int MARGIN_PX = 24;
+    /** Midpoint-rule points per axis when integrating a smooth texture over one pixel's covered part. */
+    private static final int QUADRATURE = 4;
+    /** Plain grey background levels are drawn from [base, base + span). */
+    private static final int PLAIN_BACKGROUND_BASE = 90;
+    private static final int PLAIN_BACKGROUND_SPAN = 80;
+    /** Contrast of plain paint against the background under it, grey levels: [min, min + span). */
+    private static final double PAINT_CONTRAST_MIN = 35;
+    private static final double PAINT_CONTRAST_SPAN = 50;
+    /** How much darker the rim is than the paint, grey levels; the rim is 1 to 2 px wide. */
+    private static final double RIM_DARKER = 45;
+    /** Photo patches tried for contrast; the one with the largest standard deviation wins unless one passes. */
+    private static final int PATCH_TRIES = 24;
+    private static final double PATCH_MIN_STD = 20;
+    /** Procedural textures: {@link Textures} (wavelengths 6 to 40 px) squeezed by this factor: 3 to 20 px. */
+    private static final double PROCEDURAL_SQUEEZE = 2;
+
+    /** What the background is. */
+    enum BackgroundKind {
+        PHOTO("photo"), PLAIN("plain");
+
+        final String label;
+
+        BackgroundKind(String label) {
+            this.label = label;
+        }
+    }
+
+    /** What the object is painted with. */
+    enum TextureKind {
+        /** A patch of a real photograph (other photographs than the backgrounds). */
+        PHOTO("photo"),
+        /** Smooth procedural texture: a sum of sinusoids, wavelengths 3 to 20 px. */
+        PROCEDURAL("procedural"),
+        /** One flat grey level. */
+        PLAIN("plain"),
+        /** Flat grey with a darker rim 1 to 2 px wide along its edge, like a van's roof seen from above. */
+        RIM("plain+rim");
+
+        final String label;
+
+        TextureKind(String label) {
+            this.label = label;
+        }
+    }
+
+    /**
+     * A rendered case. Arrays are row-major {@link #WIDTH} × {@link #HEIGHT}, freshly allocated and owned by the
+     * caller.
+     *
+     * @param first  first frame, gray 8-bit
+     * @param second second frame, gray 8-bit
+     * @param object pixels of the object in the first frame (centre inside its square): truth (dx, dy)
+     * @param ring   still background around the object: truth (0, 0)
+     * @param dx     true horizontal displacement of the object, pixels
+     * @param dy     true vertical displacement, pixels (positive = down)
+     */
+    record Frames(byte[] first, byte[] second, boolean[] object, boolean[] ring, double dx, double dy) {
+    }
+
+    /** The object's texture in its own coordinates (u, v) ∈ [0, s)², grey levels. */
+    private interface ObjectTexture {
+        /** Integral of the texture over the rectangle [u0, u1] × [v0, v1] (grey levels × pixels²). */
+        double integral(double u0, double u1, double v0, double v1);
+    }
+
+    private static final Map<String, ImageTexture> PHOTOS = new HashMap<>();
+
+    /** True displacement, pixels. */
+    double dx() {
+        return motionPx * Math.cos(Math.toRadians(angleDeg));
+    }
+
+    double dy() {
+        return motionPx * Math.sin(Math.toRadians(angleDeg));
+    }
+
+    /** Short description for tables and failure messages. */
+    String label() {
+        return String.format(Locale.ROOT, "%s#%d %s %dpx %s %.1fpx@%.0fdeg noise %.1f", half.label, index,
+                background == BackgroundKind.PHOTO ? backgroundPhoto : "plain", sizePx,
+                texture == TextureKind.PHOTO ? "photo " + texturePhoto : texture.label, motionPx, angleDeg, noiseSigma);
+    }
+
+    /** Renders both frames and the masks; deterministic for a given case. Allocates about 2 MB. */
+    Frames render() {
+        SplittableRandom r = new SplittableRandom(seed);
+        Exact e = renderExact(r);
+        SplittableRandom noise1 = r.split();
+        SplittableRandom noise2 = r.split();
+        boolean[] object = new boolean[WIDTH * HEIGHT];
+        boolean[] ring = new boolean[WIDTH * HEIGHT];
+        for (int y = 0; y < HEIGHT; y++) {
+            for (int x = 0; x < WIDTH; x++) {
+                int i = y * WIDTH + x;
+                object[i] = x >= e.ox && x < e.ox + sizePx && y >= e.oy && y < e.oy + sizePx;
+                // distance from the pixel centre to the first frame's square (0 inside)
+                double ex = Math.max(0, Math.max(e.ox - x, x - (e.ox + sizePx)));
+                double ey = Math.max(0, Math.max(e.oy - y, y - (e.oy + sizePx)));
+                ring[i] = e.cover1[i] == 0 && e.cover2[i] == 0 && Math.hypot(ex, ey) <= RING_PX;
+            }
+        }
+        return new Frames(quantise(e.first, noise1), quantise(e.second, noise2), object, ring, dx(), dy());
+    }
+
+    /**
+     * The frames before noise and rounding, with the background and the top-left corner of the first frame's
+     * object (for checks of the rendering itself). Arrays are fresh and owned by the caller.
+     */
+    Exact renderExact() {
+        return renderExact(new SplittableRandom(seed));
+    }
+
+    /**
+     * Frames before noise and rounding (grey levels, row-major), the still background, the area each pixel's
+     * object part covers in either frame (0 to 1) and the object's top-left corner in the first frame (px).
+     */
+    record Exact(double[] first, double[] second, double[] background, double[] cover1, double[] cover2, double ox,
+            double oy) {
+    }
+
+    private Exact renderExact(SplittableRandom r) {
+        double[] bg = backgroundPixels(r);
+        int span = WIDTH - 2 * MARGIN_PX - sizePx;
+        int spanY = HEIGHT - 2 * MARGIN_PX - sizePx;
+        double ox = MARGIN_PX + r.nextInt(span) + r.nextDouble();
+        double oy = MARGIN_PX + r.nextInt(spanY) + r.nextDouble();
+        ObjectTexture tex = objectTexture(r, bg, ox, oy);
+        double[] a = bg.clone();
+        double[] b = bg.clone();
+        double[] cover1 = paste(a, bg, tex, ox, oy);
+        double[] cover2 = paste(b, bg, tex, ox + dx(), oy + dy());
+        return new Exact(a, b, bg, cover1, cover2, ox, oy);
+    }
+
+    private double[] backgroundPixels(SplittableRandom r) {
+        double[] bg = new double[WIDTH * HEIGHT];
+        if (background == BackgroundKind.PLAIN) {
+            java.util.Arrays.fill(bg, PLAIN_BACKGROUND_BASE + r.nextInt(PLAIN_BACKGROUND_SPAN));
+            return bg;
+        }
+        ImageTexture photo = photo(backgroundPhoto, true);
+        int cx = r.nextInt(photo.width() - WIDTH + 1);
+        int cy = r.nextInt(photo.height() - HEIGHT + 1);
+        for (int y = 0; y < HEIGHT; y++) {
+            for (int x = 0; x < WIDTH; x++) {
+                // Catmull-Rom at integer positions returns the stored pixel itself
+                bg[y * WIDTH + x] = photo.at(x + cx, y + cy);
+            }
+        }
+        return bg;
+    }
+
+    private ObjectTexture objectTexture(SplittableRandom r, double[] bg, double ox, double oy) {
+        final int s = sizePx;
+        switch (texture) {
+            case PHOTO: {
+                ImageTexture photo = photo(texturePhoto, false);
+                double bestStd = -1;
+                int bestX = 0;
+                int bestY = 0;
+                for (int t = 0; t < PATCH_TRIES && bestStd < PATCH_MIN_STD; t++) {
+                    int px = r.nextInt(photo.width() - s - 4) + 2;
+                    int py = r.nextInt(photo.height() - s - 4) + 2;
+                    double std = patchStd(photo, px, py, s);
+                    if (std > bestStd) {
+                        bestStd = std;
+                        bestX = px;
+                        bestY = py;
+                    }
+                }
+                final int px = bestX;
+                final int py = bestY;
+                return midpoint((u, v) -> photo.at(px + u, py + v));
+            }
+            case PROCEDURAL: {
+                Textures t = new Textures(r.nextLong(), 12);
+                return midpoint((u, v) -> t.at(PROCEDURAL_SQUEEZE * u, PROCEDURAL_SQUEEZE * v));
+            }
+            case PLAIN: {
+                double paint = paint(r, bg, ox, oy, 0);
+                return (u0, u1, v0, v1) -> paint * (u1 - u0) * (v1 - v0);
+            }
+            case RIM: {
+                double paint = paint(r, bg, ox, oy, RIM_DARKER);
+                double rimLevel = paint - RIM_DARKER;
+                double rim = 1 + r.nextDouble();
+                double inner0 = rim;
+                double inner1 = s - rim;
+                return (u0, u1, v0, v1) -> {
+                    double all = (u1 - u0) * (v1 - v0);
+                    double iu = Math.max(0, Math.min(u1, inner1) - Math.max(u0, inner0));
+                    double iv = Math.max(0, Math.min(v1, inner1) - Math.max(v0, inner0));
+                    double inner = iu * iv;
+                    return paint * inner + rimLevel * (all - inner);
+                };
+            }
+            default:
+                throw new IllegalStateException("texture kind: " + texture);
+        }
+    }
+
+    /**
+     * A plain paint level contrasting with the background under the object by 35 to 85 grey levels, lighter or
+     * darker at random, kept within [10 + floor, 245].
+     */
+    private double paint(SplittableRandom r, double[] bg, double ox, double oy, double floor) {
+        double sum = 0;
+        int n = 0;
+        for (int y = (int) oy; y < oy + sizePx; y++) {
+            for (int x = (int) ox; x < ox + sizePx; x++) {
+                sum += bg[y * WIDTH + x];
+                n++;
+            }
+        }
+        double under = sum / n;
+        double contrast = PAINT_CONTRAST_MIN + PAINT_CONTRAST_SPAN * r.nextDouble();
+        double paint = r.nextBoolean() ? under + contrast : under - contrast;
+        if (paint > 245 || paint < 10 + floor) {
+            paint = paint > under ? under - contrast : under + contrast;
+        }
+        return Math.max(10 + floor, Math.min(245, paint));
+    }
+
+    private static double patchStd(ImageTexture photo, int px, int py, int s) {
+        double sum = 0;
+        double sum2 = 0;
+        for (int y = 0; y < s; y++) {
+            for (int x = 0; x < s; x++) {
+                double v = photo.at(px + x, py + y);
+                sum += v;
+                sum2 += v * v;
+            }
+        }
+        double n = (double) s * s;
+        double mean = sum / n;
+        return Math.sqrt(Math.max(0, sum2 / n - mean * mean));
+    }
+
+    /** Integral of a smooth texture by the midpoint rule on a 4×4 grid over the rectangle. */
+    private static ObjectTexture midpoint(java.util.function.DoubleBinaryOperator f) {
+        return (u0, u1, v0, v1) -> {
+            double du = (u1 - u0) / QUADRATURE;
+            double dv = (v1 - v0) / QUADRATURE;
+            double sum = 0;
+            for (int j = 0; j < QUADRATURE; j++) {
+                double v = v0 + (j + 0.5) * dv;
+                for (int i = 0; i < QUADRATURE; i++) {
+                    sum += f.applyAsDouble(u0 + (i + 0.5) * du, v);
+                }
+            }
+            return sum * du * dv;
+        };
+    }
+
+    /**
+     * Pastes the object with its top-left corner at (ox, oy) into {@code frame} (which holds the background) and
+     * returns the area of each pixel the object covers (0 to 1).
+     */
+    private double[] paste(double[] frame, double[] bg, ObjectTexture tex, double ox, double oy) {
+        double[] cover = new double[WIDTH * HEIGHT];
+        int x0 = Math.max(0, (int) Math.floor(ox - 0.5));
+        int x1 = Math.min(WIDTH - 1, (int) Math.ceil(ox + sizePx + 0.5));
+        int y0 = Math.max(0, (int) Math.floor(oy - 0.5));
+        int y1 = Math.min(HEIGHT - 1, (int) Math.ceil(oy + sizePx + 0.5));
+        for (int y = y0; y <= y1; y++) {
+            double b0 = Math.max(y - 0.5, oy);
+            double b1 = Math.min(y + 0.5, oy + sizePx);
+            if (b1 <= b0) {
+                continue;
+            }
+            for (int x = x0; x <= x1; x++) {
+                double a0 = Math.max(x - 0.5, ox);
+                double a1 = Math.min(x + 0.5, ox + sizePx);
+                if (a1 <= a0) {
+                    continue;
+                }
+                int i = y * WIDTH + x;
+                double area = (a1 - a0) * (b1 - b0);
+                cover[i] = area;
+                frame[i] = (1 - area) * bg[i] + tex.integral(a0 - ox, a1 - ox, b0 - oy, b1 - oy);
+            }
+        }
+        return cover;
+    }
+
+    /** Adds Gaussian noise of σ {@link #noiseSigma} (Box–Muller) and rounds to 8 bits. */
+    private byte[] quantise(double[] frame, SplittableRandom r) {
+        byte[] out = new byte[frame.length];
+        for (int i = 0; i < frame.length; i++) {
+            double v = frame[i];
+            if (noiseSigma > 0) {
+                v += noiseSigma * Math.sqrt(-2 * Math.log(1 - r.nextDouble())) * Math.cos(2 * Math.PI * r.nextDouble());
+            }
+            out[i] = (byte) Math.max(0, Math.min(255, Math.round(v)));
+        }
+        return out;
+    }
+
+    /**
+     * A photograph from Debian's opencv-doc package, loaded once and shrunk by the largest integer factor that
+     * keeps at least {@link #WIDTH}×{@link #HEIGHT} (object textures alike, so a patch shows about as much of its
+     * scene as the background does).
+     *
+     * @throws IllegalStateException naming the package when the file is missing
+     */
+    static synchronized ImageTexture photo(String name, boolean asBackground) {
+        ImageTexture t = PHOTOS.get(name);
+        if (t != null) {
+            return t;
+        }
+        Path file = ImageTexture.DATA.resolve(name);
+        if (!Files.isRegularFile(file)) {
+            throw new IllegalStateException(file + ": missing; the object-motion benchmark needs the photographs of"
+                    + " Debian's opencv-doc package (apt-get install opencv-doc)");
+        }
+        try {
+            ImageTexture full = ImageTexture.load(file, 1);
+            int shrink = Math.max(1, Math.min(full.width() / WIDTH, full.height() / HEIGHT));
+            t = shrink == 1 ? full : ImageTexture.load(file, shrink);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e);
+        }
+        if (asBackground && (t.width() < WIDTH || t.height() < HEIGHT)) {
+            throw new IllegalStateException(file + ": " + t.width() + "x" + t.height() + " (expected at least "
+                    + WIDTH + "x" + HEIGHT + " for a background)");
+        }
+        PHOTOS.put(name, t);
+        return t;
+    }
+}
