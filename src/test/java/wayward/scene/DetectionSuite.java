@@ -78,7 +78,7 @@ public final class DetectionSuite {
     }
 
     public static List<Path> scenarios(Path suiteDir) throws IOException {
-        try (Stream<Path> s = Files.list(suiteDir)) {
+        try (Stream<Path> s = Files.walk(suiteDir)) {
             return s.filter(p -> p.getFileName().toString().endsWith(".scene.toml")).sorted().toList();
         }
     }
