@@ -120,7 +120,11 @@ public final class WrongWayRule {
                     continue;
                 }
                 int j = member(m.id(k));
-                if (j < 0 && qualifies(m, k) && ridesWithMember(m, k, t) && members < MAX_MEMBERS) {
+                if (j < 0 && qualifies(m, k)) {
+                    if (!ridesWithMember(m, k, t) || members == MAX_MEMBERS) {
+                        // a different wrong-way mover: this event ends, its own starts with the next frame
+                        return end(t);
+                    }
                     j = members++;
                     memberId[j] = m.id(k);
                 }

@@ -106,6 +106,13 @@ public final class MoverTracker {
     private final double[] tVx;
     private final double[] tVy;
     private final double[] tTravel;
+    private final double[] tFlowTravel;
+    private final double[] tCentroidTravel;
+    /** The centroid where it was last seen inside the zone (NaN: not yet). */
+    private final double[] tEntryX;
+    private final double[] tEntryY;
+    private final double[] tPredVx;
+    private final double[] tPredVy;
     private final double[] tDistance;
     private final double[] tMovingSeconds;
     private final int[] tSamples;
@@ -195,6 +202,12 @@ public final class MoverTracker {
         tVx = new double[t];
         tVy = new double[t];
         tTravel = new double[t];
+        tFlowTravel = new double[t];
+        tEntryX = new double[t];
+        tCentroidTravel = new double[t];
+        tEntryY = new double[t];
+        tPredVx = new double[t];
+        tPredVy = new double[t];
         tDistance = new double[t];
         tMovingSeconds = new double[t];
         tSamples = new int[t];
@@ -456,6 +469,15 @@ public final class MoverTracker {
         gVV[g] = (a * gB2[g] - b * gB1[g]) / det;
     }
 
+    /** The group keeps the track's size and shape: samples within 0.6–1.6×, box sides within 8 px or a half. */
+    private boolean steady(int k, int g) {
+        final int n = gCount[g];
+        final int w = (gMaxI[g] - gMinI[g] + 1) * stride;
+        final int h = (gMaxJ[g] - gMinJ[g] + 1) * stride;
+        return n >= 0.6 * tSamples[k] && n <= 1.6 * tSamples[k]
+                && Math.abs(w - tW[k]) <= Math.max(8, 0.5 * tW[k]) && Math.abs(h - tH[k]) <= Math.max(8, 0.5 * tH[k]);
+    }
+
     /** True when the sample nearest to the point (analysis pixels) is one of the zone's. */
     private boolean centreInZone(double x, double y) {
         int i = (int) Math.round((x - stride / 2) / stride);
@@ -479,8 +501,8 @@ public final class MoverTracker {
                     continue;
                 }
                 final double since = t - tSeenAt[k];
-                final double ex = tX[k] + tVx[k] * since;
-                final double ey = tY[k] + tVy[k] * since;
+                final double ex = tX[k] + tPredVx[k] * since;
+                final double ey = tY[k] + tPredVy[k] * since;
                 final double gate = settings.gatePx() + 0.5 * Math.max(tW[k], tH[k]);
                 final double tSpeed2 = tVx[k] * tVx[k] + tVy[k] * tVy[k];
                 for (int g = 0; g < groups; g++) {
@@ -490,13 +512,15 @@ public final class MoverTracker {
                     final double gvx = gVU[g] / dt;
                     final double gvy = gVV[g] / dt;
                     final double gSpeed2 = gvx * gvx + gvy * gvy;
-                    if (gvx * tVx[k] + gvy * tVy[k] < 0 && gSpeed2 > minSpeed * minSpeed
-                            && tSpeed2 > minSpeed * minSpeed) {
-                        continue; // both clearly moving, in opposite directions: not the same mover
-                    }
                     final double cx = gSumX[g] / gCount[g];
                     final double cy = gSumY[g] / gCount[g];
                     final double d = Math.hypot(cx - ex, cy - ey);
+                    if (gvx * tVx[k] + gvy * tVy[k] < 0 && gSpeed2 > minSpeed * minSpeed
+                            && tSpeed2 > minSpeed * minSpeed && d > 0.5 * gate) {
+                        // both clearly moving, in opposite directions, and not right where predicted: not the
+                        // same mover (where predicted it is, since the flow of a fast small mover can fail)
+                        continue;
+                    }
                     final boolean inside = ex >= (double) gMinI[g] * stride - stride && ex <= (gMaxI[g] + 2.0) * stride
                             && ey >= (double) gMinJ[g] * stride - stride && ey <= (gMaxJ[g] + 2.0) * stride;
                     if ((d <= gate || inside) && d < best) {
@@ -530,7 +554,11 @@ public final class MoverTracker {
             tLive[free] = true;
             tId[free] = nextId++;
             tBorn[free] = t;
+            tSeenAt[free] = Double.NaN;
             tTravel[free] = 0;
+            tFlowTravel[free] = 0;
+            tEntryX[free] = Double.NaN;
+            tCentroidTravel[free] = 0;
             tDistance[free] = 0;
             tMovingSeconds[free] = 0;
             tPeak[free] = 0;
@@ -555,19 +583,45 @@ public final class MoverTracker {
             final double m = Math.sqrt(vu * vu + vv * vv);
             final double cx = gSumX[g] / gCount[g];
             final double cy = gSumY[g] / gCount[g];
-            if (hasHeading && m > 0 && centreInZone(cx, cy)) {
+            if (hasHeading && centreInZone(cx, cy)) {
                 final double along = vu * ax + vv * ay;
                 // against adds, with subtracts (a sway back and forth cancels), crossing adds nothing
-                if (along >= cosTolerance * m || -along >= cosTolerance * m) {
-                    tTravel[k] += along;
+                if (m > 0 && (along >= cosTolerance * m || -along >= cosTolerance * m)) {
+                    tFlowTravel[k] += along;
                 }
+                // the centroid's steps, while the group keeps its size and shape: a fast mover whose flow
+                // fails (tens of pixels a frame) still shows its travel here; a group that grows, shrinks or
+                // changes shape (shake, flicker, a crowd merging) moves its centroid without travelling
+                if (!Double.isNaN(tEntryX[k]) && Math.abs(tSeenAt[k] - (t - dt)) < 1e-6 && steady(k, g)) {
+                    final double sx = cx - tEntryX[k];
+                    final double sy = cy - tEntryY[k];
+                    final double step = Math.sqrt(sx * sx + sy * sy);
+                    final double stepAlong = sx * ax + sy * ay;
+                    if (step > 0 && (stepAlong >= cosTolerance * step || -stepAlong >= cosTolerance * step)) {
+                        tCentroidTravel[k] += stepAlong;
+                    }
+                }
+                tEntryX[k] = cx;
+                tEntryY[k] = cy;
+                tTravel[k] = Math.max(tFlowTravel[k], tCentroidTravel[k]);
             }
             tDistance[k] += m;
             tMovingSeconds[k] += dt;
+            final double fvx = vu / dt;
+            final double fvy = vv / dt;
+            if (!Double.isNaN(tSeenAt[k]) && t > tSeenAt[k]) {
+                // predict with the mean of the flow's velocity and the centroid's
+                final double since = t - tSeenAt[k];
+                tPredVx[k] = 0.5 * (fvx + (cx - tX[k]) / since);
+                tPredVy[k] = 0.5 * (fvy + (cy - tY[k]) / since);
+            } else {
+                tPredVx[k] = fvx;
+                tPredVy[k] = fvy;
+            }
             tX[k] = cx;
             tY[k] = cy;
-            tVx[k] = vu / dt;
-            tVy[k] = vv / dt;
+            tVx[k] = fvx;
+            tVy[k] = fvy;
             tSeenAt[k] = t;
             tSamples[k] = gCount[g];
             tPeak[k] = Math.max(tPeak[k], gCount[g]);
