@@ -501,11 +501,8 @@ public final class ConfigLoader {
         if (movers) {
             // a zone with a heading decides on movers: shares of the zone no longer start its events
             for (String k : new String[] {"onset_level", "release_level"}) {
-                if (z.has(k)) {
-                    z.error(k, z.raw(k), "no such key for a zone with a heading: it decides on movers "
-                            + "(min_mover_area_px, min_travel_px, quick_travel_px, hold_seconds), not on shares "
-                            + "of the zone");
-                }
+                z.refuse(k, "no such key for a zone with a heading: it decides on movers (min_mover_area_px, "
+                        + "min_travel_px, quick_travel_px, hold_seconds), not on shares of the zone");
             }
             minTravel = z.number("min_travel_px", ZoneConfig.DEFAULT_MIN_TRAVEL_PX, 1, 10000);
             quickTravel = z.number("quick_travel_px", ZoneConfig.DEFAULT_QUICK_TRAVEL_PX, 1, 10000);
@@ -523,11 +520,8 @@ public final class ConfigLoader {
                 release = onset;
             }
             for (String k : new String[] {"min_travel_px", "quick_travel_px", "min_mover_area_px"}) {
-                if (z.has(k)) {
-                    z.error(k, z.raw(k), "no such key for a zone without a heading: it reports any motion by "
-                            + "onset_level and release_level (set heading_deg or learn_heading_seconds to decide "
-                            + "on movers)");
-                }
+                z.refuse(k, "no such key for a zone without a heading: it reports any motion by onset_level and "
+                        + "release_level (set heading_deg or learn_heading_seconds to decide on movers)");
             }
         }
         z.finish();
@@ -826,9 +820,20 @@ public final class ConfigLoader {
             return s / 2;
         }
 
+        /** A key that exists but does not apply here: one error naming why, and not listed among the known. */
+        void refuse(String name, String expected) {
+            Object v = table.get(List.of(name));
+            if (v != null) {
+                error(name, v, expected);
+                refused.add(name);
+            }
+        }
+
+        final Set<String> refused = new HashSet<>();
+
         void finish() {
             for (String k : table.keySet()) {
-                if (!known.contains(k)) {
+                if (!known.contains(k) && !refused.contains(k)) {
                     TomlPosition p = table.inputPositionOf(List.of(k));
                     errors.at(p != null ? p : position, key(k) + ": " + render(table.get(List.of(k)))
                             + " (unknown key; expected one of " + String.join(", ", known) + ")");

@@ -21,12 +21,13 @@ import wayward.zone.ZoneMeter;
  * <p><b>Members.</b> The mover that started the event is its first member. Another qualifying mover joins the
  * open event when it rides with a member (within max(48 px, twice the member's size) of the member's predicted
  * position, at a like velocity): the front and the back rim of one plain vehicle are two tracks but one
- * passage. A qualifying mover that does not ride with a member is a different one: it waits, and starts its own
- * event as soon as the open one has ended (two wrong-way movers in a row are two events). The event ends when
+ * passage. A qualifying mover that does not ride with a member is a different one: it ends the open event at
+ * once and starts its own with the next frame, so two wrong-way movers in a row are two events even when the
+ * second enters before the first has left, and events of one zone never overlap. Otherwise the event ends when
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
  *
- * <p><b>Rest.</b> After an end, for {@link MoverRuleSettings#restSeconds}, the ended event's members cannot
- * start another event, nor can a new track that began where the last member was lost (its first point within
+ * <p><b>Rest.</b> A mover that was a member of an ended event never starts or ends another. After an end, for
+ * {@link MoverRuleSettings#restSeconds}, neither can a new track that began where the last member was lost (its first point within
  * the same distance of the member's predicted path): that is the same mover picked up again after a gap. Any
  * other mover may start an event at once; rest does not hold back a second wrong-way mover.
  *
@@ -73,8 +74,9 @@ public final class WrongWayRule {
     private final double[] triggerPath = new double[2 * PATH_POINTS];
     private int triggerPoints;
     // after an end: the ended event's members and its last member's motion
-    private final long[] restingId = new long[MAX_MEMBERS];
-    private int resting;
+    /** Tracks that were members of an ended event (a ring of the latest): they never start or end another. */
+    private final long[] retiredId = new long[4 * MAX_MEMBERS];
+    private int retiredNext;
     private double restUntil = Double.NEGATIVE_INFINITY;
     private double endSeen;
     private double endX;
@@ -120,7 +122,7 @@ public final class WrongWayRule {
                     continue;
                 }
                 int j = member(m.id(k));
-                if (j < 0 && qualifies(m, k)) {
+                if (j < 0 && qualifies(m, k) && !retired(m.id(k))) {
                     if (!ridesWithMember(m, k, t) || members == MAX_MEMBERS) {
                         // a different wrong-way mover: this event ends, its own starts with the next frame
                         return end(t);
@@ -167,6 +169,15 @@ public final class WrongWayRule {
                 || (travel >= settings.minTravelPx() && m.ageSeconds(k) + EPSILON_SECONDS >= settings.holdSeconds());
     }
 
+    private boolean retired(long id) {
+        for (long r : retiredId) {
+            if (r == id && id != 0) {
+                return true;
+            }
+        }
+        return false;
+    }
+
     private int member(long id) {
         for (int j = 0; j < members; j++) {
             if (memberId[j] == id) {
@@ -204,13 +215,11 @@ public final class WrongWayRule {
 
     /** During rest: a member of the ended event, or a track that began where its last member was lost. */
     private boolean restingMover(Movers m, int k, double t) {
+        if (retired(m.id(k))) {
+            return true;
+        }
         if (t + EPSILON_SECONDS >= restUntil) {
             return false;
-        }
-        for (int j = 0; j < resting; j++) {
-            if (restingId[j] == m.id(k)) {
-                return true;
-            }
         }
         if (m.pathCount(k) == 0) {
             return false;
@@ -251,8 +260,10 @@ public final class WrongWayRule {
     private Event end(double t) {
         active = false;
         restUntil = t + settings.restSeconds();
-        resting = members;
-        System.arraycopy(memberId, 0, restingId, 0, members);
+        for (int j = 0; j < members; j++) {
+            retiredId[retiredNext] = memberId[j];
+            retiredNext = (retiredNext + 1) % retiredId.length;
+        }
         int last = 0;
         for (int j = 1; j < members; j++) {
             if (memberSeen[j] > memberSeen[last]) {

@@ -42,6 +42,8 @@ import wayward.flow.FlowField;
 public final class MoverTracker {
     /** Groups smaller than this are not followed (single noisy samples). */
     static final int MIN_GROUP_SAMPLES = 2;
+    /** Groups smaller than this never count centroid steps as travel (chance clusters of noise are small). */
+    static final int MIN_STEADY_SAMPLES = 6;
     /** Tracks followed at once at most; at least 4, otherwise a quarter of the zone's samples. */
     static final int MAX_TRACKS = 64;
     private static final byte NONE = 0;
@@ -122,7 +124,6 @@ public final class MoverTracker {
     private final int[] tGroup;
     private long nextId = 1;
     private long untracked;
-    private boolean started;
 
     /**
      * @param mask       the zone's samples, made for {@code layout}
@@ -241,7 +242,6 @@ public final class MoverTracker {
         Arrays.fill(tLive, false);
         Arrays.fill(emaU, 0f);
         Arrays.fill(emaV, 0f);
-        started = false;
     }
 
     /**
@@ -295,9 +295,8 @@ public final class MoverTracker {
         final boolean slow = settings.slowSeconds() > 0;
         final float slowStep = (float) (settings.slowMinSpeedPxPerSecond() * dt);
         final float slowStep2 = slowStep * slowStep;
-        // the first frame seeds the average with itself, so nothing starts from zero
-        final float alpha = !started || !slow ? 1f : (float) (1 - Math.exp(-dt / settings.slowSeconds()));
-        started = true;
+        // the average starts from zero: seeding it with a first noisy frame would make every sample slow-moving
+        final float alpha = !slow ? 1f : (float) (1 - Math.exp(-dt / settings.slowSeconds()));
         for (int k = 0; k < n; k++) {
             final int i = k;
             final float du = u[i] - camU;
@@ -592,12 +591,18 @@ public final class MoverTracker {
                 // the centroid's steps, while the group keeps its size and shape: a fast mover whose flow
                 // fails (tens of pixels a frame) still shows its travel here; a group that grows, shrinks or
                 // changes shape (shake, flicker, a crowd merging) moves its centroid without travelling
-                if (!Double.isNaN(tEntryX[k]) && Math.abs(tSeenAt[k] - (t - dt)) < 1e-6 && steady(k, g)) {
+                if (!Double.isNaN(tEntryX[k]) && Math.abs(tSeenAt[k] - (t - dt)) < 1e-6 && steady(k, g)
+                        && gCount[g] >= MIN_STEADY_SAMPLES) {
                     final double sx = cx - tEntryX[k];
                     final double sy = cy - tEntryY[k];
                     final double step = Math.sqrt(sx * sx + sy * sy);
                     final double stepAlong = sx * ax + sy * ay;
-                    if (step > 0 && (stepAlong >= cosTolerance * step || -stepAlong >= cosTolerance * step)) {
+                    final double floor = settings.minSpeedPxPerSecond() * dt;
+                    // and only where the flow, however short, goes the same way at least at the speed floor:
+                    // a track hopping between chance clusters of noise moves its centroid, not its flow
+                    final boolean flowAgrees = stepAlong > 0 ? along >= floor : along <= -floor;
+                    if (step > 0 && flowAgrees
+                            && (stepAlong >= cosTolerance * step || -stepAlong >= cosTolerance * step)) {
                         tCentroidTravel[k] += stepAlong;
                     }
                 }
