@@ -7,10 +7,16 @@ import wayward.flow.FlowField;
  * Finds the movers of one zone in each flow field and follows them from frame to frame. A mover is a coherent
  * group of moving samples: connected on the sample grid (8-neighbourhood, one sample of gap allowed, so a
  * mover whose middle is flat still hangs together) and moving alike (each sample within
- * {@link MoverSettings#groupAngleDeg} of its group's direction). Each track keeps its age, size, a short path,
- * its mean speed and its <em>travel against the heading</em>: the sum over frames of its group's motion along
- * the against direction. That sum comes from the flow inside the group, not from the centroid, so a mover that
- * shrinks as it drives away, or whose outline changes, still adds up its true travel.
+ * {@link MoverSettings#groupAngleDeg} of its group's direction). Groups are seeded by the zone's samples and
+ * grown over the whole picture, so a vehicle beside the zone that spills a sliver into it is seen whole; its
+ * travel only counts while its centroid is inside the zone (the same test as the suite's ground truth: a
+ * mover's centre inside the zone). Each track keeps its age, size, a short path, its mean speed and its
+ * <em>travel against the heading</em>: the sum over frames of its group's motion along the against direction
+ * (with-heading motion subtracts, crossing adds nothing). That sum comes from the flow inside the group, not
+ * from the centroid, so a mover that shrinks as it drives away, or whose outline changes, still adds up its
+ * true travel. Where the flow fails (a small mover jumping tens of pixels a frame), the centroid's steps count
+ * instead, but only while the group keeps its size and shape, has at least {@link #MIN_STEADY_SAMPLES} samples
+ * and its flow goes the same way at the speed floor; the travel is the larger of the two sums.
  *
  * <p><b>What moves.</b> The picture's common motion is subtracted first when the camera's motion is removed.
  * A sample whose structure tensor's smaller eigenvalue reaches the confidence floor votes with its flow. One
@@ -36,8 +42,9 @@ import wayward.flow.FlowField;
  * group's box), never when both move clearly and in opposite directions. An unpaired group of at least two
  * samples starts a track; a track that finds no group for {@link MoverSettings#lostSeconds} is dropped.
  *
- * <p>One instance per zone, used by the camera's analysis thread. Every array is sized at construction from
- * the zone mask's sample count; {@link #update} allocates nothing.
+ * <p>One instance per zone, used by the camera's analysis thread. Every array is sized at construction from the
+ * sample grid (groups may grow past the zone) and the track table from the zone mask's sample count;
+ * {@link #update} allocates nothing. A test-side check of the allocation is not there yet (JMH -prof gc).
  */
 public final class MoverTracker {
     /** Groups smaller than this are not followed (single noisy samples). */
