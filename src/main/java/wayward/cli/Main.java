@@ -41,7 +41,7 @@ public final class Main {
             "  check   --config FILE                     check a config; print the effective config (secrets masked)",
             "  replay  --config FILE --input VIDEO [--camera ID] [--report DIR] [--annotate OUT.mp4]",
             "                                            analyse a recorded file as fast as possible; events on stdout",
-            "  what-if --report DIR [--onset-level X] [--release-level X] [--hold-seconds S] ...",
+            "  what-if --report DIR [--min-travel-px P] [--hold-seconds S] [--onset-level X] ...",
             "                                            re-run only the rules of a replay report with other settings",
             "  demo    [--config FILE] [--loops N]       run on the bundled demo scene (conf/demo.toml), looped",
             "  bench   --input VIDEO [--cameras N] [--config FILE]",
@@ -79,20 +79,25 @@ public final class Main {
                 "when it is a terminal.",
                 "",
                 "--report DIR writes a tuning report: per zone a CSV of every reading (stream time, coverage, share",
-                "moving against, speeds, headings, the rule's state), a PNG plot with the onset and release levels",
-                "and the events shaded, events.jsonl, and index.html gathering them. Then try other levels in a",
-                "fraction of a second with: wayward what-if --report DIR --onset-level 0.03",
+                "moving against, speeds, headings, movers followed, the largest travel against the heading, the",
+                "rule's state), for zones with a heading a CSV of every followed mover in every frame, a PNG plot",
+                "(shares; for zones with a heading also the travel with min_travel_px and quick_travel_px; events",
+                "shaded), events.jsonl, and index.html gathering them. Then try other settings in a fraction of a",
+                "second with: wayward what-if --report DIR --min-travel-px 15",
                 "",
                 "--annotate OUT.mp4 writes the analysis frames with the flow arrows (Baker et al. colour wheel, the",
                 "wheel in the corner as legend), zones, headings and each rule's state, as H.264."));
         COMMAND_HELP.put("what-if", String.join("\n",
-                "usage: java -jar wayward.jar what-if --report DIR [--onset-level X] [--release-level X]",
-                "           [--hold-seconds S] [--clear-seconds S] [--rest-seconds S] [--min-travel-px P]",
-                "           [--quick-travel-px P]",
+                "usage: java -jar wayward.jar what-if --report DIR [--hold-seconds S] [--clear-seconds S]",
+                "           [--rest-seconds S] [--min-travel-px P] [--quick-travel-px P] [--min-mover-area-px A]",
+                "           [--onset-level X] [--release-level X]",
                 "",
-                "Re-runs only the zone rules on the readings a 'replay --report' saved, with the given settings in",
-                "place of the saved ones, and prints the event phases as JSON lines, as a full replay with those",
-                "settings would (the readings do not depend on the rule). Then a summary line on standard error."));
+                "Re-runs only the zone rules on what a 'replay --report' saved, with the given settings in place of",
+                "the saved ones, and prints the event phases as JSON lines, as a full replay with those settings",
+                "would. Zones with a heading re-run the mover rule on the saved movers (the tracker does not depend",
+                "on the rule's settings); zones without re-run the share rule (onset and release levels) on the",
+                "saved readings. A setting no zone of the report takes is an error. Then a summary line on standard",
+                "error."));
         COMMAND_HELP.put("demo", String.join("\n",
                 "usage: java -jar wayward.jar demo [--config FILE] [--loops N]",
                 "",
@@ -162,7 +167,7 @@ public final class Main {
             case "run", "check" -> Set.of("--config");
             case "replay" -> Set.of("--config", "--input", "--camera", "--report", "--annotate");
             case "what-if" -> Set.of("--report", "--onset-level", "--release-level", "--hold-seconds",
-                    "--clear-seconds", "--rest-seconds", "--min-travel-px", "--quick-travel-px");
+                    "--clear-seconds", "--rest-seconds", "--min-travel-px", "--quick-travel-px", "--min-mover-area-px");
             case "demo" -> Set.of("--config", "--loops");
             case "bench" -> Set.of("--input", "--cameras", "--config");
             case "flow" -> Set.of("--input", "--at", "--output", "--picture");
@@ -436,12 +441,12 @@ public final class Main {
         wayward.report.ReplayReport r0 = report;
         wayward.report.Annotator a0 = annotator;
         if (report != null || annotator != null) {
-            s.listenReadings((camera, zone, reading, state) -> {
+            s.listenReadings((camera, zone, reading, movers, state) -> {
                 if (r0 != null) {
-                    r0.reading(camera, zone, reading, state);
+                    r0.reading(camera, zone, reading, movers, state);
                 }
                 if (a0 != null) {
-                    a0.reading(camera, zone, reading, state);
+                    a0.reading(camera, zone, reading, movers, state);
                 }
             });
         }

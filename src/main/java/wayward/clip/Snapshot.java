@@ -28,13 +28,43 @@ public final class Snapshot {
      * @param minStepPixels  shortest displacement drawn, analysis pixels per frame pair
      */
     public static BufferedImage draw(GrayFrame frame, FlowField flow, double[] xs, double[] ys, double minStepPixels) {
+        return draw(frame, flow, xs, ys, minStepPixels, null);
+    }
+
+    /**
+     * As {@link #draw(GrayFrame, FlowField, double[], double[], double)}, with the mover's path on top: a line
+     * through its centroid points (picture fractions, x and y interleaved; null for none), a hollow circle where
+     * it was first seen and a filled one where it was when the event started, in white on a black casing.
+     */
+    public static BufferedImage draw(GrayFrame frame, FlowField flow, double[] xs, double[] ys, double minStepPixels,
+            double[] path) {
         BufferedImage img = gray(frame);
         Polygon zone = polygon(xs, ys, frame);
         Graphics2D g = graphics(img);
         outline(g, zone);
         arrows(g, flow, zone, minStepPixels);
+        if (path != null && path.length >= 2) {
+            path(g, path, frame);
+        }
         g.dispose();
         return img;
+    }
+
+    private static void path(Graphics2D g, double[] path, GrayFrame frame) {
+        int n = path.length / 2;
+        int[] x = new int[n];
+        int[] y = new int[n];
+        for (int i = 0; i < n; i++) {
+            x[i] = (int) Math.round(path[2 * i] * frame.width * SCALE);
+            y[i] = (int) Math.round(path[2 * i + 1] * frame.height * SCALE);
+        }
+        for (int pass = 0; pass < 2; pass++) {
+            g.setStroke(new BasicStroke(pass == 0 ? 5f : 2.5f, BasicStroke.CAP_ROUND, BasicStroke.JOIN_ROUND));
+            g.setColor(pass == 0 ? Color.BLACK : Color.WHITE);
+            g.drawPolyline(x, y, n);
+            g.drawOval(x[0] - 5, y[0] - 5, 10, 10);
+            g.fillOval(x[n - 1] - 5, y[n - 1] - 5, 10, 10);
+        }
     }
 
     /**

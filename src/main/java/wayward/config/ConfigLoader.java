@@ -16,6 +16,7 @@ import org.tomlj.TomlParseError;
 import org.tomlj.TomlParseResult;
 import org.tomlj.TomlPosition;
 import org.tomlj.TomlTable;
+import wayward.rule.MoverRuleSettings;
 import wayward.rule.RuleSettings;
 
 /**
@@ -482,30 +483,55 @@ public final class ConfigLoader {
         double tolerance = z.number("tolerance_deg", ZoneConfig.DEFAULT_TOLERANCE_DEG, 0, 90);
         double minSpeed = z.number("min_speed", ZoneConfig.DEFAULT_MIN_SPEED, 0, 10000);
         double minConfidence = z.number("min_confidence", ZoneConfig.DEFAULT_MIN_CONFIDENCE, 0, 100000);
-        double onset = z.number("onset_level", 0.02, 0.0001, 1);
-        double release = z.number("release_level", Math.min(onset, 0.008), 0, 1);
-        if (release > onset) {
-            z.error("release_level", release, "at most onset_level " + format(onset));
-            release = onset;
-        }
-        double hold = z.number("hold_seconds", 0.5, 0, 600);
-        double clear = z.number("clear_seconds", 1.0, 0, 600);
-        double rest = z.number("rest_seconds", 2.0, 0, 3600);
         double learn = z.number("learn_heading_seconds", 0, 0, 86400);
         if (learn > 0 && !Double.isNaN(heading)) {
             z.error("learn_heading_seconds", z.raw("learn_heading_seconds"), "no learning when heading_deg is set "
                     + "(leave out one of them)");
             learn = 0;
         }
-        double minTravel = z.number("min_travel_px", ZoneConfig.DEFAULT_MIN_TRAVEL_PX, 0, 10000);
-        double quickTravel = z.number("quick_travel_px", ZoneConfig.DEFAULT_QUICK_TRAVEL_PX, 1, 10000);
+        boolean movers = !Double.isNaN(heading) || learn > 0;
+        double hold = z.number("hold_seconds", MoverRuleSettings.DEFAULT_HOLD_SECONDS, 0, 600);
+        double clear = z.number("clear_seconds", MoverRuleSettings.DEFAULT_CLEAR_SECONDS, 0, 600);
+        double rest = z.number("rest_seconds", MoverRuleSettings.DEFAULT_REST_SECONDS, 0, 3600);
+        double onset = 0.02;
+        double release = 0.008;
+        double minTravel = ZoneConfig.DEFAULT_MIN_TRAVEL_PX;
+        double quickTravel = ZoneConfig.DEFAULT_QUICK_TRAVEL_PX;
+        double minArea = MoverRuleSettings.DEFAULT_MIN_MOVER_AREA_PX;
+        if (movers) {
+            // a zone with a heading decides on movers: shares of the zone no longer start its events
+            for (String k : new String[] {"onset_level", "release_level"}) {
+                z.refuse(k, "no such key for a zone with a heading: it decides on movers (min_mover_area_px, "
+                        + "min_travel_px, quick_travel_px, hold_seconds), not on shares of the zone");
+            }
+            minTravel = z.number("min_travel_px", ZoneConfig.DEFAULT_MIN_TRAVEL_PX, 1, 10000);
+            quickTravel = z.number("quick_travel_px", ZoneConfig.DEFAULT_QUICK_TRAVEL_PX, 1, 10000);
+            if (quickTravel < minTravel) {
+                z.error("quick_travel_px", z.raw("quick_travel_px") != null ? z.raw("quick_travel_px") : quickTravel,
+                        "at least min_travel_px " + format(minTravel));
+                quickTravel = minTravel;
+            }
+            minArea = z.number("min_mover_area_px", MoverRuleSettings.DEFAULT_MIN_MOVER_AREA_PX, 0, 1000000);
+        } else {
+            onset = z.number("onset_level", onset, 0.0001, 1);
+            release = z.number("release_level", Math.min(onset, release), 0, 1);
+            if (release > onset) {
+                z.error("release_level", release, "at most onset_level " + format(onset));
+                release = onset;
+            }
+            for (String k : new String[] {"min_travel_px", "quick_travel_px", "min_mover_area_px"}) {
+                z.refuse(k, "no such key for a zone without a heading: it reports any motion by onset_level and "
+                        + "release_level (set heading_deg or learn_heading_seconds to decide on movers)");
+            }
+        }
         z.finish();
         if (id == null || polygon == null) {
             return null;
         }
         return new ZoneConfig(id, polygon[0], polygon[1], heading, tolerance, minSpeed, minConfidence,
                 new RuleSettings(Math.max(onset, 0.0001), Math.max(0, Math.min(release, onset)), hold, clear, rest,
-                        minTravel, quickTravel), learn);
+                        minTravel, quickTravel), learn,
+                new MoverRuleSettings(hold, clear, rest, minTravel, quickTravel, minArea));
     }
 
     static boolean isHttpUrl(String url) {
@@ -794,9 +820,20 @@ public final class ConfigLoader {
             return s / 2;
         }
 
+        /** A key that exists but does not apply here: one error naming why, and not listed among the known. */
+        void refuse(String name, String expected) {
+            Object v = table.get(List.of(name));
+            if (v != null) {
+                error(name, v, expected);
+                refused.add(name);
+            }
+        }
+
+        final Set<String> refused = new HashSet<>();
+
         void finish() {
             for (String k : table.keySet()) {
-                if (!known.contains(k)) {
+                if (!known.contains(k) && !refused.contains(k)) {
                     TomlPosition p = table.inputPositionOf(List.of(k));
                     errors.at(p != null ? p : position, key(k) + ": " + render(table.get(List.of(k)))
                             + " (unknown key; expected one of " + String.join(", ", known) + ")");

@@ -140,11 +140,21 @@ public final class ConfigPrinter {
             b.append("  tolerance_deg = ").append(num(z.toleranceDeg())).append('\n');
             b.append("  min_speed = ").append(num(z.minSpeedPxPerSecond())).append('\n');
             b.append("  min_confidence = ").append(num(z.minConfidence())).append('\n');
-            b.append("  onset_level = ").append(num(z.rule().onsetLevel())).append('\n');
-            b.append("  release_level = ").append(num(z.rule().releaseLevel())).append('\n');
-            b.append("  hold_seconds = ").append(num(z.rule().holdSeconds())).append('\n');
-            b.append("  clear_seconds = ").append(num(z.rule().clearSeconds())).append('\n');
-            b.append("  rest_seconds = ").append(num(z.rule().restSeconds())).append('\n');
+            if (z.decidesOnMovers()) {
+                b.append("  # decides on movers: one mover's travel against the heading starts an event\n");
+                b.append("  min_mover_area_px = ").append(num(z.movers().minMoverAreaPx())).append('\n');
+                b.append("  min_travel_px = ").append(num(z.movers().minTravelPx())).append('\n');
+                b.append("  quick_travel_px = ").append(num(z.movers().quickTravelPx())).append('\n');
+                b.append("  hold_seconds = ").append(num(z.movers().holdSeconds())).append('\n');
+                b.append("  clear_seconds = ").append(num(z.movers().clearSeconds())).append('\n');
+                b.append("  rest_seconds = ").append(num(z.movers().restSeconds())).append('\n');
+            } else {
+                b.append("  onset_level = ").append(num(z.rule().onsetLevel())).append('\n');
+                b.append("  release_level = ").append(num(z.rule().releaseLevel())).append('\n');
+                b.append("  hold_seconds = ").append(num(z.rule().holdSeconds())).append('\n');
+                b.append("  clear_seconds = ").append(num(z.rule().clearSeconds())).append('\n');
+                b.append("  rest_seconds = ").append(num(z.rule().restSeconds())).append('\n');
+            }
         }
     }
 

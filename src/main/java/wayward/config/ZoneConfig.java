@@ -1,5 +1,6 @@
 package wayward.config;
 
+import wayward.rule.MoverRuleSettings;
 import wayward.rule.RuleSettings;
 
 /**
@@ -14,19 +15,33 @@ import wayward.rule.RuleSettings;
  *                            bearing, counted as against it)
  * @param minSpeedPxPerSecond slowest motion that counts, analysis pixels per second
  * @param minConfidence       weakest flow confidence that votes, (grey levels per pixel)²
- * @param rule                hysteresis levels and times
+ * @param rule                motion zones (no heading, not learning): hysteresis levels and times on the
+ *                            share of the zone moving
  * @param learnHeadingSeconds without heading_deg: seconds of traffic from which to learn the heading (then
  *                            the zone alerts on movement against it); 0 = a motion zone
+ * @param movers              zones with a heading (configured or learned): when a mover going against it
+ *                            raises an event
  */
 public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg, double toleranceDeg,
-        double minSpeedPxPerSecond, double minConfidence, RuleSettings rule, double learnHeadingSeconds) {
+        double minSpeedPxPerSecond, double minConfidence, RuleSettings rule, double learnHeadingSeconds,
+        MoverRuleSettings movers) {
+    /** A zone whose mover rule takes its times and travels from {@code rule} and the default mover size. */
+    public ZoneConfig(String id, double[] xs, double[] ys, double headingDeg, double toleranceDeg,
+            double minSpeedPxPerSecond, double minConfidence, RuleSettings rule, double learnHeadingSeconds) {
+        this(id, xs, ys, headingDeg, toleranceDeg, minSpeedPxPerSecond, minConfidence, rule, learnHeadingSeconds,
+                new MoverRuleSettings(rule.holdSeconds(), rule.clearSeconds(), rule.restSeconds(),
+                        Math.max(1e-3, rule.minTravelPx()), Double.isInfinite(rule.quickTravelPx())
+                                ? 1e9 : Math.max(Math.max(1e-3, rule.minTravelPx()), rule.quickTravelPx()),
+                        MoverRuleSettings.DEFAULT_MIN_MOVER_AREA_PX));
+    }
+
     /** Defaults of tolerance_deg, min_speed and min_confidence. */
     public static final double DEFAULT_TOLERANCE_DEG = 60;
     public static final double DEFAULT_MIN_SPEED = 8;
     public static final double DEFAULT_MIN_CONFIDENCE = 8;
-    /** Defaults of min_travel_px and quick_travel_px (analysis pixels; chosen on the detection suite). */
-    public static final double DEFAULT_MIN_TRAVEL_PX = 10;
-    public static final double DEFAULT_QUICK_TRAVEL_PX = 30;
+    /** Defaults of min_travel_px and quick_travel_px (analysis pixels; see {@link MoverRuleSettings}). */
+    public static final double DEFAULT_MIN_TRAVEL_PX = MoverRuleSettings.DEFAULT_MIN_TRAVEL_PX;
+    public static final double DEFAULT_QUICK_TRAVEL_PX = MoverRuleSettings.DEFAULT_QUICK_TRAVEL_PX;
 
     public ZoneConfig {
         xs = xs.clone();
@@ -45,6 +60,11 @@ public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg,
 
     public boolean hasHeading() {
         return !Double.isNaN(headingDeg);
+    }
+
+    /** True when the zone decides on movers: it has a heading, configured or to be learned. */
+    public boolean decidesOnMovers() {
+        return hasHeading() || learnsHeading();
     }
 
     /** True when the zone learns its heading from traffic. */

@@ -20,10 +20,70 @@ import java.time.Instant;
  * @param clip            evidence clip, relative to the data folder, or null (it is complete once the post-roll
  *                        after the end has passed)
  * @param snapshot        JPEG of the triggering frame, relative to the data folder, or null
+ * @param mover           the mover that decided a {@code wrong_way} event, or null (other kinds)
  */
 public record Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
         Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
-        String snapshot) {
+        String snapshot, Mover mover) {
+
+    /**
+     * The mover that went the wrong way, as followed by the zone's tracker (analysis pixels).
+     *
+     * @param widthPx          width of its moving samples' box, analysis pixels (at the start: in the deciding
+     *                         frame; at the end: the last frame it was seen)
+     * @param heightPx         height of that box, analysis pixels
+     * @param samples          most moving flow samples it had in one frame
+     * @param path             its centroid's path, picture fractions 0..1, x and y interleaved, first point where
+     *                         it was first seen, last point its latest position; a few points
+     * @param speedPxPerSecond its mean speed while followed, analysis pixels per second
+     * @param travelPx         how far it has travelled against the heading, analysis pixels
+     */
+    public record Mover(int widthPx, int heightPx, int samples, double[] path, double speedPxPerSecond,
+            double travelPx) {
+        public Mover {
+            if (path == null || path.length % 2 != 0) {
+                throw new IllegalArgumentException("path: expected x, y pairs");
+            }
+            path = path.clone();
+        }
+
+        @Override
+        public double[] path() {
+            return path.clone();
+        }
+
+        @Override
+        public boolean equals(Object o) {
+            return o instanceof Mover m && m.widthPx == widthPx && m.heightPx == heightPx && m.samples == samples
+                    && java.util.Arrays.equals(m.path, path) && Double.compare(m.speedPxPerSecond, speedPxPerSecond) == 0
+                    && Double.compare(m.travelPx, travelPx) == 0;
+        }
+
+        @Override
+        public int hashCode() {
+            return java.util.Objects.hash(widthPx, heightPx, samples, java.util.Arrays.hashCode(path),
+                    speedPxPerSecond, travelPx);
+        }
+
+        @Override
+        public String toString() {
+            return "Mover[" + widthPx + "x" + heightPx + " px, " + samples + " samples, path "
+                    + java.util.Arrays.toString(path) + ", " + speedPxPerSecond + " px/s, travel " + travelPx + " px]";
+        }
+
+        /** Points in the path. */
+        public int points() {
+            return path.length / 2;
+        }
+    }
+
+    /** An event phase with evidence files and no mover. */
+    public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
+            Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
+            String snapshot) {
+        this(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage, durationSeconds, clip,
+                snapshot, null);
+    }
 
     /** An event phase without evidence files. */
     public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
@@ -34,7 +94,7 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
     /** The same phase naming its evidence files. */
     public Event withEvidence(String clipPath, String snapshotPath) {
         return new Event(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage,
-                durationSeconds, clipPath, snapshotPath);
+                durationSeconds, clipPath, snapshotPath, mover);
     }
 
     /** Start or end of an event. */

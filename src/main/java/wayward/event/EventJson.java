@@ -37,6 +37,23 @@ public final class EventJson {
             number(g, "speed", e.speed(), 100);
             number(g, "coverage", e.coverage(), 10000);
             number(g, "duration_s", e.durationSeconds(), 1000);
+            Event.Mover m = e.mover();
+            if (m != null) {
+                g.writeNumberField("mover_width_px", m.widthPx());
+                g.writeNumberField("mover_height_px", m.heightPx());
+                g.writeNumberField("mover_samples", m.samples());
+                g.writeArrayFieldStart("mover_path");
+                double[] p = m.path();
+                for (int i = 0; i + 1 < p.length; i += 2) {
+                    g.writeStartArray();
+                    g.writeNumber(Math.round(p[i] * 1000) / 1000.0);
+                    g.writeNumber(Math.round(p[i + 1] * 1000) / 1000.0);
+                    g.writeEndArray();
+                }
+                g.writeEndArray();
+                number(g, "mover_speed_px_s", m.speedPxPerSecond(), 100);
+                number(g, "mover_travel_px", m.travelPx(), 10);
+            }
             if (e.clip() != null) {
                 g.writeStringField("clip", e.clip());
             }
@@ -62,6 +79,9 @@ public final class EventJson {
         Event.Phase phase = null;
         double stream = Double.NaN, heading = Double.NaN, speed = Double.NaN, coverage = Double.NaN;
         double duration = Double.NaN;
+        int moverWidth = -1, moverHeight = -1, moverSamples = -1;
+        double moverSpeed = Double.NaN, moverTravel = Double.NaN;
+        double[] moverPath = null;
         try (JsonParser p = JSON.createParser(json)) {
             if (p.nextToken() != JsonToken.START_OBJECT) {
                 throw new IllegalArgumentException("not a JSON object");
@@ -83,6 +103,12 @@ public final class EventJson {
                     case "duration_s" -> duration = p.getDoubleValue();
                     case "clip" -> clip = p.getText();
                     case "snapshot" -> snapshot = p.getText();
+                    case "mover_width_px" -> moverWidth = p.getIntValue();
+                    case "mover_height_px" -> moverHeight = p.getIntValue();
+                    case "mover_samples" -> moverSamples = p.getIntValue();
+                    case "mover_speed_px_s" -> moverSpeed = p.getDoubleValue();
+                    case "mover_travel_px" -> moverTravel = p.getDoubleValue();
+                    case "mover_path" -> moverPath = path(p);
                     default -> {
                         if (t.isStructStart()) {
                             p.skipChildren();
@@ -97,11 +123,37 @@ public final class EventJson {
             throw new IllegalArgumentException("no \"at\" field");
         }
         try {
+            Event.Mover mover = moverPath == null ? null
+                    : new Event.Mover(moverWidth, moverHeight, moverSamples, moverPath, moverSpeed, moverTravel);
             return new Event(id, camera, zone, kind, phase, stream, Instant.parse(at), heading, speed, coverage,
-                    duration, clip, snapshot);
+                    duration, clip, snapshot, mover);
         } catch (java.time.format.DateTimeParseException e) {
             throw new IllegalArgumentException("\"at\" is not an ISO-8601 instant: " + at);
         }
+    }
+
+    /** A path [[x, y], …] at the parser's current START_ARRAY. */
+    private static double[] path(JsonParser p) throws IOException {
+        if (p.currentToken() != JsonToken.START_ARRAY) {
+            throw new IllegalArgumentException("mover_path is not an array");
+        }
+        java.util.List<Double> xy = new java.util.ArrayList<>();
+        while (p.nextToken() == JsonToken.START_ARRAY) {
+            for (int k = 0; k < 2; k++) {
+                if (!p.nextToken().isNumeric()) {
+                    throw new IllegalArgumentException("mover_path: expected [x, y] number pairs");
+                }
+                xy.add(p.getDoubleValue());
+            }
+            if (p.nextToken() != JsonToken.END_ARRAY) {
+                throw new IllegalArgumentException("mover_path: expected [x, y] number pairs");
+            }
+        }
+        double[] out = new double[xy.size()];
+        for (int i = 0; i < out.length; i++) {
+            out[i] = xy.get(i);
+        }
+        return out;
     }
 
     private static EventKind kindOf(String name) {

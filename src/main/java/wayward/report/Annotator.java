@@ -41,7 +41,7 @@ public final class Annotator implements CameraPipeline.FrameListener, CameraPipe
     }
 
     @Override
-    public void reading(CameraConfig camera, int zone, ZoneReading r, String ruleState) {
+    public void reading(CameraConfig camera, int zone, ZoneReading r, wayward.zone.Movers movers, String ruleState) {
         if (states == null) {
             states = new String[camera.zones().size()];
         }

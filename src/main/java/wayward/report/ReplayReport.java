@@ -27,6 +27,7 @@ import wayward.delivery.EventSink;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.service.CameraPipeline;
+import wayward.zone.Movers;
 import wayward.zone.ZoneReading;
 
 /**
@@ -36,8 +37,15 @@ import wayward.zone.ZoneReading;
  * the bus's thread; {@link #write} after the replay ended.
  */
 public final class ReplayReport implements CameraPipeline.ReadingListener, EventSink {
-    /** The CSV columns; {@link WhatIf} reads them back. */
-    static final String HEADER = "stream_s,coverage,against,speed,heading_deg,against_speed,against_heading_deg,state";
+    /** The CSV columns; {@link WhatIf} reads them back. movers and largest_travel_against_px: 0 without heading. */
+    static final String HEADER = "stream_s,coverage,against,speed,heading_deg,against_speed,against_heading_deg,"
+            + "movers,largest_travel_against_px,state";
+    /**
+     * The columns of a zone's movers file ({@code <camera>-<zone>.movers.csv}): one row per followed track per
+     * frame; the wrong-way rule's whole input, so {@link WhatIf} can re-run it with other settings.
+     */
+    static final String MOVER_HEADER = "stream_s,track,seen,age_s,travel_against_px,samples,peak_samples,width_px,"
+            + "height_px,x_px,y_px,vx_px_s,vy_px_s,speed_px_s";
 
     private final Map<String, Series> series = new LinkedHashMap<>();
     private final List<Event> events = new ArrayList<>();
@@ -46,8 +54,11 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
         final CameraConfig camera;
         final ZoneConfig zone;
         final StringBuilder csv = new StringBuilder(1 << 16);
+        final StringBuilder moverCsv = new StringBuilder(1 << 12);
         final XYSeries coverage = new XYSeries("coverage", false, true);
         final XYSeries against = new XYSeries("moving against the heading", false, true);
+        final XYSeries travel = new XYSeries("largest mover travel against the heading (px, right axis)", false, true);
+        String picture = "";
 
         Series(CameraConfig camera, ZoneConfig zone) {
             this.camera = camera;
@@ -60,15 +71,34 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
     }
 
     @Override
-    public synchronized void reading(CameraConfig camera, int zone, ZoneReading r, String ruleState) {
+    public synchronized void reading(CameraConfig camera, int zone, ZoneReading r, Movers movers, String ruleState) {
         ZoneConfig z = camera.zones().get(zone);
         Series s = series.computeIfAbsent(key(camera.id(), z.id()), k -> new Series(camera, z));
+        int count = movers == null ? 0 : movers.count();
+        double largest = movers == null ? 0 : movers.largestTravelPx();
         // full precision: the what-if run must see exactly what the rule saw
         s.csv.append(r.streamSeconds).append(',').append(r.coverage).append(',').append(r.against).append(',')
                 .append(r.speed).append(',').append(r.headingDeg).append(',').append(r.againstSpeed).append(',')
-                .append(r.againstHeadingDeg).append(',').append(ruleState).append('\n');
+                .append(r.againstHeadingDeg).append(',').append(count).append(',').append(largest).append(',')
+                .append(ruleState).append('\n');
         s.coverage.add(r.streamSeconds, r.coverage);
         s.against.add(r.streamSeconds, r.against);
+        if (movers != null) {
+            s.travel.add(r.streamSeconds, largest);
+            s.picture = " image=" + movers.imageWidth + "x" + movers.imageHeight + " stride=" + movers.stride;
+            for (int k = 0; k < movers.capacity(); k++) {
+                if (!movers.live(k)) {
+                    continue;
+                }
+                s.moverCsv.append(movers.streamSeconds).append(',').append(movers.id(k)).append(',')
+                        .append(movers.seen(k) ? 1 : 0).append(',').append(movers.ageSeconds(k)).append(',')
+                        .append(movers.travelPx(k)).append(',').append(movers.samples(k)).append(',')
+                        .append(movers.peakSamples(k)).append(',').append(movers.widthPx(k)).append(',')
+                        .append(movers.heightPx(k)).append(',').append(movers.x(k)).append(',').append(movers.y(k))
+                        .append(',').append(movers.vx(k)).append(',').append(movers.vy(k)).append(',')
+                        .append(movers.speed(k)).append('\n');
+            }
+        }
     }
 
     @Override
@@ -98,7 +128,11 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
             String base = key(s.camera.id(), s.zone.id());
             Path csv = dir.resolve(base + ".csv");
             Files.writeString(csv, "# camera=" + s.camera.id() + " zone=" + s.zone.id() + " "
-                    + settings(s.zone) + "\n" + HEADER + "\n" + s.csv, StandardCharsets.UTF_8);
+                    + settings(s.zone) + s.picture + "\n" + HEADER + "\n" + s.csv, StandardCharsets.UTF_8);
+            if (s.zone.decidesOnMovers()) {
+                Files.writeString(dir.resolve(base + ".movers.csv"), MOVER_HEADER + "\n" + s.moverCsv,
+                        StandardCharsets.UTF_8);
+            }
             List<Event> mine = events.stream().filter(e -> s.zone.id().equals(e.zone())
                     && s.camera.id().equals(e.camera())).toList();
             ChartUtils.saveChartAsPNG(dir.resolve(base + ".png").toFile(), chart(s, mine), 1200, 420);
@@ -106,6 +140,8 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
                     .append("<p>").append(settings(s.zone)).append("</p>\n<p><img src=\"").append(base)
                     .append(".png\" alt=\"coverage and against share over stream time\"></p>\n<p><a href=\"")
                     .append(base).append(".csv\">").append(base).append(".csv</a> (every reading and the rule's state)")
+                    .append(s.zone.decidesOnMovers() ? ", <a href=\"" + base + ".movers.csv\">" + base
+                            + ".movers.csv</a> (every followed mover in every frame)" : "")
                     .append("</p>\n<table><tr><th>event</th><th>kind</th><th>start s</th><th>end s</th></tr>\n");
             Map<String, double[]> spans = spans(mine);
             for (Map.Entry<String, double[]> en : spans.entrySet()) {
@@ -123,12 +159,18 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
         return index;
     }
 
+    /** The zone's rule settings as the report's header line names them (keys as in the config). */
     static String settings(ZoneConfig z) {
-        return String.format(Locale.ROOT, "heading_deg=%s onset_level=%s release_level=%s hold_seconds=%s "
-                + "clear_seconds=%s rest_seconds=%s min_travel_px=%s quick_travel_px=%s",
-                z.hasHeading() ? Double.toString(z.headingDeg()) : "none", z.rule().onsetLevel(), z.rule().releaseLevel(),
-                z.rule().holdSeconds(), z.rule().clearSeconds(), z.rule().restSeconds(), z.rule().minTravelPx(),
-                z.rule().quickTravelPx());
+        if (z.decidesOnMovers()) {
+            return String.format(Locale.ROOT, "heading_deg=%s hold_seconds=%s clear_seconds=%s rest_seconds=%s "
+                    + "min_travel_px=%s quick_travel_px=%s min_mover_area_px=%s",
+                    z.hasHeading() ? Double.toString(z.headingDeg()) : "learned", z.movers().holdSeconds(),
+                    z.movers().clearSeconds(), z.movers().restSeconds(), z.movers().minTravelPx(),
+                    z.movers().quickTravelPx(), z.movers().minMoverAreaPx());
+        }
+        return String.format(Locale.ROOT, "heading_deg=none onset_level=%s release_level=%s hold_seconds=%s "
+                + "clear_seconds=%s rest_seconds=%s", z.rule().onsetLevel(), z.rule().releaseLevel(),
+                z.rule().holdSeconds(), z.rule().clearSeconds(), z.rule().restSeconds());
     }
 
     /** Start and end stream times per event id, in start order. */
@@ -161,10 +203,26 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
             IntervalMarker m = new IntervalMarker(span[0], end, new Color(255, 200, 0, 70));
             plot.addDomainMarker(m);
         }
-        plot.addRangeMarker(level("onset level", s.zone.rule().onsetLevel(), 0x444444, 1.2f, new float[] {6f, 4f},
-                true));
-        plot.addRangeMarker(level("release level", s.zone.rule().releaseLevel(), 0x888888, 1f, new float[] {2f, 3f},
-                false));
+        if (s.zone.decidesOnMovers()) {
+            // the rule's own signal: how far the farthest mover has gone against the heading, with its thresholds
+            NumberAxis px = new NumberAxis("travel against the heading (analysis px)");
+            plot.setRangeAxis(1, px);
+            plot.setDataset(1, new XYSeriesCollection(s.travel));
+            plot.mapDatasetToRangeAxis(1, 1);
+            XYLineAndShapeRenderer tr = new XYLineAndShapeRenderer(true, false);
+            tr.setSeriesPaint(0, new Color(0x1a8a3a));
+            tr.setSeriesStroke(0, new BasicStroke(2f));
+            plot.setRenderer(1, tr);
+            plot.addRangeMarker(1, level("min_travel_px", s.zone.movers().minTravelPx(), 0x444444, 1.2f,
+                    new float[] {6f, 4f}, true), org.jfree.chart.ui.Layer.FOREGROUND);
+            plot.addRangeMarker(1, level("quick_travel_px", s.zone.movers().quickTravelPx(), 0x888888, 1f,
+                    new float[] {2f, 3f}, true), org.jfree.chart.ui.Layer.FOREGROUND);
+        } else {
+            plot.addRangeMarker(level("onset level", s.zone.rule().onsetLevel(), 0x444444, 1.2f,
+                    new float[] {6f, 4f}, true));
+            plot.addRangeMarker(level("release level", s.zone.rule().releaseLevel(), 0x888888, 1f,
+                    new float[] {2f, 3f}, false));
+        }
         JFreeChart chart = new JFreeChart("camera " + s.camera.id() + ", zone " + s.zone.id()
                 + (s.zone.hasHeading() ? ", heading " + s.zone.headingDeg() + "°" : ""), JFreeChart.DEFAULT_TITLE_FONT,
                 plot, true);

@@ -12,14 +12,84 @@ import org.tomlj.TomlTable;
 /**
  * A scenario for {@link SceneGenerator}, read from a scene TOML file (see test-streams/*.scene.toml). All
  * positions are fractions of the frame (x right, y down); times are seconds from the first frame.
+ *
+ * <p>The file format (every key not marked "required" is optional):
+ * <pre>
+ * width, height, fps, seconds, seed     required: picture size (px), frame rate, length (s), random seed
+ * noise = 2.0                           Gaussian sensor noise, σ in grey levels (default 0)
+ * bitrate_kbps = 450                    H.264 bit rate (default 800)
+ * background = "aero1.jpg"              a real photograph as the ground, scaled to cover the frame (centre crop);
+ *                                       a file name under /usr/share/doc/opencv-doc/examples/data/ (Debian's
+ *                                       opencv-doc package); default: generated asphalt-like value noise
+ * [[line]]     x0 y0 x1 y1, width_px = 3, dash_px = 0       a painted line on the ground
+ * [[zone]]     id, polygon = [[x, y], ...], heading_deg, tolerance_deg = 60
+ * [[mover]]    id, size = [w, h] (required), and either from = [x, y], to = [x, y], start_s, end_s
+ *              or path = [[t, x, y], ...] (keyframes, constant velocity in between)
+ *   sizes = [[w, h], ...]     one size per keyframe (2 for from/to), linear in between: perspective, a mover
+ *                             shrinking towards the horizon; the texture is made at the largest size
+ *   texture = "noise"         "noise" (default: blocks of varied grey with fine detail and a dark frame),
+ *                             "plain" (one flat grey: grey = 160, rim_px = 0 a darker rim 1 or 2 px wide,
+ *                             rim_grey = 0.45 · grey), or "photo" (photo = "FILE" implies it: a patch of a real
+ *                             photograph under the opencv-doc folder above, centred at photo_at = [0.5, 0.5] of
+ *                             the photo, photo_scale = 1.0 photo px per scene px)
+ * [[light]]    at_s, ramp_s = 0, gain = 1, offset = 0       brightness steps and ramps: v · gain + offset
+ * [flicker]    kind = "mains" | "random", amplitude (relative, e.g. 0.15), hz; centre = [x, y] and radius
+ *              (fraction of the width, Gaussian fall-off) for a lamp's pool of light, else the whole picture.
+ *              "mains": gain 1 + a·sin(2π·hz·t), sampled by the frame rate (100 Hz lamps on 50 Hz mains beat
+ *              with the camera's 15 fps at 5 Hz); "random": a new level in [−a, a] every 1/hz s, linear between
+ * [[glare]]    headlight glare, a bright soft blob added after the light and clipped at 255: brightness (grey
+ *              levels at the centre), radius (σ, fraction of the width); either mover = "ID" with offset =
+ *              [dx, dy] (shown while that mover is), or from, to, start_s, end_s (a sweeping beam)
+ * [shake]      amplitude_px, hz = 3              [bump] at_s, dx_px, dy_px
+ * [rain]       streaks, length_px = 12, angle_deg = 170, brightness = 60
+ * [[sway]]     x, y, width, height, amplitude_px, period_s, angle_deg = 90
+ * [shadow]     start_s, end_s, from_x, to_x, width = 0.3, darkness = 0.4
+ * [tamper]     kind = "cover" | "freeze" | "blur", at_s
+ * </pre>
+ * A scene without the newer keys (texture, sizes, background, flicker, glare) renders as it did before they
+ * existed.
  */
 public record Scene(String name, int width, int height, double fps, double seconds, long seed, double noise,
-        int bitrateKbps, List<Line> lines, List<Zone> zones, List<Mover> movers, Nuisances nuisances) {
+        int bitrateKbps, String background, List<Line> lines, List<Zone> zones, List<Mover> movers,
+        Nuisances nuisances) {
+
+    /** Where the real photographs come from: Debian's opencv-doc package (or the wayward.photos property). */
+    public static Path photoFolder() {
+        return Path.of(System.getProperty("wayward.photos", "/usr/share/doc/opencv-doc/examples/data"));
+    }
 
     /** What a real camera adds besides traffic; all optional, none by default. */
     public record Nuisances(List<Light> lights, double shakePx, double shakeHz, Bump bump, Rain rain,
-            List<Sway> sways, Shadow shadow, Tamper tamper) {
-        public static final Nuisances NONE = new Nuisances(List.of(), 0, 0, null, null, List.of(), null, null);
+            List<Sway> sways, Shadow shadow, Tamper tamper, Flicker flicker, List<Glare> glares) {
+        public static final Nuisances NONE = new Nuisances(List.of(), 0, 0, null, null, List.of(), null, null, null,
+                List.of());
+    }
+
+    /**
+     * Flickering light: "mains" (gain 1 + amplitude·sin(2π·hz·t)) or "random" (a new level in ±amplitude every
+     * 1/hz s, linear between). Over the whole picture when radius is NaN, else a pool of light around
+     * (centreX, centreY) with a Gaussian fall-off of σ = radius (fraction of the width).
+     */
+    public record Flicker(String kind, double amplitude, double hz, double centreX, double centreY, double radius) {
+    }
+
+    /**
+     * Headlight glare: a bright soft blob (Gaussian, σ = radius as a fraction of the width, brightness in grey
+     * levels at its centre). It rides on the mover {@code moverId} at offset (dx, dy), or, with moverId null,
+     * sweeps from (fromX, fromY) to (toX, toY) between startSeconds and endSeconds.
+     */
+    public record Glare(String moverId, double dx, double dy, double fromX, double fromY, double toX, double toY,
+            double startSeconds, double endSeconds, double radius, double brightness) {
+    }
+
+    /**
+     * What a mover looks like: "noise" (the generator's blocks and grain), "plain" (flat {@code grey} with an
+     * optional rim of {@code rimPx} px in {@code rimGrey}) or "photo" (a patch of {@code photo}, centred at
+     * (photoX, photoY) of the photograph, photoScale photograph px per scene px).
+     */
+    public record Look(String texture, double grey, int rimPx, double rimGrey, String photo, double photoX,
+            double photoY, double photoScale) {
+        public static final Look NOISE = new Look("noise", 0, 0, 0, null, 0.5, 0.5, 1);
     }
 
     /**
@@ -85,9 +155,27 @@ public record Scene(String name, int width, int height, double fps, double secon
 
     /**
      * A textured box moving along straight segments between keyframes (times ts, centres xs/ys), at constant
-     * velocity on each; a segment with equal ends is a stop. Shown from the first to the last keyframe.
+     * velocity on each; a segment with equal ends is a stop. Shown from the first to the last keyframe. With
+     * per-keyframe sizes (ws/hs, else null) its size changes linearly between keyframes; width and height are
+     * then the largest ones (the texture's size).
      */
-    public record Mover(String id, double[] ts, double[] xs, double[] ys, double width, double height) {
+    public record Mover(String id, double[] ts, double[] xs, double[] ys, double width, double height, double[] ws,
+            double[] hs, Look look) {
+        /** A noise-textured mover of constant size. */
+        public Mover(String id, double[] ts, double[] xs, double[] ys, double width, double height) {
+            this(id, ts, xs, ys, width, height, null, null, Look.NOISE);
+        }
+
+        /** Width and height (fractions of the frame) at t. */
+        public double[] sizeAt(double t) {
+            if (ws == null) {
+                return new double[] {width, height};
+            }
+            int k = segment(t);
+            double a = Math.max(0, Math.min(1, (t - ts[k]) / (ts[k + 1] - ts[k])));
+            return new double[] {ws[k] + a * (ws[k + 1] - ws[k]), hs[k] + a * (hs[k + 1] - hs[k])};
+        }
+
         /** Two keyframes: from one point to another. */
         public static Mover straight(String id, double fromX, double fromY, double toX, double toY, double start,
                 double end, double width, double height) {
@@ -214,40 +302,105 @@ public record Scene(String name, int width, int height, double fps, double secon
         List<Mover> movers = new ArrayList<>();
         TomlArray ma = t.getArray("mover");
         for (int i = 0; ma != null && i < ma.size(); i++) {
-            TomlTable m = ma.getTable(i);
-            TomlArray size = m.getArray("size");
-            TomlArray path = m.getArray("path");
-            if (path != null) {
-                // [[t, x, y], ...]: keyframes in time order
-                double[] ts = new double[path.size()];
-                double[] xs = new double[path.size()];
-                double[] ys = new double[path.size()];
-                for (int k = 0; k < path.size(); k++) {
-                    ts[k] = number(path.getArray(k).get(0));
-                    xs[k] = number(path.getArray(k).get(1));
-                    ys[k] = number(path.getArray(k).get(2));
-                    if (k > 0 && ts[k] <= ts[k - 1]) {
-                        throw new IllegalArgumentException(file + ": mover[" + i + "].path[" + k + "]: times must grow");
-                    }
+            movers.add(mover(file, i, ma.getTable(i)));
+        }
+        for (int i = 0; i < movers.size(); i++) {
+            for (int j = 0; j < i; j++) {
+                if (movers.get(i).id().equals(movers.get(j).id())) {
+                    throw new IllegalArgumentException(file + ": mover[" + i + "].id: " + movers.get(i).id()
+                            + " (expected an id no other mover has)");
                 }
-                if (path.size() < 2) {
-                    throw new IllegalArgumentException(file + ": mover[" + i + "].path: at least 2 keyframes");
-                }
-                movers.add(new Mover(m.getString("id"), ts, xs, ys, number(size.get(0)), number(size.get(1))));
-            } else {
-                TomlArray from = m.getArray("from");
-                TomlArray to = m.getArray("to");
-                movers.add(Mover.straight(m.getString("id"), number(from.get(0)), number(from.get(1)),
-                        number(to.get(0)), number(to.get(1)), num(file, m, "start_s"), num(file, m, "end_s"),
-                        number(size.get(0)), number(size.get(1))));
             }
         }
         return new Scene(name, (int) num(file, t, "width"), (int) num(file, t, "height"), num(file, t, "fps"),
                 num(file, t, "seconds"), (long) num(file, t, "seed"), opt(file, t, "noise", 0),
-                (int) opt(file, t, "bitrate_kbps", 800), lines, zones, movers, nuisances(file, t));
+                (int) opt(file, t, "bitrate_kbps", 800), t.getString("background"), lines, zones, movers,
+                nuisances(file, t, movers));
     }
 
-    private static Nuisances nuisances(Path file, TomlParseResult t) {
+    private static Mover mover(Path file, int i, TomlTable m) {
+        String where = "mover[" + i + "]";
+        TomlArray size = m.getArray("size");
+        if (size == null || size.size() != 2) {
+            throw new IllegalArgumentException(file + ": " + where + ".size: expected [width, height]");
+        }
+        TomlArray path = m.getArray("path");
+        double[] ts;
+        double[] xs;
+        double[] ys;
+        if (path != null) {
+            // [[t, x, y], ...]: keyframes in time order
+            if (path.size() < 2) {
+                throw new IllegalArgumentException(file + ": " + where + ".path: at least 2 keyframes");
+            }
+            ts = new double[path.size()];
+            xs = new double[path.size()];
+            ys = new double[path.size()];
+            for (int k = 0; k < path.size(); k++) {
+                ts[k] = number(path.getArray(k).get(0));
+                xs[k] = number(path.getArray(k).get(1));
+                ys[k] = number(path.getArray(k).get(2));
+                if (k > 0 && ts[k] <= ts[k - 1]) {
+                    throw new IllegalArgumentException(file + ": " + where + ".path[" + k + "]: times must grow");
+                }
+            }
+        } else {
+            TomlArray from = m.getArray("from");
+            TomlArray to = m.getArray("to");
+            ts = new double[] {num(file, m, "start_s"), num(file, m, "end_s")};
+            xs = new double[] {number(from.get(0)), number(to.get(0))};
+            ys = new double[] {number(from.get(1)), number(to.get(1))};
+        }
+        double width = number(size.get(0));
+        double height = number(size.get(1));
+        double[] ws = null;
+        double[] hs = null;
+        TomlArray sizes = m.getArray("sizes");
+        if (sizes != null) {
+            if (sizes.size() != ts.length) {
+                throw new IllegalArgumentException(file + ": " + where + ".sizes: " + sizes.size()
+                        + " sizes (expected one per keyframe: " + ts.length + ")");
+            }
+            ws = new double[ts.length];
+            hs = new double[ts.length];
+            for (int k = 0; k < ts.length; k++) {
+                ws[k] = number(sizes.getArray(k).get(0));
+                hs[k] = number(sizes.getArray(k).get(1));
+                width = Math.max(width, ws[k]);
+                height = Math.max(height, hs[k]);
+            }
+        }
+        String photo = m.getString("photo");
+        String texture = m.getString("texture");
+        if (texture == null) {
+            texture = photo != null ? "photo" : "noise";
+        }
+        Look look;
+        switch (texture) {
+            case "noise" -> look = Look.NOISE;
+            case "plain" -> {
+                double grey = opt(file, m, "grey", 160);
+                int rim = (int) opt(file, m, "rim_px", 0);
+                if (rim < 0 || rim > 2) {
+                    throw new IllegalArgumentException(file + ": " + where + ".rim_px: " + rim + " (expected 0 to 2)");
+                }
+                look = new Look("plain", grey, rim, opt(file, m, "rim_grey", 0.45 * grey), null, 0.5, 0.5, 1);
+            }
+            case "photo" -> {
+                if (photo == null) {
+                    throw new IllegalArgumentException(file + ": " + where + ".photo: required with texture = \"photo\"");
+                }
+                TomlArray at = m.getArray("photo_at");
+                look = new Look("photo", 0, 0, 0, photo, at == null ? 0.5 : number(at.get(0)),
+                        at == null ? 0.5 : number(at.get(1)), opt(file, m, "photo_scale", 1));
+            }
+            default -> throw new IllegalArgumentException(file + ": " + where + ".texture: " + texture
+                    + " (expected noise, plain or photo)");
+        }
+        return new Mover(m.getString("id"), ts, xs, ys, width, height, ws, hs, look);
+    }
+
+    private static Nuisances nuisances(Path file, TomlParseResult t, List<Mover> movers) {
         List<Light> lights = new ArrayList<>();
         TomlArray la = t.getArray("light");
         for (int i = 0; la != null && i < la.size(); i++) {
@@ -278,8 +431,44 @@ public record Scene(String name, int width, int height, double fps, double secon
             tamper = new Tamper(tt.getString("kind"), num(file, tt, "at_s"));
             tamper.expectedEvent(); // checks the kind
         }
+        TomlTable fl = t.getTable("flicker");
+        Flicker flicker = null;
+        if (fl != null) {
+            String kind = fl.getString("kind");
+            if (!"mains".equals(kind) && !"random".equals(kind)) {
+                throw new IllegalArgumentException(file + ": flicker.kind: " + kind + " (expected mains or random)");
+            }
+            TomlArray centre = fl.getArray("centre");
+            flicker = new Flicker(kind, num(file, fl, "amplitude"), num(file, fl, "hz"),
+                    centre == null ? 0.5 : number(centre.get(0)), centre == null ? 0.5 : number(centre.get(1)),
+                    opt(file, fl, "radius", Double.NaN));
+        }
+        List<Glare> glares = new ArrayList<>();
+        TomlArray ga = t.getArray("glare");
+        for (int i = 0; ga != null && i < ga.size(); i++) {
+            TomlTable g = ga.getTable(i);
+            String on = g.getString("mover");
+            double radius = num(file, g, "radius");
+            double brightness = num(file, g, "brightness");
+            if (on != null) {
+                if (movers.stream().noneMatch(m -> m.id().equals(on))) {
+                    throw new IllegalArgumentException(file + ": glare[" + i + "].mover: " + on + " (expected a mover's id)");
+                }
+                TomlArray off = g.getArray("offset");
+                glares.add(new Glare(on, off == null ? 0 : number(off.get(0)), off == null ? 0 : number(off.get(1)),
+                        0, 0, 0, 0, 0, 0, radius, brightness));
+            } else {
+                TomlArray from = g.getArray("from");
+                TomlArray to = g.getArray("to");
+                if (from == null || to == null) {
+                    throw new IllegalArgumentException(file + ": glare[" + i + "]: expected mover, or from and to");
+                }
+                glares.add(new Glare(null, 0, 0, number(from.get(0)), number(from.get(1)), number(to.get(0)),
+                        number(to.get(1)), num(file, g, "start_s"), num(file, g, "end_s"), radius, brightness));
+            }
+        }
         return new Nuisances(lights, shake == null ? 0 : num(file, shake, "amplitude_px"),
-                shake == null ? 0 : opt(file, shake, "hz", 3), bump, rain, sways, shadow, tamper);
+                shake == null ? 0 : opt(file, shake, "hz", 3), bump, rain, sways, shadow, tamper, flicker, glares);
     }
 
     private static double num(Path file, TomlTable t, String key) {

@@ -19,8 +19,10 @@ import org.bytedeco.javacv.Frame;
 import wayward.zone.ZoneMeter;
 
 /**
- * Renders a scenario video with exact ground truth: a textured background, textured movers on straight scripted
- * paths at set times, and Gaussian sensor noise; writes an H.264 MP4 (the FFmpeg build's libopenh264 encoder)
+ * Renders a scenario video with exact ground truth: a textured background (generated, or a real photograph),
+ * movers (generated texture, plain with a rim, or a patch of a photograph) on straight scripted paths at set
+ * times and sizes, nuisances (light changes and flicker, headlight glare, shake, rain, foliage, shadow,
+ * tampering) and Gaussian sensor noise; writes an H.264 MP4 (the FFmpeg build's libopenh264 encoder)
  * and a JSON file saying, per mover, its path, its bearing and when its centre is inside each zone and whether
  * it moves against that zone's heading. Deterministic for a given scene (seeded). Used for tests and the demo.
  */
@@ -41,8 +43,18 @@ public final class SceneGenerator {
         List<float[]> textures = new ArrayList<>();
         for (int i = 0; i < scene.movers().size(); i++) {
             Scene.Mover m = scene.movers().get(i);
-            textures.add(texture(pixels(m.width(), w), pixels(m.height(), h), new SplittableRandom(scene.seed() * 31 + i + 1)));
+            int tw = pixels(m.width(), w);
+            int th = pixels(m.height(), h);
+            Scene.Look look = m.look();
+            textures.add(switch (look.texture()) {
+                case "plain" -> plain(tw, th, look);
+                case "photo" -> photoPatch(look, tw, th);
+                default -> texture(tw, th, new SplittableRandom(scene.seed() * 31 + i + 1));
+            });
         }
+        float[] flickerWeight = flickerWeight(scene.nuisances().flicker(), w, h);
+        double[] flickerKnots = flickerKnots(scene.nuisances().flicker(), scene.seconds(),
+                new SplittableRandom(scene.seed() * 19 + 5));
         SplittableRandom noise = new SplittableRandom(scene.seed() ^ 0x5DEECE66DL);
         Scene.Nuisances nu = scene.nuisances();
         List<float[]> swayTextures = new ArrayList<>();
@@ -100,8 +112,15 @@ public final class SceneGenerator {
                     Scene.Mover m = scene.movers().get(i);
                     if (t >= m.startSeconds() && t <= m.endSeconds()) {
                         double[] c = m.centreAt(t);
-                        draw(canvas, w, h, textures.get(i), pixels(m.width(), w), pixels(m.height(), h),
-                                c[0] * w - ox, c[1] * h - oy);
+                        if (m.look() == Scene.Look.NOISE && m.ws() == null) {
+                            // the first generator's drawing, kept so that older scenes render the very same
+                            draw(canvas, w, h, textures.get(i), pixels(m.width(), w), pixels(m.height(), h),
+                                    c[0] * w - ox, c[1] * h - oy);
+                        } else {
+                            double[] size = m.sizeAt(t);
+                            drawSoft(canvas, w, h, textures.get(i), pixels(m.width(), w), pixels(m.height(), h),
+                                    c[0] * w - ox, c[1] * h - oy, size[0] * w, size[1] * h);
+                        }
                     }
                 }
                 if (nu.shadow() != null && t >= nu.shadow().startSeconds() && t <= nu.shadow().endSeconds()) {
@@ -112,6 +131,15 @@ public final class SceneGenerator {
                     for (int p = 0; p < canvas.length; p++) {
                         canvas[p] = (float) (canvas[p] * light[0] + light[1]);
                     }
+                }
+                if (nu.flicker() != null) {
+                    double g = flickerGain(nu.flicker(), flickerKnots, t) - 1;
+                    for (int p = 0; p < canvas.length; p++) {
+                        canvas[p] = (float) (canvas[p] * (1 + g * (flickerWeight == null ? 1 : flickerWeight[p])));
+                    }
+                }
+                for (Scene.Glare glare : nu.glares()) {
+                    glare(canvas, w, h, glare, t, ox, oy);
                 }
                 if (nu.rain() != null) {
                     rain(canvas, w, h, nu.rain(), rainRandom);
@@ -258,8 +286,27 @@ public final class SceneGenerator {
         return Math.sqrt(-2 * Math.log(u1)) * Math.cos(2 * Math.PI * u2);
     }
 
-    /** Asphalt-like ground: smooth value noise at a few scales, fine grain and painted lane lines. */
+    /**
+     * The ground: a real photograph (scene key background) scaled to cover the frame, centre-cropped, or
+     * asphalt-like smooth value noise at a few scales with fine grain; then the painted lines.
+     */
     private float[] background(int w, int h, SplittableRandom r) {
+        if (scene.background() != null) {
+            Photo p = Photo.load(scene.background());
+            float[] img = new float[w * h];
+            double scale = Math.max((double) w / p.width, (double) h / p.height); // frame px per photo px
+            double x0 = (p.width - w / scale) / 2;
+            double y0 = (p.height - h / scale) / 2;
+            for (int y = 0; y < h; y++) {
+                for (int x = 0; x < w; x++) {
+                    img[y * w + x] = (float) p.area(x0 + (x + 0.5) / scale, y0 + (y + 0.5) / scale, 1 / scale);
+                }
+            }
+            for (Scene.Line line : scene.lines()) {
+                paintLine(img, w, h, line);
+            }
+            return img;
+        }
         float[] img = new float[w * h];
         double[] amplitude = {28, 14, 7};
         int[] cell = {64, 16, 4};
@@ -370,6 +417,221 @@ public final class SceneGenerator {
                 double a = tex[i] + fx * (tex[i + 1] - tex[i]);
                 double b = tex[i + tw] + fx * (tex[i + tw + 1] - tex[i + tw]);
                 canvas[y * w + x] = (float) (a + fy * (b - a));
+            }
+        }
+    }
+
+    /** A flat grey box with an optional darker rim, like a van's roof seen from above. */
+    private static float[] plain(int tw, int th, Scene.Look look) {
+        float[] t = new float[tw * th];
+        for (int y = 0; y < th; y++) {
+            for (int x = 0; x < tw; x++) {
+                boolean rim = x < look.rimPx() || y < look.rimPx() || x >= tw - look.rimPx() || y >= th - look.rimPx();
+                t[y * tw + x] = (float) (rim ? look.rimGrey() : look.grey());
+            }
+        }
+        return t;
+    }
+
+    /** A tw × th patch of a photograph, centred at the look's place in it, photoScale photo px per px. */
+    private static float[] photoPatch(Scene.Look look, int tw, int th) {
+        Photo p = Photo.load(look.photo());
+        float[] t = new float[tw * th];
+        double s = look.photoScale();
+        double cx = look.photoX() * p.width;
+        double cy = look.photoY() * p.height;
+        for (int y = 0; y < th; y++) {
+            for (int x = 0; x < tw; x++) {
+                t[y * tw + x] = (float) p.area(cx + (x + 0.5 - tw / 2.0) * s, cy + (y + 0.5 - th / 2.0) * s, s);
+            }
+        }
+        return t;
+    }
+
+    /** A photograph from Debian's opencv-doc examples, as grey levels (ITU-R BT.601 luma weights). */
+    private record Photo(int width, int height, float[] grey) {
+        static Photo load(String name) {
+            Path file = Scene.photoFolder().resolve(name);
+            if (!Files.isRegularFile(file)) {
+                throw new IllegalArgumentException("photo " + name + ": " + file + " not found (the scene's "
+                        + "photographs come from Debian's opencv-doc package: apt-get install opencv-doc)");
+            }
+            java.awt.image.BufferedImage img;
+            try {
+                img = javax.imageio.ImageIO.read(file.toFile());
+            } catch (IOException e) {
+                throw new IllegalArgumentException("photo " + name + ": " + file + ": " + e.getMessage(), e);
+            }
+            if (img == null) {
+                throw new IllegalArgumentException("photo " + name + ": " + file + ": not a picture ImageIO reads");
+            }
+            float[] g = new float[img.getWidth() * img.getHeight()];
+            for (int y = 0; y < img.getHeight(); y++) {
+                for (int x = 0; x < img.getWidth(); x++) {
+                    int rgb = img.getRGB(x, y);
+                    g[y * img.getWidth() + x] = (float) (0.299 * ((rgb >> 16) & 0xff) + 0.587 * ((rgb >> 8) & 0xff)
+                            + 0.114 * (rgb & 0xff));
+                }
+            }
+            return new Photo(img.getWidth(), img.getHeight(), g);
+        }
+
+        /** Mean over a footprint × footprint square centred at (x, y) (photo px; edges repeated). */
+        double area(double x, double y, double footprint) {
+            int n = Math.max(1, (int) Math.ceil(footprint));
+            double sum = 0;
+            for (int j = 0; j < n; j++) {
+                for (int i = 0; i < n; i++) {
+                    sum += bilinear(x - 0.5 + (i + 0.5 - n / 2.0) * footprint / n, y - 0.5 + (j + 0.5 - n / 2.0) * footprint / n);
+                }
+            }
+            return sum / (n * n);
+        }
+
+        private double bilinear(double x, double y) {
+            double sx = Math.max(0, Math.min(width - 1.001, x));
+            double sy = Math.max(0, Math.min(height - 1.001, y));
+            int x0 = (int) sx;
+            int y0 = (int) sy;
+            double fx = sx - x0;
+            double fy = sy - y0;
+            int i = y0 * width + x0;
+            double a = grey[i] + fx * (grey[i + 1] - grey[i]);
+            double b = grey[i + width] + fx * (grey[i + width + 1] - grey[i + width]);
+            return a + fy * (b - a);
+        }
+    }
+
+    /**
+     * Draws a tw × th texture scaled to outW × outH px centred at (cx, cy), as a camera would see it: each pixel
+     * is the texture's mean over the pixel's footprint, blended with what lies behind by the share of the pixel
+     * the box covers (so an edge moving less than a pixel per frame still moves in the picture).
+     */
+    private static void drawSoft(float[] canvas, int w, int h, float[] tex, int tw, int th, double cx, double cy,
+            double outW, double outH) {
+        double left = cx - outW / 2;
+        double top = cy - outH / 2;
+        double sx = tw / outW; // texture px per picture px
+        double sy = th / outH;
+        int nx = Math.max(1, (int) Math.ceil(sx));
+        int ny = Math.max(1, (int) Math.ceil(sy));
+        int xa = Math.max(0, (int) Math.floor(left));
+        int xb = Math.min(w - 1, (int) Math.ceil(left + outW));
+        int ya = Math.max(0, (int) Math.floor(top));
+        int yb = Math.min(h - 1, (int) Math.ceil(top + outH));
+        for (int y = ya; y <= yb; y++) {
+            // picture pixel y covers [y - 0.5, y + 0.5] (pixel centres on integers, as in draw)
+            double coverY = Math.min(y + 0.5, top + outH - 0.5) - Math.max(y - 0.5, top - 0.5);
+            if (coverY <= 0) {
+                continue;
+            }
+            coverY = Math.min(1, coverY);
+            for (int x = xa; x <= xb; x++) {
+                double coverX = Math.min(x + 0.5, left + outW - 0.5) - Math.max(x - 0.5, left - 0.5);
+                if (coverX <= 0) {
+                    continue;
+                }
+                coverX = Math.min(1, coverX);
+                double sum = 0;
+                for (int j = 0; j < ny; j++) {
+                    double ty = (y - top + 0.5 + (j + 0.5) / ny - 0.5) * sy - 0.5;
+                    for (int i = 0; i < nx; i++) {
+                        double tx = (x - left + 0.5 + (i + 0.5) / nx - 0.5) * sx - 0.5;
+                        sum += texel(tex, tw, th, tx, ty);
+                    }
+                }
+                double v = sum / (nx * ny);
+                double cover = coverX * coverY;
+                int p = y * w + x;
+                canvas[p] = (float) (canvas[p] + cover * (v - canvas[p]));
+            }
+        }
+    }
+
+    /** Bilinear texture sample at (tx, ty), texel centres on integers, edges repeated. */
+    private static double texel(float[] tex, int tw, int th, double tx, double ty) {
+        double x = Math.max(0, Math.min(tw - 1.0, tx));
+        double y = Math.max(0, Math.min(th - 1.0, ty));
+        int x0 = Math.min((int) x, Math.max(0, tw - 2));
+        int y0 = Math.min((int) y, Math.max(0, th - 2));
+        double fx = x - x0;
+        double fy = y - y0;
+        int i = y0 * tw + x0;
+        int dx = tw > 1 ? 1 : 0;
+        int dy = th > 1 ? tw : 0;
+        double a = tex[i] + fx * (tex[i + dx] - tex[i]);
+        double b = tex[i + dy] + fx * (tex[i + dy + dx] - tex[i + dy]);
+        return a + fy * (b - a);
+    }
+
+    /** Per pixel weight of a local flicker (Gaussian pool of light), or null for the whole picture. */
+    private static float[] flickerWeight(Scene.Flicker f, int w, int h) {
+        if (f == null || Double.isNaN(f.radius())) {
+            return null;
+        }
+        float[] weight = new float[w * h];
+        double sigma = f.radius() * w;
+        for (int y = 0; y < h; y++) {
+            for (int x = 0; x < w; x++) {
+                double dx = x + 0.5 - f.centreX() * w;
+                double dy = y + 0.5 - f.centreY() * h;
+                weight[y * w + x] = (float) Math.exp(-(dx * dx + dy * dy) / (2 * sigma * sigma));
+            }
+        }
+        return weight;
+    }
+
+    /** The random flicker's levels, one per 1/hz s (null for mains flicker). */
+    private static double[] flickerKnots(Scene.Flicker f, double seconds, SplittableRandom r) {
+        if (f == null || !f.kind().equals("random")) {
+            return null;
+        }
+        double[] k = new double[(int) Math.ceil(seconds * f.hz()) + 2];
+        for (int i = 0; i < k.length; i++) {
+            k[i] = (r.nextDouble() * 2 - 1) * f.amplitude();
+        }
+        return k;
+    }
+
+    /** The flicker's gain at t. */
+    static double flickerGain(Scene.Flicker f, double[] knots, double t) {
+        if (f.kind().equals("mains")) {
+            return 1 + f.amplitude() * Math.sin(2 * Math.PI * f.hz() * t);
+        }
+        double k = t * f.hz();
+        int i = (int) k;
+        return 1 + knots[i] + (k - i) * (knots[i + 1] - knots[i]);
+    }
+
+    /** Adds a glare blob where it is at t (in the world: it moves with the picture when the camera does). */
+    private void glare(float[] canvas, int w, int h, Scene.Glare g, double t, double ox, double oy) {
+        double cx;
+        double cy;
+        if (g.moverId() != null) {
+            Scene.Mover m = scene.movers().stream().filter(x -> x.id().equals(g.moverId())).findFirst().orElseThrow();
+            if (t < m.startSeconds() || t > m.endSeconds()) {
+                return;
+            }
+            double[] c = m.centreAt(t);
+            cx = c[0] + g.dx();
+            cy = c[1] + g.dy();
+        } else {
+            if (t < g.startSeconds() || t > g.endSeconds()) {
+                return;
+            }
+            double a = (t - g.startSeconds()) / (g.endSeconds() - g.startSeconds());
+            cx = g.fromX() + a * (g.toX() - g.fromX());
+            cy = g.fromY() + a * (g.toY() - g.fromY());
+        }
+        double px = cx * w - ox;
+        double py = cy * h - oy;
+        double sigma = g.radius() * w;
+        int reach = (int) Math.ceil(3 * sigma);
+        for (int y = Math.max(0, (int) py - reach); y <= Math.min(h - 1, (int) py + reach); y++) {
+            for (int x = Math.max(0, (int) px - reach); x <= Math.min(w - 1, (int) px + reach); x++) {
+                double dx = x - px;
+                double dy = y - py;
+                canvas[y * w + x] += (float) (g.brightness() * Math.exp(-(dx * dx + dy * dy) / (2 * sigma * sigma)));
             }
         }
     }

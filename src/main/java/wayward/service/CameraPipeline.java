@@ -17,7 +17,11 @@ import wayward.event.Event;
 import wayward.flow.FlowField;
 import wayward.flow.FlowEstimator;
 import wayward.image.GrayFrame;
+import wayward.rule.WrongWayRule;
 import wayward.rule.ZoneRule;
+import wayward.zone.MoverSettings;
+import wayward.zone.MoverTracker;
+import wayward.zone.Movers;
 import wayward.zone.ZoneMask;
 import wayward.zone.ZoneMeter;
 import wayward.zone.HeadingLearner;
@@ -50,9 +54,12 @@ public final class CameraPipeline {
     private volatile java.nio.file.Path learnedDir;
     private volatile ReadingListener readings;
 
-    /** Receives every zone reading and the rule's state after it (analysis thread; replay reports). */
+    /**
+     * Receives every zone reading, the zone's movers (null for a zone without heading) and the rule's state after
+     * them (analysis thread; replay reports). Both holders are refilled for the next frame: copy what you keep.
+     */
     public interface ReadingListener {
-        void reading(CameraConfig camera, int zone, ZoneReading r, String ruleState);
+        void reading(CameraConfig camera, int zone, ZoneReading r, Movers movers, String ruleState);
     }
 
     /** Receives every analysed frame with its flow, after the zone readings (analysis thread; annotated replay). */
@@ -112,7 +119,13 @@ public final class CameraPipeline {
     private FlowEstimator flow;
     private FlowField field;
     private final List<ZoneMeter> meters = new ArrayList<>();
+    /** Per zone: the share rule of a motion zone, else null. */
     private final List<ZoneRule> rules = new ArrayList<>();
+    /** Per zone: the mover rule of a zone with a heading, else null (also while learning). */
+    private final List<WrongWayRule> moverRules = new ArrayList<>();
+    /** Per zone: its tracker and movers table (zones with a heading, once the flow's size is known), else null. */
+    private final List<MoverTracker> trackers = new ArrayList<>();
+    private final List<Movers> movers = new ArrayList<>();
     private final ZoneReading reading = new ZoneReading();
 
     /**
@@ -168,8 +181,13 @@ public final class CameraPipeline {
             if (z.learnsHeading()) {
                 learners[i] = new HeadingLearner(z.learnHeadingSeconds());
                 rules.add(null); // no events while learning
+                moverRules.add(null);
+            } else if (z.hasHeading()) {
+                rules.add(null);
+                moverRules.add(new WrongWayRule(camera.id(), z.id(), z.movers(), clock));
             } else {
-                rules.add(new ZoneRule(camera.id(), z.id(), z.hasHeading(), z.rule(), clock));
+                rules.add(new ZoneRule(camera.id(), z.id(), false, z.rule(), clock));
+                moverRules.add(null);
             }
         }
         this.tamper = camera.tamperAlerts() ? new wayward.rule.TamperWatch(camera.id(), clock) : null;
@@ -376,10 +394,12 @@ public final class CameraPipeline {
         ZoneConfig zc = camera.zones().get(z);
         headings[z] = h;
         learners[z] = null;
-        rules.set(z, new ZoneRule(camera.id(), zc.id(), true, zc.rule(), clock));
+        moverRules.set(z, new WrongWayRule(camera.id(), zc.id(), zc.movers(), clock));
         if (z < meters.size()) {
             meters.set(z, new ZoneMeter(meters.get(z).mask(), h, zc.toleranceDeg(), zc.minSpeedPxPerSecond(),
                     zc.minConfidence(), camera.removeCameraMotion()));
+            trackers.set(z, tracker(meters.get(z).mask(), zc, h));
+            movers.set(z, trackers.get(z).newMovers());
         }
     }
 
@@ -430,6 +450,12 @@ public final class CameraPipeline {
                 double dt = t - previous;
                 if (!Double.isNaN(previous) && (dt <= 0 || dt > MAX_GAP_SECONDS)) {
                     flow.reset();
+                    for (int z = 0; z < trackers.size(); z++) {
+                        if (trackers.get(z) != null) {
+                            trackers.get(z).reset();
+                            movers.get(z).clear();
+                        }
+                    }
                 }
                 long began = System.nanoTime();
                 if (!measure && t >= measureFrom) {
@@ -458,13 +484,23 @@ public final class CameraPipeline {
                     if (learners[z] != null) {
                         learn(z, dt);
                         if (readings != null) {
-                            readings.reading(camera, z, reading, "learning");
+                            readings.reading(camera, z, reading, null, "learning");
                         }
                         continue;
                     }
-                    Event e = rules.get(z).update(reading);
+                    Event e;
+                    String state;
+                    Movers m = movers.get(z);
+                    if (moverRules.get(z) != null) {
+                        trackers.get(z).update(field, dt, t, m);
+                        e = moverRules.get(z).update(m, reading.against);
+                        state = moverRules.get(z).stateName();
+                    } else {
+                        e = rules.get(z).update(reading);
+                        state = rules.get(z).stateName();
+                    }
                     if (readings != null) {
-                        readings.reading(camera, z, reading, rules.get(z).stateName());
+                        readings.reading(camera, z, reading, moverRules.get(z) != null ? m : null, state);
                     }
                     if (e != null) {
                         if (e.phase() == Event.Phase.START) {
@@ -502,10 +538,8 @@ public final class CameraPipeline {
                 }
             }
             for (int z = 0; z < rules.size(); z++) {
-                if (rules.get(z) == null) {
-                    continue;
-                }
-                Event e = rules.get(z).finish(lastStreamSeconds);
+                Event e = rules.get(z) != null ? rules.get(z).finish(lastStreamSeconds)
+                        : moverRules.get(z) != null ? moverRules.get(z).finish(lastStreamSeconds) : null;
                 if (e != null) {
                     emit(withEvidence(e, camera.zones().get(z), null));
                 }
@@ -536,8 +570,8 @@ public final class CameraPipeline {
             recorder.start(e.id(), e.streamSeconds(), evidence.dataDir().resolve(paths[0]));
             if (frame != null) {
                 double minStep = zone.minSpeedPxPerSecond() / camera.analysisFps();
-                evidence.writer().snapshot(wayward.clip.Snapshot.draw(frame, field, zone.xs(), zone.ys(), minStep),
-                        evidence.dataDir().resolve(paths[1]));
+                evidence.writer().snapshot(wayward.clip.Snapshot.draw(frame, field, zone.xs(), zone.ys(), minStep,
+                        e.mover() == null ? null : e.mover().path()), evidence.dataDir().resolve(paths[1]));
             }
             Event named = e.withEvidence(paths[0], paths[1]);
             startJson.put(e.id(), wayward.event.EventJson.toJson(named));
@@ -560,6 +594,11 @@ public final class CameraPipeline {
         events.accept(e);
     }
 
+    private MoverTracker tracker(ZoneMask mask, ZoneConfig z, double heading) {
+        return new MoverTracker(mask, field, heading, MoverSettings.of(z.minSpeedPxPerSecond(), z.minConfidence(),
+                z.toleranceDeg()), camera.removeCameraMotion());
+    }
+
     private void setUp(int w, int h) {
         if (flow != null) {
             flow.close();
@@ -567,13 +606,19 @@ public final class CameraPipeline {
         flow = FlowEstimator.create(w, h, flowConfig.toSettings());
         field = flow.newField();
         meters.clear();
+        trackers.clear();
+        movers.clear();
         for (ZoneConfig z : camera.zones()) {
             ZoneMask mask = ZoneMask.rasterise(z.xs(), z.ys(), field);
             if (mask.size() == 0) {
                 LOG.warn("camera {} zone {}: covers no pixel at {}x{}", camera.id(), z.id(), w, h);
             }
-            meters.add(new ZoneMeter(mask, headings[meters.size()], z.toleranceDeg(), z.minSpeedPxPerSecond(), z.minConfidence(),
+            double heading = headings[meters.size()];
+            meters.add(new ZoneMeter(mask, heading, z.toleranceDeg(), z.minSpeedPxPerSecond(), z.minConfidence(),
                     camera.removeCameraMotion()));
+            MoverTracker tracker = Double.isNaN(heading) ? null : tracker(mask, z, heading);
+            trackers.add(tracker);
+            movers.add(tracker == null ? null : tracker.newMovers());
         }
         LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {} zones", camera.id(), w, h,
                 flow.levelCount(), meters.size());

@@ -29,11 +29,11 @@ import wayward.delivery.Mosquitto;
 class ReloadIT {
     private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
 
-    private static String camera(String id, double onset) {
+    private static String camera(String id, int minTravelPx) {
         return String.join("\n", "[[camera]]", "id = \"" + id + "\"", "source = \"" + YardSite.clip() + "\"",
                 "loop = true", "[[camera.zone]]", "id = \"lane-2-out\"",
                 "polygon = [[0.31, 0.98], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]", "heading_deg = 0",
-                "onset_level = " + onset, "");
+                "min_travel_px = " + minTravelPx, "");
     }
 
     private static void write(Path config, int port, String... cameras) throws Exception {
@@ -75,7 +75,7 @@ class ReloadIT {
     void aGoodConfigRestartsOnlyWhatChangedAndABadOneIsRefused(@TempDir Path dir) throws Exception {
         int port = Mosquitto.freePort();
         Path config = dir.resolve("site.toml");
-        write(config, port, camera("yard-mast-2", 0.02), camera("yard-mast-3", 0.02));
+        write(config, port, camera("yard-mast-2", 10), camera("yard-mast-3", 10));
         Process service = YardSite.startService(dir, config);
         Path log = dir.resolve("service.log");
         try {
@@ -92,7 +92,7 @@ class ReloadIT {
             assertTrue(frames(before, "yard-mast-3") > 30, "both cameras analysing");
 
             // mast-3's zone changes, mast-4 is added, mast-2 stays as it was
-            write(config, port, camera("yard-mast-2", 0.02), camera("yard-mast-3", 0.03), camera("yard-mast-4", 0.02));
+            write(config, port, camera("yard-mast-2", 10), camera("yard-mast-3", 12), camera("yard-mast-4", 10));
             YardSite.command("kill", "-HUP", Long.toString(service.pid()));
             String text = awaitLog(log, t -> t.contains("reload: done; 3 cameras"), 30);
             assertTrue(text.contains("reload: camera yard-mast-2 unchanged; it keeps running"), text);
@@ -106,11 +106,11 @@ class ReloadIT {
                     "the changed camera starts over");
 
             // a mistake: refused, located, nothing stops
-            Files.writeString(config, Files.readString(config).replace("onset_level = 0.03", "onset_levle = 0.03"));
+            Files.writeString(config, Files.readString(config).replace("min_travel_px = 12", "min_travle_px = 12"));
             YardSite.command("kill", "-HUP", Long.toString(service.pid()));
             text = awaitLog(log, t -> t.contains("reload refused"), 30);
             assertTrue(Pattern.compile("reload: " + Pattern.quote(config.toString())
-                    + ":\\d+:\\d+: camera\\[1\\]\\.zone\\[0\\]\\.onset_levle: 0\\.03 \\(unknown key").matcher(text).find(), text);
+                    + ":\\d+:\\d+: camera\\[1\\]\\.zone\\[0\\]\\.min_travle_px: 12 \\(unknown key").matcher(text).find(), text);
             assertTrue(text.contains("reload refused (1 mistake); the running config stays"), text);
             assertEquals(3, cameras(port).size());
             assertTrue(service.isAlive());

@@ -25,10 +25,14 @@ class ConfigLoaderTest {
     @ParameterizedTest(name = "{0}")
     @CsvSource(delimiter = '|', quoteCharacter = '`', value = {
         "tolerance-out-of-range.toml | 9:3: camera[0].zone[0].tolerance_deg: 120 (expected a number from 0 to 90)",
-        "unknown-key.toml | 12:1: camera[0].zone[1].colour: \"red\" (unknown key; expected one of id, polygon, heading_deg, tolerance_deg, min_speed, min_confidence, onset_level, release_level, hold_seconds, clear_seconds, rest_seconds, learn_heading_seconds, min_travel_px, quick_travel_px)",
+        "unknown-key.toml | 12:1: camera[0].zone[1].colour: \"red\" (unknown key; expected one of id, polygon, heading_deg, tolerance_deg, min_speed, min_confidence, learn_heading_seconds, hold_seconds, clear_seconds, rest_seconds, onset_level, release_level)",
+        "onset-on-heading-zone.toml | 9:3: camera[0].zone[0].onset_level: 0.02 (expected no such key for a zone with a heading: it decides on movers (min_mover_area_px, min_travel_px, quick_travel_px, hold_seconds), not on shares of the zone)",
+        "travel-on-motion-zone.toml | 8:3: camera[0].zone[0].min_travel_px: 15 (expected no such key for a zone without a heading: it reports any motion by onset_level and release_level (set heading_deg or learn_heading_seconds to decide on movers))",
+        "quick-under-min-travel.toml | 10:3: camera[0].zone[0].quick_travel_px: 12 (expected at least min_travel_px 20)",
+        "mover-area-negative.toml | 9:3: camera[0].zone[0].min_mover_area_px: -5 (expected a number from 0 to 1000000)",
         "missing-source.toml | 1:1: camera[0].source: missing (expected a video file path or a URL such as rtsp://host/stream)",
         "polygon-point-outside.toml | 7:26: camera[0].zone[0].polygon[1]: [1.2, 0.1] (expected a point [x, y] with x and y from 0 to 1)",
-        "release-above-onset.toml | 10:3: camera[0].zone[0].release_level: 0.05 (expected at most onset_level 0.02)",
+        "release-above-onset.toml | 9:3: camera[0].zone[0].release_level: 0.05 (expected at most onset_level 0.02)",
         "duplicate-camera-id.toml | 11:1: camera[1].id: \"gate\" (expected an id no other camera has)",
         "syntax-error.toml | 2:11: TOML syntax: Unexpected end of line, expected \" or a character",
         "webhook-url-not-http.toml | 11:1: webhook[0].url: \"ftp://ops.yard.example/hook\" (expected an http:// or https:// URL with a host)",
@@ -82,8 +86,9 @@ class ConfigLoaderTest {
                 DIR + "three-mistakes.toml:5:1: camera[0].analysis_width: \"wide\" (expected a whole number from 32 to 1920)",
                 DIR + "three-mistakes.toml:11:3: camera[0].zone[0].tolerance_deg: 270 (expected a number from 0 to 90)",
                 DIR + "three-mistakes.toml:12:3: camera[0].zone[0].hold_secs: 0.5 (unknown key; expected one of id, "
-                        + "polygon, heading_deg, tolerance_deg, min_speed, min_confidence, onset_level, release_level, "
-                        + "hold_seconds, clear_seconds, rest_seconds, learn_heading_seconds, min_travel_px, quick_travel_px)"),
+                        + "polygon, heading_deg, tolerance_deg, min_speed, min_confidence, learn_heading_seconds, "
+                        + "hold_seconds, clear_seconds, rest_seconds, min_travel_px, quick_travel_px, "
+                        + "min_mover_area_px)"),
                 errorsOf("three-mistakes.toml"));
     }
 

@@ -21,9 +21,9 @@ import wayward.cli.Main;
 import wayward.event.Event;
 
 /**
- * The replay report on the demo scene: the CSV agrees with the events (a start lies where the against share
- * has stayed above the release level since it crossed the onset level, for at least the hold time), the what-if
- * run equals a full replay with the same settings, and the plot has the series and the shaded event in it.
+ * The replay report on the demo scene: the movers file agrees with the events (a start lies at the first frame
+ * where one mover qualifies under the zone's settings), the what-if run equals a full replay with the same
+ * settings, and the plot has the series and the shaded event in it.
  */
 @Timeout(value = 120, unit = TimeUnit.SECONDS)
 class ReplayReportTest {
@@ -62,29 +62,32 @@ class ReplayReportTest {
         assertTrue(lines.size() > 250, "one row per analysed frame (10 a second for 26 s): " + lines.size());
         Files.readAllLines(report.resolve("events.jsonl")).forEach(l -> assertTrue(events.contains(l), l));
 
-        // the start: the against share crossed the onset level, stayed above the release level, for the hold
+        // the start: the frame where one mover first had travelled 10 px against the heading (min_travel_px)
+        // after being followed 0.5 s (hold_seconds), or 30 px (quick_travel_px), at 3+ samples of 16 px²
         double start = Double.parseDouble(phases(events).get(0).split(" ")[2]);
-        double crossed = Double.NaN;
-        for (int i = 2; i < lines.size(); i++) {
-            String[] f = lines.get(i).split(",");
+        List<String> movers = Files.readAllLines(report.resolve("yard-mast-2-lane-2-out.movers.csv"));
+        assertEquals(ReplayReport.MOVER_HEADER, movers.get(0));
+        double first = Double.NaN;
+        for (String row : movers.subList(1, movers.size())) {
+            String[] f = row.split(",");
             double t = Double.parseDouble(f[0]);
-            double against = Double.parseDouble(f[2]);
-            if (t > start + 0.001) {
+            boolean seen = f[2].equals("1");
+            double age = Double.parseDouble(f[3]);
+            double travel = Double.parseDouble(f[4]);
+            int peak = Integer.parseInt(f[6]);
+            if (seen && peak * 16 >= 48 && (travel >= 30 || (travel >= 10 && age >= 0.5 - 1e-6))) {
+                first = t;
                 break;
             }
-            if (against < 0.008) {
-                crossed = Double.NaN;
-            } else if (Double.isNaN(crossed) && against >= 0.02) {
-                crossed = t;
-            }
         }
-        assertTrue(start - crossed >= 0.5 - 0.001, "held from " + crossed + " to the start at " + start);
+        assertEquals(first, start, 0.001, "the start is the first frame where one mover qualifies");
         // (event times are rounded to 1 ms in the record, the CSV keeps full precision)
         assertEquals("active", lines.stream().skip(2).filter(l -> Double.parseDouble(l.split(",")[0]) >= start - 0.001)
-                .findFirst().orElseThrow().split(",")[7], "the row of the start shows the rule active");
+                .findFirst().orElseThrow().split(",")[9], "the row of the start shows the rule active");
 
-        // what-if with other levels equals a full replay configured with them (readings do not depend on rules)
-        List<Event> whatIf = WhatIf.run(report, Map.of("onset_level", 0.005, "hold_seconds", 0.2));
+        // what-if with other settings equals a full replay configured with them (the movers do not depend on
+        // the rule's settings)
+        List<Event> whatIf = WhatIf.run(report, Map.of("min_travel_px", 25.0, "hold_seconds", 0.2));
         List<String> fromWhatIf = new ArrayList<>();
         for (Event e : whatIf) {
             // the event record rounds stream time to 1 ms
@@ -92,12 +95,16 @@ class ReplayReportTest {
         }
         Path config = dir.resolve("other.toml");
         Files.writeString(config, Files.readString(Path.of("conf/demo.toml"))
-                .replace("[[camera.zone]]", "[[camera.zone]]\nonset_level = 0.005\nhold_seconds = 0.2")
+                .replace("[[camera.zone]]", "[[camera.zone]]\nmin_travel_px = 25\nhold_seconds = 0.2")
                 .replace("data_dir = \"../wayward-demo\"", "data_dir = \"" + dir.resolve("data") + "\"")
                 .replace("\"../test-streams/", "\"" + Path.of("test-streams").toAbsolutePath() + "/"));
         List<String> full = phases(replay(config, null));
         assertEquals(full, fromWhatIf);
         assertTrue(full.size() >= 2);
+        IllegalArgumentException wrongKey = org.junit.jupiter.api.Assertions.assertThrows(
+                IllegalArgumentException.class, () -> WhatIf.run(report, Map.of("onset_level", 0.01)));
+        assertTrue(wrongKey.getMessage().startsWith("onset_level applies to no zone of this report"),
+                wrongKey.getMessage());
 
         // the plot: both series and the shaded event are drawn (pixel counts, not just a file)
         BufferedImage png = ImageIO.read(report.resolve("yard-mast-2-lane-2-out.png").toFile());

@@ -9,6 +9,7 @@ import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.PrintStream;
 import java.nio.ByteBuffer;
+import java.nio.FloatBuffer;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -18,28 +19,48 @@ import java.util.List;
 import java.util.Locale;
 import java.util.stream.Stream;
 import org.bytedeco.ffmpeg.global.avutil;
+import org.bytedeco.ffmpeg.global.swscale;
 import org.bytedeco.javacv.FFmpegFrameGrabber;
 import org.bytedeco.javacv.Frame;
+import org.bytedeco.opencv.global.opencv_core;
 import org.bytedeco.opencv.global.opencv_video;
 import org.bytedeco.opencv.opencv_core.Mat;
 import org.bytedeco.opencv.opencv_video.BackgroundSubtractorMOG2;
+import org.bytedeco.opencv.opencv_video.DISOpticalFlow;
 import wayward.cli.Main;
 import wayward.event.Event;
 import wayward.rule.RuleSettings;
 import wayward.rule.ZoneRule;
 import wayward.zone.ZoneMask;
+import wayward.zone.ZoneMeter;
 import wayward.zone.ZoneReading;
 
 /**
- * The detection suite: renders every scenario in test-streams/suite with our generator (exact ground truth),
- * runs wayward's {@code replay} on it and, for comparison, a direction-blind baseline (OpenCV's MOG2
- * background subtraction through JavaCV, deciding "motion in zone" with the same hysteresis rule), and scores
- * both against the truth. Run {@link #main} for the table (DEVELOPERS.md, "Detection suite").
+ * The detection suite: renders every scenario of both halves of test-streams/suite ({@code tune}, where
+ * defaults are chosen, and {@code held-out}, where they are scored) with our generator (exact ground truth),
+ * runs wayward's {@code replay} on it and, for comparison, two references on the same video: a direction-blind
+ * baseline (OpenCV's MOG2 background subtraction through JavaCV, deciding "motion in zone" with the same
+ * hysteresis rule) and a direction-aware one (OpenCV's DIS optical flow, preset MEDIUM, through JavaCV, the share
+ * of the zone moving against its heading decided by our {@link ZoneRule}), and scores all three against the
+ * truth, each half on its own. Run {@link #main} for the tables (DEVELOPERS.md, "Detection suite").
  */
 public final class DetectionSuite {
     /** The default zone rule of the config (conf/wayward.example.toml), used by both detectors. */
     static final RuleSettings RULE = new RuleSettings(0.02, 0.008, 0.5, 1.0, 2.0);
     // (the baseline has no direction, so the travel conditions do not apply to it)
+    /**
+     * The DIS reference's rule: onset at 1 % of the zone's pixels against the heading, held 0.3 s (release,
+     * clear and rest as {@link #RULE}); no travel conditions.
+     */
+    static final RuleSettings DIS_RULE = new RuleSettings(0.01, 0.004, 0.3, 1.0, 2.0);
+    /** The DIS reference counts a pixel as moving from this speed on, analysis px per second. */
+    static final double DIS_MIN_SPEED = 8;
+    /** The halves of the suite, in the order the tables show them. */
+    static final List<String> HALVES = List.of("tune", "held-out");
+    /** Analysis picture width and rate of the references, as wayward's defaults (conf/wayward.example.toml). */
+    static final int ANALYSIS_WIDTH = 320;
+    static final double ANALYSIS_FPS = 10;
+
     /** A start this long after the passage's end still counts as catching it (the rule's clear time + slack). */
     static final double LATE_SECONDS = 1.5;
 
@@ -61,7 +82,11 @@ public final class DetectionSuite {
     /** A tamper alert counts when it starts within this long after the tampering. */
     static final double TAMPER_SECONDS = 5;
 
-    /** The score of one detector on one scenario. */
+    /** One scenario's scores: wayward, the MOG2 baseline and the DIS-MEDIUM reference. */
+    record Row(String half, Score ours, Score mog2, Score dis) {
+    }
+
+    /** The score of one detector on one scenario; latencies are start − entry − the detector's hold time. */
     record Score(String scenario, boolean nuisance, double seconds, int passages, int caught, int events,
             int falseAlerts, double maxLatency, double meanLatency, String tamperExpected, boolean tamperCaught,
             int falseTamper) {
@@ -78,7 +103,7 @@ public final class DetectionSuite {
     }
 
     public static List<Path> scenarios(Path suiteDir) throws IOException {
-        try (Stream<Path> s = Files.list(suiteDir)) {
+        try (Stream<Path> s = Files.walk(suiteDir)) {
             return s.filter(p -> p.getFileName().toString().endsWith(".scene.toml")).sorted().toList();
         }
     }
@@ -220,8 +245,114 @@ public final class DetectionSuite {
         return found;
     }
 
+    /** The analysed frames at 320 wide and 10 fps, as wayward's capture picks them (VideoSource: due times). */
+    interface FrameSink {
+        void frame(byte[] pixels, int w, int h, double streamSeconds);
+    }
+
+    static void analysedFrames(Scene scene, Path video, FrameSink sink) throws IOException {
+        int w = ANALYSIS_WIDTH;
+        int h = (int) Math.round(ANALYSIS_WIDTH * (double) scene.height() / scene.width() / 2) * 2;
+        try (FFmpegFrameGrabber g = new FFmpegFrameGrabber(video.toFile())) {
+            g.setPixelFormat(avutil.AV_PIX_FMT_GRAY8);
+            g.setImageWidth(w);
+            g.setImageHeight(h);
+            g.setImageScalingFlags(swscale.SWS_AREA);
+            g.start();
+            byte[] pixels = new byte[w * h];
+            double nextDue = 0;
+            double interval = 1 / ANALYSIS_FPS;
+            int index = 0;
+            Frame f;
+            while ((f = g.grabImage()) != null) {
+                double t = index++ / scene.fps();
+                if (t + 1e-6 < nextDue) {
+                    continue;
+                }
+                nextDue = Math.max(nextDue + interval, t + interval * 0.5);
+                ByteBuffer b = (ByteBuffer) f.image[0];
+                for (int y = 0; y < h; y++) {
+                    b.position(y * f.imageStride);
+                    b.get(pixels, y * w, w);
+                }
+                sink.frame(pixels, w, h, t);
+            }
+            g.stop();
+        }
+    }
+
+    /**
+     * The direction-aware reference: OpenCV DIS optical flow (Kroeger et al. 2016), preset MEDIUM, through
+     * JavaCV, on every analysed frame pair (320 wide, 10 fps). Per zone the signal is the share of its pixels
+     * whose flow is at least {@link #DIS_MIN_SPEED} px/s and lies within the zone's tolerance of the opposite
+     * of its heading; our {@link ZoneRule} with {@link #DIS_RULE} decides the events.
+     */
+    static List<Detection> disReference(Scene scene, Path video) throws IOException {
+        List<Detection> found = new ArrayList<>();
+        opencv_core.setNumThreads(1);
+        try (DISOpticalFlow dis = DISOpticalFlow.create(DISOpticalFlow.PRESET_MEDIUM)) {
+            List<ZoneMask> masks = new ArrayList<>();
+            List<ZoneRule> rules = new ArrayList<>();
+            ZoneReading r = new ZoneReading();
+            Mat[] previous = {null};
+            double[] previousT = {0};
+            analysedFrames(scene, video, (pixels, w, h, t) -> {
+                if (masks.isEmpty()) {
+                    for (Scene.Zone z : scene.zones()) {
+                        masks.add(ZoneMask.rasterise(z.xs(), z.ys(), w, h));
+                        rules.add(new ZoneRule("suite", z.id(), true, DIS_RULE, Clock.systemUTC()));
+                    }
+                }
+                Mat frame = new Mat(h, w, CV_8UC1);
+                frame.data().put(pixels, 0, pixels.length);
+                if (previous[0] != null) {
+                    double dt = t - previousT[0];
+                    try (Mat flow = new Mat()) { // a new output every call: DIS would start from the old one
+                        dis.calc(previous[0], frame, flow);
+                        FloatBuffer fb = flow.createBuffer();
+                        for (int z = 0; z < masks.size(); z++) {
+                            ZoneMask m = masks.get(z);
+                            Scene.Zone zone = scene.zones().get(z);
+                            int against = 0;
+                            double su = 0;
+                            double sv = 0;
+                            for (int k = 0; k < m.size(); k++) {
+                                int p = m.pixel(k);
+                                double u = fb.get(2 * p) / dt;
+                                double v = fb.get(2 * p + 1) / dt;
+                                if (Math.hypot(u, v) >= DIS_MIN_SPEED && zone.isAgainst(ZoneMeter.bearingDeg(u, v))) {
+                                    against++;
+                                    su += u;
+                                    sv += v;
+                                }
+                            }
+                            r.streamSeconds = t;
+                            r.against = m.size() == 0 ? 0 : (double) against / m.size();
+                            r.coverage = r.against;
+                            r.speed = against == 0 ? 0 : Math.hypot(su, sv) / against;
+                            r.headingDeg = against == 0 ? Double.NaN : ZoneMeter.bearingDeg(su, sv);
+                            r.againstSpeed = r.speed;
+                            r.againstHeadingDeg = r.headingDeg;
+                            Event e = rules.get(z).update(r);
+                            if (e != null && e.phase() == Event.Phase.START) {
+                                found.add(new Detection(zone.id(), t));
+                            }
+                        }
+                    }
+                    previous[0].close();
+                }
+                previous[0] = frame;
+                previousT[0] = t;
+            });
+            if (previous[0] != null) {
+                previous[0].close();
+            }
+        }
+        return found;
+    }
+
     /** Matches starts to passages (each start at most one passage, in time order), and tamper alerts. */
-    static Score score(Scene scene, List<Passage> passages, List<Detection> all) {
+    static Score score(Scene scene, List<Passage> passages, List<Detection> all, double holdSeconds) {
         List<Detection> found = all.stream().filter(d -> d.kind().equals("wrong_way") || d.kind().equals("motion"))
                 .toList();
         Scene.Nuisances nu = scene.nuisances();
@@ -251,7 +382,7 @@ public final class DetectionSuite {
                         && d.start() <= p.exit() + LATE_SECONDS) {
                     used[i] = true;
                     caught++;
-                    double latency = d.start() - p.enter() - RULE.holdSeconds();
+                    double latency = d.start() - p.enter() - holdSeconds;
                     sum += latency;
                     max = Double.isNaN(max) ? latency : Math.max(max, latency);
                     break;
@@ -269,76 +400,125 @@ public final class DetectionSuite {
                 max, caught == 0 ? Double.NaN : sum / caught, expected, tamperCaught, falseTamper);
     }
 
-    /** Both detectors on every scenario: {ours, baseline} per scenario. */
-    public static List<Score[]> run(Path suiteDir, Path work) throws IOException {
-        Files.createDirectories(work);
-        List<Score[]> rows = new ArrayList<>();
-        for (Path file : scenarios(suiteDir)) {
-            Scene scene = Scene.load(file);
-            Path video = render(file, work);
-            List<Passage> passages = passages(scene);
-            rows.add(new Score[] {score(scene, passages, wayward(scene, video, work)),
-                    score(scene, passages, motionBaseline(scene, video))});
+    /** The three detectors on every scenario of both halves, in table order (tune first). */
+    public static List<Row> run(Path suiteDir, Path work) throws IOException {
+        List<Row> rows = new ArrayList<>();
+        for (String half : HALVES) {
+            Path dir = work.resolve(half);
+            Files.createDirectories(dir);
+            for (Path file : scenarios(suiteDir.resolve(half))) {
+                rows.add(run(half, file, dir));
+            }
         }
         return rows;
+    }
+
+    /** The three detectors on one scenario (rendered into {@code work} unless already there). */
+    static Row run(String half, Path file, Path work) throws IOException {
+        Scene scene = Scene.load(file);
+        Path video = render(file, work);
+        List<Passage> passages = passages(scene);
+        return new Row(half, score(scene, passages, wayward(scene, video, work), RULE.holdSeconds()),
+                score(scene, passages, motionBaseline(scene, video), RULE.holdSeconds()),
+                score(scene, passages, disReference(scene, video), DIS_RULE.holdSeconds()));
     }
 
     private static String f(double v, String pattern) {
         return Double.isNaN(v) ? "–" : String.format(Locale.ROOT, pattern, v);
     }
 
-    /** The table for DEVELOPERS.md (Markdown). */
-    public static String table(List<Score[]> rows) {
+    /** Totals of one detector over one half. */
+    record Totals(int scenarios, double seconds, int passages, int caught, int events, int falseAlerts,
+            int nuisanceScenes, int nuisanceFalse, double meanLatency, double maxLatency) {
+        static Totals of(List<Score> scores) {
+            int passages = 0;
+            int caught = 0;
+            int events = 0;
+            int falseAlerts = 0;
+            int nuisanceScenes = 0;
+            int nuisanceFalse = 0;
+            double seconds = 0;
+            double sum = 0;
+            double max = Double.NaN;
+            for (Score o : scores) {
+                passages += o.passages();
+                caught += o.caught();
+                events += o.events();
+                falseAlerts += o.falseAlerts();
+                nuisanceScenes += o.nuisance() ? 1 : 0;
+                nuisanceFalse += o.nuisance() ? o.falseAlerts() : 0;
+                seconds += o.seconds();
+                if (!Double.isNaN(o.maxLatency())) {
+                    max = Double.isNaN(max) ? o.maxLatency() : Math.max(max, o.maxLatency());
+                    sum += o.meanLatency() * o.caught();
+                }
+            }
+            return new Totals(scores.size(), seconds, passages, caught, events, falseAlerts, nuisanceScenes,
+                    nuisanceFalse, caught == 0 ? Double.NaN : sum / caught, max);
+        }
+
+        double recall() {
+            return passages == 0 ? Double.NaN : (double) caught / passages;
+        }
+
+        double precision() {
+            return events == 0 ? Double.NaN : (double) (events - falseAlerts) / events;
+        }
+    }
+
+    /** The tables for DEVELOPERS.md (Markdown): one per half, then the summary of both halves. */
+    public static String table(List<Row> rows) {
         StringBuilder b = new StringBuilder();
-        b.append("| scenario | wrong-way passages | wayward: caught | wayward: false alerts | wayward: latency "
-                + "mean / max (s) | tamper expected → raised | MOG2 motion: caught | MOG2 motion: false alerts |\n");
-        b.append("|---|---|---|---|---|---|---|---|\n");
-        int passages = 0;
-        int caught = 0;
-        int events = 0;
-        int falseAlerts = 0;
-        int nuisanceFalse = 0;
-        int baseCaught = 0;
-        int baseEvents = 0;
-        int baseFalse = 0;
-        double seconds = 0;
-        double maxLatency = Double.NaN;
-        for (Score[] r : rows) {
-            Score o = r[0];
-            Score m = r[1];
-            b.append("| ").append(o.scenario()).append(" | ").append(o.passages()).append(" | ")
-                    .append(o.caught()).append(" | ").append(o.falseAlerts()).append(" | ")
-                    .append(f(o.meanLatency(), "%.2f")).append(" / ").append(f(o.maxLatency(), "%.2f")).append(" | ")
-                    .append(o.tamperExpected() == null ? "–" : o.tamperExpected() + (o.tamperCaught() ? " ✓" : " ✗"))
-                    .append(o.falseTamper() > 0 ? " (+" + o.falseTamper() + " false)" : "").append(" | ")
-                    .append(m.caught()).append(" | ").append(m.falseAlerts()).append(" |\n");
-            passages += o.passages();
-            caught += o.caught();
-            events += o.events();
-            falseAlerts += o.falseAlerts();
-            nuisanceFalse += o.nuisance() ? o.falseAlerts() : 0;
-            baseCaught += m.caught();
-            baseEvents += m.events();
-            baseFalse += m.falseAlerts();
-            seconds += o.seconds();
-            if (!Double.isNaN(o.maxLatency())) {
-                maxLatency = Double.isNaN(maxLatency) ? o.maxLatency() : Math.max(maxLatency, o.maxLatency());
+        for (String half : HALVES) {
+            List<Row> in = rows.stream().filter(r -> r.half().equals(half)).toList();
+            if (in.isEmpty()) {
+                continue;
+            }
+            b.append("\n**").append(half).append("** (").append(in.size()).append(" scenarios)\n\n");
+            b.append("| scenario | wrong-way passages | wayward: caught | wayward: false alerts | wayward: latency "
+                    + "mean / max (s) | tamper expected → raised | MOG2 motion: caught / false | DIS-MEDIUM: caught "
+                    + "/ false | DIS-MEDIUM: latency mean / max (s) |\n");
+            b.append("|---|---|---|---|---|---|---|---|---|\n");
+            for (Row r : in) {
+                Score o = r.ours();
+                Score m = r.mog2();
+                Score d = r.dis();
+                b.append("| ").append(o.scenario()).append(" | ").append(o.passages()).append(" | ")
+                        .append(o.caught()).append(" | ").append(o.falseAlerts()).append(" | ")
+                        .append(f(o.meanLatency(), "%.2f")).append(" / ").append(f(o.maxLatency(), "%.2f")).append(" | ")
+                        .append(o.tamperExpected() == null ? "–" : o.tamperExpected() + (o.tamperCaught() ? " ✓" : " ✗"))
+                        .append(o.falseTamper() > 0 ? " (+" + o.falseTamper() + " false)" : "").append(" | ")
+                        .append(m.caught()).append(" / ").append(m.falseAlerts()).append(" | ")
+                        .append(d.caught()).append(" / ").append(d.falseAlerts()).append(" | ")
+                        .append(f(d.meanLatency(), "%.2f")).append(" / ").append(f(d.maxLatency(), "%.2f")).append(" |\n");
             }
         }
-        double hours = seconds / 3600;
-        b.append(String.format(Locale.ROOT, "%n**Overall** (%d scenarios, %.0f s of video): wayward recall %d/%d = "
-                + "%.3f, precision %s, false alerts %d (%.0f per hour of video; %d in nuisance scenarios), "
-                + "worst latency over the hold time %s s. MOG2 motion baseline: recall %d/%d, precision %s, false "
-                + "alerts %d (%.0f per hour).%n", rows.size(), seconds, caught, passages,
-                passages == 0 ? Double.NaN : (double) caught / passages,
-                events == 0 ? "–" : String.format(Locale.ROOT, "%.3f", (double) (events - falseAlerts) / events),
-                falseAlerts, falseAlerts / hours, nuisanceFalse, f(maxLatency, "%.2f"), baseCaught, passages,
-                baseEvents == 0 ? "–" : String.format(Locale.ROOT, "%.3f", (double) (baseEvents - baseFalse) / baseEvents),
-                baseFalse, baseFalse / hours));
+        b.append("\n| half | detector | recall | precision | false alerts (per hour) | nuisance scenes with a false "
+                + "alert | onset latency over hold, mean / max (s) |\n|---|---|---|---|---|---|---|\n");
+        for (String half : HALVES) {
+            List<Row> in = rows.stream().filter(r -> r.half().equals(half)).toList();
+            if (in.isEmpty()) {
+                continue;
+            }
+            summary(b, half, "wayward (hold " + RULE.holdSeconds() + " s)", Totals.of(in.stream().map(Row::ours).toList()),
+                    in.stream().map(Row::ours).toList());
+            summary(b, half, "MOG2 motion (hold " + RULE.holdSeconds() + " s)", Totals.of(in.stream().map(Row::mog2).toList()),
+                    in.stream().map(Row::mog2).toList());
+            summary(b, half, "DIS-MEDIUM reference (hold " + DIS_RULE.holdSeconds() + " s)",
+                    Totals.of(in.stream().map(Row::dis).toList()), in.stream().map(Row::dis).toList());
+        }
         return b.toString();
     }
 
-    /** Prints the table: {@code java -cp … wayward.scene.DetectionSuite [suite folder] [work folder]}. */
+    private static void summary(StringBuilder b, String half, String name, Totals t, List<Score> scores) {
+        long nuisanceWithFalse = scores.stream().filter(s -> s.nuisance() && s.falseAlerts() > 0).count();
+        b.append(String.format(Locale.ROOT, "| %s | %s | %d/%d = %s | %s | %d (%.0f) | %d of %d (%d alerts) | %s / %s |%n",
+                half, name, t.caught(), t.passages(), f(t.recall(), "%.3f"), f(t.precision(), "%.3f"),
+                t.falseAlerts(), t.falseAlerts() / (t.seconds() / 3600), nuisanceWithFalse, t.nuisanceScenes(),
+                t.nuisanceFalse(), f(t.meanLatency(), "%.2f"), f(t.maxLatency(), "%.2f")));
+    }
+
+    /** Prints the tables: {@code java -cp … wayward.scene.DetectionSuite [suite folder] [work folder]}. */
     public static void main(String[] args) throws IOException {
         Path suite = Path.of(args.length > 0 ? args[0] : "test-streams/suite");
         Path work = Path.of(args.length > 1 ? args[1] : "target/suite");

@@ -1,0 +1,644 @@
+package wayward.zone;
+
+import java.util.Arrays;
+import wayward.flow.FlowField;
+
+/**
+ * Finds the movers of one zone in each flow field and follows them from frame to frame. A mover is a coherent
+ * group of moving samples: connected on the sample grid (8-neighbourhood, one sample of gap allowed, so a
+ * mover whose middle is flat still hangs together) and moving alike (each sample within
+ * {@link MoverSettings#groupAngleDeg} of its group's direction). Groups are seeded by the zone's samples and
+ * grown over the whole picture, so a vehicle beside the zone that spills a sliver into it is seen whole; its
+ * travel only counts while its centroid is inside the zone (the same test as the suite's ground truth: a
+ * mover's centre inside the zone). Each track keeps its age, size, a short path, its mean speed and its
+ * <em>travel against the heading</em>: the sum over frames of its group's motion along the against direction
+ * (with-heading motion subtracts, crossing adds nothing). That sum comes from the flow inside the group, not
+ * from the centroid, so a mover that shrinks as it drives away, or whose outline changes, still adds up its
+ * true travel. Where the flow fails (a small mover jumping tens of pixels a frame), the centroid's steps count
+ * instead, but only while the group keeps its size and shape, has at least {@link #MIN_STEADY_SAMPLES} samples
+ * and its flow goes the same way at the speed floor; the travel is the larger of the two sums.
+ *
+ * <p><b>What moves.</b> The picture's common motion is subtracted first when the camera's motion is removed.
+ * A sample whose structure tensor's smaller eigenvalue reaches the confidence floor votes with its flow. One
+ * below that floor whose larger eigenvalue reaches it lies on a straight edge, where only the motion across the
+ * edge is measured (the aperture problem): it votes with its normal flow s·n, s = (u, v)·n. A plain van's roof
+ * only shows its motion at its rim, and those rim samples are what makes it a mover. A sample with neither
+ * does not move. The group's velocity is the least-squares velocity of all its constraints: a full sample
+ * says V = (u, v), an edge sample says V·n = s (the intersection of constraints of Adelson &amp; Movshon 1982),
+ * lightly regularised so that a group of parallel edges alone reads its motion across them.
+ *
+ * <p><b>Slow movers.</b> A crawl of half a pixel per analysed frame is below the speed floor, and lowering the
+ * floor lets sensor noise through. Instead every sample keeps an exponential average of its vote (time
+ * constant {@link MoverSettings#slowSeconds}, in stream time): noise, which changes sign from frame to frame,
+ * averages towards 0 (its spread shrinks by about √(α / (2 − α)), a quarter at 0.75 s and 10 frames a second),
+ * while a steady crawl keeps its value. A sample also moves when its averaged flow reaches the slow floor and its
+ * present flow agrees with the average (its projection on the average is at least half the average's length):
+ * the agreement test keeps the decaying average behind a fast mover that has passed from reading as a trail.
+ * This was chosen over integrating along tracks because noise alone then never forms the groups that tracks
+ * would have to follow.
+ *
+ * <p><b>Following.</b> Each track predicts its centroid (last centroid + velocity × time since seen); groups
+ * and tracks are paired nearest first within a gate (gate + half the track's size, or the prediction inside the
+ * group's box), never when both move clearly and in opposite directions. An unpaired group of at least two
+ * samples starts a track; a track that finds no group for {@link MoverSettings#lostSeconds} is dropped.
+ *
+ * <p>One instance per zone, used by the camera's analysis thread. Every array is sized at construction from the
+ * sample grid (groups may grow past the zone) and the track table from the zone mask's sample count;
+ * {@link #update} allocates nothing. A test-side check of the allocation is not there yet (JMH -prof gc).
+ */
+public final class MoverTracker {
+    /** Groups smaller than this are not followed (single noisy samples). */
+    static final int MIN_GROUP_SAMPLES = 2;
+    /** Groups smaller than this never count centroid steps as travel (chance clusters of noise are small). */
+    static final int MIN_STEADY_SAMPLES = 6;
+    /** Tracks followed at once at most; at least 4, otherwise a quarter of the zone's samples. */
+    static final int MAX_TRACKS = 64;
+    private static final byte NONE = 0;
+    private static final byte FULL = 1;
+    private static final byte EDGE = 2;
+
+    private final ZoneMask mask;
+    private final MoverSettings settings;
+    private final boolean removeCameraMotion;
+    private final int gridWidth;
+    private final int gridHeight;
+    private final int imageWidth;
+    private final int imageHeight;
+    private final int stride;
+    private final boolean hasHeading;
+    private final float againstX;
+    private final float againstY;
+    private final float cosTolerance;
+    private final float cosGroup;
+    private final float cosEdge;
+
+    // per zone sample
+    private final int[] idx;
+    private final boolean[] inZone;
+    private final float[] px;
+    private final float[] py;
+    private final float[] emaU;
+    private final float[] emaV;
+    private final float[] wu;
+    private final float[] wv;
+    private final float[] nx;
+    private final float[] ny;
+    private final byte[] kind;
+    private final int[] label;
+    private final int[] queue;
+    // per group
+    private final int[] gCount;
+    private final int[] gMinI;
+    private final int[] gMaxI;
+    private final int[] gMinJ;
+    private final int[] gMaxJ;
+    private final double[] gSumX;
+    private final double[] gSumY;
+    private final double[] gA11;
+    private final double[] gA12;
+    private final double[] gA22;
+    private final double[] gB1;
+    private final double[] gB2;
+    private final float[] gDirX;
+    private final float[] gDirY;
+    private final double[] gVU;
+    private final double[] gVV;
+    private final int[] gTrack;
+    private int groups;
+    // per track
+    private final long[] tId;
+    private final boolean[] tLive;
+    private final double[] tBorn;
+    private final double[] tSeenAt;
+    private final double[] tX;
+    private final double[] tY;
+    private final double[] tVx;
+    private final double[] tVy;
+    private final double[] tTravel;
+    private final double[] tFlowTravel;
+    private final double[] tCentroidTravel;
+    /** The centroid where it was last seen inside the zone (NaN: not yet). */
+    private final double[] tEntryX;
+    private final double[] tEntryY;
+    private final double[] tPredVx;
+    private final double[] tPredVy;
+    private final double[] tDistance;
+    private final double[] tMovingSeconds;
+    private final int[] tSamples;
+    private final int[] tPeak;
+    private final int[] tW;
+    private final int[] tH;
+    private final int[] tGroup;
+    private long nextId = 1;
+    private long untracked;
+
+    /**
+     * @param mask       the zone's samples, made for {@code layout}
+     * @param layout     a field of the size and sample spacing the tracker will see; read, not kept
+     * @param headingDeg permitted bearing, degrees clockwise from image-up; NaN: no travel is counted
+     */
+    public MoverTracker(ZoneMask mask, FlowField layout, double headingDeg, MoverSettings settings,
+            boolean removeCameraMotion) {
+        if (layout.width != mask.width || layout.height != mask.height) {
+            throw new IllegalArgumentException("layout: " + layout.width + "x" + layout.height + " samples (expected "
+                    + mask.width + "x" + mask.height + ", the mask's)");
+        }
+        if (!Double.isNaN(headingDeg) && !(headingDeg >= 0 && headingDeg < 360)) {
+            throw new IllegalArgumentException("headingDeg: " + headingDeg + " (expected 0 to less than 360, or NaN)");
+        }
+        this.mask = mask;
+        this.settings = settings;
+        this.removeCameraMotion = removeCameraMotion;
+        this.gridWidth = mask.width;
+        this.gridHeight = mask.height;
+        this.imageWidth = layout.imageWidth;
+        this.imageHeight = layout.imageHeight;
+        this.stride = layout.stride;
+        this.hasHeading = !Double.isNaN(headingDeg);
+        double h = Math.toRadians(hasHeading ? headingDeg : 0);
+        // the heading is (sin h, −cos h) in image coordinates (y down); against is its opposite
+        this.againstX = (float) -Math.sin(h);
+        this.againstY = (float) Math.cos(h);
+        this.cosTolerance = (float) Math.cos(Math.toRadians(settings.toleranceDeg()));
+        this.cosGroup = (float) Math.cos(Math.toRadians(settings.groupAngleDeg()));
+        this.cosEdge = (float) Math.cos(Math.toRadians(Math.min(85, settings.groupAngleDeg() + 30)));
+        idx = mask.indices();
+        int n = gridWidth * gridHeight;
+        inZone = new boolean[n];
+        for (int k : idx) {
+            inZone[k] = true;
+        }
+        px = new float[n];
+        py = new float[n];
+        for (int k = 0; k < n; k++) {
+            px[k] = layout.pixelX(k % gridWidth);
+            py[k] = layout.pixelY(k / gridWidth);
+        }
+        emaU = new float[n];
+        emaV = new float[n];
+        wu = new float[n];
+        wv = new float[n];
+        nx = new float[n];
+        ny = new float[n];
+        kind = new byte[n];
+        label = new int[n];
+        queue = new int[n];
+        gCount = new int[n];
+        gMinI = new int[n];
+        gMaxI = new int[n];
+        gMinJ = new int[n];
+        gMaxJ = new int[n];
+        gSumX = new double[n];
+        gSumY = new double[n];
+        gA11 = new double[n];
+        gA12 = new double[n];
+        gA22 = new double[n];
+        gB1 = new double[n];
+        gB2 = new double[n];
+        gDirX = new float[n];
+        gDirY = new float[n];
+        gVU = new double[n];
+        gVV = new double[n];
+        gTrack = new int[n];
+        int t = capacity(idx.length);
+        tId = new long[t];
+        tLive = new boolean[t];
+        tBorn = new double[t];
+        tSeenAt = new double[t];
+        tX = new double[t];
+        tY = new double[t];
+        tVx = new double[t];
+        tVy = new double[t];
+        tTravel = new double[t];
+        tFlowTravel = new double[t];
+        tEntryX = new double[t];
+        tCentroidTravel = new double[t];
+        tEntryY = new double[t];
+        tPredVx = new double[t];
+        tPredVy = new double[t];
+        tDistance = new double[t];
+        tMovingSeconds = new double[t];
+        tSamples = new int[t];
+        tPeak = new int[t];
+        tW = new int[t];
+        tH = new int[t];
+        tGroup = new int[t];
+    }
+
+    /** Tracks followed at once at most for a zone of {@code samples} samples. */
+    static int capacity(int samples) {
+        return Math.max(4, Math.min(MAX_TRACKS, samples / 4));
+    }
+
+    /** A table the size of this tracker's track capacity, for {@link #update}. */
+    public Movers newMovers() {
+        return new Movers(tId.length);
+    }
+
+    public ZoneMask mask() {
+        return mask;
+    }
+
+    /** Groups that could not be followed because every track slot was taken, since the start. */
+    public long untracked() {
+        return untracked;
+    }
+
+    /** Forgets every track and the averaged flow (the flow restarted after a gap). */
+    public void reset() {
+        Arrays.fill(tLive, false);
+        Arrays.fill(emaU, 0f);
+        Arrays.fill(emaV, 0f);
+    }
+
+    /**
+     * Finds this frame's groups, follows the tracks and writes them into {@code out}.
+     *
+     * @param flow         a field of the layout given at construction
+     * @param frameSeconds stream seconds between the flow's two frames (more than 0)
+     * @param out          a table from {@link #newMovers}; refilled
+     */
+    public void update(FlowField flow, double frameSeconds, double streamSeconds, Movers out) {
+        if (flow.width != gridWidth || flow.height != gridHeight || flow.stride != stride) {
+            throw new IllegalArgumentException("flow: " + flow.width + "x" + flow.height + " every " + flow.stride
+                    + " px (expected " + gridWidth + "x" + gridHeight + " every " + stride + " px)");
+        }
+        if (!(frameSeconds > 0)) {
+            throw new IllegalArgumentException("frameSeconds: " + frameSeconds + " (expected more than 0)");
+        }
+        if (out.capacity() != tId.length) {
+            throw new IllegalArgumentException("out: capacity " + out.capacity() + " (expected " + tId.length + ")");
+        }
+        classify(flow, frameSeconds);
+        group();
+        follow(frameSeconds, streamSeconds);
+        out.begin(streamSeconds, imageWidth, imageHeight, stride);
+        for (int t = 0; t < tId.length; t++) {
+            if (!tLive[t]) {
+                continue;
+            }
+            boolean seen = tSeenAt[t] == streamSeconds;
+            double speed = tMovingSeconds[t] > 0 ? tDistance[t] / tMovingSeconds[t] : 0;
+            out.put(tId[t], seen, streamSeconds - tBorn[t], tTravel[t], seen ? tSamples[t] : 0, tPeak[t], tW[t], tH[t],
+                    tX[t], tY[t], tVx[t], tVy[t], speed);
+        }
+        out.end();
+    }
+
+    /** Votes, averaged flow and which samples move. */
+    private void classify(FlowField flow, double dt) {
+        final int n = gridWidth * gridHeight;
+        final float[] u = flow.u;
+        final float[] v = flow.v;
+        final float[] conf = flow.confidence;
+        final float[] edge = flow.edge;
+        final float[] fnx = flow.normalX;
+        final float[] fny = flow.normalY;
+        final float minConf = (float) settings.minConfidence();
+        final float camU = removeCameraMotion ? flow.globalU : 0f;
+        final float camV = removeCameraMotion ? flow.globalV : 0f;
+        final float minStep = (float) (settings.minSpeedPxPerSecond() * dt);
+        final float minStep2 = minStep * minStep;
+        final boolean slow = settings.slowSeconds() > 0;
+        final float slowStep = (float) (settings.slowMinSpeedPxPerSecond() * dt);
+        final float slowStep2 = slowStep * slowStep;
+        // the average starts from zero: seeding it with a first noisy frame would make every sample slow-moving
+        final float alpha = !slow ? 1f : (float) (1 - Math.exp(-dt / settings.slowSeconds()));
+        for (int k = 0; k < n; k++) {
+            final int i = k;
+            final float du = u[i] - camU;
+            final float dv = v[i] - camV;
+            float voteU;
+            float voteV;
+            byte what;
+            if (conf[i] >= minConf) {
+                voteU = du;
+                voteV = dv;
+                what = FULL;
+            } else if (edge[i] >= minConf) {
+                final float ex = fnx[i];
+                final float ey = fny[i];
+                final float s = du * ex + dv * ey;
+                voteU = s * ex;
+                voteV = s * ey;
+                nx[k] = ex;
+                ny[k] = ey;
+                what = EDGE;
+            } else {
+                voteU = 0f;
+                voteV = 0f;
+                what = NONE;
+            }
+            final float au = emaU[k] + alpha * (voteU - emaU[k]);
+            final float av = emaV[k] + alpha * (voteV - emaV[k]);
+            emaU[k] = au;
+            emaV[k] = av;
+            final float m2 = voteU * voteU + voteV * voteV;
+            if (what != NONE && m2 >= minStep2 && m2 > 0f) {
+                wu[k] = voteU;
+                wv[k] = voteV;
+                kind[k] = what;
+            } else if (what != NONE && slow) {
+                final float a2 = au * au + av * av;
+                if (a2 >= slowStep2 && a2 > 0f && voteU * au + voteV * av >= 0.5f * a2) {
+                    wu[k] = au;
+                    wv[k] = av;
+                    kind[k] = what;
+                } else {
+                    kind[k] = NONE;
+                }
+            } else {
+                kind[k] = NONE;
+            }
+        }
+    }
+
+    /** Connected groups of samples moving alike: full samples seed first, then edge samples. */
+    private void group() {
+        final int[] ix = idx;
+        Arrays.fill(label, -1);
+        groups = 0;
+        for (int pass = 0; pass < 2; pass++) {
+            final byte seedKind = pass == 0 ? FULL : EDGE;
+            for (int z = 0; z < ix.length; z++) {
+                final int k = ix[z];
+                if (kind[k] != seedKind || label[k] >= 0) {
+                    continue;
+                }
+                grow(k, groups++);
+            }
+        }
+        for (int g = 0; g < groups; g++) {
+            solve(g);
+        }
+    }
+
+    private void grow(int seed, int g) {
+        final int w = gridWidth;
+        final int h = gridHeight;
+        gCount[g] = 0;
+        gMinI[g] = Integer.MAX_VALUE;
+        gMaxI[g] = Integer.MIN_VALUE;
+        gMinJ[g] = Integer.MAX_VALUE;
+        gMaxJ[g] = Integer.MIN_VALUE;
+        gSumX[g] = 0;
+        gSumY[g] = 0;
+        gA11[g] = 0;
+        gA12[g] = 0;
+        gA22[g] = 0;
+        gB1[g] = 0;
+        gB2[g] = 0;
+        gDirX[g] = 0f;
+        gDirY[g] = 0f;
+        gTrack[g] = -1;
+        int head = 0;
+        int tail = 0;
+        label[seed] = g;
+        add(seed, g);
+        queue[tail++] = seed;
+        while (head < tail) {
+            final int k = queue[head++];
+            final int i0 = k % w;
+            final int j0 = k / w;
+            for (int j = Math.max(0, j0 - 2); j <= Math.min(h - 1, j0 + 2); j++) {
+                final int row = j * w;
+                for (int i = Math.max(0, i0 - 2); i <= Math.min(w - 1, i0 + 2); i++) {
+                    final int q = row + i;
+                    if (label[q] >= 0 || kind[q] == NONE) {
+                        continue;
+                    }
+                    final float dx = gDirX[g];
+                    final float dy = gDirY[g];
+                    final float dot = wu[q] * dx + wv[q] * dy;
+                    final float lim = kind[q] == FULL ? cosGroup : cosEdge;
+                    final float len = (float) Math.sqrt((wu[q] * wu[q] + wv[q] * wv[q]) * (dx * dx + dy * dy));
+                    if (dot < lim * len) {
+                        continue;
+                    }
+                    label[q] = g;
+                    add(q, g);
+                    queue[tail++] = q;
+                }
+            }
+        }
+    }
+
+    private void add(int k, int g) {
+        final int i = k % gridWidth;
+        final int j = k / gridWidth;
+        gCount[g]++;
+        if (i < gMinI[g]) {
+            gMinI[g] = i;
+        }
+        if (i > gMaxI[g]) {
+            gMaxI[g] = i;
+        }
+        if (j < gMinJ[g]) {
+            gMinJ[g] = j;
+        }
+        if (j > gMaxJ[g]) {
+            gMaxJ[g] = j;
+        }
+        gSumX[g] += px[k];
+        gSumY[g] += py[k];
+        final float a = wu[k];
+        final float b = wv[k];
+        final float m = (float) Math.sqrt(a * a + b * b);
+        gDirX[g] += a / m;
+        gDirY[g] += b / m;
+        if (kind[k] == FULL) {
+            gA11[g] += 1;
+            gA22[g] += 1;
+            gB1[g] += a;
+            gB2[g] += b;
+        } else {
+            // one constraint V·n = s; the vote is s·n, so s = vote·n
+            final float ex = nx[k];
+            final float ey = ny[k];
+            final float s = a * ex + b * ey;
+            gA11[g] += ex * ex;
+            gA12[g] += ex * ey;
+            gA22[g] += ey * ey;
+            gB1[g] += s * ex;
+            gB2[g] += s * ey;
+        }
+    }
+
+    /** The group's least-squares velocity, px per frame pair. */
+    private void solve(int g) {
+        final double eps = 0.01 * gCount[g];
+        final double a = gA11[g] + eps;
+        final double b = gA12[g];
+        final double c = gA22[g] + eps;
+        final double det = a * c - b * b;
+        gVU[g] = (c * gB1[g] - b * gB2[g]) / det;
+        gVV[g] = (a * gB2[g] - b * gB1[g]) / det;
+    }
+
+    /** The group keeps the track's size and shape: samples within 0.6–1.6×, box sides within 8 px or a half. */
+    private boolean steady(int k, int g) {
+        final int n = gCount[g];
+        final int w = (gMaxI[g] - gMinI[g] + 1) * stride;
+        final int h = (gMaxJ[g] - gMinJ[g] + 1) * stride;
+        return n >= 0.6 * tSamples[k] && n <= 1.6 * tSamples[k]
+                && Math.abs(w - tW[k]) <= Math.max(8, 0.5 * tW[k]) && Math.abs(h - tH[k]) <= Math.max(8, 0.5 * tH[k]);
+    }
+
+    /** True when the sample nearest to the point (analysis pixels) is one of the zone's. */
+    private boolean centreInZone(double x, double y) {
+        int i = (int) Math.round((x - stride / 2) / stride);
+        int j = (int) Math.round((y - stride / 2) / stride);
+        return i >= 0 && j >= 0 && i < gridWidth && j < gridHeight && inZone[j * gridWidth + i];
+    }
+
+    /** Pairs groups with tracks, updates them, starts and drops tracks. */
+    private void follow(double dt, double t) {
+        final int nt = tId.length;
+        final double minSpeed = settings.minSpeedPxPerSecond();
+        for (int k = 0; k < nt; k++) {
+            tGroup[k] = -1;
+        }
+        while (true) {
+            double best = Double.MAX_VALUE;
+            int bt = -1;
+            int bg = -1;
+            for (int k = 0; k < nt; k++) {
+                if (!tLive[k] || tGroup[k] >= 0) {
+                    continue;
+                }
+                final double since = t - tSeenAt[k];
+                final double ex = tX[k] + tPredVx[k] * since;
+                final double ey = tY[k] + tPredVy[k] * since;
+                final double gate = settings.gatePx() + 0.5 * Math.max(tW[k], tH[k]);
+                final double tSpeed2 = tVx[k] * tVx[k] + tVy[k] * tVy[k];
+                for (int g = 0; g < groups; g++) {
+                    if (gCount[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
+                        continue;
+                    }
+                    final double gvx = gVU[g] / dt;
+                    final double gvy = gVV[g] / dt;
+                    final double gSpeed2 = gvx * gvx + gvy * gvy;
+                    final double cx = gSumX[g] / gCount[g];
+                    final double cy = gSumY[g] / gCount[g];
+                    final double d = Math.hypot(cx - ex, cy - ey);
+                    if (gvx * tVx[k] + gvy * tVy[k] < 0 && gSpeed2 > minSpeed * minSpeed
+                            && tSpeed2 > minSpeed * minSpeed && d > 0.5 * gate) {
+                        // both clearly moving, in opposite directions, and not right where predicted: not the
+                        // same mover (where predicted it is, since the flow of a fast small mover can fail)
+                        continue;
+                    }
+                    final boolean inside = ex >= (double) gMinI[g] * stride - stride && ex <= (gMaxI[g] + 2.0) * stride
+                            && ey >= (double) gMinJ[g] * stride - stride && ey <= (gMaxJ[g] + 2.0) * stride;
+                    if ((d <= gate || inside) && d < best) {
+                        best = d;
+                        bt = k;
+                        bg = g;
+                    }
+                }
+            }
+            if (bt < 0) {
+                break;
+            }
+            tGroup[bt] = bg;
+            gTrack[bg] = bt;
+        }
+        for (int g = 0; g < groups; g++) {
+            if (gCount[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
+                continue;
+            }
+            int free = -1;
+            for (int k = 0; k < nt; k++) {
+                if (!tLive[k]) {
+                    free = k;
+                    break;
+                }
+            }
+            if (free < 0) {
+                untracked++;
+                continue;
+            }
+            tLive[free] = true;
+            tId[free] = nextId++;
+            tBorn[free] = t;
+            tSeenAt[free] = Double.NaN;
+            tTravel[free] = 0;
+            tFlowTravel[free] = 0;
+            tEntryX[free] = Double.NaN;
+            tCentroidTravel[free] = 0;
+            tDistance[free] = 0;
+            tMovingSeconds[free] = 0;
+            tPeak[free] = 0;
+            tGroup[free] = g;
+            gTrack[g] = free;
+        }
+        final float ax = againstX;
+        final float ay = againstY;
+        for (int k = 0; k < nt; k++) {
+            if (!tLive[k]) {
+                continue;
+            }
+            final int g = tGroup[k];
+            if (g < 0) {
+                if (t - tSeenAt[k] > settings.lostSeconds() + 1e-6) {
+                    tLive[k] = false;
+                }
+                continue;
+            }
+            final double vu = gVU[g];
+            final double vv = gVV[g];
+            final double m = Math.sqrt(vu * vu + vv * vv);
+            final double cx = gSumX[g] / gCount[g];
+            final double cy = gSumY[g] / gCount[g];
+            if (hasHeading && centreInZone(cx, cy)) {
+                final double along = vu * ax + vv * ay;
+                // against adds, with subtracts (a sway back and forth cancels), crossing adds nothing
+                if (m > 0 && (along >= cosTolerance * m || -along >= cosTolerance * m)) {
+                    tFlowTravel[k] += along;
+                }
+                // the centroid's steps, while the group keeps its size and shape: a fast mover whose flow
+                // fails (tens of pixels a frame) still shows its travel here; a group that grows, shrinks or
+                // changes shape (shake, flicker, a crowd merging) moves its centroid without travelling
+                if (!Double.isNaN(tEntryX[k]) && Math.abs(tSeenAt[k] - (t - dt)) < 1e-6 && steady(k, g)
+                        && gCount[g] >= MIN_STEADY_SAMPLES) {
+                    final double sx = cx - tEntryX[k];
+                    final double sy = cy - tEntryY[k];
+                    final double step = Math.sqrt(sx * sx + sy * sy);
+                    final double stepAlong = sx * ax + sy * ay;
+                    final double floor = settings.minSpeedPxPerSecond() * dt;
+                    // and only where the flow, however short, goes the same way at least at the speed floor:
+                    // a track hopping between chance clusters of noise moves its centroid, not its flow
+                    final boolean flowAgrees = stepAlong > 0 ? along >= floor : along <= -floor;
+                    if (step > 0 && flowAgrees
+                            && (stepAlong >= cosTolerance * step || -stepAlong >= cosTolerance * step)) {
+                        tCentroidTravel[k] += stepAlong;
+                    }
+                }
+                tEntryX[k] = cx;
+                tEntryY[k] = cy;
+                tTravel[k] = Math.max(tFlowTravel[k], tCentroidTravel[k]);
+            }
+            tDistance[k] += m;
+            tMovingSeconds[k] += dt;
+            final double fvx = vu / dt;
+            final double fvy = vv / dt;
+            if (!Double.isNaN(tSeenAt[k]) && t > tSeenAt[k]) {
+                // predict with the mean of the flow's velocity and the centroid's
+                final double since = t - tSeenAt[k];
+                tPredVx[k] = 0.5 * (fvx + (cx - tX[k]) / since);
+                tPredVy[k] = 0.5 * (fvy + (cy - tY[k]) / since);
+            } else {
+                tPredVx[k] = fvx;
+                tPredVy[k] = fvy;
+            }
+            tX[k] = cx;
+            tY[k] = cy;
+            tVx[k] = fvx;
+            tVy[k] = fvy;
+            tSeenAt[k] = t;
+            tSamples[k] = gCount[g];
+            tPeak[k] = Math.max(tPeak[k], gCount[g]);
+            tW[k] = (gMaxI[g] - gMinI[g] + 1) * stride;
+            tH[k] = (gMaxJ[g] - gMinJ[g] + 1) * stride;
+        }
+    }
+}

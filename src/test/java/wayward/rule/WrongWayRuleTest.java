@@ -1,0 +1,220 @@
+package wayward.rule;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNotEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.time.Clock;
+import java.time.Instant;
+import java.time.ZoneOffset;
+import java.util.ArrayList;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import wayward.event.Event;
+import wayward.flow.FlowField;
+import wayward.zone.MoverSettings;
+import wayward.zone.MoverTracker;
+import wayward.zone.Movers;
+import wayward.zone.ZoneMask;
+
+/** The mover rule on hand-made tracks, and end to end with the tracker on synthetic flow (analytic truth). */
+class WrongWayRuleTest {
+    private static final Clock CLOCK = Clock.fixed(Instant.parse("2026-12-01T08:00:00Z"), ZoneOffset.UTC);
+    private static final MoverRuleSettings SETTINGS = MoverRuleSettings.defaults(); // 0.5 s, 1 s, 2 s, 10, 30, 48
+    private static final double DT = 0.1;
+
+    /** One frame with the given tracks: {id, bornAt, travel, samples, y} each; x fixed at 160, speed 30 px/s. */
+    private static Event frame(WrongWayRule rule, Movers m, double t, double[]... tracks) {
+        m.begin(t, 320, 180, 4);
+        for (double[] k : tracks) {
+            m.put((long) k[0], true, t - k[1], k[2], (int) k[3], (int) k[3], 12, 20, 160, k[4], 0, 30, 30);
+        }
+        m.end();
+        return rule.update(m, 0.01);
+    }
+
+    private static void collect(List<Event> out, Event e) {
+        if (e != null) {
+            out.add(e);
+        }
+    }
+
+    @Test
+    void oneMoverThatHeldAndTravelledStartsAndEndsOneEvent() {
+        WrongWayRule rule = new WrongWayRule("yard-mast-2", "lane-2-out", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        for (int n = 0; n <= 20; n++) {
+            double t = n * DT;
+            collect(out, frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
+        }
+        for (int n = 21; n <= 40; n++) {
+            collect(out, frame(rule, m, n * DT));
+        }
+        assertEquals(2, out.size());
+        Event start = out.get(0);
+        // hold 0.5 s and 10 px: at 3 px a frame the travel reaches 10 px at frame 4, the hold at frame 5
+        assertEquals(0.5, start.streamSeconds(), 1e-9);
+        assertEquals(Event.Phase.START, start.phase());
+        assertEquals(15, start.mover().samples());
+        assertEquals(12, start.mover().widthPx());
+        assertEquals(20, start.mover().heightPx());
+        assertEquals(15, start.mover().travelPx(), 1e-9);
+        assertEquals(180, start.headingDeg(), 1e-9); // moving down the picture
+        double[] path = start.mover().path();
+        assertEquals(0.5, path[0], 1e-9); // x 160 of 320
+        assertEquals(40.0 / 180, path[1], 1e-6); // where it was first seen
+        assertEquals(55.0 / 180, path[path.length - 1], 1e-6); // where it is at the start
+        Event end = out.get(1);
+        assertEquals(Event.Phase.END, end.phase());
+        assertEquals(start.id(), end.id());
+        // last seen at 2.0 s, clear 1 s
+        assertEquals(3.0, end.streamSeconds(), 1e-9);
+        assertEquals(60, end.mover().travelPx(), 1e-9);
+    }
+
+    @Test
+    void quickTravelStartsBeforeTheHold() {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        Event e = null;
+        int n = 0;
+        while (e == null && n < 10) {
+            e = frame(rule, m, n * DT, new double[] {1, 0, 12 * n, 10, 40 + 12 * n});
+            n++;
+        }
+        // 12 px a frame: 30 px (quick_travel_px) at frame 3 = 0.3 s, before the 0.5 s hold
+        assertEquals(0.3, e.streamSeconds(), 1e-9);
+    }
+
+    @Test
+    void twoWrongWayMoversInARowAreTwoEvents() {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        double t = 0;
+        for (int n = 0; n <= 20; n++, t += DT) {
+            collect(out, frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
+        }
+        for (int n = 0; n < 15; n++, t += DT) {
+            collect(out, frame(rule, m, t));
+        }
+        double born = t;
+        for (int n = 0; n <= 20; n++, t += DT) {
+            collect(out, frame(rule, m, t, new double[] {2, born, 3 * n, 15, 40 + 3 * n}));
+        }
+        for (int n = 0; n < 15; n++, t += DT) {
+            collect(out, frame(rule, m, t));
+        }
+        assertEquals(4, out.size(), out.toString());
+        assertEquals(Event.Phase.START, out.get(2).phase());
+        assertNotEquals(out.get(0).id(), out.get(2).id());
+        assertEquals(born + 0.5, out.get(2).streamSeconds(), 1e-6);
+    }
+
+    @Test
+    void aSecondMoverWhileTheFirstIsOpenGetsItsOwnEvent() {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        for (int n = 0; n <= 30; n++) {
+            double t = n * DT;
+            // the second one enters 1 s later, 90 px behind: not part of the first
+            collect(out, n < 10 ? frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 100 + 3 * n})
+                    : frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 100 + 3 * n},
+                            new double[] {2, 1.0, 3 * (n - 10), 15, 10 + 3 * (n - 10)}));
+        }
+        List<Event> starts = out.stream().filter(e -> e.phase() == Event.Phase.START).toList();
+        assertEquals(2, starts.size(), out.toString());
+        // the first ends when the second qualifies (1.5 s), the second starts with the next frame
+        assertEquals(Event.Phase.END, out.get(1).phase());
+        assertEquals(1.5, out.get(1).streamSeconds(), 1e-9);
+        assertEquals(1.6, starts.get(1).streamSeconds(), 1e-9);
+    }
+
+    @Test
+    void theSameMoverPickedUpAgainWithinRestDoesNotAlertTwice() {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        double t = 0;
+        for (int n = 0; n <= 10; n++, t += DT) {
+            collect(out, frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
+        }
+        // lost for 1.1 s (past clear: the event ends), then found again as a new track where it went on
+        for (int n = 0; n < 11; n++, t += DT) {
+            collect(out, frame(rule, m, t));
+        }
+        double born = t;
+        for (int n = 0; n <= 8; n++, t += DT) {
+            collect(out, frame(rule, m, t, new double[] {3, born, 3 * n, 15, 40 + 30 + 33 + 3 * n}));
+        }
+        assertEquals(2, out.size(), out.toString());
+    }
+
+    @Test
+    void aSwayingThingNeverTravelsFarEnough() {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        for (int n = 0; n <= 100; n++) {
+            // ±4 px back and forth (a bush at the zone's edge): travel against swings between 0 and 8 px
+            double travel = 4 + 4 * Math.sin(n * 0.6);
+            assertEquals(null, frame(rule, m, n * DT, new double[] {1, 0, travel, 20, 40}));
+        }
+    }
+
+    @Test
+    void aMoverSmallerThanTheMinimumDoesNotCount() {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        for (int n = 0; n <= 20; n++) {
+            // 2 samples × 16 px² = 32 px², under min_mover_area_px 48
+            assertEquals(null, frame(rule, m, n * DT, new double[] {1, 0, 3 * n, 2, 40 + 3 * n}));
+        }
+    }
+
+    /** The tracker and the rule on one mover, in a zone drawn as given; returns the start's stream time or NaN. */
+    private static double startIn(double[] xs, double[] ys) {
+        FlowField f = new FlowField(320, 180, 4);
+        MoverTracker tracker = new MoverTracker(ZoneMask.rasterise(xs, ys, f), f, 0, MoverSettings.of(8, 8, 60), true);
+        Movers m = tracker.newMovers();
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        for (int n = 1; n <= 30; n++) {
+            java.util.Arrays.fill(f.u, 0);
+            java.util.Arrays.fill(f.v, 0);
+            java.util.Arrays.fill(f.confidence, 100);
+            // a 3×5-sample mover, 2 px down per frame (20 px/s), from y = 60 px
+            int j0 = (int) Math.round((60 + 2.0 * n - 2) / 4);
+            for (int j = j0; j < j0 + 5; j++) {
+                for (int i = 39; i < 42; i++) {
+                    f.v[j * f.width + i] = 2;
+                }
+            }
+            tracker.update(f, DT, n * DT, m);
+            Event e = rule.update(m, 0);
+            if (e != null && e.phase() == Event.Phase.START) {
+                return n * DT;
+            }
+        }
+        return Double.NaN;
+    }
+
+    @Test
+    void aMoverDecidesTheSameInAHugeZoneAsInASmallOne() {
+        // the small zone: about 40 × 60 px around the mover's way; the huge one: the whole picture (≈ 24 times
+        // larger, so the mover's share of it is 24 times smaller)
+        double small = startIn(new double[] {0.44, 0.56, 0.56, 0.44}, new double[] {0.25, 0.25, 0.6, 0.6});
+        double huge = startIn(new double[] {0, 1, 1, 0}, new double[] {0, 0, 1, 1});
+        assertTrue(!Double.isNaN(small), "no event in the small zone");
+        assertEquals(small, huge, 1e-9);
+        // analytic: 2 px a frame reaches 10 px at the 5th frame; the hold (0.5 s from the first frame) at the 6th
+        assertEquals(0.6, small, 1e-9);
+    }
+
+    @Test
+    void settingsOutOfRangeAreRefused() {
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> new MoverRuleSettings(0.5, 1, 2, 10, 5, 48));
+        assertEquals("quickTravelPx: 5.0 (expected at least minTravelPx 10.0)", e.getMessage());
+    }
+}

@@ -1,0 +1,96 @@
+package wayward.scene;
+
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import wayward.cli.Main;
+import wayward.event.Event;
+
+/**
+ * Chooses the mover rule's defaults on one half of the detection suite: replays every scene of the half once with
+ * {@code --report} (into target/tune/HALF), then re-runs only the rule ({@code what-if}) with each variant of
+ * settings given on the command line, and prints per scene caught / false alerts / worst latency over the hold
+ * and the totals. {@code java -cp … wayward.scene.MoverTuning tune [min_travel_px=15,hold_seconds=0.7 …]};
+ * {@code -Dnoreplay=true} reuses the reports, {@code -Devents=1} lists the starts and passages. Not a test.
+ */
+public final class MoverTuning {
+    private MoverTuning() {
+    }
+
+    public static void main(String[] args) throws Exception {
+        String half = args[0];
+        Path work = Path.of("target/tune").resolve(half);
+        Files.createDirectories(work);
+        boolean replay = !System.getProperty("noreplay", "false").equals("true");
+        List<Path> files = DetectionSuite.scenarios(Path.of("test-streams/suite").resolve(half));
+        String only = System.getProperty("only");
+        List<Map<String, Double>> variants = new ArrayList<>();
+        variants.add(Map.of());
+        for (int i = 1; i < args.length; i++) {
+            Map<String, Double> m = new LinkedHashMap<>();
+            for (String kv : args[i].split(",")) {
+                String[] p = kv.split("=");
+                m.put(p[0], Double.parseDouble(p[1]));
+            }
+            variants.add(m);
+        }
+        int[][] tot = new int[variants.size()][4];
+        double[] maxLat = new double[variants.size()];
+        Arrays.fill(maxLat, Double.NEGATIVE_INFINITY);
+        for (Path file : files) {
+            Scene scene = Scene.load(file);
+            if (only != null && !scene.name().contains(only)) continue;
+            Path video = DetectionSuite.render(file, work);
+            Path report = work.resolve(scene.name() + "-report");
+            if (replay || !Files.exists(report)) {
+                StringBuilder toml = new StringBuilder("[service]\ndata_dir = \"data\"\nhttp = \"off\"\n[[camera]]\n")
+                        .append("id = \"suite\"\nsource = \"").append(video.toAbsolutePath()).append("\"\n");
+                for (Scene.Zone z : scene.zones()) {
+                    toml.append("[[camera.zone]]\nid = \"").append(z.id()).append("\"\npolygon = [");
+                    for (int i = 0; i < z.xs().length; i++) {
+                        toml.append(i == 0 ? "" : ", ").append('[').append(z.xs()[i]).append(", ").append(z.ys()[i]).append(']');
+                    }
+                    toml.append("]\nheading_deg = ").append(z.headingDeg()).append("\ntolerance_deg = ").append(z.toleranceDeg()).append('\n');
+                }
+                Path config = work.resolve(scene.name() + ".toml");
+                Files.writeString(config, toml);
+                ByteArrayOutputStream out = new ByteArrayOutputStream();
+                ByteArrayOutputStream err = new ByteArrayOutputStream();
+                int rc = Main.execute(new String[] {"replay", "--config", config.toString(), "--input", video.toString(),
+                        "--report", report.toString()}, new PrintStream(out, true, StandardCharsets.UTF_8),
+                        new PrintStream(err, true, StandardCharsets.UTF_8));
+                if (rc != 0) throw new IOException(err.toString());
+            }
+            List<DetectionSuite.Passage> passages = DetectionSuite.passages(scene);
+            StringBuilder line = new StringBuilder(String.format("%-40s p=%d", scene.name(), passages.size()));
+            for (int v = 0; v < variants.size(); v++) {
+                List<DetectionSuite.Detection> det = new ArrayList<>();
+                for (Event e : wayward.report.WhatIf.run(report, variants.get(v))) {
+                    if (e.phase() == Event.Phase.START) det.add(new DetectionSuite.Detection(e.zone(), e.streamSeconds()));
+                }
+                double hold = variants.get(v).getOrDefault("hold_seconds", 0.5);
+                DetectionSuite.Score s = DetectionSuite.score(scene, passages, det, hold);
+                tot[v][0] += s.passages(); tot[v][1] += s.caught(); tot[v][2] += s.falseAlerts(); tot[v][3] += s.events();
+                if (s.caught() > 0) maxLat[v] = Math.max(maxLat[v], s.maxLatency());
+                line.append(String.format(" | c=%d f=%d lat=%s", s.caught(), s.falseAlerts(),
+                        s.caught() > 0 ? String.format("%.2f", s.maxLatency()) : "-"));
+                if (System.getProperty("events") != null && v == 0) {
+                    for (DetectionSuite.Detection d : det) line.append(" @").append(String.format("%.2f", d.start()));
+                    for (DetectionSuite.Passage p : passages) line.append(String.format(" [%.2f-%.2f]", p.enter(), p.exit()));
+                }
+            }
+            System.out.println(line);
+        }
+        for (int v = 0; v < variants.size(); v++) {
+            System.out.printf("TOTAL %s: caught %d/%d false %d events %d maxlat %.2f%n", variants.get(v), tot[v][1], tot[v][0], tot[v][2], tot[v][3], maxLat[v]);
+        }
+    }
+}

@@ -1,0 +1,259 @@
+package wayward.zone;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.util.Random;
+import org.junit.jupiter.api.Test;
+import wayward.flow.FlowField;
+
+/**
+ * The tracker on synthetic flow fields whose truth is known by construction (analytic): a 320×180 picture
+ * sampled every 4 px, still textured ground (confident, zero flow) and boxes of samples moving by a set step
+ * per analysed frame. Heading 0° (up the picture), so moving down (+v) is against it.
+ */
+class MoverTrackerTest {
+    static final double DT = 0.1;
+    /** The zone settings' defaults: 8 px/s, confidence 8, ±60°. */
+    static final MoverSettings SETTINGS = MoverSettings.of(8, 8, 60);
+    static final double CONFIDENT = 100;
+
+    static FlowField field() {
+        return new FlowField(320, 180, 4);
+    }
+
+    static ZoneMask whole(FlowField f) {
+        return ZoneMask.rasterise(new double[] {0, 1, 1, 0}, new double[] {0, 0, 1, 1}, f);
+    }
+
+    /** Still, confident ground, plus Gaussian noise of {@code sigma} px on every sample's flow. */
+    static void ground(FlowField f, Random noise, double sigma) {
+        for (int k = 0; k < f.u.length; k++) {
+            f.u[k] = noise == null ? 0 : (float) (noise.nextGaussian() * sigma);
+            f.v[k] = noise == null ? 0 : (float) (noise.nextGaussian() * sigma);
+            f.confidence[k] = (float) CONFIDENT;
+            f.edge[k] = (float) CONFIDENT;
+            f.normalX[k] = 1;
+            f.normalY[k] = 0;
+        }
+        f.globalU = 0;
+        f.globalV = 0;
+    }
+
+    /** A textured box of w×h samples with its top-left sample at pixel (x, y), moving by (u, v) px per frame. */
+    static void box(FlowField f, double x, double y, int w, int h, double u, double v, Random noise, double sigma) {
+        int i0 = (int) Math.round((x - f.stride / 2) / f.stride);
+        int j0 = (int) Math.round((y - f.stride / 2) / f.stride);
+        for (int j = j0; j < j0 + h; j++) {
+            for (int i = i0; i < i0 + w; i++) {
+                if (i < 0 || j < 0 || i >= f.width || j >= f.height) {
+                    continue;
+                }
+                int k = j * f.width + i;
+                f.u[k] = (float) (u + (noise == null ? 0 : noise.nextGaussian() * sigma));
+                f.v[k] = (float) (v + (noise == null ? 0 : noise.nextGaussian() * sigma));
+            }
+        }
+    }
+
+    static int liveTracks(Movers m) {
+        return m.count();
+    }
+
+    static double largestTravel(Movers m) {
+        return m.largestTravelPx();
+    }
+
+    @Test
+    void followsOneMoverAgainstTheHeadingWithItsTravel() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        // 3 samples wide, 5 tall, 3 px down per frame (30 px/s) for 1 s: 10 frames
+        for (int n = 1; n <= 10; n++) {
+            ground(f, null, 0);
+            box(f, 150, 40 + 3 * n, 3, 5, 0, 3, null, 0);
+            t.update(f, DT, n * DT, m);
+        }
+        assertEquals(1, liveTracks(m));
+        int k = slotOf(m);
+        // analytic: 10 frames × 3 px along the against direction
+        assertEquals(30, m.travelPx(k), 0.5);
+        assertEquals(15, m.peakSamples(k));
+        assertEquals(12, m.widthPx(k));
+        assertEquals(20, m.heightPx(k));
+        assertEquals(30, m.speed(k), 0.5);
+        assertEquals(0.9, m.ageSeconds(k), 1e-9);
+        assertTrue(m.pathCount(k) >= 2);
+        assertTrue(m.pathY(k, m.pathCount(k) - 1) > m.pathY(k, 0), "the path goes down the picture");
+    }
+
+    @Test
+    void twoMoversAreTwoTracks() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        for (int n = 1; n <= 10; n++) {
+            ground(f, null, 0);
+            box(f, 60, 40 + 3 * n, 3, 5, 0, 3, null, 0);
+            box(f, 240, 40 + 4 * n, 4, 4, 0, 4, null, 0);
+            t.update(f, DT, n * DT, m);
+        }
+        assertEquals(2, liveTracks(m));
+        double[] travels = new double[2];
+        int c = 0;
+        for (int k = 0; k < m.capacity(); k++) {
+            if (m.live(k)) {
+                travels[c++] = m.travelPx(k);
+            }
+        }
+        java.util.Arrays.sort(travels);
+        assertEquals(30, travels[0], 0.5);
+        assertEquals(40, travels[1], 0.5);
+    }
+
+    @Test
+    void aCrowdGoingTheRightWayHasNoTravelAgainst() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        double maxTravel = 0;
+        for (int n = 1; n <= 30; n++) {
+            ground(f, null, 0);
+            // mixed sizes and speeds, all up the picture (with the heading), some side by side
+            box(f, 20, 160 - 3 * n, 2, 3, 0, -3, null, 0);
+            box(f, 40, 170 - 5 * n, 6, 8, 0, -5, null, 0);
+            box(f, 100, 150 - 2 * n, 3, 3, 0.5, -2, null, 0);
+            box(f, 180, 175 - 4 * n, 10, 12, 0, -4, null, 0);
+            box(f, 260, 165 - 6 * n, 4, 6, -0.5, -6, null, 0);
+            t.update(f, DT, n * DT, m);
+            for (int k = 0; k < m.capacity(); k++) {
+                if (m.live(k)) {
+                    maxTravel = Math.max(maxTravel, m.travelPx(k));
+                }
+            }
+        }
+        assertTrue(maxTravel <= 0.5, "largest travel against " + maxTravel);
+    }
+
+    @Test
+    void noiseAloneMakesNoMover() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        Random r = new Random(16);
+        double oldest = 0;
+        double maxTravel = 0;
+        for (int n = 1; n <= 100; n++) {
+            ground(f, r, 0.3); // sensor noise, σ 0.3 px per sample (the figure), 10 s
+            t.update(f, DT, n * DT, m);
+            for (int k = 0; k < m.capacity(); k++) {
+                if (m.live(k)) {
+                    oldest = Math.max(oldest, m.ageSeconds(k));
+                    maxTravel = Math.max(maxTravel, m.travelPx(k));
+                }
+            }
+        }
+        // chance clusters of a few noisy samples appear and vanish; a track may hop from one to the next (it
+        // was followed for up to a few seconds here), but its travel against the heading stays under half the
+        // rule's 10 px: noise goes every way and largely cancels
+        assertTrue(oldest > 0, "noise made no cluster at all: the test shows nothing");
+        assertTrue(maxTravel < 5, "largest noise travel " + maxTravel + " px");
+    }
+
+    @Test
+    void aPlainBoxIsFollowedByTheNormalFlowOfItsRim() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        for (int n = 1; n <= 10; n++) {
+            ground(f, null, 0);
+            int j0 = 10 + n; // the box moves down one sample (4 px) per frame
+            for (int j = j0; j < j0 + 6; j++) {
+                for (int i = 30; i < 38; i++) {
+                    int k = j * f.width + i;
+                    boolean top = j == j0;
+                    boolean bottom = j == j0 + 5;
+                    boolean side = i == 30 || i == 37;
+                    // plain inside: no gradient at all; its rim: straight edges, no corner texture
+                    f.confidence[k] = 0;
+                    f.edge[k] = top || bottom || side ? (float) CONFIDENT : 0;
+                    f.normalX[k] = top || bottom ? 0 : 1;
+                    f.normalY[k] = top || bottom ? 1 : 0;
+                    // what a smoothing estimator gives on a plain box: anything along the edge; only the
+                    // component across it is measured
+                    f.u[k] = 2.5f;
+                    f.v[k] = 4;
+                }
+            }
+            t.update(f, DT, n * DT, m);
+        }
+        assertTrue(liveTracks(m) >= 1);
+        // analytic: the top and bottom rims' normal flow is the full 4 px per frame down; the side rims'
+        // normal flow (2.5 px across them) is not the box's motion, yet the least-squares velocity of the group
+        // keeps the travel along the heading's axis: 10 frames × 4 px
+        assertEquals(40, largestTravel(m), 2.0);
+    }
+
+    @Test
+    void aCrawlInNoiseIsCaughtWithinAFewSeconds() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        Random r = new Random(7);
+        double caughtAt = Double.NaN;
+        for (int n = 1; n <= 50 && Double.isNaN(caughtAt); n++) {
+            ground(f, r, 0.3);
+            // 0.5 px per analysed frame (5 px/s, under the 8 px/s floor), σ 0.3 px per sample
+            box(f, 150, 60 + 0.5 * n, 4, 6, 0, 0.5, r, 0.3);
+            t.update(f, DT, n * DT, m);
+            for (int k = 0; k < m.capacity(); k++) {
+                if (m.live(k) && m.travelPx(k) >= 10 && m.ageSeconds(k) >= 0.5 && m.peakSamples(k) >= 3) {
+                    caughtAt = n * DT;
+                }
+            }
+        }
+        assertTrue(caughtAt <= 4.0, "caught at " + caughtAt + " s");
+    }
+
+    @Test
+    void aMoverThatSpillsIntoTheZoneFromBesideItDoesNotTravel() {
+        FlowField f = field();
+        // the zone: the right half; the mover runs down the left half with its right edge one sample inside
+        ZoneMask right = ZoneMask.rasterise(new double[] {0.5, 1, 1, 0.5}, new double[] {0, 0, 1, 1}, f);
+        MoverTracker t = new MoverTracker(right, f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        for (int n = 1; n <= 20; n++) {
+            ground(f, null, 0);
+            box(f, 124, 20 + 4 * n, 10, 8, 0, 4, null, 0);
+            t.update(f, DT, n * DT, m);
+        }
+        assertTrue(largestTravel(m) == 0, "travel " + largestTravel(m));
+    }
+
+    @Test
+    void rejectsAFieldOfAnotherLayout() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        FlowField other = new FlowField(160, 90, 4);
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> t.update(other, DT, 0.1, t.newMovers()));
+        assertEquals("flow: 40x22 every 4 px (expected 80x45 every 4 px)", e.getMessage());
+    }
+
+    @Test
+    void settingsOutOfRangeAreRefusedWithTheirName() {
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> new MoverSettings(8, 8, 60, 2, 0.75, 2.5, 0.5, 16));
+        assertEquals("groupAngleDeg: 2.0 (expected 5 to 80)", e.getMessage());
+    }
+
+    private static int slotOf(Movers m) {
+        for (int k = 0; k < m.capacity(); k++) {
+            if (m.live(k)) {
+                return k;
+            }
+        }
+        throw new AssertionError("no live track");
+    }
+}
