@@ -23,7 +23,7 @@ public record MoverRuleSettings(double holdSeconds, double clearSeconds, double 
     public static final double DEFAULT_HOLD_SECONDS = 0.5;
     public static final double DEFAULT_CLEAR_SECONDS = 1.0;
     public static final double DEFAULT_REST_SECONDS = 2.0;
-    public static final double DEFAULT_MIN_TRAVEL_PX = 10;
+    public static final double DEFAULT_MIN_TRAVEL_PX = 20;
     public static final double DEFAULT_QUICK_TRAVEL_PX = 30;
     public static final double DEFAULT_MIN_MOVER_AREA_PX = 48;
 

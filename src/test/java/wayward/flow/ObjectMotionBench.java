@@ -348,10 +348,12 @@ public final class ObjectMotionBench {
 
     // ---------------------------------------------------------------------------------------------- methods
 
-    /** wayward's estimator for the given settings ({@link FlowEstimator#create}); closing closes it. */
+    /**
+     * wayward's estimator for the given settings ({@link FlowEstimator#create}) through
+     * {@link FlowEstimator#computeDense}, the dense output the {@code flow} command writes; closing closes it.
+     */
     static Method wayward(String name, FlowSettings settings) {
         FlowEstimator e = FlowEstimator.create(W, H, settings);
-        Method inner = of(name, e);
         return new Method() {
             @Override
             public String name() {
@@ -360,7 +362,7 @@ public final class ObjectMotionBench {
 
             @Override
             public FlowField flow(byte[] first, byte[] second) {
-                return inner.flow(first, second);
+                return e.computeDense(first, second);
             }
 
             @Override

@@ -75,7 +75,7 @@ class ReplayReportTest {
             double age = Double.parseDouble(f[3]);
             double travel = Double.parseDouble(f[4]);
             int peak = Integer.parseInt(f[6]);
-            if (seen && peak * 16 >= 48 && (travel >= 30 || (travel >= 10 && age >= 0.5 - 1e-6))) {
+            if (seen && peak * 16 >= 48 && (travel >= 30 || (travel >= 20 && age >= 0.5 - 1e-6))) {
                 first = t;
                 break;
             }
