@@ -20,7 +20,9 @@ import wayward.zone.ZoneMask;
 /** The mover rule on hand-made tracks, and end to end with the tracker on synthetic flow (analytic truth). */
 class WrongWayRuleTest {
     private static final Clock CLOCK = Clock.fixed(Instant.parse("2026-12-01T08:00:00Z"), ZoneOffset.UTC);
-    private static final MoverRuleSettings SETTINGS = MoverRuleSettings.defaults(); // 0.5 s, 1 s, 2 s, 10, 30, 48
+    // explicit rather than the defaults, so the scripted travels below keep their meaning when a default moves:
+    // hold 0.5 s, clear 1 s, rest 2 s, min travel 10 px, quick travel 30 px, min area 48 px²
+    private static final MoverRuleSettings SETTINGS = new MoverRuleSettings(0.5, 1, 2, 10, 30, 48);
     private static final double DT = 0.1;
 
     /** One frame with the given tracks: {id, bornAt, travel, samples, y} each; x fixed at 160, speed 30 px/s. */
