@@ -48,11 +48,16 @@ public final class LearnedHeadings {
     }
 
     public static void write(Path file, double headingDeg, double movingSeconds) throws IOException {
+        // rounded to a tenth, a bearing just under 360 (359.97) would read back as 360.0, which is no bearing
+        double rounded = Math.round(headingDeg * 10) / 10.0;
+        if (rounded >= 360) {
+            rounded -= 360;
+        }
         Files.createDirectories(file.getParent());
         Path tmp = file.resolveSibling(file.getFileName() + ".part");
         Files.writeString(tmp, "# learned by wayward from " + String.format(Locale.ROOT, "%.0f", movingSeconds)
                 + " s of traffic; delete this file to learn again\nheading_deg = "
-                + String.format(Locale.ROOT, "%.1f", headingDeg) + "\n");
+                + String.format(Locale.ROOT, "%.1f", rounded) + "\n");
         Files.move(tmp, file, StandardCopyOption.REPLACE_EXISTING, StandardCopyOption.ATOMIC_MOVE);
     }
 }
