@@ -56,7 +56,7 @@ class RtspReconnectIT {
     }
 
     @Test
-    @Timeout(value = 240, unit = TimeUnit.SECONDS)
+    @Timeout(value = 480, unit = TimeUnit.SECONDS)
     void survivesServerRestartsWithLostAndBackEvents(@TempDir Path dir) throws Exception {
         int port = freePort();
         server = startServer(port);
@@ -72,7 +72,9 @@ class RtspReconnectIT {
                 server.destroyForcibly().waitFor();
                 int lostAt = YardSite.awaitEvent(log, "camera_lost", "start", cycle, 30);
                 server = startServer(port);
-                int backAt = YardSite.awaitEvent(log, "camera_back", "end", cycle, 60);
+                // up to 120 s: on a loaded 2-core machine the restarted GStreamer server and the capture's backoff
+                // (1, 2, 4 … s) once took longer than 60 s in a full CI run; the event itself is still required
+                int backAt = YardSite.awaitEvent(log, "camera_back", "end", cycle, 120);
                 assertTrue(backAt > lostAt);
                 assertEquals(YardSite.events(log).get(lostAt).get("id"), YardSite.events(log).get(backAt).get("id"), "one outage, one id");
                 int wrongWay = YardSite.awaitEvent(log, "wrong_way", "start", cycle + 1, 60);
