@@ -162,8 +162,19 @@ class LiveViewIT {
             // the live picture arrived (the MJPEG stream's first frame gives the image its size)
             await(cdp, "(document.getElementById('picture') || {naturalWidth: 0}).naturalWidth", Pattern.compile("[1-9]\\d*"), 60);
 
-            String rect = cdp.eval("(() => { const r = document.getElementById('draw').getBoundingClientRect();"
-                    + " return [r.left, r.top, r.width, r.height].join(','); })()");
+            String measure = "(() => { const r = document.getElementById('draw').getBoundingClientRect();"
+                    + " return [r.left, r.top, r.width, r.height].join(','); })()";
+            // the page lays the drawing surface out again once the picture's size is known: measure until two
+            // readings agree (once measured mid-layout, every click landed at half its place)
+            String rect = cdp.eval(measure);
+            for (int i = 0; i < 25; i++) {
+                TimeUnit.MILLISECONDS.sleep(200); // polling the layout, not a synchronisation sleep
+                String again = cdp.eval(measure);
+                if (again.equals(rect)) {
+                    break;
+                }
+                rect = again;
+            }
             String[] r = rect.split(",");
             double left = Double.parseDouble(r[0]);
             double top = Double.parseDouble(r[1]);
