@@ -277,21 +277,12 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 } else {
                     fillRows(l, 0, gridHeight[l]);
                 }
-                float[] t = gridU[l];
-                gridU[l] = smoothU[l];
-                smoothU[l] = t;
-                t = gridV[l];
-                gridV[l] = smoothV[l];
-                smoothV[l] = t;
-                t = supportA[l];
-                supportA[l] = nextA[l];
-                nextA[l] = t;
-                t = supportB[l];
-                supportB[l] = nextB[l];
-                nextB[l] = t;
-                t = supportC[l];
-                supportC[l] = nextC[l];
-                nextC[l] = t;
+                // the pass wrote the next values beside the current ones: they become the current ones
+                swap(gridU, smoothU, l);
+                swap(gridV, smoothV, l);
+                swap(supportA, nextA, l);
+                swap(supportB, nextB, l);
+                swap(supportC, nextC, l);
             }
         }
         System.arraycopy(gridU[0], 0, out.u, 0, out.u.length);
@@ -912,6 +903,12 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float top = img[iy * w + ix] + ax * (img[iy * w + ix1] - img[iy * w + ix]);
         final float bottom = img[iy1 * w + ix] + ax * (img[iy1 * w + ix1] - img[iy1 * w + ix]);
         return top + ay * (bottom - top);
+    }
+
+    private static void swap(float[][] a, float[][] b, int l) {
+        float[] t = a[l];
+        a[l] = b[l];
+        b[l] = t;
     }
 
     private static int clamp(int i, int size) {
