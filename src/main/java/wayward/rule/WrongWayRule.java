@@ -19,9 +19,11 @@ import wayward.zone.ZoneMeter;
  * </pre>
  *
  * <p><b>Members.</b> The mover that started the event is its first member. Another qualifying mover joins the
- * open event when it rides with a member (within max(48 px, twice the member's size) of the member's predicted
- * position, at a like velocity): the front and the back rim of one plain vehicle are two tracks but one
- * passage. A qualifying mover that does not ride with a member is a different one: it ends the open event at
+ * open event when it rides with a member: at a like velocity, its box touching the member's box at the member's
+ * predicted position (apart by at most {@link #JOIN_GAP_PX}); or, when one of the two is a rim (a box thin along
+ * its motion: the front or back edge of a plain body, whose inside carries no trusted sample), near it. Two
+ * vehicles nose to tail, each seen whole, have still ground between them, a gap wider than a couple of grid
+ * points. A qualifying mover that does not ride with a member is a different one: it ends the open event at
  * once and starts its own with the next frame, so two wrong-way movers in a row are two events even when the
  * second enters before the first has left, and events of one zone never overlap. Otherwise the event ends when
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
@@ -37,8 +39,19 @@ import wayward.zone.ZoneMeter;
 public final class WrongWayRule {
     /** Slack on time comparisons, seconds: stream times are sums of frame intervals and carry rounding. */
     private static final double EPSILON_SECONDS = 1e-6;
-    /** Nearest a mover rides with a member, or continues a lost one, analysis pixels (also: 2 × its size). */
+    /** Nearest a new track continues a lost member after an end, analysis pixels (also: 2 × its size). */
     static final double JOIN_PX = 48;
+    /**
+     * Widest gap, analysis pixels, between a mover's box and a member's predicted box for the two to be one body:
+     * three grid points at the default stride of 4 (samples of one body separated by at most two unsampled points:
+     * a glare patch ahead of a vehicle, a piece of a textured load read apart from the rest).
+     */
+    static final double JOIN_GAP_PX = 12;
+    /**
+     * A mover with at most 1/this of a member's peak samples, at the member's side, is a fragment of it (a glare
+     * patch, a corner read apart) whatever its velocity, which a handful of samples measures poorly.
+     */
+    static final int FRAGMENT_SHARE = 4;
     /** Points of the mover's path in an event. */
     static final int PATH_POINTS = 8;
     private static final int MAX_MEMBERS = 64;
@@ -60,7 +73,9 @@ public final class WrongWayRule {
     private final double[] memberY = new double[MAX_MEMBERS];
     private final double[] memberVx = new double[MAX_MEMBERS];
     private final double[] memberVy = new double[MAX_MEMBERS];
-    private final double[] memberSize = new double[MAX_MEMBERS];
+    private final double[] memberW = new double[MAX_MEMBERS];
+    private final double[] memberH = new double[MAX_MEMBERS];
+    private final int[] memberSamples = new int[MAX_MEMBERS];
     private int members;
     // the mover that started the event, as last seen (for the end record)
     private long triggerId;
@@ -193,24 +208,57 @@ public final class WrongWayRule {
         memberY[j] = m.y(k);
         memberVx[j] = m.vx(k);
         memberVy[j] = m.vy(k);
-        memberSize[j] = Math.max(m.widthPx(k), m.heightPx(k));
+        memberW[j] = m.widthPx(k);
+        memberH[j] = m.heightPx(k);
+        memberSamples[j] = m.peakSamples(k);
     }
 
-    /** Near a member's predicted position, at a like velocity. */
+    /**
+     * One body with a member: at a like velocity, and either its box touches the member's box at the member's
+     * predicted position (apart by at most {@link #JOIN_GAP_PX}), or one of the two is a rim (thin along its
+     * motion: the front or back edge of a plain body whose length the flow cannot see) and they lie within
+     * max({@link #JOIN_PX}, twice the larger's size) of each other.
+     */
     private boolean ridesWithMember(Movers m, int k, double t) {
         for (int j = 0; j < members; j++) {
             if (t - memberSeen[j] > settings.clearSeconds() + EPSILON_SECONDS) {
                 continue;
             }
             double dt = t - memberSeen[j];
-            double d = Math.hypot(m.x(k) - (memberX[j] + memberVx[j] * dt), m.y(k) - (memberY[j] + memberVy[j] * dt));
+            double dx = m.x(k) - (memberX[j] + memberVx[j] * dt);
+            double dy = m.y(k) - (memberY[j] + memberVy[j] * dt);
+            double gap = Math.max(Math.abs(dx) - (m.widthPx(k) + memberW[j]) / 2,
+                    Math.abs(dy) - (m.heightPx(k) + memberH[j]) / 2);
+            if (gap <= JOIN_GAP_PX && m.peakSamples(k) * FRAGMENT_SHARE <= memberSamples[j]) {
+                return true; // a fragment at the member's side: too few samples for its velocity to mean much
+            }
             double dv = Math.hypot(m.vx(k) - memberVx[j], m.vy(k) - memberVy[j]);
             double speed = Math.hypot(memberVx[j], memberVy[j]);
-            if (d <= Math.max(JOIN_PX, 2 * memberSize[j]) && dv <= 0.5 * speed + 5) {
+            if (dv > 0.5 * speed + 5) {
+                continue;
+            }
+            if (gap <= JOIN_GAP_PX) {
                 return true;
+            }
+            if (rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k)) || rim(memberW[j], memberH[j], memberVx[j], memberVy[j])) {
+                double size = Math.max(Math.max(m.widthPx(k), m.heightPx(k)), Math.max(memberW[j], memberH[j]));
+                if (Math.hypot(dx, dy) <= Math.max(JOIN_PX, 2 * size)) {
+                    return true;
+                }
             }
         }
         return false;
+    }
+
+    /** A box at most half as long along its motion as across it: the moving edge of something longer. */
+    static boolean rim(double w, double h, double vx, double vy) {
+        double speed = Math.hypot(vx, vy);
+        if (speed <= 0) {
+            return false;
+        }
+        double ux = Math.abs(vx) / speed;
+        double uy = Math.abs(vy) / speed;
+        return ux * w + uy * h <= 0.5 * (uy * w + ux * h);
     }
 
     /** During rest: a member of the ended event, or a track that began where its last member was lost. */
@@ -226,6 +274,9 @@ public final class WrongWayRule {
         }
         double born = t - m.ageSeconds(k);
         double dt = born - endSeen;
+        if (dt < -EPSILON_SECONDS) {
+            return false; // followed while the ended event's last member was still seen: another mover
+        }
         double d = Math.hypot(m.pathX(k, 0) - (endX + endVx * dt), m.pathY(k, 0) - (endY + endVy * dt));
         return d <= Math.max(JOIN_PX, 2 * endSize);
     }
@@ -275,7 +326,7 @@ public final class WrongWayRule {
         endY = memberY[last];
         endVx = memberVx[last];
         endVy = memberVy[last];
-        endSize = memberSize[last];
+        endSize = Math.max(memberW[last], memberH[last]);
         return new Event(eventId, camera, zone, EventKind.WRONG_WAY, Event.Phase.END, t, clock.instant(),
                 ZoneMeter.bearingDeg(triggerVx, triggerVy), triggerSpeed, peakShare, t - startedAt, null, null,
                 mover());

@@ -134,6 +134,54 @@ class WrongWayRuleTest {
         assertEquals(1.6, starts.get(1).streamSeconds(), 1e-9);
     }
 
+    /** A track as the tracker would report it: {id, bornAt, travel, samples, y, width, height, vx, vy}; x = 160. */
+    private static Event boxes(WrongWayRule rule, Movers m, double t, double[]... tracks) {
+        m.begin(t, 320, 180, 4);
+        for (double[] k : tracks) {
+            m.put((long) k[0], true, t - k[1], k[2], (int) k[3], (int) k[3], (int) k[5], (int) k[6], 160, k[4], k[7],
+                    k[8], Math.hypot(k[7], k[8]));
+        }
+        m.end();
+        return rule.update(m, 0.01);
+    }
+
+    /** Two bodies (or two parts of one) driving down the picture one behind the other at 30 px/s; event starts. */
+    private static List<Event> twoBehind(double gapPx, int w, int h, int samples2, double vx2) {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        for (int n = 0; n <= 30; n++) {
+            double t = n * DT;
+            double y1 = 100 + 3 * n;
+            double y2 = y1 - h - gapPx; // box to box: gapPx of still ground between them
+            collect(out, boxes(rule, m, t, new double[] {1, 0, 3 * n, 60, y1, w, h, 0, 30},
+                    new double[] {2, 0, 3 * n, samples2, y2, w, h, vx2, 30}));
+        }
+        return out.stream().filter(e -> e.phase() == Event.Phase.START).toList();
+    }
+
+    @Test
+    void twoWholeBodiesNoseToTailAreTwoEvents() {
+        // 36 × 36 px bodies 24 px apart (1.2 s behind at 48 px/s, as in the suite's two-in-a-row scenes)
+        assertEquals(2, twoBehind(24, 36, 36, 60, 0).size());
+        // touching boxes (within three grid points) are one body read as two tracks
+        assertEquals(1, twoBehind(8, 36, 36, 60, 0).size());
+    }
+
+    @Test
+    void theFrontAndTheBackRimOfOnePlainBodyAreOneEvent() {
+        // 40 × 8 px rims 32 px apart: thin along their motion, the inside between them carries no trusted sample
+        assertEquals(1, twoBehind(32, 40, 8, 60, 0).size());
+    }
+
+    @Test
+    void aFewSamplesAtAMoversSideWithAnotherVelocityAreAFragmentOfIt() {
+        // a glare patch of 4 samples (a fifteenth of the body's 60) 6 px away, its velocity read 25 px/s sideways
+        assertEquals(1, twoBehind(6, 36, 36, 4, 25).size());
+        // the same patch 40 px away is a mover of its own: only a body nearby makes a fragment
+        assertEquals(2, twoBehind(40, 36, 36, 4, 25).size());
+    }
+
     @Test
     void theSameMoverPickedUpAgainWithinRestDoesNotAlertTwice() {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
