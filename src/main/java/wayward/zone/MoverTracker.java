@@ -51,6 +51,13 @@ public final class MoverTracker {
     static final int MIN_GROUP_SAMPLES = 2;
     /** Groups smaller than this never count centroid steps as travel (chance clusters of noise are small). */
     static final int MIN_STEADY_SAMPLES = 6;
+    /**
+     * Predicted jump between two analysed frames, analysis pixels, from which a flow reading against the track is
+     * taken for a failure of the flow rather than a change of the mover's course: two grid steps at the default
+     * stride, about where the pyramid stops holding an object of a dozen pixels (the object-motion benchmark's
+     * small objects lose most of their catch at 6–8 px).
+     */
+    static final double FAILED_JUMP_PX = 8;
     /** Tracks followed at once at most; at least 4, otherwise a quarter of the zone's samples. */
     static final int MAX_TRACKS = 64;
     private static final byte NONE = 0;
@@ -484,6 +491,35 @@ public final class MoverTracker {
                 && Math.abs(w - tW[k]) <= Math.max(8, 0.5 * tW[k]) && Math.abs(h - tH[k]) <= Math.max(8, 0.5 * tH[k]);
     }
 
+    /**
+     * True when group g, paired with track k, reads a motion the track cannot have made although its centroid
+     * went on the track's way: the flow failed on a jump larger than it can measure (a small mover crossing tens
+     * of pixels between two analysed frames, which alternate between one and two video frames apart) and read
+     * the wrong motion, while the mover itself is where it should be. Needs a track seen in the previous
+     * analysed frame whose velocity predicts a jump of at least {@link #FAILED_JUMP_PX}, a flow reading less than
+     * half that velocity along it, and a centroid step along the track's way between a quarter and one and a
+     * half of the predicted jump (plus a stride): where it should be, not a large group whose outline changed.
+     */
+    private boolean flowFailed(int k, int g, double cx, double cy, double dt, double t) {
+        if (Double.isNaN(tSeenAt[k]) || Math.abs(tSeenAt[k] - (t - dt)) > 1e-6 || gCount[g] < MIN_STEADY_SAMPLES) {
+            return false;
+        }
+        final double tvx = tVx[k];
+        final double tvy = tVy[k];
+        final double speed = Math.sqrt(tvx * tvx + tvy * tvy);
+        final double minSpeed = settings.minSpeedPxPerSecond();
+        if (speed < Math.max(minSpeed, 1e-9)) {
+            return false;
+        }
+        final double predicted = speed * dt;
+        if (predicted < FAILED_JUMP_PX) {
+            return false;
+        }
+        final double flowAlong = (gVU[g] * tvx + gVV[g] * tvy) / (dt * speed);
+        final double stepAlong = ((cx - tX[k]) * tvx + (cy - tY[k]) * tvy) / speed;
+        return flowAlong < 0.5 * speed && stepAlong >= 0.25 * predicted && stepAlong <= 1.5 * predicted + stride;
+    }
+
     /** True when the sample nearest to the point (analysis pixels) is one of the zone's. */
     private boolean centreInZone(double x, double y) {
         int i = (int) Math.round((x - stride / 2) / stride);
@@ -589,10 +625,11 @@ public final class MoverTracker {
             final double m = Math.sqrt(vu * vu + vv * vv);
             final double cx = gSumX[g] / gCount[g];
             final double cy = gSumY[g] / gCount[g];
+            final boolean flowFailed = flowFailed(k, g, cx, cy, dt, t);
             if (hasHeading && centreInZone(cx, cy)) {
                 final double along = vu * ax + vv * ay;
                 // against adds, with subtracts (a sway back and forth cancels), crossing adds nothing
-                if (m > 0 && (along >= cosTolerance * m || -along >= cosTolerance * m)) {
+                if (!flowFailed && m > 0 && (along >= cosTolerance * m || -along >= cosTolerance * m)) {
                     tFlowTravel[k] += along;
                 }
                 // the centroid's steps, while the group keeps its size and shape: a fast mover whose flow
@@ -607,7 +644,7 @@ public final class MoverTracker {
                     final double floor = settings.minSpeedPxPerSecond() * dt;
                     // and only where the flow, however short, goes the same way at least at the speed floor:
                     // a track hopping between chance clusters of noise moves its centroid, not its flow
-                    final boolean flowAgrees = stepAlong > 0 ? along >= floor : along <= -floor;
+                    final boolean flowAgrees = flowFailed || (stepAlong > 0 ? along >= floor : along <= -floor);
                     if (step > 0 && flowAgrees
                             && (stepAlong >= cosTolerance * step || -stepAlong >= cosTolerance * step)) {
                         tCentroidTravel[k] += stepAlong;
@@ -619,9 +656,16 @@ public final class MoverTracker {
             }
             tDistance[k] += m;
             tMovingSeconds[k] += dt;
-            final double fvx = vu / dt;
-            final double fvy = vv / dt;
-            if (!Double.isNaN(tSeenAt[k]) && t > tSeenAt[k]) {
+            double fvx = vu / dt;
+            double fvy = vv / dt;
+            if (flowFailed) {
+                // the track goes on with its centroid's velocity, not the failed reading
+                final double since = t - tSeenAt[k];
+                fvx = (cx - tX[k]) / since;
+                fvy = (cy - tY[k]) / since;
+                tPredVx[k] = fvx;
+                tPredVy[k] = fvy;
+            } else if (!Double.isNaN(tSeenAt[k]) && t > tSeenAt[k]) {
                 // predict with the mean of the flow's velocity and the centroid's
                 final double since = t - tSeenAt[k];
                 tPredVx[k] = 0.5 * (fvx + (cx - tX[k]) / since);
