@@ -45,7 +45,7 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
      * frame; the wrong-way rule's whole input, so {@link WhatIf} can re-run it with other settings.
      */
     static final String MOVER_HEADER = "stream_s,track,seen,age_s,travel_against_px,samples,peak_samples,width_px,"
-            + "height_px,x_px,y_px,vx_px_s,vy_px_s,speed_px_s";
+            + "height_px,x_px,y_px,vx_px_s,vy_px_s,speed_px_s,still_ahead_px";
 
     private final Map<String, Series> series = new LinkedHashMap<>();
     private final List<Event> events = new ArrayList<>();
@@ -96,7 +96,7 @@ public final class ReplayReport implements CameraPipeline.ReadingListener, Event
                         .append(movers.peakSamples(k)).append(',').append(movers.widthPx(k)).append(',')
                         .append(movers.heightPx(k)).append(',').append(movers.x(k)).append(',').append(movers.y(k))
                         .append(',').append(movers.vx(k)).append(',').append(movers.vy(k)).append(',')
-                        .append(movers.speed(k)).append('\n');
+                        .append(movers.speed(k)).append(',').append(movers.stillAheadPx(k)).append('\n');
             }
         }
     }

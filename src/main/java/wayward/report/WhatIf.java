@@ -192,8 +192,11 @@ public final class WhatIf {
             movers.begin(t, width, height, stride);
             while (next < m.size() && m.get(next)[0] == t) {
                 double[] r = m.get(next++);
-                movers.put((long) r[1], r[2] != 0, r[3], r[4], (int) r[5], (int) r[6], (int) r[7], (int) r[8], r[9],
-                        r[10], r[11], r[12], r[13]);
+                int slot = movers.put((long) r[1], r[2] != 0, r[3], r[4], (int) r[5], (int) r[6], (int) r[7],
+                        (int) r[8], r[9], r[10], r[11], r[12], r[13]);
+                if (slot >= 0) {
+                    movers.stillAheadPx(slot, r[14]);
+                }
             }
             movers.end();
             last = t;

@@ -19,11 +19,12 @@ import wayward.zone.ZoneMeter;
  * </pre>
  *
  * <p><b>Members.</b> The mover that started the event is its first member. Another qualifying mover joins the
- * open event when it rides with a member: at a like velocity, its box touching the member's box at the member's
- * predicted position (apart by at most {@link #JOIN_GAP_PX}); or, when one of the two is a rim (a box thin along
- * its motion: the front or back edge of a plain body, whose inside carries no trusted sample), near it. Two
- * vehicles nose to tail, each seen whole, have still ground between them, a gap wider than a couple of grid
- * points. A qualifying mover that does not ride with a member is a different one: it ends the open event at
+ * open event when it rides with a member: near it, with no still textured ground between the two (the tracker
+ * looks for it along each mover's motion, {@link Movers#stillAheadPx}), and either a small fragment going its
+ * way (a glare patch, a corner read apart) or moving alike and, unless one of the two is a rim (a box thin along
+ * its motion: the front or back edge of a plain body), with boxes at most {@link #JOIN_GAP_PX} apart. So the
+ * front and the back rim of one plain vehicle are one passage, and two vehicles nose to tail, with ground
+ * between them, two. A qualifying mover that does not ride with a member is a different one: it ends the open event at
  * once and starts its own with the next frame, so two wrong-way movers in a row are two events even when the
  * second enters before the first has left, and events of one zone never overlap. Otherwise the event ends when
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
@@ -39,19 +40,15 @@ import wayward.zone.ZoneMeter;
 public final class WrongWayRule {
     /** Slack on time comparisons, seconds: stream times are sums of frame intervals and carry rounding. */
     private static final double EPSILON_SECONDS = 1e-6;
-    /** Nearest a new track continues a lost member after an end, analysis pixels (also: 2 × its size). */
+    /** Farthest a mover rides with a member, or a new track continues a lost one, analysis pixels (also: 2 × size). */
     static final double JOIN_PX = 48;
+    /** A mover with at most 1/this of a member's peak samples, near it and going its way, is a fragment of it. */
+    static final int FRAGMENT_SHARE = 4;
     /**
-     * Widest gap, analysis pixels, between a mover's box and a member's predicted box for the two to be one body:
-     * three grid points at the default stride of 4 (samples of one body separated by at most two unsampled points:
-     * a glare patch ahead of a vehicle, a piece of a textured load read apart from the rest).
+     * Widest gap, analysis pixels, between the boxes of two whole bodies (neither a rim) moving alike for them to be
+     * one: three grid points at the default stride (samples of one body apart by at most two unsampled points).
      */
     static final double JOIN_GAP_PX = 12;
-    /**
-     * A mover with at most 1/this of a member's peak samples, at the member's side, is a fragment of it (a glare
-     * patch, a corner read apart) whatever its velocity, which a handful of samples measures poorly.
-     */
-    static final int FRAGMENT_SHARE = 4;
     /** Points of the mover's path in an event. */
     static final int PATH_POINTS = 8;
     private static final int MAX_MEMBERS = 64;
@@ -214,51 +211,82 @@ public final class WrongWayRule {
     }
 
     /**
-     * One body with a member: at a like velocity, and either its box touches the member's box at the member's
-     * predicted position (apart by at most {@link #JOIN_GAP_PX}), or one of the two is a rim (thin along its
-     * motion: the front or back edge of a plain body whose length the flow cannot see) and they lie within
-     * max({@link #JOIN_PX}, twice the larger's size) of each other.
+     * One body with a member (or part of its passage): within max({@link #JOIN_PX}, twice the larger's size) of
+     * the member (where it is in this frame, or where its last velocity puts it), no still ground between the two
+     * ({@link #stillGroundBetween}), and either a fragment of it (at most 1/{@link #FRAGMENT_SHARE} of its peak
+     * samples, going its way within 60°: a few samples measure their velocity poorly) or moving alike with
+     * touching boxes (at most {@link #JOIN_GAP_PX} apart) unless one of the two is a rim.
      */
     private boolean ridesWithMember(Movers m, int k, double t) {
         for (int j = 0; j < members; j++) {
             if (t - memberSeen[j] > settings.clearSeconds() + EPSILON_SECONDS) {
                 continue;
             }
-            double dt = t - memberSeen[j];
-            double dx = m.x(k) - (memberX[j] + memberVx[j] * dt);
-            double dy = m.y(k) - (memberY[j] + memberVy[j] * dt);
-            double gap = Math.max(Math.abs(dx) - (m.widthPx(k) + memberW[j]) / 2,
-                    Math.abs(dy) - (m.heightPx(k) + memberH[j]) / 2);
-            if (gap <= JOIN_GAP_PX && m.peakSamples(k) * FRAGMENT_SHARE <= memberSamples[j]) {
-                return true; // a fragment at the member's side: too few samples for its velocity to mean much
-            }
-            double dv = Math.hypot(m.vx(k) - memberVx[j], m.vy(k) - memberVy[j]);
-            double speed = Math.hypot(memberVx[j], memberVy[j]);
-            if (dv > 0.5 * speed + 5) {
+            final int mj = m.slot(memberId[j]);
+            final boolean now = mj >= 0 && m.seen(mj);
+            final double dt = now ? 0 : t - memberSeen[j];
+            final double jx = now ? m.x(mj) : memberX[j] + memberVx[j] * dt;
+            final double jy = now ? m.y(mj) : memberY[j] + memberVy[j] * dt;
+            final double jvx = now ? m.vx(mj) : memberVx[j];
+            final double jvy = now ? m.vy(mj) : memberVy[j];
+            final double size = Math.max(Math.max(m.widthPx(k), m.heightPx(k)), Math.max(memberW[j], memberH[j]));
+            if (Math.hypot(m.x(k) - jx, m.y(k) - jy) > Math.max(JOIN_PX, 2 * size)) {
                 continue;
             }
-            if (gap <= JOIN_GAP_PX) {
+            if (now && stillGroundBetween(m, k, mj)) {
+                continue;
+            }
+            final double speed = Math.hypot(jvx, jvy);
+            final double dot = m.vx(k) * jvx + m.vy(k) * jvy;
+            if (m.peakSamples(k) * FRAGMENT_SHARE <= memberSamples[j] && dot >= 0.5 * speed * Math.hypot(m.vx(k), m.vy(k))) {
                 return true;
             }
-            if (rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k)) || rim(memberW[j], memberH[j], memberVx[j], memberVy[j])) {
-                double size = Math.max(Math.max(m.widthPx(k), m.heightPx(k)), Math.max(memberW[j], memberH[j]));
-                if (Math.hypot(dx, dy) <= Math.max(JOIN_PX, 2 * size)) {
-                    return true;
-                }
+            if (Math.hypot(m.vx(k) - jvx, m.vy(k) - jvy) > 0.5 * speed + 5) {
+                continue;
             }
+            final double gap = Math.max(Math.abs(m.x(k) - jx) - (m.widthPx(k) + memberW[j]) / 2,
+                    Math.abs(m.y(k) - jy) - (m.heightPx(k) + memberH[j]) / 2);
+            if (gap > JOIN_GAP_PX && !rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k))
+                    && !rim(memberW[j], memberH[j], jvx, jvy)) {
+                continue; // two whole bodies with a gap between them
+            }
+            return true;
         }
         return false;
     }
 
     /** A box at most half as long along its motion as across it: the moving edge of something longer. */
     static boolean rim(double w, double h, double vx, double vy) {
-        double speed = Math.hypot(vx, vy);
-        if (speed <= 0) {
+        final double speed = Math.hypot(vx, vy);
+        if (!(speed > 0)) {
             return false;
         }
-        double ux = Math.abs(vx) / speed;
-        double uy = Math.abs(vy) / speed;
+        final double ux = Math.abs(vx) / speed;
+        final double uy = Math.abs(vy) / speed;
         return ux * w + uy * h <= 0.5 * (uy * w + ux * h);
+    }
+
+    /**
+     * True when the tracker found still textured ground between movers a and b of this frame: looking ahead along
+     * its motion from the one behind, still ground comes before the body of the one ahead (its half length along
+     * the motion before its centroid). Two vehicles nose to tail have such ground between them; the front and
+     * the back rim of one plain vehicle have its plain (untextured) or moving inside. On plain ground there is
+     * no evidence either way, and the two count as one.
+     */
+    static boolean stillGroundBetween(Movers m, int a, int b) {
+        double vx = m.vx(a) + m.vx(b);
+        double vy = m.vy(a) + m.vy(b);
+        final double speed = Math.hypot(vx, vy);
+        if (!(speed > 0)) {
+            return false;
+        }
+        final double ux = vx / speed;
+        final double uy = vy / speed;
+        final double along = (m.x(a) - m.x(b)) * ux + (m.y(a) - m.y(b)) * uy;
+        final int behind = along >= 0 ? b : a;
+        final int ahead = along >= 0 ? a : b;
+        final double halfLength = 0.5 * (Math.abs(ux) * m.widthPx(ahead) + Math.abs(uy) * m.heightPx(ahead));
+        return m.stillAheadPx(behind) < Math.abs(along) - halfLength;
     }
 
     /** During rest: a member of the ended event, or a track that began where its last member was lost. */

@@ -63,6 +63,10 @@ public final class MoverTracker {
     private static final byte NONE = 0;
     private static final byte FULL = 1;
     private static final byte EDGE = 2;
+    /** A textured sample (full vector) that does not move: still ground. */
+    private static final byte STILL = 3;
+    /** How far ahead of a track's centroid still ground is looked for, analysis pixels. */
+    static final double LOOK_AHEAD_PX = 160;
 
     private final ZoneMask mask;
     private final MoverSettings settings;
@@ -286,10 +290,39 @@ public final class MoverTracker {
             }
             boolean seen = tSeenAt[t] == streamSeconds;
             double speed = tMovingSeconds[t] > 0 ? tDistance[t] / tMovingSeconds[t] : 0;
-            out.put(tId[t], seen, streamSeconds - tBorn[t], tTravel[t], seen ? tSamples[t] : 0, tPeak[t], tW[t], tH[t],
-                    tX[t], tY[t], tVx[t], tVy[t], speed);
+            int slot = out.put(tId[t], seen, streamSeconds - tBorn[t], tTravel[t], seen ? tSamples[t] : 0, tPeak[t],
+                    tW[t], tH[t], tX[t], tY[t], tVx[t], tVy[t], speed);
+            if (seen && slot >= 0) {
+                out.stillAheadPx(slot, stillAhead(t));
+            }
         }
         out.end();
+    }
+
+    /**
+     * Distance from track t's centroid, along its velocity, to the first still textured sample, analysis pixels
+     * (half-stride steps, nearest sample); infinity when the look-ahead reaches the picture's edge or
+     * {@link #LOOK_AHEAD_PX} first, or the track does not move.
+     */
+    private double stillAhead(int t) {
+        final double speed = Math.hypot(tVx[t], tVy[t]);
+        if (!(speed > 0)) {
+            return Double.POSITIVE_INFINITY;
+        }
+        final double ux = tVx[t] / speed;
+        final double uy = tVy[t] / speed;
+        final double step = 0.5 * stride;
+        for (double d = step; d <= LOOK_AHEAD_PX; d += step) {
+            final int i = (int) Math.round((tX[t] + ux * d - stride / 2) / stride);
+            final int j = (int) Math.round((tY[t] + uy * d - stride / 2) / stride);
+            if (i < 0 || j < 0 || i >= gridWidth || j >= gridHeight) {
+                break;
+            }
+            if (kind[j * gridWidth + i] == STILL) {
+                return d;
+            }
+        }
+        return Double.POSITIVE_INFINITY;
     }
 
     /** Votes, averaged flow and which samples move. */
@@ -352,10 +385,10 @@ public final class MoverTracker {
                     wv[k] = av;
                     kind[k] = what;
                 } else {
-                    kind[k] = NONE;
+                    kind[k] = what == FULL ? STILL : NONE;
                 }
             } else {
-                kind[k] = NONE;
+                kind[k] = what == FULL ? STILL : NONE;
             }
         }
     }
@@ -411,7 +444,7 @@ public final class MoverTracker {
                 final int row = j * w;
                 for (int i = Math.max(0, i0 - 2); i <= Math.min(w - 1, i0 + 2); i++) {
                     final int q = row + i;
-                    if (label[q] >= 0 || kind[q] == NONE) {
+                    if (label[q] >= 0 || (kind[q] != FULL && kind[q] != EDGE)) {
                         continue;
                     }
                     final float dx = gDirX[g];

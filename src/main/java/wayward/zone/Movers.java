@@ -39,6 +39,7 @@ public final class Movers {
     private final double[] vx;
     private final double[] vy;
     private final double[] speed;
+    private final double[] stillAhead;
     private final float[] pathX;
     private final float[] pathY;
     private final int[] pathCount;
@@ -64,6 +65,7 @@ public final class Movers {
         vx = new double[capacity];
         vy = new double[capacity];
         speed = new double[capacity];
+        stillAhead = new double[capacity];
         pathX = new float[capacity * PATH_POINTS];
         pathY = new float[capacity * PATH_POINTS];
         pathCount = new int[capacity];
@@ -129,6 +131,7 @@ public final class Movers {
         this.vx[k] = vx;
         this.vy[k] = vy;
         this.speed[k] = speed;
+        this.stillAhead[k] = Double.POSITIVE_INFINITY;
         if (seen) {
             addPathPoint(k, (float) x, (float) y);
         }
@@ -257,6 +260,25 @@ public final class Movers {
 
     public double speed(int k) {
         return speed[k];
+    }
+
+    /**
+     * How far ahead of the track's centroid, along its motion, the nearest still and textured sample lies, analysis
+     * pixels; {@link Double#POSITIVE_INFINITY} when none was found within the tracker's look-ahead or the track was
+     * not seen in this frame. Still ground between two movers tells them apart: one body has none inside it.
+     */
+    public double stillAheadPx(int k) {
+        return stillAhead[k];
+    }
+
+    /** Sets {@link #stillAheadPx} of slot k (after {@link #put}, which resets it to infinity). */
+    public void stillAheadPx(int k, double px) {
+        stillAhead[k] = px;
+    }
+
+    /** The slot of a live track, or -1. */
+    public int slot(long trackId) {
+        return slotOf(trackId);
     }
 
     public int pathCount(int k) {

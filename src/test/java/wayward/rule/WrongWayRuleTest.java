@@ -134,19 +134,13 @@ class WrongWayRuleTest {
         assertEquals(1.6, starts.get(1).streamSeconds(), 1e-9);
     }
 
-    /** A track as the tracker would report it: {id, bornAt, travel, samples, y, width, height, vx, vy}; x = 160. */
-    private static Event boxes(WrongWayRule rule, Movers m, double t, double[]... tracks) {
-        m.begin(t, 320, 180, 4);
-        for (double[] k : tracks) {
-            m.put((long) k[0], true, t - k[1], k[2], (int) k[3], (int) k[3], (int) k[5], (int) k[6], 160, k[4], k[7],
-                    k[8], Math.hypot(k[7], k[8]));
-        }
-        m.end();
-        return rule.update(m, 0.01);
-    }
-
     /** Two bodies (or two parts of one) driving down the picture one behind the other at 30 px/s; event starts. */
     private static List<Event> twoBehind(double gapPx, int w, int h, int samples2, double vx2) {
+        return twoBehind(gapPx, w, h, samples2, vx2, Double.POSITIVE_INFINITY);
+    }
+
+    /** As above, the tracker having found still ground {@code stillAhead} px ahead of the one behind. */
+    private static List<Event> twoBehind(double gapPx, int w, int h, int samples2, double vx2, double stillAhead) {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
         Movers m = new Movers(8);
         List<Event> out = new ArrayList<>();
@@ -154,8 +148,12 @@ class WrongWayRuleTest {
             double t = n * DT;
             double y1 = 100 + 3 * n;
             double y2 = y1 - h - gapPx; // box to box: gapPx of still ground between them
-            collect(out, boxes(rule, m, t, new double[] {1, 0, 3 * n, 60, y1, w, h, 0, 30},
-                    new double[] {2, 0, 3 * n, samples2, y2, w, h, vx2, 30}));
+            m.begin(t, 320, 180, 4);
+            m.put(1, true, t, 3 * n, 60, 60, w, h, 160, y1, 0, 30, 30);
+            int behind = m.put(2, true, t, 3 * n, samples2, samples2, w, h, 160, y2, vx2, 30, Math.hypot(vx2, 30));
+            m.stillAheadPx(behind, stillAhead);
+            m.end();
+            collect(out, rule.update(m, 0.01));
         }
         return out.stream().filter(e -> e.phase() == Event.Phase.START).toList();
     }
@@ -175,11 +173,21 @@ class WrongWayRuleTest {
     }
 
     @Test
+    void stillGroundBetweenTwoRimsMakesThemTwoMovers() {
+        // the rims of the last test, but the tracker saw still textured ground 10 px ahead of the one behind,
+        // 28 px short of the one ahead (centroids 40 px apart, half a rim's length 4 px): two bodies
+        assertEquals(2, twoBehind(32, 40, 8, 60, 0, 10).size());
+        // still ground only beyond the one ahead (ahead of both): one body
+        assertEquals(1, twoBehind(32, 40, 8, 60, 0, 60).size());
+    }
+
+    @Test
     void aFewSamplesAtAMoversSideWithAnotherVelocityAreAFragmentOfIt() {
-        // a glare patch of 4 samples (a fifteenth of the body's 60) 6 px away, its velocity read 25 px/s sideways
-        assertEquals(1, twoBehind(6, 36, 36, 4, 25).size());
-        // the same patch 40 px away is a mover of its own: only a body nearby makes a fragment
-        assertEquals(2, twoBehind(40, 36, 36, 4, 25).size());
+        // a glare patch of 4 samples (a fifteenth of the body's 60) 20 px away, its velocity read 25 px/s sideways
+        // (39.8° off: within the 60° of a fragment; as a whole body its velocity would not be alike)
+        assertEquals(1, twoBehind(20, 36, 36, 4, 25).size());
+        // the same patch 60 px away (centroids 96 px apart, beyond twice the body's size) is a mover of its own
+        assertEquals(2, twoBehind(60, 36, 36, 4, 25).size());
     }
 
     @Test

@@ -126,6 +126,43 @@ class MoverTrackerTest {
     }
 
     @Test
+    void stillTexturedGroundAheadOfAMoverIsFoundAndPlainGroundIsNot() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        for (int n = 1; n <= 3; n++) {
+            ground(f, null, 0);
+            // 4 × 4 samples (16 px) moving 3 px down per frame; its centroid 6 px below the top sample's centre
+            box(f, 150, 40 + 3 * n, 4, 4, 0, 3, null, 0);
+            t.update(f, DT, n * DT, m);
+        }
+        int k = slotOf(m);
+        // analytic: the box's samples are rows j0..j0+3 (j0 = round((49 - 2) / 4) = 12, centres 50..62 px); the
+        // centroid is at 56 px, the first still sample below it at row 16 (centre 66 px); stepping 2 px from the
+        // centroid, 64 px is the first point whose nearest row is 16 (half-way between 62 and 66 rounds up): 8 px
+        assertEquals(56, m.y(k), 1e-9);
+        assertEquals(8, m.stillAheadPx(k), 1e-9);
+        // the same over plain ground (no texture: neither moving nor still, nothing to tell)
+        MoverTracker plain = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers pm = plain.newMovers();
+        for (int n = 1; n <= 3; n++) {
+            ground(f, null, 0);
+            java.util.Arrays.fill(f.confidence, 0f);
+            java.util.Arrays.fill(f.edge, 0f);
+            box(f, 150, 40 + 3 * n, 4, 4, 0, 3, null, 0);
+            int i0 = (int) Math.round((150 - 2) / 4.0);
+            int j0 = (int) Math.round((40 + 3 * n - 2) / 4.0);
+            for (int j = j0; j < j0 + 4; j++) {
+                for (int i = i0; i < i0 + 4; i++) {
+                    f.confidence[j * f.width + i] = (float) CONFIDENT;
+                }
+            }
+            plain.update(f, DT, n * DT, pm);
+        }
+        assertEquals(Double.POSITIVE_INFINITY, pm.stillAheadPx(slotOf(pm)));
+    }
+
+    @Test
     void twoMoversAreTwoTracks() {
         FlowField f = field();
         MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
