@@ -21,8 +21,12 @@ final class GlobalMotion {
         scratch = new float[samples];
     }
 
-    /** Writes {@code field.globalU} and {@code field.globalV} (0 when too few samples vote). */
-    void measure(FlowField field) {
+    /**
+     * Writes {@code field.globalU} and {@code field.globalV} (0 when too few samples vote).
+     *
+     * @return true when enough samples voted for the median to be the camera's motion
+     */
+    boolean measure(FlowField field) {
         int n = 0;
         for (int i = 0; i < field.confidence.length; i++) {
             if (field.confidence[i] >= CONFIDENCE_FLOOR) {
@@ -32,7 +36,7 @@ final class GlobalMotion {
         if (n < 8 || n < MIN_CONFIDENT_SHARE * field.confidence.length) {
             field.globalU = 0f;
             field.globalV = 0f;
-            return;
+            return false;
         }
         field.globalU = median(scratch, n);
         n = 0;
@@ -42,6 +46,7 @@ final class GlobalMotion {
             }
         }
         field.globalV = median(scratch, n);
+        return true;
     }
 
     /** Median of a[0..n) by quickselect (Hoare 1961); reorders a. */

@@ -18,7 +18,9 @@ package wayward.flow;
  * motion of its own and its neighbours' structure tensors, each neighbour weighted by how alike the windows'
  * brightness is. An edge's tensor constrains only the motion across it, so an edge point keeps its own normal
  * motion and borrows the rest, and a plain surface framed by edges of several directions takes the full motion
- * of its rim; the support a filled point gathered passes on, weakened, to the next point inwards.
+ * of its rim; the support a filled point gathered passes on, weakened, to the next point inwards. Last, flat
+ * ground that is not framed by moving outlines on (nearly) every side takes the background's motion
+ * ({@link #settleFlat}): the fill cannot tell a plain roof from the plain yard beside it, what frames them can.
  *
  * <p>The work per frame is about (pixels / stride²) × window area × iterations, instead of pixels × window
  * area. The result is the grid itself ({@link FlowField} with this stride); {@link FlowField#toDense()}
@@ -73,6 +75,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[][] initRowWeight;
     private final Band[] bands;
     private final float[] pyramidScratch;
+    /** Per finest grid point during {@link #settleFlat}: flat, still or moving. */
+    private final byte[] settleScratch;
     private final GlobalMotion globalMotion;
     private final float[][] smoothU;
     private final float[][] smoothV;
@@ -168,6 +172,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             coarseTable(l, gridHeight[l], levelHeight[l], levelHeight[l + 1], gridHeight[l + 1], initRow[l], initRowWeight[l]);
         }
         pyramidScratch = new float[height * Math.max(1, width / 2)];
+        settleScratch = new byte[gridU[0].length];
         globalMotion = new GlobalMotion(gridU[0].length);
         smoothU = new float[levelCount][];
         smoothV = new float[levelCount][];
@@ -290,7 +295,114 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         for (int g = 0; g < out.u.length; g++) {
             out.setTensor(g, gridA[0][g], gridB[0][g], gridC[0][g]);
         }
-        globalMotion.measure(out);
+        settleFlat(out, globalMotion.measure(out));
+    }
+
+    /**
+     * Larger eigenvalue of a point's tensor per window pixel, (grey levels per pixel)², from which a point that does
+     * not keep its own motion in the fill is an outline (an edge) rather than flat ground: twice the fill's keep
+     * level, above what sensor noise alone reaches in a 5×5 window.
+     */
+    static final float STRUCTURE = 8f;
+    /** Grid points a flat point looks along each axis for the structure that frames it. */
+    static final int SETTLE_REACH = 12;
+    /** Motion apart from the background's, pixels, from which a framing structure counts as moving. */
+    static final float SETTLE_MOVING = 0.25f;
+    /** Sides (of left, right, up, down) whose nearest structure must move for a flat point to be inside a mover. */
+    static final int SETTLE_SIDES = 3;
+    /**
+     * Share of the picture's points with moving structure up to which, when too little of the picture is textured
+     * for the global motion to be measured, the camera is taken for still: movers on still ground.
+     */
+    static final float SETTLE_MOVERS_SHARE = 0.1f;
+
+    /**
+     * Flat ground outside movers moves with the background. The fill hands a mover's motion to flat points on
+     * both sides of its outline alike, and nothing in a flat window tells the two apart: a plain roof and the
+     * plain yard around it look the same from inside. What tells them apart is what frames them. A flat point
+     * inside a mover meets the mover's moving outline on (nearly) every side; a flat point beside it meets it on
+     * one side and still structure, or none, on the others. So a point without structure of its own (neither
+     * keeping its own motion in the fill nor an edge: larger eigenvalue under {@link #STRUCTURE}) looks along the
+     * four axes for the nearest point with structure, up to
+     * {@link #SETTLE_REACH} points away, and unless at least {@link #SETTLE_SIDES} of those move (apart from the
+     * background's motion by {@link #SETTLE_MOVING} px or more), it takes the background's motion (the field's
+     * global motion: zero for a fixed camera). Where the picture has texture enough to measure that motion, a
+     * side without structure within reach tells nothing, and a point settles only when it also sees still
+     * structure (in a turning or zooming picture the global motion is the median, not every point's, and flat
+     * points by the picture's border see nothing on that side). Where too little of the picture is textured to
+     * measure the global motion, the background is taken for still, and a side without structure for a still
+     * side, only when at most {@link #SETTLE_MOVERS_SHARE} of the picture's points have moving structure (movers
+     * on plain ground); otherwise (a camera moving over sparse texture looks the same from inside a flat patch)
+     * nothing is settled.
+     *
+     * @param measured whether the field's global motion was measured (see {@link GlobalMotion#measure})
+     */
+    private void settleFlat(FlowField out, boolean measured) {
+        final int gw = gridWidth[0];
+        final int gh = gridHeight[0];
+        final float[] a = gridA[0];
+        final float[] c = gridC[0];
+        final float[] u = gridU[0];
+        final float[] v = gridV[0];
+        final byte[] frame = settleScratch;
+        final float bu = out.globalU;
+        final float bv = out.globalV;
+        final float moving2 = SETTLE_MOVING * SETTLE_MOVING;
+        int movingPoints = 0;
+        final float[] conf = gridConfidence[0];
+        final float[] res = gridResidual[0];
+        for (int k = 0; k < frame.length; k++) {
+            final boolean kept = conf[k] >= FILL_KEEP && res[k] <= FILL_RESIDUAL_KEEP;
+            if (!kept && a[k] + c[k] - conf[k] < STRUCTURE) {
+                frame[k] = FLAT;
+            } else {
+                final float du = u[k] - bu;
+                final float dv = v[k] - bv;
+                final boolean moves = du * du + dv * dv >= moving2;
+                frame[k] = moves ? MOVING : STILL;
+                movingPoints += moves ? 1 : 0;
+            }
+        }
+        if (!measured && movingPoints > SETTLE_MOVERS_SHARE * frame.length) {
+            return;
+        }
+        for (int j = 0; j < gh; j++) {
+            for (int i = 0; i < gw; i++) {
+                final int k = j * gw + i;
+                if (frame[k] != FLAT) {
+                    continue;
+                }
+                // each side: 0 nothing within reach, 1 still structure, 4 moving structure
+                final int sides = side(frame, k, -1, i) + side(frame, k, 1, gw - 1 - i) + side(frame, k, -gw, j)
+                        + side(frame, k, gw, gh - 1 - j);
+                final int moving = sides >> 2;
+                final int still = sides & 3;
+                if (moving < SETTLE_SIDES && (still > 0 || !measured)) {
+                    out.u[k] = bu;
+                    out.v[k] = bv;
+                }
+            }
+        }
+    }
+
+    private static final byte FLAT = 0;
+    private static final byte STILL = 1;
+    private static final byte MOVING = 2;
+
+    /**
+     * The nearest point with structure from k in steps of {@code step} (at most {@code room}): 4 when it moves, 1
+     * when it is still, 0 when there is none within reach (so four sides add up to moving × 4 + still).
+     */
+    private static int side(byte[] frame, int k, int step, int room) {
+        final int n = Math.min(room, SETTLE_REACH);
+        int q = k;
+        for (int m = 0; m < n; m++) {
+            q += step;
+            if (frame[q] != FLAT) {
+                return frame[q] == MOVING ? 4 : 1;
+            }
+        }
+        return 0;
     }
 
     /** Band worker entry: band {@code b} of {@code count} does its share of rows of the current phase. */

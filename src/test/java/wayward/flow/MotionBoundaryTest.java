@@ -105,6 +105,42 @@ class MotionBoundaryTest {
     }
 
     @Test
+    void aPlainSquareOnPlainGroundMovesInsideAndTheGroundAroundItStaysStill() {
+        // plain paint on a plain yard: only the outline shows motion. Inside the outline the fill must carry it;
+        // outside, the flat ground frames the square on one side only and must read still (truth: zero)
+        Textures ground = Textures.of((x, y) -> 100);
+        Textures paint = Textures.of((x, y) -> 160);
+        SplittableRandom r = new SplittableRandom(7);
+        byte[] a = frame(ground, paint, CX - DX / 2, CY - DY / 2, r);
+        byte[] b = frame(ground, paint, CX + DX / 2, CY + DY / 2, r);
+        GridLucasKanadeFlow flow = new GridLucasKanadeFlow(W, H, FlowSettings.defaults());
+        FlowField grid = flow.newField();
+        flow.compute(a, b, grid);
+        int inside = 0;
+        int insideCaught = 0;
+        double outsideWorst = 0;
+        for (int j = 0; j < grid.height; j++) {
+            for (int i = 0; i < grid.width; i++) {
+                int g = j * grid.width + i;
+                double x = i * grid.stride + grid.stride / 2;
+                double y = j * grid.stride + grid.stride / 2;
+                double ox = Math.abs(x - (CX - DX / 2)) - SIDE / 2;
+                double oy = Math.abs(y - (CY - DY / 2)) - SIDE / 2;
+                if (ox <= -4 && oy <= -4) { // a grid step inside the outline
+                    inside++;
+                    insideCaught += Math.hypot(grid.u[g] - DX, grid.v[g] - DY) <= 1 ? 1 : 0;
+                } else if (Math.max(ox, oy) >= 8) { // two grid steps outside it: no window reaches the square
+                    outsideWorst = Math.max(outsideWorst, Math.hypot(grid.u[g], grid.v[g]));
+                }
+            }
+        }
+        String figures = String.format(Locale.ROOT, "inside: %d of %d within 1 px; outside: worst %.3f px",
+                insideCaught, inside, outsideWorst);
+        assertTrue(insideCaught >= 0.75 * inside, figures);
+        assertTrue(outsideWorst == 0, figures);
+    }
+
+    @Test
     void densifyReproducesAUniformGridExactly() {
         // analytic: when every grid point holds the same motion, every pixel must get it, whatever the residuals
         Textures t = new Textures(3, 12);
