@@ -509,8 +509,78 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 }
                 final int g = j * gw + i;
                 solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l);
+                if (l == SEARCH_LEVEL && l + 1 < levelCount && gridResidual[l][g] > SEARCH_RESIDUAL
+                        && gc[g] >= FILL_KEEP) {
+                    search(i0, i1, w, h, cx, cy, band, gu, gv, gc, g, l);
+                }
             }
         }
+    }
+
+    /** Pyramid level (0 = full size) on which badly explained textured points search for their motion. */
+    static final int SEARCH_LEVEL = 1;
+    /** Search radius on that level, its pixels (± 8 px at full size). */
+    static final int SEARCH_RADIUS = 4;
+    /** Residual per pixel (grey levels²) above which a textured point searches (as FILL_RESIDUAL_KEEP). */
+    static final float SEARCH_RESIDUAL = 30f;
+
+    /**
+     * A small mover that jumps farther than its size between frames is gone on the coarse levels that would
+     * bring its motion within reach, so the point starts from the ground's motion and its window stays badly
+     * explained. Such a textured point tries every whole-pixel shift within {@link #SEARCH_RADIUS} (block
+     * matching, mean-free sum of squared differences), and where the best one explains its window at least
+     * twice as well as the solved motion, solves again from there, keeping the new motion only if its residual
+     * is smaller.
+     */
+    private void search(float[] i0, float[] i1, int w, int h, int cx, int cy, Band band, float[] gu, float[] gv,
+            float[] gc, int g, int l) {
+        float best = 0.5f * windowCost(i0, i1, w, h, cx, cy, gu[g], gv[g]);
+        int bx = 0;
+        int by = 0;
+        boolean found = false;
+        final int r = SEARCH_RADIUS;
+        for (int dy = -r; dy <= r; dy++) {
+            for (int dx = -r; dx <= r; dx++) {
+                final float cost = shiftCost(i0, i1, w, h, cx, cy, dx, dy);
+                if (cost < best) {
+                    best = cost;
+                    bx = dx;
+                    by = dy;
+                    found = true;
+                }
+            }
+        }
+        if (!found) {
+            return;
+        }
+        final float u = gu[g];
+        final float v = gv[g];
+        final float c = gc[g];
+        final float res = gridResidual[l][g];
+        solvePoint(i0, i1, w, h, cx, cy, bx, by, band, gu, gv, gc, g, l);
+        if (gridResidual[l][g] >= res) {
+            gu[g] = u;
+            gv[g] = v;
+            gc[g] = c;
+            gridResidual[l][g] = res;
+        }
+    }
+
+    /** As {@link #windowCost} for a whole-pixel shift (no interpolation). */
+    private float shiftCost(float[] i0, float[] i1, int w, int h, int cx, int cy, int sx, int sy) {
+        final int r = radius;
+        float sd = 0f;
+        float sdd = 0f;
+        for (int dy = -r; dy <= r; dy++) {
+            final int y = clamp(cy + dy, h) * w;
+            final int y1 = clamp(cy + dy + sy, h) * w;
+            for (int dx = -r; dx <= r; dx++) {
+                final float d = i1[y1 + clamp(cx + dx + sx, w)] - i0[y + clamp(cx + dx, w)];
+                sd += d;
+                sdd += d * d;
+            }
+        }
+        return sdd - sd * sd / windowPixels;
     }
 
     /** Spread of the coarse neighbours' motion (sum of u and v ranges, pixels) above which starts are compared. */
