@@ -77,6 +77,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[] pyramidScratch;
     /** Per finest grid point during {@link #settleFlat}: flat, still or moving. */
     private final byte[] settleScratch;
+    /** Residuals of the search level's textured points, for their median. */
+    private final float[] searchScratch;
     private final GlobalMotion globalMotion;
     private final float[][] smoothU;
     private final float[][] smoothV;
@@ -173,6 +175,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         }
         pyramidScratch = new float[height * Math.max(1, width / 2)];
         settleScratch = new byte[gridU[0].length];
+        searchScratch = new float[gridU[Math.min(SEARCH_LEVEL, levelCount - 1)].length];
         globalMotion = new GlobalMotion(gridU[0].length);
         smoothU = new float[levelCount][];
         smoothV = new float[levelCount][];
@@ -273,6 +276,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 pool.runAll();
             } else {
                 solveRows(l, 0, gridHeight[l], bands[0]);
+            }
+            if (l == SEARCH_LEVEL && l + 1 < levelCount) {
+                searchLevel(l);
             }
             initSupport(l);
             for (int pass = 0; pass < FILL_PASSES; pass++) {
@@ -509,10 +515,6 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 }
                 final int g = j * gw + i;
                 solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l);
-                if (l == SEARCH_LEVEL && l + 1 < levelCount && gridResidual[l][g] > SEARCH_RESIDUAL
-                        && gc[g] >= FILL_KEEP) {
-                    search(i0, i1, w, h, cx, cy, band, gu, gv, gc, g, l);
-                }
             }
         }
     }
@@ -523,6 +525,40 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     static final int SEARCH_RADIUS = 4;
     /** Residual per pixel (grey levels²) above which a textured point searches (as FILL_RESIDUAL_KEEP). */
     static final float SEARCH_RESIDUAL = 30f;
+    /**
+     * And above this many times the median residual of the level's textured points: in heavy sensor noise every
+     * window is badly explained, and searching them all would buy nothing for its cost.
+     */
+    static final float SEARCH_OVER_MEDIAN = 4f;
+
+    /** Runs {@link #search} on level l's textured points whose residual stands out (after all are solved). */
+    private void searchLevel(int l) {
+        final float[] res = gridResidual[l];
+        final float[] gc = gridConfidence[l];
+        final float[] scratch = searchScratch;
+        int n = 0;
+        for (int g = 0; g < res.length; g++) {
+            if (gc[g] >= FILL_KEEP) {
+                scratch[n++] = res[g];
+            }
+        }
+        if (n == 0) {
+            return;
+        }
+        final float bar = Math.max(SEARCH_RESIDUAL, SEARCH_OVER_MEDIAN * GlobalMotion.median(scratch, n));
+        final int w = levelWidth[l];
+        final int h = levelHeight[l];
+        final int gw = gridWidth[l];
+        for (int j = 0; j < gridHeight[l]; j++) {
+            final int cy = centre(l, j, h);
+            for (int i = 0; i < gw; i++) {
+                final int g = j * gw + i;
+                if (gc[g] >= FILL_KEEP && res[g] > bar) {
+                    search(earlier[l], later[l], w, h, centre(l, i, w), cy, bands[0], gridU[l], gridV[l], gc, g, l);
+                }
+            }
+        }
+    }
 
     /**
      * A small mover that jumps farther than its size between frames is gone on the coarse levels that would
