@@ -22,9 +22,9 @@ import wayward.zone.ZoneMeter;
  * open event when it rides with a member: near it, with no still textured ground between the two (the tracker
  * looks for it along each mover's motion, {@link Movers#stillAheadPx}), and either a small fragment going its
  * way (a glare patch, a corner read apart) or moving alike and, unless one of the two is a rim (a box thin along
- * its motion: the front or back edge of a plain body), with boxes at most {@link #JOIN_GAP_PX} apart. So the
- * front and the back rim of one plain vehicle are one passage, and two vehicles nose to tail, with ground
- * between them, two. A qualifying mover that does not ride with a member is a different one: it ends the open event at
+ * its motion: the front or back edge of a plain body), not nose to tail with it (one behind the other along the
+ * motion with more than {@link #JOIN_GAP_PX} between the boxes). So the front and the back rim of one plain
+ * vehicle, or a pair of headlights side by side, are one passage, and two vehicles nose to tail two. A qualifying mover that does not ride with a member is a different one: it ends the open event at
  * once and starts its own with the next frame, so two wrong-way movers in a row are two events even when the
  * second enters before the first has left, and events of one zone never overlap. Otherwise the event ends when
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
@@ -214,8 +214,8 @@ public final class WrongWayRule {
      * One body with a member (or part of its passage): within max({@link #JOIN_PX}, twice the larger's size) of
      * the member (where it is in this frame, or where its last velocity puts it), no still ground between the two
      * ({@link #stillGroundBetween}), and either a fragment of it (at most 1/{@link #FRAGMENT_SHARE} of its peak
-     * samples, going its way within 60°: a few samples measure their velocity poorly) or moving alike with
-     * touching boxes (at most {@link #JOIN_GAP_PX} apart) unless one of the two is a rim.
+     * samples, going its way within 60°: a few samples measure their velocity poorly) or moving alike and not
+     * {@link #noseToTail} with it (unless one of the two is a rim).
      */
     private boolean ridesWithMember(Movers m, int k, double t) {
         for (int j = 0; j < members; j++) {
@@ -244,15 +244,31 @@ public final class WrongWayRule {
             if (Math.hypot(m.vx(k) - jvx, m.vy(k) - jvy) > 0.5 * speed + 5) {
                 continue;
             }
-            final double gap = Math.max(Math.abs(m.x(k) - jx) - (m.widthPx(k) + memberW[j]) / 2,
-                    Math.abs(m.y(k) - jy) - (m.heightPx(k) + memberH[j]) / 2);
-            if (gap > JOIN_GAP_PX && !rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k))
-                    && !rim(memberW[j], memberH[j], jvx, jvy)) {
-                continue; // two whole bodies with a gap between them
+            if (!rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k)) && !rim(memberW[j], memberH[j], jvx, jvy)
+                    && noseToTail(m.x(k) - jx, m.y(k) - jy, m.widthPx(k), m.heightPx(k), memberW[j], memberH[j],
+                            jvx / speed, jvy / speed)) {
+                continue; // two whole bodies one behind the other with a gap between them
             }
             return true;
         }
         return false;
+    }
+
+    /**
+     * One box behind the other along the motion (ux, uy), a unit vector: across the motion their centres are no
+     * farther apart than half the narrower box, and along it the gap between the boxes exceeds
+     * {@link #JOIN_GAP_PX}. Pieces side by side (a pair of headlights at night) or overlapping are one body.
+     */
+    static boolean noseToTail(double dx, double dy, double w1, double h1, double w2, double h2, double ux, double uy) {
+        final double along = Math.abs(dx * ux + dy * uy);
+        final double across = Math.abs(-dx * uy + dy * ux);
+        final double ax = Math.abs(ux);
+        final double ay = Math.abs(uy);
+        final double length1 = ax * w1 + ay * h1;
+        final double length2 = ax * w2 + ay * h2;
+        final double width1 = ay * w1 + ax * h1;
+        final double width2 = ay * w2 + ax * h2;
+        return across <= 0.5 * Math.min(width1, width2) && along - (length1 + length2) / 2 > JOIN_GAP_PX;
     }
 
     /** A box at most half as long along its motion as across it: the moving edge of something longer. */

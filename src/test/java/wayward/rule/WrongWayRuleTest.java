@@ -167,6 +167,28 @@ class WrongWayRuleTest {
     }
 
     @Test
+    void twoHeadlightsSideBySideAreOneEvent() {
+        // at night a vehicle shows as two lights 24 px apart across its motion, each followed as a whole body:
+        // side by side is not nose to tail
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        for (int n = 0; n <= 30; n++) {
+            double t = n * DT;
+            m.begin(t, 320, 180, 4);
+            m.put(1, true, t, 3 * n, 8, 8, 8, 8, 148, 40 + 3 * n, 0, 30, 30);
+            // the second light is picked up a little later (its travel lags), so it qualifies while the first is open
+            m.put(2, true, Math.max(0, t - 0.3), Math.max(0, 3 * n - 9), 8, 8, 8, 8, 172, 40 + 3 * n, 0, 30, 30);
+            m.end();
+            collect(out, rule.update(m, 0.01));
+        }
+        assertEquals(1, out.stream().filter(e -> e.phase() == Event.Phase.START).count(), out.toString());
+        assertTrue(WrongWayRule.noseToTail(0, 60, 36, 36, 36, 36, 0, 1), "one 60 px behind the other, in line");
+        assertTrue(!WrongWayRule.noseToTail(24, 0, 8, 8, 8, 8, 0, 1), "side by side across the motion");
+        assertTrue(!WrongWayRule.noseToTail(0, 40, 36, 36, 36, 36, 0, 1), "boxes 4 px apart: touching");
+    }
+
+    @Test
     void theFrontAndTheBackRimOfOnePlainBodyAreOneEvent() {
         // 40 × 8 px rims 32 px apart: thin along their motion, the inside between them carries no trusted sample
         assertEquals(1, twoBehind(32, 40, 8, 60, 0).size());
