@@ -30,9 +30,10 @@ import wayward.zone.ZoneMeter;
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
  *
  * <p><b>Rest.</b> A mover that was a member of an ended event never starts or ends another. After an end, for
- * {@link MoverRuleSettings#restSeconds}, neither can a new track that began where the last member was lost (its first point within
+ * {@link MoverRuleSettings#restSeconds}, neither can a track that began where the last member was lost (its first point within
  * the same distance of the member's predicted path): that is the same mover picked up again after a gap. Any
- * other mover may start an event at once; rest does not hold back a second wrong-way mover.
+ * other mover may start an event at once; rest does not hold back the second wrong-way mover whose arrival
+ * ended the event.
  *
  * <p>One instance per zone, called by the camera's analysis thread in stream-time order; no locks. Allocates
  * only when it emits an event.
@@ -90,6 +91,8 @@ public final class WrongWayRule {
     private final long[] retiredId = new long[4 * MAX_MEMBERS];
     private int retiredNext;
     private double restUntil = Double.NEGATIVE_INFINITY;
+    /** The mover whose arrival ended the last event as a different one (0: none); rest does not hold it back. */
+    private long successorId;
     private double endSeen;
     private double endX;
     private double endY;
@@ -137,6 +140,7 @@ public final class WrongWayRule {
                 if (j < 0 && qualifies(m, k) && !retired(m.id(k))) {
                     if (!ridesWithMember(m, k, t) || members == MAX_MEMBERS) {
                         // a different wrong-way mover: this event ends, its own starts with the next frame
+                        successorId = m.id(k);
                         return end(t);
                     }
                     j = members++;
@@ -316,11 +320,11 @@ public final class WrongWayRule {
         if (m.pathCount(k) == 0) {
             return false;
         }
+        if (m.id(k) == successorId) {
+            return false; // the different mover that ended the last event: its own event is due
+        }
         double born = t - m.ageSeconds(k);
         double dt = born - endSeen;
-        if (dt < -EPSILON_SECONDS) {
-            return false; // followed while the ended event's last member was still seen: another mover
-        }
         double d = Math.hypot(m.pathX(k, 0) - (endX + endVx * dt), m.pathY(k, 0) - (endY + endVy * dt));
         return d <= Math.max(JOIN_PX, 2 * endSize);
     }
@@ -338,6 +342,7 @@ public final class WrongWayRule {
 
     private Event start(Movers m, int k, double t, double againstShare) {
         active = true;
+        successorId = 0;
         eventId = UUID.randomUUID().toString();
         startedAt = t;
         lastSeen = t;
