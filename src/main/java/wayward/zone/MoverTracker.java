@@ -40,7 +40,13 @@ import wayward.flow.FlowField;
  * <p><b>Following.</b> Each track predicts its centroid (last centroid + velocity × time since seen); groups
  * and tracks are paired nearest first within a gate (gate + half the track's size, or the prediction inside the
  * group's box), never when both move clearly and in opposite directions. An unpaired group of at least two
- * samples starts a track; a track that finds no group for {@link MoverSettings#lostSeconds} is dropped.
+ * samples starts a track; a track that finds no group for {@link MoverSettings#lostSeconds} is dropped. A track
+ * whose flow reading fails on a jump it predicted ({@link #FAILED_JUMP_PX} or more) while its group turns up
+ * where it should goes on with its centroid's velocity and step (see {@code flowFailed}).
+ *
+ * <p><b>Still ground ahead.</b> For each seen track the tracker also looks along its motion for the nearest
+ * still, textured sample ({@link Movers#stillAheadPx}): the wrong-way rule tells two vehicles nose to tail (still
+ * ground between them) from the front and back of one plain vehicle (nothing, or its moving inside, between).
  *
  * <p>One instance per zone, used by the camera's analysis thread. Every array is sized at construction from the
  * sample grid (groups may grow past the zone) and the track table from the zone mask's sample count;
