@@ -233,7 +233,9 @@ public final class WrongWayRule {
             final double jy = now ? m.y(mj) : memberY[j] + memberVy[j] * dt;
             final double jvx = now ? m.vx(mj) : memberVx[j];
             final double jvy = now ? m.vy(mj) : memberVy[j];
-            final double size = Math.max(Math.max(m.widthPx(k), m.heightPx(k)), Math.max(memberW[j], memberH[j]));
+            final double jw = now ? m.widthPx(mj) : memberW[j];
+            final double jh = now ? m.heightPx(mj) : memberH[j];
+            final double size = Math.max(Math.max(m.widthPx(k), m.heightPx(k)), Math.max(jw, jh));
             if (Math.hypot(m.x(k) - jx, m.y(k) - jy) > Math.max(JOIN_PX, 2 * size)) {
                 continue;
             }
@@ -248,9 +250,9 @@ public final class WrongWayRule {
             if (Math.hypot(m.vx(k) - jvx, m.vy(k) - jvy) > 0.5 * speed + 5) {
                 continue;
             }
-            if (!rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k)) && !rim(memberW[j], memberH[j], jvx, jvy)
-                    && noseToTail(m.x(k) - jx, m.y(k) - jy, m.widthPx(k), m.heightPx(k), memberW[j], memberH[j],
-                            jvx / speed, jvy / speed)) {
+            if (speed > 0 && !rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k)) && !rim(jw, jh, jvx, jvy)
+                    && noseToTail(m.x(k) - jx, m.y(k) - jy, m.widthPx(k), m.heightPx(k), jw, jh, jvx / speed,
+                            jvy / speed)) {
                 continue; // two whole bodies one behind the other with a gap between them
             }
             return true;
