@@ -15,7 +15,9 @@ import wayward.image.GrayFrame;
  * <li>{@code view_blocked}: the spread of 8×8 block means (the picture's large-scale structure) falls under
  *     15 % of its running baseline for 2 s; lights going off scale it by their gain only (0.4 stays above);</li>
  * <li>{@code focus_lost}: the ratio of fine detail (differences of neighbouring 2×2 block means) to the
- *     large-scale spread falls under 40 % of its baseline for 3 s; the ratio does not change with brightness;</li>
+ *     large-scale spread falls under 70 % of its baseline for 3 s, and so does the fine detail itself; the ratio
+ *     does not change with brightness, and the detail keeps a bright blob that only adds large-scale spread
+ *     (headlight glare) from reading as blur;</li>
  * <li>{@code picture_frozen}: for 3 s most frame pairs are still (under 0.2 % of the pixels change by more
  *     than 1 grey level; the odd keyframe of a re-encoded still is allowed), on a camera that is normally
  *     never still (its sensor noise survives the encoder). A compressed static scene is as still as a frozen
@@ -56,6 +58,7 @@ public final class TamperWatch {
     private double lastT = Double.NaN;
     private double baseSpread = Double.NaN;
     private double baseRatio = Double.NaN;
+    private double baseDetail = Double.NaN;
     private double stillSince = Double.NaN;
     private double stillness;
     private double baseStill = Double.NaN;
@@ -207,11 +210,13 @@ public final class TamperWatch {
             double n = Math.max(1, (t - startT) / Math.max(dt, 1e-3));
             baseSpread = Double.isNaN(baseSpread) ? spread : baseSpread + (spread - baseSpread) / n;
             baseRatio = Double.isNaN(baseRatio) ? ratio : baseRatio + (ratio - baseRatio) / n;
+            baseDetail = Double.isNaN(baseDetail) ? detail : baseDetail + (detail - baseDetail) / n;
             baseStill = Double.isNaN(baseStill) ? (still ? 1 : 0) : baseStill + ((still ? 1 : 0) - baseStill) / n;
             return;
         }
         blocked.update(spread < BLOCKED_SHARE * baseSpread, spread > BLOCKED_BACK * baseSpread, t, Double.NaN);
-        boolean focusBad = !blocked.active() && spread >= BLOCKED_SHARE * baseSpread && ratio < FOCUS_SHARE * baseRatio;
+        boolean focusBad = !blocked.active() && spread >= BLOCKED_SHARE * baseSpread && ratio < FOCUS_SHARE * baseRatio
+                && detail < FOCUS_SHARE * baseDetail;
         focus.update(focusBad, ratio > FOCUS_BACK * baseRatio, t, Double.NaN);
         boolean normal = !blocked.active() && !focus.active() && Double.isNaN(blocked.since)
                 && Double.isNaN(focus.since) && spread >= 0.5 * baseSpread;
@@ -219,6 +224,7 @@ public final class TamperWatch {
             double a = Math.min(1, dt / BASELINE_SECONDS);
             baseSpread += a * (spread - baseSpread);
             baseRatio += a * (ratio - baseRatio);
+            baseDetail += a * (detail - baseDetail);
             if (!frozen.active() && !mostlyStill) {
                 baseStill += a * ((still ? 1 : 0) - baseStill);
             }

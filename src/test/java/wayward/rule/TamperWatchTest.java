@@ -77,6 +77,86 @@ class TamperWatchTest {
         return events;
     }
 
+    /** Runs 4 s of the still canvas, then 6 s with {@code after} applied to each frame (in place). */
+    private static List<Event> runWith(java.util.function.Consumer<int[]> after) {
+        int[] c = canvas();
+        int cw = W + 2 * MARGIN;
+        SplittableRandom noise = new SplittableRandom(11);
+        TamperWatch w = new TamperWatch("yard-gate-1", Clock.systemUTC());
+        FlowField field = new FlowField(W, H, 4);
+        GrayFrame f = new GrayFrame(W, H);
+        int[] v = new int[W * H];
+        List<Event> events = new ArrayList<>();
+        for (int i = 0; i < 100; i++) {
+            double t = i / 10.0;
+            for (int y = 0; y < H; y++) {
+                for (int x = 0; x < W; x++) {
+                    v[y * W + x] = c[(y + MARGIN) * cw + x + MARGIN] + noise.nextInt(-3, 4);
+                }
+            }
+            if (t >= 4) {
+                after.accept(v);
+            }
+            for (int k = 0; k < v.length; k++) {
+                f.pixels[k] = (byte) Math.max(0, Math.min(255, v[k]));
+            }
+            w.update(f, field, t);
+            for (Event e; (e = w.poll()) != null; ) {
+                events.add(e);
+            }
+        }
+        return events;
+    }
+
+    private static long starts(List<Event> events, EventKind kind) {
+        return events.stream().filter(e -> e.kind() == kind && e.phase() == Event.Phase.START).count();
+    }
+
+    @Test
+    void aBlurredPictureLosesFocus() {
+        // a 15×15 box blur, separable (a lens well out of focus): fine detail falls, large-scale structure stays
+        List<Event> events = runWith(v -> {
+            int r = 7;
+            int[] tmp = new int[v.length];
+            for (int y = 0; y < H; y++) {
+                for (int x = 0; x < W; x++) {
+                    int sum = 0;
+                    for (int d = -r; d <= r; d++) {
+                        sum += v[y * W + Math.max(0, Math.min(W - 1, x + d))];
+                    }
+                    tmp[y * W + x] = sum / (2 * r + 1);
+                }
+            }
+            for (int y = 0; y < H; y++) {
+                for (int x = 0; x < W; x++) {
+                    int sum = 0;
+                    for (int d = -r; d <= r; d++) {
+                        sum += tmp[Math.max(0, Math.min(H - 1, y + d)) * W + x];
+                    }
+                    v[y * W + x] = sum / (2 * r + 1);
+                }
+            }
+        });
+        assertEquals(1, starts(events, EventKind.FOCUS_LOST), events.toString());
+    }
+
+    @Test
+    void headlightGlareIsNotLostFocus() {
+        // a bright soft blob (σ a tenth of the width, +160 grey levels at its centre, clipped at 255) over part of
+        // the picture: it adds large-scale spread, which lowered the detail-to-spread ratio as blur does, but the
+        // fine detail around it is all still there
+        List<Event> events = runWith(v -> {
+            double s = 0.1 * W;
+            for (int y = 0; y < H; y++) {
+                for (int x = 0; x < W; x++) {
+                    double d2 = (x - 0.6 * W) * (x - 0.6 * W) + (y - 0.5 * H) * (y - 0.5 * H);
+                    v[y * W + x] += (int) Math.round(160 * Math.exp(-d2 / (2 * s * s)));
+                }
+            }
+        });
+        assertEquals(0, starts(events, EventKind.FOCUS_LOST), events.toString());
+    }
+
     /** Starts of camera_moved (each ends 2 s later: the new position becomes the reference). */
     private static List<Event> moved(List<Event> events) {
         return events.stream().filter(e -> e.kind() == EventKind.CAMERA_MOVED && e.phase() == Event.Phase.START)
