@@ -30,8 +30,9 @@ import wayward.zone.ZoneMeter;
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
  *
  * <p><b>Rest.</b> A mover that was a member of an ended event never starts or ends another. After an end, for
- * {@link MoverRuleSettings#restSeconds}, neither can a track that began where the last member was lost (its first point within
- * the same distance of the member's predicted path): that is the same mover picked up again after a gap. Any
+ * {@link MoverRuleSettings#restSeconds}, neither can a track that began within that time where the last member was lost
+ * (its first point within the same distance of the member's predicted path), however late it qualifies: that is
+ * the same mover picked up again after a gap (a crawler takes seconds to travel far enough again). Any
  * other mover may start an event at once; rest does not hold back the second wrong-way mover whose arrival
  * ended the event.
  *
@@ -316,16 +317,18 @@ public final class WrongWayRule {
         if (retired(m.id(k))) {
             return true;
         }
-        if (t + EPSILON_SECONDS >= restUntil) {
-            return false;
-        }
         if (m.pathCount(k) == 0) {
             return false;
         }
         if (m.id(k) == successorId) {
             return false; // the different mover that ended the last event: its own event is due
         }
+        // whether a track continues the last member is decided by where and when it began, not by when it
+        // qualifies: a crawler picked up again within rest takes seconds to travel far enough
         double born = t - m.ageSeconds(k);
+        if (born + EPSILON_SECONDS >= restUntil) {
+            return false;
+        }
         double dt = born - endSeen;
         double d = Math.hypot(m.pathX(k, 0) - (endX + endVx * dt), m.pathY(k, 0) - (endY + endVy * dt));
         return d <= Math.max(JOIN_PX, 2 * endSize);

@@ -233,6 +233,28 @@ class WrongWayRuleTest {
     }
 
     @Test
+    void aCrawlerPickedUpAgainWithinRestDoesNotAlertTwiceWhenItQualifiesLater() {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        double t = 0;
+        // a crawl at 1 px a frame (10 px/s): 10 px after 1 s
+        for (int n = 0; n <= 15; n++, t += DT) {
+            collect(out, frame(rule, m, t, new double[] {1, 0, n, 15, 40 + n}));
+        }
+        // lost for 1.1 s: the event ends at the last sighting + clear
+        for (int n = 0; n < 11; n++, t += DT) {
+            collect(out, frame(rule, m, t));
+        }
+        // found again where it crawled on, 0.1 s into rest; at 1 px a frame it travels 10 px only after rest
+        double born = t;
+        for (int n = 0; n <= 30; n++, t += DT) {
+            collect(out, frame(rule, m, t, new double[] {4, born, n, 15, 40 + 15 + 11 + n}));
+        }
+        assertEquals(2, out.size(), "one start and one end: " + out);
+    }
+
+    @Test
     void aSwayingThingNeverTravelsFarEnough() {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
         Movers m = new Movers(8);
