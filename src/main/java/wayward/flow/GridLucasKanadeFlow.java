@@ -564,7 +564,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * A small mover that jumps farther than its size between frames is gone on the coarse levels that would
      * bring its motion within reach, so the point starts from the ground's motion and its window stays badly
      * explained. Such a textured point tries every whole-pixel shift within {@link #SEARCH_RADIUS} (block
-     * matching, mean-free sum of squared differences), and where the best one explains its window at least
+     * matching with {@link #windowCost}, mean-free sum of squared differences), and where the best one explains its window at least
      * twice as well as the solved motion, solves again from there, keeping the new motion only if its residual
      * is smaller.
      */
@@ -577,7 +577,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final int r = SEARCH_RADIUS;
         for (int dy = -r; dy <= r; dy++) {
             for (int dx = -r; dx <= r; dx++) {
-                final float cost = shiftCost(i0, i1, w, h, cx, cy, dx, dy);
+                final float cost = windowCost(i0, i1, w, h, cx, cy, dx, dy);
                 if (cost < best) {
                     best = cost;
                     bx = dx;
@@ -600,23 +600,6 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             gc[g] = c;
             gridResidual[l][g] = res;
         }
-    }
-
-    /** As {@link #windowCost} for a whole-pixel shift (no interpolation). */
-    private float shiftCost(float[] i0, float[] i1, int w, int h, int cx, int cy, int sx, int sy) {
-        final int r = radius;
-        float sd = 0f;
-        float sdd = 0f;
-        for (int dy = -r; dy <= r; dy++) {
-            final int y = clamp(cy + dy, h) * w;
-            final int y1 = clamp(cy + dy + sy, h) * w;
-            for (int dx = -r; dx <= r; dx++) {
-                final float d = i1[y1 + clamp(cx + dx + sx, w)] - i0[y + clamp(cx + dx, w)];
-                sd += d;
-                sdd += d * d;
-            }
-        }
-        return sdd - sd * sd / windowPixels;
     }
 
     /** Spread of the coarse neighbours' motion (sum of u and v ranges, pixels) above which starts are compared. */
