@@ -319,12 +319,11 @@ public final class MoverTracker {
         final double uy = tVy[t] / speed;
         final double step = 0.5 * stride;
         for (double d = step; d <= LOOK_AHEAD_PX; d += step) {
-            final int i = (int) Math.round((tX[t] + ux * d - stride / 2) / stride);
-            final int j = (int) Math.round((tY[t] + uy * d - stride / 2) / stride);
-            if (i < 0 || j < 0 || i >= gridWidth || j >= gridHeight) {
+            final int k = sampleAt(tX[t] + ux * d, tY[t] + uy * d);
+            if (k < 0) {
                 break;
             }
-            if (kind[j * gridWidth + i] == STILL) {
+            if (kind[k] == STILL) {
                 return d;
             }
         }
@@ -546,12 +545,8 @@ public final class MoverTracker {
         final double tvx = tVx[k];
         final double tvy = tVy[k];
         final double speed = Math.sqrt(tvx * tvx + tvy * tvy);
-        final double minSpeed = settings.minSpeedPxPerSecond();
-        if (speed < Math.max(minSpeed, 1e-9)) {
-            return false;
-        }
         final double predicted = speed * dt;
-        if (predicted < FAILED_JUMP_PX) {
+        if (!(predicted >= FAILED_JUMP_PX)) {
             return false;
         }
         final double flowAlong = (gVU[g] * tvx + gVV[g] * tvy) / (dt * speed);
@@ -561,9 +556,15 @@ public final class MoverTracker {
 
     /** True when the sample nearest to the point (analysis pixels) is one of the zone's. */
     private boolean centreInZone(double x, double y) {
+        int k = sampleAt(x, y);
+        return k >= 0 && inZone[k];
+    }
+
+    /** Index of the sample nearest to the point (analysis pixels), or -1 outside the sample grid. */
+    private int sampleAt(double x, double y) {
         int i = (int) Math.round((x - stride / 2) / stride);
         int j = (int) Math.round((y - stride / 2) / stride);
-        return i >= 0 && j >= 0 && i < gridWidth && j < gridHeight && inZone[j * gridWidth + i];
+        return i >= 0 && j >= 0 && i < gridWidth && j < gridHeight ? j * gridWidth + i : -1;
     }
 
     /** Pairs groups with tracks, updates them, starts and drops tracks. */
