@@ -358,8 +358,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float[] conf = gridConfidence[0];
         final float[] res = gridResidual[0];
         for (int k = 0; k < frame.length; k++) {
-            final boolean kept = conf[k] >= FILL_KEEP && res[k] <= FILL_RESIDUAL_KEEP;
-            if (!kept && a[k] + c[k] - conf[k] < STRUCTURE) {
+            // no structure: the fill did not keep its own motion, and its larger eigenvalue (trace − smaller) is low
+            if (!keeps(conf[k], res[k]) && a[k] + c[k] - conf[k] < STRUCTURE) {
                 frame[k] = FLAT;
             } else {
                 final float du = u[k] - bu;
@@ -378,11 +378,11 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 if (frame[k] != FLAT) {
                     continue;
                 }
-                // each side: 0 nothing within reach, 1 still structure, 4 moving structure
+                // each side: 0 nothing within reach, 1 still structure, 8 moving structure
                 final int sides = side(frame, k, -1, i) + side(frame, k, 1, gw - 1 - i) + side(frame, k, -gw, j)
                         + side(frame, k, gw, gh - 1 - j);
-                final int moving = sides >> 2;
-                final int still = sides & 3;
+                final int moving = sides >> 3;
+                final int still = sides & 7;
                 if (moving < SETTLE_SIDES && (still > 0 || !measured)) {
                     out.u[k] = bu;
                     out.v[k] = bv;
@@ -396,8 +396,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private static final byte MOVING = 2;
 
     /**
-     * The nearest point with structure from k in steps of {@code step} (at most {@code room}): 4 when it moves, 1
-     * when it is still, 0 when there is none within reach (so four sides add up to moving × 4 + still).
+     * The nearest point with structure from k in steps of {@code step} (at most {@code room}): 8 when it moves, 1
+     * when it is still, 0 when there is none within reach (so four sides add up to moving × 8 + still).
      */
     private static int side(byte[] frame, int k, int step, int room) {
         final int n = Math.min(room, SETTLE_REACH);
@@ -405,7 +405,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         for (int m = 0; m < n; m++) {
             q += step;
             if (frame[q] != FLAT) {
-                return frame[q] == MOVING ? 4 : 1;
+                return frame[q] == MOVING ? 8 : 1;
             }
         }
         return 0;
@@ -907,9 +907,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final boolean denoise = l == 0;
         final float[] mean = gridMean[l];
         final float[] res = gridResidual[l];
-        final float resKeep = FILL_RESIDUAL_KEEP;
         final float invRes = 1f / FILL_RESIDUAL;
-        final float keep = FILL_KEEP;
         final float self = FILL_SELF;
         final float inv2 = 1f / (FILL_BRIGHTNESS * FILL_BRIGHTNESS);
         for (int j = j0; j < j1; j++) {
@@ -917,7 +915,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             final int jTo = j + 1 < gh ? j + 1 : gh - 1;
             for (int i = 0; i < gw; i++) {
                 final int k = j * gw + i;
-                final boolean kept = c[k] >= keep && res[k] <= resKeep;
+                final boolean kept = keeps(c[k], res[k]);
                 if (kept) {
                     na[k] = ta[k];
                     nb[k] = tb[k];
@@ -1003,6 +1001,11 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             sb[k] = wk * tb[k];
             sc[k] = wk * tc[k];
         }
+    }
+
+    /** Whether the fill keeps a point's own motion: enough texture and a small residual. */
+    private static boolean keeps(float confidence, float residual) {
+        return confidence >= FILL_KEEP && residual <= FILL_RESIDUAL_KEEP;
     }
 
     /** Brightness residual, grey levels, at which a candidate motion's weight in {@link #densify} halves. */
