@@ -269,12 +269,10 @@ public final class WrongWayRule {
     static boolean noseToTail(double dx, double dy, double w1, double h1, double w2, double h2, double ux, double uy) {
         final double along = Math.abs(dx * ux + dy * uy);
         final double across = Math.abs(-dx * uy + dy * ux);
-        final double ax = Math.abs(ux);
-        final double ay = Math.abs(uy);
-        final double length1 = ax * w1 + ay * h1;
-        final double length2 = ax * w2 + ay * h2;
-        final double width1 = ay * w1 + ax * h1;
-        final double width2 = ay * w2 + ax * h2;
+        final double length1 = extent(w1, h1, ux, uy);
+        final double length2 = extent(w2, h2, ux, uy);
+        final double width1 = extent(w1, h1, uy, ux);
+        final double width2 = extent(w2, h2, uy, ux);
         return across <= 0.5 * Math.min(width1, width2) && along - (length1 + length2) / 2 > JOIN_GAP_PX;
     }
 
@@ -284,9 +282,14 @@ public final class WrongWayRule {
         if (!(speed > 0)) {
             return false;
         }
-        final double ux = Math.abs(vx) / speed;
-        final double uy = Math.abs(vy) / speed;
-        return ux * w + uy * h <= 0.5 * (uy * w + ux * h);
+        final double ux = vx / speed;
+        final double uy = vy / speed;
+        return extent(w, h, ux, uy) <= 0.5 * extent(w, h, uy, ux);
+    }
+
+    /** Extent of a w × h box (axis-aligned) along the unit direction (ux, uy); (uy, ux) gives it across. */
+    static double extent(double w, double h, double ux, double uy) {
+        return Math.abs(ux) * w + Math.abs(uy) * h;
     }
 
     /**
@@ -308,7 +311,7 @@ public final class WrongWayRule {
         final double along = (m.x(a) - m.x(b)) * ux + (m.y(a) - m.y(b)) * uy;
         final int behind = along >= 0 ? b : a;
         final int ahead = along >= 0 ? a : b;
-        final double halfLength = 0.5 * (Math.abs(ux) * m.widthPx(ahead) + Math.abs(uy) * m.heightPx(ahead));
+        final double halfLength = 0.5 * extent(m.widthPx(ahead), m.heightPx(ahead), ux, uy);
         return m.stillAheadPx(behind) < Math.abs(along) - halfLength;
     }
 
