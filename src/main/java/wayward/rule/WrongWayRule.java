@@ -20,10 +20,11 @@ import wayward.zone.ZoneMeter;
  *
  * <p><b>Members.</b> The mover that started the event is its first member. Another qualifying mover joins the
  * open event when it rides with a member: near it, with no still textured ground between the two (the tracker
- * looks for it along each mover's motion, {@link Movers#stillAheadPx}), and either a small fragment going its
- * way (a glare patch, a corner read apart) or moving alike and, unless one of the two is a rim (a box thin along
- * its motion: the front or back edge of a plain body), not nose to tail with it (one behind the other along the
- * motion with more than {@link #JOIN_GAP_PX} between the boxes). So the front and the back rim of one plain
+ * looks for it along each mover's motion, {@link Movers#stillAheadPx}), going its way (within 60°; not at its
+ * speed: parts of one body read their speed poorly), and either a small fragment of it (a glare patch, a corner
+ * read apart) or, unless one of the two is a rim (a box thin along its motion: the front or back edge of a plain
+ * body), not nose to tail with it (one behind the other along the motion with more than {@link #JOIN_GAP_PX}
+ * between the boxes). So the front and the back rim of one plain
  * vehicle, or a pair of headlights side by side, are one passage, and two vehicles nose to tail two. A qualifying mover that does not ride with a member is a different one: it ends the open event at
  * once and starts its own with the next frame, so two wrong-way movers in a row are two events even when the
  * second enters before the first has left, and events of one zone never overlap. Otherwise the event ends when
@@ -47,7 +48,7 @@ public final class WrongWayRule {
     /** A mover with at most 1/this of a member's peak samples, near it and going its way, is a fragment of it. */
     static final int FRAGMENT_SHARE = 4;
     /**
-     * Widest gap, analysis pixels, between the boxes of two whole bodies (neither a rim) moving alike for them to be
+     * Widest gap, analysis pixels, between the boxes of two whole bodies (neither a rim) going one way for them to be
      * one: three grid points at the default stride (samples of one body apart by at most two unsampled points).
      */
     static final double JOIN_GAP_PX = 12;
@@ -218,9 +219,9 @@ public final class WrongWayRule {
     /**
      * One body with a member (or part of its passage): within max({@link #JOIN_PX}, twice the larger's size) of
      * the member (where it is in this frame, or where its last velocity puts it), no still ground between the two
-     * ({@link #stillGroundBetween}), and either a fragment of it (at most 1/{@link #FRAGMENT_SHARE} of its peak
-     * samples, going its way within 60°: a few samples measure their velocity poorly) or moving alike and not
-     * {@link #noseToTail} with it (unless one of the two is a rim).
+     * ({@link #stillGroundBetween}), going its way within 60°, and either a fragment of it (at most
+     * 1/{@link #FRAGMENT_SHARE} of its peak samples) or not {@link #noseToTail} with it (unless one of the two is
+     * a rim).
      */
     private boolean ridesWithMember(Movers m, int k, double t) {
         for (int j = 0; j < members; j++) {
@@ -244,12 +245,13 @@ public final class WrongWayRule {
                 continue;
             }
             final double speed = Math.hypot(jvx, jvy);
-            final double dot = m.vx(k) * jvx + m.vy(k) * jvy;
-            if (m.peakSamples(k) * FRAGMENT_SHARE <= memberSamples[j] && dot >= 0.5 * speed * Math.hypot(m.vx(k), m.vy(k))) {
-                return true;
-            }
-            if (Math.hypot(m.vx(k) - jvx, m.vy(k) - jvy) > 0.5 * speed + 5) {
+            // within 60°: not alike in speed too, parts of one body read their speed poorly (part of a photo
+            // texture's flow, a rim); both qualifying, both already go against the heading
+            if (m.vx(k) * jvx + m.vy(k) * jvy < 0.5 * speed * Math.hypot(m.vx(k), m.vy(k))) {
                 continue;
+            }
+            if (m.peakSamples(k) * FRAGMENT_SHARE <= memberSamples[j]) {
+                return true;
             }
             if (speed > 0 && !rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k)) && !rim(jw, jh, jvx, jvy)
                     && noseToTail(m.x(k) - jx, m.y(k) - jy, m.widthPx(k), m.heightPx(k), jw, jh, jvx / speed,
