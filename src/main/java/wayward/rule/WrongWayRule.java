@@ -20,9 +20,8 @@ import wayward.zone.ZoneMeter;
  *
  * <p><b>Members.</b> The mover that started the event is its first member. Another qualifying mover joins the
  * open event when it rides with a member: near it, with no still textured ground between the two (the tracker
- * looks for it along each mover's motion, {@link Movers#stillAheadPx}), going its way (within 60°; not at its
- * speed: parts of one body read their speed poorly), and either a small fragment of it (a glare patch, a corner
- * read apart) or, unless one of the two is a rim (a box thin along its motion: the front or back edge of a plain
+ * looks for it along each mover's motion, {@link Movers#stillAheadPx}), and either a small fragment of it (a
+ * glare patch, a corner read apart) or, unless one of the two is a rim (a box thin along its motion: the front or back edge of a plain
  * body), not nose to tail with it (one behind the other along the motion with more than {@link #JOIN_GAP_PX}
  * between the boxes). So the front and the back rim of one plain
  * vehicle, or a pair of headlights side by side, are one passage, and two vehicles nose to tail two. A qualifying mover that does not ride with a member is a different one: it ends the open event at
@@ -45,10 +44,10 @@ public final class WrongWayRule {
     private static final double EPSILON_SECONDS = 1e-6;
     /** Farthest a mover rides with a member, or a new track continues a lost one, analysis pixels (also: 2 × size). */
     static final double JOIN_PX = 48;
-    /** A mover with at most 1/this of a member's peak samples, near it and going its way, is a fragment of it. */
+    /** A mover with at most 1/this of a member's peak samples, near it, is a fragment of it. */
     static final int FRAGMENT_SHARE = 4;
     /**
-     * Widest gap, analysis pixels, between the boxes of two whole bodies (neither a rim) going one way for them to be
+     * Widest gap, analysis pixels, between the boxes of two whole bodies (neither a rim) for them to be
      * one: three grid points at the default stride (samples of one body apart by at most two unsampled points).
      */
     static final double JOIN_GAP_PX = 12;
@@ -219,9 +218,9 @@ public final class WrongWayRule {
     /**
      * One body with a member (or part of its passage): within max({@link #JOIN_PX}, twice the larger's size) of
      * the member (where it is in this frame, or where its last velocity puts it), no still ground between the two
-     * ({@link #stillGroundBetween}), going its way within 60°, and either a fragment of it (at most
-     * 1/{@link #FRAGMENT_SHARE} of its peak samples) or not {@link #noseToTail} with it (unless one of the two is
-     * a rim).
+     * ({@link #stillGroundBetween}), and either a fragment of it (at most 1/{@link #FRAGMENT_SHARE} of its peak
+     * samples) or not {@link #noseToTail} with it (unless one of the two is a rim). Velocities are not compared:
+     * both movers qualify, so both go against the heading, and the parts of one body read theirs poorly.
      */
     private boolean ridesWithMember(Movers m, int k, double t) {
         for (int j = 0; j < members; j++) {
@@ -244,15 +243,12 @@ public final class WrongWayRule {
             if (now && stillGroundBetween(m, k, mj)) {
                 continue;
             }
-            final double speed = Math.hypot(jvx, jvy);
-            // within 60°: not alike in speed too, parts of one body read their speed poorly (part of a photo
-            // texture's flow, a rim); both qualifying, both already go against the heading
-            if (m.vx(k) * jvx + m.vy(k) * jvy < 0.5 * speed * Math.hypot(m.vx(k), m.vy(k))) {
-                continue;
-            }
+            // no test of velocity: both qualify, so both go against the heading, and parts of one body read their
+            // velocity poorly (part of a photo texture's flow, a rim, a flickering lamp's pull)
             if (m.peakSamples(k) * FRAGMENT_SHARE <= memberSamples[j]) {
                 return true;
             }
+            final double speed = Math.hypot(jvx, jvy);
             if (speed > 0 && !rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k)) && !rim(jw, jh, jvx, jvy)
                     && noseToTail(m.x(k) - jx, m.y(k) - jy, m.widthPx(k), m.heightPx(k), jw, jh, jvx / speed,
                             jvy / speed)) {
