@@ -1010,12 +1010,21 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
 
     /** Brightness residual, grey levels, at which a candidate motion's weight in {@link #densify} halves. */
     static final float DENSE_RESIDUAL = 6f;
+    /**
+     * Difference, grey levels, between a pixel and a grid point's window mean at which that point's weight in
+     * {@link #densify} halves (the range kernel of joint bilateral upsampling). Chosen on the object-motion
+     * benchmark's tune half: ring error 0.92 (no kernel), 0.84 (12), 0.81 (8), 0.77 (4), 0.74 (2) with caught and
+     * object error unchanged; not 2, where the weights hinge on differences at the level of a camera's noise.
+     */
+    static final float DENSE_BRIGHTNESS = 4f;
 
     /**
      * The flow at every pixel of the last pair given to {@link #compute} (not {@link #push}), from its grid {@code grid} (this
      * estimator's output): each pixel weighs the motions of the four grid points around it by their bilinear
-     * weight and by how well each explains the pixel itself (the later frame moved by that motion against the
-     * earlier one), so a pixel at a motion boundary takes the motion of its own side instead of a blend of both.
+     * weight, by how well each explains the pixel itself (the later frame moved by that motion against the
+     * earlier one) and by how alike the pixel is to the point's window in brightness (joint bilateral upsampling,
+     * Kopf et al. 2007), so a pixel at a motion boundary takes the motion of its own side instead of a blend of
+     * both, also where both motions explain it (plain ground beside a plain mover).
      * For pictures, files and benchmarks, not the analysis loop (reads every pixel). Allocates nothing.
      */
     public void densify(FlowField grid, FlowField dense) {
@@ -1035,6 +1044,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final int gh = grid.height;
         final int s = stride;
         final float inv2 = 1f / (DENSE_RESIDUAL * DENSE_RESIDUAL);
+        final float brightnessInv2 = 1f / (DENSE_BRIGHTNESS * DENSE_BRIGHTNESS);
+        final float[] mean = gridMean[0];
         for (int y = 0; y < h; y++) {
             float gyf = (float) (y - s / 2) / s;
             gyf = gyf < 0 ? 0 : Math.min(gyf, gh - 1);
@@ -1062,7 +1073,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     final float gu = grid.u[g];
                     final float gv = grid.v[g];
                     final float r = sample(i1, w, h, x + gu, y + gv) - t;
-                    final float wq = beta / (1f + r * r * inv2);
+                    final float b = t - mean[g];
+                    final float wq = beta / ((1f + r * r * inv2) * (1f + b * b * brightnessInv2));
                     sw += wq;
                     su += wq * gu;
                     sv += wq * gv;
