@@ -208,6 +208,7 @@ public final class ClipRecorder {
         }
     }
 
+    @SuppressWarnings("ReferenceEquality") // ring entries are compared by identity, not by content
     private void begin(Start s) {
         // from the keyframe at or before trigger − pre-roll (or the oldest keyframe the ring holds)
         double from = s.triggerSeconds() - preRollSeconds;
@@ -276,6 +277,7 @@ public final class ClipRecorder {
     }
 
     /** Drops whole groups of pictures from the head while the next keyframe is older than now − pre-roll. */
+    @SuppressWarnings("ReferenceEquality") // ring entries are compared by identity, not by content
     private void trim(double now) {
         double keepFrom = now - preRollSeconds;
         while (true) {

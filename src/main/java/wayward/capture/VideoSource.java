@@ -465,7 +465,7 @@ public final class VideoSource implements Runnable {
                 firstSeconds = raw;
             }
             t = raw - firstSeconds + offsetSeconds;
-            if (t <= lastSeconds || t > lastSeconds + 10 && lastSeconds >= 0) {
+            if (t <= lastSeconds || (t > lastSeconds + 10 && lastSeconds >= 0)) {
                 // timestamp jump (wrap, concatenation, camera restart): splice on at one frame interval
                 offsetSeconds += lastSeconds + nominalFrameSeconds - t;
                 t = lastSeconds + nominalFrameSeconds;

@@ -88,6 +88,7 @@ public final class ClipWriter implements Runnable {
     }
 
     @Override
+    @SuppressWarnings("ReferenceEquality") // END is a sentinel: identity, not address equality
     public void run() {
         if (parameters.codec_id() == org.bytedeco.ffmpeg.global.avcodec.AV_CODEC_ID_RAWVIDEO) {
             runEncoding();
@@ -180,6 +181,7 @@ public final class ClipWriter implements Runnable {
     }
 
     /** Raw video (a webcam without compression): encode the frames with libopenh264 into the MP4. */
+    @SuppressWarnings("ReferenceEquality") // END is a sentinel: identity, not address equality
     private void runEncoding() {
         String temp = file + ".part";
         int w = parameters.width();
@@ -267,6 +269,7 @@ public final class ClipWriter implements Runnable {
     }
 
     /** Frees whatever is still queued. */
+    @SuppressWarnings("ReferenceEquality") // END is a sentinel: identity, not address equality
     private void drain() {
         AVPacket p;
         while ((p = packets.poll()) != null) {

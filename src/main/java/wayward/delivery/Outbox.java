@@ -517,7 +517,7 @@ public final class Outbox implements AutoCloseable {
                     if (closed || want >= nextSeq) {
                         return null;
                     }
-                    if (segment == null || want > segment.lastSeq && pos >= segment.end) {
+                    if (segment == null || (want > segment.lastSeq && pos >= segment.end)) {
                         Segment found = locate();
                         if (found == null) {
                             return null;

@@ -82,7 +82,6 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final GlobalMotion globalMotion;
     private final float[][] smoothU;
     private final float[][] smoothV;
-    private final float[] smoothC;
     private final BandPool pool;
 
     /** Scratch of one band: the template window of the point being solved. */
@@ -187,7 +186,6 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         for (float[] g : gridU) {
             largestGrid = Math.max(largestGrid, g.length);
         }
-        smoothC = new float[largestGrid];
         int threads = Math.max(1, Math.min(settings.threads(), gridHeight[0]));
         bands = new Band[threads];
         for (int i = 0; i < threads; i++) {
@@ -209,7 +207,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         for (int i = 0; i < cells; i++) {
             // pixel centre on the fine level, in coarse pixel coordinates, then in coarse grid coordinates
             float p = (centre(l, i, fineSize) + 0.5f) * scale - 0.5f;
-            float g = (p - cs / 2) / cs;
+            final int half = cs / 2; // as centre() places a level's points: whole pixels
+            float g = (p - half) / cs;
             g = g < 0 ? 0 : Math.min(g, coarseCells - 1);
             int g0 = Math.min((int) g, Math.max(0, coarseCells - 2));
             index[i] = g0;
@@ -907,7 +906,6 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final boolean denoise = l == 0;
         final float[] mean = gridMean[l];
         final float[] res = gridResidual[l];
-        final float invRes = 1f / FILL_RESIDUAL;
         final float self = FILL_SELF;
         final float inv2 = 1f / (FILL_BRIGHTNESS * FILL_BRIGHTNESS);
         for (int j = j0; j < j1; j++) {

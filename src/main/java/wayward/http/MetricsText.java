@@ -117,7 +117,7 @@ final class MetricsText {
                 CameraPipeline::zoneAgainst);
         perZone(ps, "wayward_zone_events_total", "counter", "Events started in the zone.", CameraPipeline::zoneEvents);
         family("wayward_clips_failed_total", "counter", "Evidence clips that could not be written.");
-        sample("wayward_clips_failed_total", ClipWriter.failedClips());
+        sample("wayward_clips_failed_total", (double) ClipWriter.failedClips());
     }
 
     private interface CourierValue {
@@ -142,20 +142,20 @@ final class MetricsText {
         perDestination(cs, "wayward_delivery_refused_total", "counter",
                 "Event phases refused for good by the destination.", Courier::refused);
         family("wayward_outbox_bytes", "gauge", "Size of the outbox segments on disk.");
-        sample("wayward_outbox_bytes", outbox == null ? 0 : outbox.bytes());
+        sample("wayward_outbox_bytes", outbox == null ? 0 : (double) outbox.bytes());
         family("wayward_outbox_lost_total", "counter",
                 "Event phases removed by the outbox size bound before a destination had them.");
-        sample("wayward_outbox_lost_total", outbox == null ? 0 : outbox.lostRecords());
+        sample("wayward_outbox_lost_total", outbox == null ? 0 : (double) outbox.lostRecords());
         family("wayward_outbox_not_accepted_total", "counter", "Event phases that never reached the outbox.");
-        sample("wayward_outbox_not_accepted_total", bus.notAccepted());
+        sample("wayward_outbox_not_accepted_total", (double) bus.notAccepted());
     }
 
     private void process() {
         MemoryMXBean mem = ManagementFactory.getMemoryMXBean();
         family("wayward_jvm_heap_used_bytes", "gauge", "Java heap in use.");
-        sample("wayward_jvm_heap_used_bytes", mem.getHeapMemoryUsage().getUsed());
+        sample("wayward_jvm_heap_used_bytes", (double) mem.getHeapMemoryUsage().getUsed());
         family("wayward_jvm_heap_max_bytes", "gauge", "Java heap limit.");
-        sample("wayward_jvm_heap_max_bytes", mem.getHeapMemoryUsage().getMax());
+        sample("wayward_jvm_heap_max_bytes", (double) mem.getHeapMemoryUsage().getMax());
         family("wayward_jvm_threads", "gauge", "Live Java threads.");
         sample("wayward_jvm_threads", ManagementFactory.getThreadMXBean().getThreadCount());
         family("wayward_process_uptime_seconds", "gauge", "Seconds since the process started.");

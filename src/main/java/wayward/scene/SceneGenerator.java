@@ -112,7 +112,7 @@ public final class SceneGenerator {
                     Scene.Mover m = scene.movers().get(i);
                     if (t >= m.startSeconds() && t <= m.endSeconds()) {
                         double[] c = m.centreAt(t);
-                        if (m.look() == Scene.Look.NOISE && m.ws() == null) {
+                        if (Scene.Look.NOISE.equals(m.look()) && m.ws() == null) {
                             // the first generator's drawing, kept so that older scenes render the very same
                             draw(canvas, w, h, textures.get(i), pixels(m.width(), w), pixels(m.height(), h),
                                     c[0] * w - ox, c[1] * h - oy);

@@ -562,8 +562,9 @@ public final class MoverTracker {
 
     /** Index of the sample nearest to the point (analysis pixels), or -1 outside the sample grid. */
     private int sampleAt(double x, double y) {
-        int i = (int) Math.round((x - stride / 2) / stride);
-        int j = (int) Math.round((y - stride / 2) / stride);
+        final int half = stride / 2; // as FlowField.pixelX places samples: whole pixels
+        int i = (int) Math.round((x - half) / stride);
+        int j = (int) Math.round((y - half) / stride);
         return i >= 0 && j >= 0 && i < gridWidth && j < gridHeight ? j * gridWidth + i : -1;
     }
 

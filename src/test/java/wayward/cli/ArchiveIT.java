@@ -51,7 +51,7 @@ class ArchiveIT {
         // systemd-analyze verify (Debian's systemd) on the unit as shipped
         Process v = new ProcessBuilder("systemd-analyze", "verify", home.resolve("systemd/wayward.service").toString())
                 .redirectErrorStream(true).start();
-        String out = new String(v.getInputStream().readAllBytes());
+        String out = new String(v.getInputStream().readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
         assertEquals(0, v.waitFor(), out);
 
         // the service logging config: rolling file in WAYWARD_LOG_DIR

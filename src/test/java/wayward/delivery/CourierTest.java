@@ -37,18 +37,22 @@ class CourierTest {
             this.window = window;
         }
 
+        @Override
         public String name() {
             return "held";
         }
 
+        @Override
         public String key() {
             return "held";
         }
 
+        @Override
         public int window() {
             return window;
         }
 
+        @Override
         public CompletableFuture<Result> send(long seq, Event e) {
             sent.add(e.id());
             CompletableFuture<Result> f = new CompletableFuture<>();
@@ -107,14 +111,17 @@ class CourierTest {
         List<String> log = new CopyOnWriteArrayList<>();
         int[] failuresLeft = {3};
         Destination flaky = new Destination() {
+            @Override
             public String name() {
                 return "flaky";
             }
 
+            @Override
             public String key() {
                 return "flaky";
             }
 
+            @Override
             public CompletableFuture<Result> send(long seq, Event e) {
                 if (e.id().equals("e2") && failuresLeft[0]-- > 0) {
                     log.add("fail " + e.id());

@@ -26,20 +26,24 @@ class EventBusTest {
         List<String> slowSeen = new CopyOnWriteArrayList<>();
         EventBus bus = new EventBus();
         bus.add(new EventSink() {
+            @Override
             public String name() {
                 return "slow";
             }
 
+            @Override
             public void deliver(Event e) throws InterruptedException {
                 release.await();
                 slowSeen.add(e.id());
             }
         }, 1000);
         bus.add(new EventSink() {
+            @Override
             public String name() {
                 return "fast";
             }
 
+            @Override
             public void deliver(Event e) {
                 fastDone.countDown();
             }

@@ -18,8 +18,9 @@ public final class LogCapture implements AutoCloseable {
     }
 
     public List<String> lines() {
-        synchronized (appender.list) {
-            return appender.list.stream().map(e -> e.getLevel() + " " + e.getFormattedMessage()).toList();
+        final java.util.List<ILoggingEvent> list = appender.list; // the appender adds under this lock
+        synchronized (list) {
+            return list.stream().map(e -> e.getLevel() + " " + e.getFormattedMessage()).toList();
         }
     }
 

@@ -269,7 +269,7 @@ class MqttPublisherIT {
                 Thread.sleep(50);
             }
             String line = log.lines().stream().filter(l -> l.startsWith("WARN")).findFirst().orElse("none");
-            assertTrue(line.toLowerCase().contains("certification path") || line.toLowerCase().contains("certificate"),
+            assertTrue(line.toLowerCase(java.util.Locale.ROOT).contains("certification path") || line.toLowerCase(java.util.Locale.ROOT).contains("certificate"),
                     line);
         }
     }

@@ -42,7 +42,7 @@ public final class TestCa {
 
     private static void run(Path dir, String... cmd) throws IOException, InterruptedException {
         Process p = new ProcessBuilder(List.of(cmd)).directory(dir.toFile()).redirectErrorStream(true).start();
-        String out = new String(p.getInputStream().readAllBytes());
+        String out = new String(p.getInputStream().readAllBytes(), java.nio.charset.StandardCharsets.UTF_8);
         if (!p.waitFor(60, TimeUnit.SECONDS) || p.exitValue() != 0) {
             throw new IOException(String.join(" ", cmd) + " failed: " + out);
         }

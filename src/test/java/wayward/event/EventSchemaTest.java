@@ -63,24 +63,24 @@ class EventSchemaTest {
             }
         }
         String type = s.has("type") ? s.get("type").asText() : null;
-        if ("string".equals(type) && !v.isTextual()
-                || "number".equals(type) && !v.isNumber()
-                || "integer".equals(type) && !v.canConvertToExactIntegral()
-                || "array".equals(type) && !v.isArray()) {
+        if (("string".equals(type) && !v.isTextual())
+                || ("number".equals(type) && !v.isNumber())
+                || ("integer".equals(type) && !v.canConvertToExactIntegral())
+                || ("array".equals(type) && !v.isArray())) {
             out.add(where + ": " + v + " is not of type " + type);
             return;
         }
         if (v.isNumber()) {
             double d = v.asDouble();
-            if (s.has("minimum") && d < s.get("minimum").asDouble()
-                    || s.has("maximum") && d > s.get("maximum").asDouble()
-                    || s.has("exclusiveMaximum") && d >= s.get("exclusiveMaximum").asDouble()) {
+            if ((s.has("minimum") && d < s.get("minimum").asDouble())
+                    || (s.has("maximum") && d > s.get("maximum").asDouble())
+                    || (s.has("exclusiveMaximum") && d >= s.get("exclusiveMaximum").asDouble())) {
                 out.add(where + ": " + v + " out of range");
             }
         }
         if (v.isArray()) {
-            if (s.has("minItems") && v.size() < s.get("minItems").asInt()
-                    || s.has("maxItems") && v.size() > s.get("maxItems").asInt()) {
+            if ((s.has("minItems") && v.size() < s.get("minItems").asInt())
+                    || (s.has("maxItems") && v.size() > s.get("maxItems").asInt())) {
                 out.add(where + ": " + v.size() + " items");
             }
             if (s.has("items")) {

@@ -203,7 +203,7 @@ public final class ObjectMotionBench {
 
     /** Every {@code every}th case of a half (the first included); {@code every} must be prime to 2, 3 and 5. */
     static List<ObjectMotionCase> cases(Half half, int every) {
-        if (every < 1 || every % 2 == 0 && every > 1 || every % 3 == 0 || every % 5 == 0) {
+        if (every < 1 || (every % 2 == 0 && every > 1) || every % 3 == 0 || every % 5 == 0) {
             throw new IllegalArgumentException("every: " + every
                     + " (expected 1 or a number prime to 2, 3 and 5, so that every level of every factor stays)");
         }

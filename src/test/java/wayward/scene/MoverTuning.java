@@ -67,7 +67,7 @@ public final class MoverTuning {
                 int rc = Main.execute(new String[] {"replay", "--config", config.toString(), "--input", video.toString(),
                         "--report", report.toString()}, new PrintStream(out, true, StandardCharsets.UTF_8),
                         new PrintStream(err, true, StandardCharsets.UTF_8));
-                if (rc != 0) throw new IOException(err.toString());
+                if (rc != 0) throw new IOException(err.toString(StandardCharsets.UTF_8));
             }
             List<DetectionSuite.Passage> passages = DetectionSuite.passages(scene);
             StringBuilder line = new StringBuilder(String.format("%-40s p=%d", scene.name(), passages.size()));

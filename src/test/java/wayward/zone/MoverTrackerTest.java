@@ -42,8 +42,9 @@ class MoverTrackerTest {
 
     /** A textured box of w×h samples with its top-left sample at pixel (x, y), moving by (u, v) px per frame. */
     static void box(FlowField f, double x, double y, int w, int h, double u, double v, Random noise, double sigma) {
-        int i0 = (int) Math.round((x - f.stride / 2) / f.stride);
-        int j0 = (int) Math.round((y - f.stride / 2) / f.stride);
+        final int half = f.stride / 2; // as FlowField.pixelX places samples: whole pixels
+        int i0 = (int) Math.round((x - half) / f.stride);
+        int j0 = (int) Math.round((y - half) / f.stride);
         for (int j = j0; j < j0 + h; j++) {
             for (int i = i0; i < i0 + w; i++) {
                 if (i < 0 || j < 0 || i >= f.width || j >= f.height) {
