@@ -22,7 +22,6 @@ import static org.bytedeco.ffmpeg.global.swscale.sws_freeContext;
 import static org.bytedeco.ffmpeg.global.swscale.sws_getCachedContext;
 import static org.bytedeco.ffmpeg.global.swscale.sws_scale;
 
-import java.util.concurrent.ThreadLocalRandom;
 import org.bytedeco.ffmpeg.avcodec.AVCodec;
 import org.bytedeco.ffmpeg.avcodec.AVCodecContext;
 import org.bytedeco.ffmpeg.avcodec.AVPacket;
@@ -42,6 +41,7 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.config.ConfigPrinter;
 import wayward.image.GrayFrame;
+import wayward.retry.Backoff;
 
 /**
  * Reads one camera: demuxes with JavaCV's {@link FFmpegFrameGrabber#grabPacket()} (the only reader of the
@@ -68,6 +68,9 @@ public final class VideoSource implements Runnable {
 
     /** No decoded frame for this long while connected counts as a stall: the connection is dropped. */
     private static final long STALL_NANOS = 10_000_000_000L;
+    /** First wait before a live source is opened again, milliseconds; it doubles per failure up to the next. */
+    static final long RECONNECT_FIRST_MILLIS = 500;
+    static final long RECONNECT_MAX_MILLIS = 30_000;
 
     private static final Logger LOG = LoggerFactory.getLogger(VideoSource.class);
     /** Socket timeout for network sources, microseconds (FFmpeg's option "timeout"). */
@@ -202,7 +205,7 @@ public final class VideoSource implements Runnable {
         boolean url = wayward.config.CameraConfig.isLive(options.source());
         String shown = ConfigPrinter.maskUrl(options.source());
         int passes = 0;
-        long backoffMillis = 500;
+        Backoff backoff = new Backoff(RECONNECT_FIRST_MILLIS, RECONNECT_MAX_MILLIS);
         try {
             while (!stopping) {
                 long framesBefore = frameIndex;
@@ -237,19 +240,18 @@ public final class VideoSource implements Runnable {
                     continue;
                 }
                 if (gotFrames) {
-                    backoffMillis = 500;
+                    backoff.reset();
                 }
                 if (!lost) {
                     lost = true;
                     health.lost(failure != null ? failure : (connectedOnce ? "stream ended" : "no frames"),
                             Math.max(0, lastSeconds));
                 }
-                long jitter = ThreadLocalRandom.current().nextLong(backoffMillis / 4 + 1);
+                long wait = backoff.nextMillis();
                 LOG.warn("camera {}: stream {} {}; reconnecting in {} ms", cameraId, shown,
-                        failure != null ? "failed (" + failure + ")" : "ended", backoffMillis + jitter);
-                Thread.sleep(backoffMillis + jitter);
+                        failure != null ? "failed (" + failure + ")" : "ended", wait);
+                Thread.sleep(wait);
                 reconnects++;
-                backoffMillis = Math.min(30_000, backoffMillis * 2);
                 offsetSeconds = lastSeconds + nominalFrameSeconds;
                 firstSeconds = Double.NaN;
             }

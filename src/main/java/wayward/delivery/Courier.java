@@ -3,7 +3,6 @@ package wayward.delivery;
 import java.io.IOException;
 import java.util.ArrayDeque;
 import java.util.concurrent.ExecutionException;
-import java.util.concurrent.ThreadLocalRandom;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.TimeoutException;
 import java.util.concurrent.atomic.AtomicLong;
@@ -11,6 +10,7 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.event.Event;
 import wayward.event.EventJson;
+import wayward.retry.Backoff;
 
 /**
  * Carries event phases from the outbox to one destination, in outbox order, on its own thread. Up to the
@@ -98,7 +98,7 @@ public final class Courier {
     private void loop() {
         ArrayDeque<Pending> pending = new ArrayDeque<>();
         boolean caughtUp = false;
-        long backoff = baseBackoffMillis;
+        Backoff backoff = new Backoff(baseBackoffMillis, maxBackoffMillis);
         try {
             while (true) {
                 while (pending.size() < destination.window()) {
@@ -150,7 +150,7 @@ public final class Courier {
                         delivered.incrementAndGet();
                         pending.poll();
                         progress.save(head.seq + 1);
-                        backoff = baseBackoffMillis;
+                        backoff.reset();
                     }
                     case REFUSED -> {
                         LOG.error("{}: event {} {} {} refused ({}); not retried", destination.name(), head.event.id(),
@@ -160,14 +160,13 @@ public final class Courier {
                         progress.save(head.seq + 1);
                     }
                     case RETRY -> {
-                        long wait = backoff + ThreadLocalRandom.current().nextLong(backoff / 4 + 1);
+                        long wait = backoff.nextMillis();
                         LOG.warn("{}: event {} attempt {} failed ({}); retrying in {} ms", destination.name(),
                                 head.event.id(), head.attempts, r.detail(), wait);
                         if (draining && System.nanoTime() + wait * 1_000_000L > drainUntilNanos) {
                             return;
                         }
                         Thread.sleep(wait);
-                        backoff = Math.min(backoff * 2, maxBackoffMillis);
                         retries.incrementAndGet();
                         head.attempts++;
                         head.answer = destination.send(head.seq, head.event);

@@ -41,7 +41,6 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.CompletableFuture;
-import java.util.concurrent.ThreadLocalRandom;
 import java.util.concurrent.TimeUnit;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -50,6 +49,7 @@ import wayward.config.MqttConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.event.EventKind;
+import wayward.retry.Backoff;
 
 /**
  * Publishes event phases to an MQTT broker, MQTT 3.1.1 (OASIS standard) through Netty's MQTT codec, over TCP
@@ -90,7 +90,7 @@ public final class MqttPublisher implements Destination {
     private boolean connected;
     private boolean closing;
     private int nextPacketId = 1;
-    private long backoffMillis;
+    private final Backoff backoff;
     private String lastProblem;
     private int failedAttempts;
 
@@ -126,7 +126,7 @@ public final class MqttPublisher implements Destination {
         this.zones = List.copyOf(zones);
         this.runStartSeq = runStartSeq;
         this.statusTopic = config.topicPrefix() + "/status/" + config.clientId();
-        this.backoffMillis = 1000;
+        this.backoff = new Backoff(1000, (long) (config.maxBackoffSeconds() * 1000));
         this.group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("mqtt", true),
                 NioIoHandler.newFactory());
         this.loop = group.next();
@@ -314,9 +314,7 @@ public final class MqttPublisher implements Destination {
         if (closing) {
             return;
         }
-        long wait = backoffMillis + ThreadLocalRandom.current().nextLong(backoffMillis / 4 + 1);
-        backoffMillis = Math.min(backoffMillis * 2, (long) (config.maxBackoffSeconds() * 1000));
-        loop.schedule(this::connect, wait, TimeUnit.MILLISECONDS);
+        loop.schedule(this::connect, backoff.nextMillis(), TimeUnit.MILLISECONDS);
     }
 
     private final class Handler extends SimpleChannelInboundHandler<MqttMessage> {
@@ -401,7 +399,7 @@ public final class MqttPublisher implements Destination {
             }
             failedAttempts = 0;
             lastProblem = null;
-            backoffMillis = 1000;
+            backoff.reset();
             // everything still unacknowledged, in its order (DUP set on those sent before), then the status
             for (Map.Entry<Integer, Outgoing> en : new ArrayList<>(inFlight.entrySet())) {
                 write(en.getKey(), en.getValue());
