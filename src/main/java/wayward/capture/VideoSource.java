@@ -131,20 +131,10 @@ public final class VideoSource implements Runnable {
     private volatile boolean stopping;
     private volatile String fileFailure;
     private final boolean live;
-    private long untimedStartNanos;
-    private double lastPacketSeconds = -1;
-    /** The last video packet carried no timestamp (MJPEG over HTTP). */
-    private boolean untimedStream;
-    /** A container whose timestamps FFmpeg makes up at an assumed rate (multipart JPEG over HTTP). */
-    private boolean untimedFormat;
-    private double untimedOffset;
     private volatile Thread runner;
 
     // stream-time bookkeeping, capture thread only
-    private double firstSeconds = Double.NaN;
-    private double offsetSeconds;
-    private double lastSeconds = -1;
-    private double nominalFrameSeconds = 1.0 / 25;
+    private final StreamClock clock;
     private double nextDue;
     private volatile long frameIndex;
     private long wallStartNanos;
@@ -160,6 +150,7 @@ public final class VideoSource implements Runnable {
     public VideoSource(String cameraId, SourceOptions options, FrameSlot slot, Health health, ClipRecorder clips) {
         this.clips = clips;
         this.live = wayward.config.CameraConfig.isLive(options.source());
+        this.clock = new StreamClock(live, System::nanoTime);
         this.cameraId = cameraId;
         this.options = options;
         this.slot = slot;
@@ -234,9 +225,7 @@ public final class VideoSource implements Runnable {
                         LOG.info("camera {}: end of {} after {} frames", cameraId, shown, frameIndex);
                         break;
                     }
-                    // next pass continues stream time after the last frame
-                    offsetSeconds = lastSeconds + nominalFrameSeconds;
-                    firstSeconds = Double.NaN;
+                    clock.nextPass();
                     continue;
                 }
                 if (gotFrames) {
@@ -245,15 +234,14 @@ public final class VideoSource implements Runnable {
                 if (!lost) {
                     lost = true;
                     health.lost(failure != null ? failure : (connectedOnce ? "stream ended" : "no frames"),
-                            Math.max(0, lastSeconds));
+                            Math.max(0, clock.lastSeconds()));
                 }
                 long wait = backoff.nextMillis();
                 LOG.warn("camera {}: stream {} {}; reconnecting in {} ms", cameraId, shown,
                         failure != null ? "failed (" + failure + ")" : "ended", wait);
                 Thread.sleep(wait);
                 reconnects++;
-                offsetSeconds = lastSeconds + nominalFrameSeconds;
-                firstSeconds = Double.NaN;
+                clock.nextPass();
             }
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
@@ -297,7 +285,8 @@ public final class VideoSource implements Runnable {
             AVFormatContext fmt = grabber.getFormatContext();
             String formatName = fmt.iformat() != null && fmt.iformat().name() != null
                     ? fmt.iformat().name().getString() : "";
-            untimedFormat = formatName.equals("mpjpeg") || formatName.equals("mjpeg");
+            // multipart JPEG: FFmpeg makes the timestamps up at an assumed rate
+            boolean untimedContainer = formatName.equals("mpjpeg") || formatName.equals("mjpeg");
             int videoIndex = av_find_best_stream(fmt, AVMEDIA_TYPE_VIDEO, -1, -1, (AVCodec) null, 0);
             if (videoIndex < 0) {
                 throw new IllegalStateException("no video stream");
@@ -318,21 +307,19 @@ public final class VideoSource implements Runnable {
             AVRational tb = stream.time_base();
             double timeBase = (double) tb.num() / tb.den();
             AVRational rate = stream.avg_frame_rate();
-            if (rate.num() > 0 && rate.den() > 0) {
-                nominalFrameSeconds = (double) rate.den() / rate.num();
-            }
+            clock.opened(untimedContainer, rate.num() > 0 && rate.den() > 0 ? (double) rate.den() / rate.num()
+                    : Double.NaN);
             if (clips != null) {
                 if (stream.codecpar().codec_id() == org.bytedeco.ffmpeg.global.avcodec.AV_CODEC_ID_RAWVIDEO) {
                     LOG.info("camera {}: raw video; clips are encoded with libopenh264 (device_format = \"mjpeg\""
                             + " costs less CPU)", cameraId);
                 }
-                clips.onStream(stream.codecpar(), stream.time_base(), 1.0 / nominalFrameSeconds);
+                clips.onStream(stream.codecpar(), stream.time_base(), 1.0 / clock.nominalFrameSeconds());
             }
             frame = av_frame_alloc();
             // views of the frame's own plane and stride arrays, valid while it lives: no wrapper per picture
             framePlanes = frame.data();
             frameStrides = frame.linesize();
-            untimedStartNanos = 0;
             boolean keySeen = false;
             lastFrameNanos = System.nanoTime();
             boolean network = wayward.config.CameraConfig.isLive(options.source());
@@ -359,7 +346,8 @@ public final class VideoSource implements Runnable {
                         }
                         keySeen = true;
                     }
-                    double pktSeconds = packetSeconds(pkt, timeBase);
+                    double pktSeconds = clock.packetSeconds(pkt.pts() != AV_NOPTS_VALUE ? pkt.pts() : pkt.dts(),
+                            timeBase);
                     if (clips != null) {
                         clips.onPacket(pkt, pktSeconds);
                     }
@@ -400,33 +388,6 @@ public final class VideoSource implements Runnable {
         }
     }
 
-    /** Stream time of a packet, on the same clock as the frames (their first timestamp, loop offsets). */
-    private double packetSeconds(AVPacket pkt, double timeBase) {
-        long ts = pkt.pts() != AV_NOPTS_VALUE ? pkt.pts() : pkt.dts();
-        // only a container without real timestamps switches to the wall clock; a single untimed packet (the
-        // first RTP packet often has none) does not
-        untimedStream = untimedFormat;
-        if (untimedStream && live) {
-            // untimed live source: the wall clock, strictly increasing so a clip's timestamps are too
-            long now = System.nanoTime();
-            if (untimedStartNanos == 0) {
-                untimedStartNanos = now;
-                untimedOffset = Math.max(0, lastSeconds + nominalFrameSeconds);
-            }
-            double t = Math.max(untimedOffset + (now - untimedStartNanos) / 1e9, lastPacketSeconds + 1e-3);
-            lastPacketSeconds = t;
-            return t;
-        }
-        if (ts == AV_NOPTS_VALUE) {
-            return Math.max(0, lastSeconds);
-        }
-        double raw = ts * timeBase;
-        if (Double.isNaN(firstSeconds)) {
-            firstSeconds = raw;
-        }
-        return raw - firstSeconds + offsetSeconds;
-    }
-
     private void drain(AVCodecContext decoder, AVFrame frame, double timeBase) throws InterruptedException {
         while (true) {
             long c0 = measure ? cpu() : 0;
@@ -446,34 +407,7 @@ public final class VideoSource implements Runnable {
         if (ts == AV_NOPTS_VALUE) {
             ts = f.pts();
         }
-        double t;
-        // an untimed live stream: the decoder's best-effort timestamps are guesses at an assumed rate
-        if (live && untimedStream) {
-            // a live source without timestamps (MJPEG over HTTP): its clock is the wall clock
-            long now = System.nanoTime();
-            if (untimedStartNanos == 0) {
-                untimedStartNanos = now;
-                untimedOffset = Math.max(0, lastSeconds + nominalFrameSeconds);
-            }
-            t = untimedOffset + (now - untimedStartNanos) / 1e9;
-            if (t <= lastSeconds) {
-                t = lastSeconds + 1e-3;
-            }
-        } else if (ts == AV_NOPTS_VALUE) {
-            t = lastSeconds < 0 ? 0 : lastSeconds + nominalFrameSeconds;
-        } else {
-            double raw = ts * timeBase;
-            if (Double.isNaN(firstSeconds)) {
-                firstSeconds = raw;
-            }
-            t = raw - firstSeconds + offsetSeconds;
-            if (t <= lastSeconds || (t > lastSeconds + 10 && lastSeconds >= 0)) {
-                // timestamp jump (wrap, concatenation, camera restart): splice on at one frame interval
-                offsetSeconds += lastSeconds + nominalFrameSeconds - t;
-                t = lastSeconds + nominalFrameSeconds;
-            }
-        }
-        lastSeconds = t;
+        double t = clock.frameSeconds(ts, timeBase);
         if (!measure && t >= measureFrom) {
             measure = true; // from this frame on (its decode was just before: the count starts with the next)
             decodedBeforeMeasuring = frameIndex + 1;
