@@ -1,0 +1,227 @@
+package wayward.http;
+
+import static wayward.http.Replies.response;
+import static wayward.http.Replies.send;
+import static wayward.http.Replies.text;
+
+import com.fasterxml.jackson.core.JsonGenerator;
+import io.netty.buffer.Unpooled;
+import io.netty.channel.ChannelHandlerContext;
+import io.netty.handler.codec.http.DefaultFullHttpResponse;
+import io.netty.handler.codec.http.FullHttpRequest;
+import io.netty.handler.codec.http.FullHttpResponse;
+import io.netty.handler.codec.http.HttpHeaderNames;
+import io.netty.handler.codec.http.HttpResponseStatus;
+import io.netty.handler.codec.http.HttpVersion;
+import io.netty.handler.codec.http.QueryStringDecoder;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.util.ArrayList;
+import java.util.List;
+import wayward.config.ConfigPrinter;
+import wayward.config.ZoneConfig;
+import wayward.event.Event;
+import wayward.event.EventJson;
+import wayward.service.CameraPipeline;
+import wayward.service.Service;
+
+/**
+ * The views of the running service: health and readiness, the cameras and their zones, the recent events, the
+ * live picture and page, and a drawn zone measured on the live flow.
+ */
+final class Views {
+    private final Service service;
+
+    Views(Service service) {
+        this.service = service;
+    }
+
+    /** The camera with this id, or null. */
+    CameraPipeline camera(String id) {
+        for (CameraPipeline p : service.pipelines()) {
+            if (p.id().equals(id)) {
+                return p;
+            }
+        }
+        return null;
+    }
+
+    /** {@code /health} (always 200 while the process answers) and {@code /health/ready} (503 with a camera down). */
+    void health(ChannelHandlerContext ctx, FullHttpRequest req, boolean readiness) {
+        List<String> down = new ArrayList<>();
+        for (CameraPipeline p : service.pipelines()) {
+            if (!p.delivering()) {
+                down.add(p.id());
+            }
+        }
+        String body = EventJson.object(g -> {
+            g.writeBooleanField("alive", true);
+            g.writeBooleanField("ready", down.isEmpty());
+            g.writeArrayFieldStart("cameras_down");
+            for (String d : down) {
+                g.writeString(d);
+            }
+            g.writeEndArray();
+        });
+        Replies.json(ctx, req, readiness && !down.isEmpty() ? HttpResponseStatus.SERVICE_UNAVAILABLE
+                : HttpResponseStatus.OK, body);
+    }
+
+    /** {@code /metrics}: Prometheus text format. */
+    void metrics(ChannelHandlerContext ctx, FullHttpRequest req) {
+        send(ctx, req, response(HttpResponseStatus.OK, MetricsText.of(service),
+                "text/plain; version=0.0.4; charset=utf-8"));
+    }
+
+    private static void number(JsonGenerator g, String name, double v) throws IOException {
+        if (Double.isNaN(v)) {
+            g.writeNullField(name);
+        } else {
+            g.writeNumberField(name, Math.round(v * 10000) / 10000.0);
+        }
+    }
+
+    /** {@code /api/cameras}: each camera's source (masked), counters and zones with their latest readings. */
+    void cameras(ChannelHandlerContext ctx, FullHttpRequest req) {
+        Replies.json(ctx, req, HttpResponseStatus.OK, EventJson.object(this::writeCameras));
+    }
+
+    private void writeCameras(JsonGenerator g) throws IOException {
+        g.writeArrayFieldStart("cameras");
+        for (CameraPipeline p : service.pipelines()) {
+            g.writeStartObject();
+            g.writeStringField("id", p.id());
+            g.writeStringField("source", ConfigPrinter.maskUrl(p.config().source()));
+            g.writeBooleanField("delivering", p.delivering());
+            g.writeNumberField("frames_in", p.framesIn());
+            g.writeNumberField("frames_analysed", p.analysedFrames());
+            g.writeNumberField("frames_dropped", p.droppedFrames());
+            g.writeNumberField("decode_errors", p.decodeErrors());
+            g.writeNumberField("reconnects", p.reconnects());
+            number(g, "stream_s", p.streamSeconds());
+            g.writeArrayFieldStart("zones");
+            List<ZoneConfig> zones = p.config().zones();
+            for (int z = 0; z < zones.size(); z++) {
+                ZoneConfig zc = zones.get(z);
+                g.writeStartObject();
+                g.writeStringField("id", zc.id());
+                g.writeArrayFieldStart("polygon");
+                double[] xs = zc.xs();
+                double[] ys = zc.ys();
+                for (int i = 0; i < xs.length; i++) {
+                    g.writeArray(new double[] {xs[i], ys[i]}, 0, 2);
+                }
+                g.writeEndArray();
+                double h = p.zoneHeading(z);
+                if (!Double.isNaN(h)) {
+                    g.writeNumberField("heading_deg", Math.round(h * 10) / 10.0);
+                    g.writeNumberField("tolerance_deg", zc.toleranceDeg());
+                }
+                g.writeStringField("heading_source", zc.hasHeading() ? "configured" : !zc.learnsHeading() ? "none"
+                        : p.zoneLearning(z) ? "learning" : "learned");
+                g.writeNumberField("onset_level", zc.rule().onsetLevel());
+                g.writeNumberField("release_level", zc.rule().releaseLevel());
+                number(g, "coverage", p.zoneCoverage(z));
+                number(g, "against", p.zoneAgainst(z));
+                g.writeNumberField("events", p.zoneEvents(z));
+                g.writeEndObject();
+            }
+            g.writeEndArray();
+            g.writeEndObject();
+        }
+        g.writeEndArray();
+    }
+
+    /** {@code /api/events?limit=N}: the latest event phases, newest last (N from 1 to 200, 50 by default). */
+    void events(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q) {
+        int limit = 50;
+        List<String> l = q.parameters().get("limit");
+        if (l != null && !l.isEmpty()) {
+            try {
+                limit = Integer.parseInt(l.get(0));
+            } catch (NumberFormatException e) {
+                limit = -1;
+            }
+            if (limit < 1 || limit > 200) {
+                text(ctx, req, HttpResponseStatus.BAD_REQUEST, "limit: a whole number from 1 to 200\n", false);
+                return;
+            }
+        }
+        StringBuilder b = new StringBuilder("{\"events\":[");
+        List<Event> last = service.recentEvents().last(limit);
+        for (int i = 0; i < last.size(); i++) {
+            b.append(i == 0 ? "" : ",").append(EventJson.toJson(last.get(i)));
+        }
+        b.append("]}\n");
+        send(ctx, req, response(HttpResponseStatus.OK, b.toString(), Replies.JSON));
+    }
+
+    /** A page or script from the jar (a fixed set of names, nothing from the file system). */
+    static void page(ChannelHandlerContext ctx, FullHttpRequest req, String name) throws IOException {
+        try (java.io.InputStream in = Views.class.getResourceAsStream("/wayward/http/" + name)) {
+            if (in == null) {
+                text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page\n", false);
+                return;
+            }
+            String type = name.endsWith(".js") ? "text/javascript; charset=utf-8" : "text/html; charset=utf-8";
+            send(ctx, req, response(HttpResponseStatus.OK, new String(in.readAllBytes(), StandardCharsets.UTF_8), type));
+        }
+    }
+
+    /** {@code /view/<camera>}: the live view page of a camera that exists. */
+    void view(ChannelHandlerContext ctx, FullHttpRequest req, String id) throws IOException {
+        if (camera(id) == null) {
+            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such camera\n", false);
+        } else {
+            page(ctx, req, "view.html");
+        }
+    }
+
+    /** {@code /live/<camera>.jpg}: the latest analysed picture with its flow drawn; 503 until there is one. */
+    void picture(ChannelHandlerContext ctx, FullHttpRequest req, String id) throws IOException {
+        CameraPipeline p = camera(id);
+        if (p == null) {
+            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such camera\n", false);
+            return;
+        }
+        p.live().want();
+        byte[] jpg = LiveStream.jpeg(p);
+        if (jpg == null) {
+            FullHttpResponse r = response(HttpResponseStatus.SERVICE_UNAVAILABLE, "no picture yet; try again\n",
+                    "text/plain");
+            r.headers().set(HttpHeaderNames.RETRY_AFTER, "1");
+            send(ctx, req, r);
+            return;
+        }
+        FullHttpResponse r = new DefaultFullHttpResponse(HttpVersion.HTTP_1_1, HttpResponseStatus.OK,
+                Unpooled.wrappedBuffer(jpg));
+        r.headers().set(HttpHeaderNames.CONTENT_TYPE, "image/jpeg");
+        r.headers().set(HttpHeaderNames.CONTENT_LENGTH, jpg.length);
+        r.headers().set(HttpHeaderNames.CACHE_CONTROL, "no-store");
+        send(ctx, req, r);
+    }
+
+    /** {@code /api/measure}: coverage and against share of a drawn zone on the camera's latest flow. */
+    void measure(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q) {
+        CameraPipeline p = camera(Replies.first(q, "camera", ""));
+        if (p == null) {
+            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such camera\n", false);
+            return;
+        }
+        MeasureRequest m;
+        try {
+            m = MeasureRequest.parse(q);
+        } catch (RuntimeException e) {
+            text(ctx, req, HttpResponseStatus.BAD_REQUEST, MeasureRequest.USAGE + ": " + e.getMessage() + "\n", false);
+            return;
+        }
+        p.live().want();
+        double[] r = p.live().measure(m.xs(), m.ys(), m.headingDeg(), m.toleranceDeg(), ZoneConfig.DEFAULT_MIN_SPEED,
+                ZoneConfig.DEFAULT_MIN_CONFIDENCE, p.config().removeCameraMotion());
+        String body = EventJson.object(g -> {
+            number(g, "coverage", r == null ? Double.NaN : r[0]);
+            number(g, "against", r == null ? Double.NaN : r[1]);
+        });
+        Replies.json(ctx, req, HttpResponseStatus.OK, body);
+    }
+}
