@@ -83,6 +83,12 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[][] smoothU;
     private final float[][] smoothV;
     private final float[] smoothC;
+    /**
+     * The fill's brightness weight of each grid point of the level being filled for each of its
+     * {@link #NEIGHBOURS} neighbours (in {@link #NEIGHBOUR_DI} order). It depends only on the windows' means,
+     * which the fill does not change, so it is worked out once per level instead of once per pass and per side.
+     */
+    private final float[] fillWeight;
     private final BandPool pool;
 
     /** Scratch of one band: the template window of the point being solved. */
@@ -188,6 +194,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             largestGrid = Math.max(largestGrid, g.length);
         }
         smoothC = new float[largestGrid];
+        fillWeight = new float[NEIGHBOURS * largestGrid];
         int threads = Math.max(1, Math.min(settings.threads(), gridHeight[0]));
         bands = new Band[threads];
         for (int i = 0; i < threads; i++) {
@@ -281,6 +288,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 searchLevel(l);
             }
             initSupport(l);
+            fillWeights(l);
             for (int pass = 0; pass < FILL_PASSES; pass++) {
                 if (shared) {
                     phase = FILL;
@@ -905,14 +913,11 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         // on the coarse levels a small mover spans few points and its motion differs from the ground's by little
         // there: textured points keep their own motion; only the full-size level averages alike neighbours
         final boolean denoise = l == 0;
-        final float[] mean = gridMean[l];
         final float[] res = gridResidual[l];
-        final float invRes = 1f / FILL_RESIDUAL;
         final float self = FILL_SELF;
-        final float inv2 = 1f / (FILL_BRIGHTNESS * FILL_BRIGHTNESS);
+        final float[] near = fillWeight;
         for (int j = j0; j < j1; j++) {
-            final int jFrom = j > 0 ? j - 1 : 0;
-            final int jTo = j + 1 < gh ? j + 1 : gh - 1;
+            final boolean rimRow = j == 0 || j + 1 == gh;
             for (int i = 0; i < gw; i++) {
                 final int k = j * gw + i;
                 final boolean kept = keeps(c[k], res[k]);
@@ -926,7 +931,6 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         continue;
                     }
                 }
-                final float m = mean[k];
                 final float ws = self;
                 final float uk = u[k];
                 final float vk = v[k];
@@ -935,34 +939,33 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 float cc = ws * tc[k] + FILL_HOLD;
                 float ru = a * u[k] + b * v[k];
                 float rv = b * u[k] + cc * v[k];
-                final int iFrom = i > 0 ? i - 1 : 0;
-                final int iTo = i + 1 < gw ? i + 1 : gw - 1;
-                for (int jj = jFrom; jj <= jTo; jj++) {
-                    final int row = jj * gw;
-                    for (int ii = iFrom; ii <= iTo; ii++) {
-                        final int q = row + ii;
-                        if (q == k) {
-                            continue;
-                        }
-                        final float dm = mean[q] - m;
-                        float wq = 1f / (1f + dm * dm * inv2);
-                        if (kept) {
-                            // a textured point averages only with neighbours that move alike: sensor noise is
-                            // smoothed out, a motion boundary is not crossed
-                            final float du = u[q] - uk;
-                            final float dv = v[q] - vk;
-                            final float apart = (du * du + dv * dv) * invAlike;
-                            wq = apart < 4f ? wq / (1f + apart) : 0f;
-                        }
-                        final float qa = wq * ta[q];
-                        final float qb = wq * tb[q];
-                        final float qc = wq * tc[q];
-                        a += qa;
-                        b += qb;
-                        cc += qc;
-                        ru += qa * u[q] + qb * v[q];
-                        rv += qb * u[q] + qc * v[q];
+                // one flat loop over the neighbours (C2 compiles it far better than two nested loops of two or
+                // three steps), in the same row order, so the sums are the same
+                final boolean rim = rimRow || i == 0 || i + 1 == gw;
+                for (int n = 0; n < NEIGHBOURS; n++) {
+                    final int ii = i + NEIGHBOUR_DI[n];
+                    final int jj = j + NEIGHBOUR_DJ[n];
+                    if (rim && (ii < 0 || ii >= gw || jj < 0 || jj >= gh)) {
+                        continue;
                     }
+                    final int q = jj * gw + ii;
+                    float wq = near[k * NEIGHBOURS + n];
+                    if (kept) {
+                        // a textured point averages only with neighbours that move alike: sensor noise is
+                        // smoothed out, a motion boundary is not crossed
+                        final float du = u[q] - uk;
+                        final float dv = v[q] - vk;
+                        final float apart = (du * du + dv * dv) * invAlike;
+                        wq = apart < 4f ? wq / (1f + apart) : 0f;
+                    }
+                    final float qa = wq * ta[q];
+                    final float qb = wq * tb[q];
+                    final float qc = wq * tc[q];
+                    a += qa;
+                    b += qb;
+                    cc += qc;
+                    ru += qa * u[q] + qb * v[q];
+                    rv += qb * u[q] + qc * v[q];
                 }
                 final float det = a * cc - b * b;
                 if (det > 1e-12f) {
@@ -977,6 +980,46 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     na[k] = decay * a;
                     nb[k] = decay * b;
                     nc[k] = decay * cc;
+                }
+            }
+        }
+    }
+
+    /** Neighbours of a grid point in the fill. */
+    private static final int NEIGHBOURS = 8;
+    /** Column and row offsets of the neighbours, in row order (the order of the fill's sums). */
+    private static final int[] NEIGHBOUR_DI = {-1, 0, 1, -1, 1, -1, 0, 1};
+    private static final int[] NEIGHBOUR_DJ = {-1, -1, -1, 0, 0, 1, 1, 1};
+
+    /**
+     * The fill's brightness weight between each grid point of level l and each neighbour, 1 / (1 + (Δmean /
+     * {@link #FILL_BRIGHTNESS})²), into {@link #fillWeight}. A division per pair, once per level: the weight is
+     * the same from either side (the squared difference of the two means is), so each pair is worked out from
+     * the earlier point and written to both; neighbour n of a point sees it as neighbour {@code NEIGHBOURS − 1 −
+     * n}.
+     */
+    private void fillWeights(int l) {
+        final int gw = gridWidth[l];
+        final int gh = gridHeight[l];
+        final float[] mean = gridMean[l];
+        final float[] near = fillWeight;
+        final float inv2 = 1f / (FILL_BRIGHTNESS * FILL_BRIGHTNESS);
+        for (int j = 0; j < gh; j++) {
+            for (int i = 0; i < gw; i++) {
+                final int k = j * gw + i;
+                final float m = mean[k];
+                // the neighbours after k in row order: right, then the three below
+                for (int n = NEIGHBOURS / 2; n < NEIGHBOURS; n++) {
+                    final int ii = i + NEIGHBOUR_DI[n];
+                    final int jj = j + NEIGHBOUR_DJ[n];
+                    if (ii < 0 || ii >= gw || jj >= gh) {
+                        continue;
+                    }
+                    final int q = jj * gw + ii;
+                    final float dm = mean[q] - m;
+                    final float wq = 1f / (1f + dm * dm * inv2);
+                    near[k * NEIGHBOURS + n] = wq;
+                    near[q * NEIGHBOURS + NEIGHBOURS - 1 - n] = wq;
                 }
             }
         }
