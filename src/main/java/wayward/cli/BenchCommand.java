@@ -1,0 +1,128 @@
+package wayward.cli;
+
+import java.io.PrintStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Set;
+import wayward.config.CameraConfig;
+import wayward.config.ConfigLoader;
+import wayward.config.SiteConfig;
+import wayward.service.Service;
+
+/** CPU cost per camera and stage on a recorded file, to size a server. */
+final class BenchCommand implements Command {
+    @Override
+    public String name() {
+        return "bench";
+    }
+
+    @Override
+    public Set<String> options() {
+        return Set.of("--input", "--cameras", "--config");
+    }
+
+    @Override
+    public String help() {
+        return String.join("\n",
+                "usage: java -jar wayward.jar bench --input VIDEO [--cameras N] [--config FILE]",
+                "",
+                "Runs N cameras (default 1) on the same file at full speed, every frame decoded and analysed at the",
+                "analysis rate, and prints per camera the CPU time of each stage (decode; luma and downscale; flow;",
+                "zones and rules), the CPU a second of video costs, and its ratio to the decode stage (which skips",
+                "H.264's deblocking filter; `ffmpeg -threads 1 -benchmark -i VIDEO -f null -` shows a full decode).",
+                "The first 5 s of stream are JIT warm-up and not counted. With --config, the first camera's zones",
+                "and settings are used; without, one zone over the middle of the picture with the default",
+                "settings. CPU times are the threads' own (ThreadMXBean).");
+    }
+
+    @Override
+    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+        String input = o.get("--input");
+        if (input == null) {
+            err.println("wayward bench: --input VIDEO is required");
+            return Main.USAGE;
+        }
+        if (!Files.isRegularFile(Path.of(input))) {
+            err.println("wayward bench: --input " + input + ": file not found");
+            return Main.NO_INPUT;
+        }
+        int n = 1;
+        if (o.has("--cameras")) {
+            try {
+                n = Integer.parseInt(o.get("--cameras"));
+            } catch (NumberFormatException e) {
+                n = 0;
+            }
+            if (n < 1 || n > 64) {
+                err.println("wayward bench: --cameras " + o.get("--cameras") + " (expected a whole number from 1 to 64)");
+                return Main.USAGE;
+            }
+        }
+        SiteConfig c;
+        String video = Path.of(input).toAbsolutePath().toString();
+        if (o.has("--config")) {
+            c = o.config(null, err);
+        } else {
+            Path tmp = Files.createTempFile("wayward-bench", ".toml");
+            Files.writeString(tmp, "[service]\nhttp = \"off\"\n[[camera]]\nid = \"bench\"\nsource = \""
+                    + video.replace("\\", "\\\\") + "\"\n[[camera.zone]]\nid = \"middle\"\n"
+                    + "polygon = [[0.25, 0.25], [0.75, 0.25], [0.75, 0.75], [0.25, 0.75]]\nheading_deg = 0\n");
+            try {
+                c = ConfigLoader.load(tmp);
+            } finally {
+                Files.deleteIfExists(tmp);
+            }
+        }
+        CameraConfig first = c.cameras().get(0);
+        List<CameraConfig> copies = new ArrayList<>();
+        for (int i = 1; i <= n; i++) {
+            CameraConfig copy = first.withSource(video, false);
+            copies.add(new CameraConfig(first.id() + "-" + i, copy.source(), false, copy.analysisWidth(),
+                    copy.analysisFps(), copy.removeCameraMotion(), copy.input(), copy.zones(), copy.tamperAlerts()));
+        }
+        Service s = new Service(c, copies, Service.Mode.REPLAY, new PrintStream(java.io.OutputStream.nullOutputStream()), 0);
+        // the first seconds of stream are JIT warm-up: each camera counts only from there on
+        double warmup = 5;
+        s.measureStages(warmup);
+        long wall = System.nanoTime();
+        s.start();
+        boolean terminal = System.console() != null;
+        int cams = n;
+        while (!s.awaitEnd(1, java.util.concurrent.TimeUnit.SECONDS)) {
+            if (terminal) {
+                // progress on a terminal only; quiet in logs and CI
+                var p = s.pipelines().get(0);
+                err.printf(java.util.Locale.ROOT, "\rbench: %d cameras, stream %.1f s, %.0f frames/s each   ", cams,
+                        p.streamSeconds(), p.framesIn() / Math.max(1e-3, (System.nanoTime() - wall) / 1e9));
+            }
+        }
+        if (terminal) {
+            err.println();
+        }
+        s.stop();
+        double wallSeconds = (System.nanoTime() - wall) / 1e9;
+        if (s.pipelines().stream().anyMatch(p -> p.stageFigures()[5] == 0)) {
+            err.println("wayward bench: --input " + input + ": too short to measure (the first " + (int) warmup
+                    + " s are warm-up; give a recording of at least 15 s)");
+            return Main.NO_INPUT;
+        }
+        out.printf(java.util.Locale.ROOT, "bench: %s, %d camera%s, %d cores, %.1f s wall; after the first %.0f s of "
+                + "stream (warm-up)%n", input, n, n == 1 ? "" : "s", Runtime.getRuntime().availableProcessors(),
+                wallSeconds, warmup);
+        out.println("camera | frames decoded | analysed | decode ms/frame | luma+downscale ms/analysed | flow ms/analysed"
+                + " | zones+rules ms/analysed | CPU ms per video second | × decode");
+        for (var p : s.pipelines()) {
+            double[] m = p.stageFigures();
+            double decoded = Math.max(1, m[4]);
+            double analysed = Math.max(1, m[5]);
+            double total = (m[0] + m[1] + m[2] + m[3]) / 1e6;
+            out.printf(java.util.Locale.ROOT, "%s | %d | %d | %.3f | %.3f | %.3f | %.3f | %.1f | %.2f%n", p.id(),
+                    (long) m[4], (long) m[5], m[0] / 1e6 / decoded, m[1] / 1e6 / analysed, m[2] / 1e6 / analysed,
+                    m[3] / 1e6 / analysed, total / Math.max(1e-3, m[6]),
+                    m[0] == 0 ? Double.NaN : (m[0] + m[1] + m[2] + m[3]) / m[0]);
+        }
+        return Main.OK;
+    }
+}

@@ -1,0 +1,66 @@
+package wayward.cli;
+
+import java.io.PrintStream;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Set;
+import wayward.config.CameraConfig;
+import wayward.config.ConfigPrinter;
+import wayward.config.SiteConfig;
+
+/** Checks a config and prints the effective one (secrets masked), what learning zones learned. */
+final class CheckCommand implements Command {
+    @Override
+    public String name() {
+        return "check";
+    }
+
+    @Override
+    public Set<String> options() {
+        return Set.of("--config");
+    }
+
+    @Override
+    public String help() {
+        return String.join("\n",
+                "usage: java -jar wayward.jar check --config FILE",
+                "",
+                "Checks the config file and prints the effective config (defaults filled in, secrets masked).",
+                "Exit 0 when it is usable; otherwise every mistake on one line each (file:line:column: key: value",
+                "(expected ...)) and exit 78.");
+    }
+
+    @Override
+    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+        SiteConfig c = o.config(null, err);
+        out.print(ConfigPrinter.toToml(c));
+        if (c.shard() != null) {
+            List<String> ids = new ArrayList<>();
+            c.cameras().forEach(k -> ids.add(k.id()));
+            out.println("# instance " + c.shard().instance() + " of " + String.join(", ", c.shard().instances())
+                    + " watches: " + String.join(", ", wayward.service.Shards.mine(ids, c.shard().instance(),
+                    c.shard().instances())));
+        }
+        // what zones that learn their heading have learned so far (data_dir/learned)
+        for (CameraConfig cam : c.cameras()) {
+            for (wayward.config.ZoneConfig z : cam.zones()) {
+                if (!z.learnsHeading()) {
+                    continue;
+                }
+                Path f = wayward.service.LearnedHeadings.file(
+                        wayward.service.LearnedHeadings.folder(c.dataDir(), cam.id()), z.id());
+                String learned;
+                try {
+                    double h = wayward.service.LearnedHeadings.read(f);
+                    learned = Double.isNaN(h) ? "not learned yet"
+                            : "learned heading_deg = " + String.format(java.util.Locale.ROOT, "%.1f", h) + " (" + f + ")";
+                } catch (java.io.IOException e) {
+                    learned = "cannot read what was learned (" + e.getMessage() + "); it is learned again at start";
+                }
+                out.println("# camera " + cam.id() + " zone " + z.id() + ": " + learned);
+            }
+        }
+        return Main.OK;
+    }
+}
