@@ -12,8 +12,9 @@ package wayward.rule;
  *                       start one at once
  * @param minTravelPx    travel against the heading a mover needs, with holdSeconds; swaying things go back and
  *                       forth and never carry far
- * @param quickTravelPx  a mover that travelled this far against the heading starts the event whatever its age,
- *                       so a fast mover crossing in under the hold time is not missed; at least minTravelPx
+ * @param quickTravelPx  a mover that travelled this far against the heading starts the event whatever its age
+ *                       (seen in two frames at least), so a fast mover crossing in under the hold time is not
+ *                       missed; at least minTravelPx
  * @param minMoverAreaPx smallest mover that counts: its most moving samples in one frame × the sample spacing²,
  *                       analysis pixels² (so it means the same at any sample spacing)
  */

@@ -11,7 +11,8 @@ import wayward.zone.ZoneMeter;
  * Decides {@code wrong_way} events on movers, not on shares of the zone: an event starts when <em>one</em>
  * mover of at least {@link MoverRuleSettings#minMoverAreaPx} has travelled against the heading at least
  * {@link MoverRuleSettings#minTravelPx} and has been followed at least {@link MoverRuleSettings#holdSeconds}, or
- * has travelled {@link MoverRuleSettings#quickTravelPx} whatever its age. A small mover in a large zone decides
+ * has travelled {@link MoverRuleSettings#quickTravelPx} whatever its age once it has been seen in two frames (one
+ * frame's reading alone can be a lamp switched on). A small mover in a large zone decides
  * exactly as in a small zone: the zone's size enters nowhere.
  *
  * <pre>
@@ -182,7 +183,8 @@ public final class WrongWayRule {
             return false;
         }
         double travel = m.travelPx(k) + 1e-6;
-        return travel >= settings.quickTravelPx()
+        // quick travel still needs a second sighting: one frame's reading alone can be a light switched on
+        return (travel >= settings.quickTravelPx() && m.ageSeconds(k) > EPSILON_SECONDS)
                 || (travel >= settings.minTravelPx() && m.ageSeconds(k) + EPSILON_SECONDS >= settings.holdSeconds());
     }
 

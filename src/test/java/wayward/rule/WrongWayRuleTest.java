@@ -1,6 +1,7 @@
 package wayward.rule;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertNotEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
@@ -164,6 +165,19 @@ class WrongWayRuleTest {
         assertEquals(2, twoBehind(24, 36, 36, 60, 0).size());
         // touching boxes (within three grid points) are one body read as two tracks
         assertEquals(1, twoBehind(8, 36, 36, 60, 0).size());
+    }
+
+    @Test
+    void quickTravelNeedsASecondSighting() {
+        // a light switched on reads as one frame of large motion on a track that is never seen again
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        assertNull(frame(rule, m, 1.0, new double[] {1, 1.0, 40, 10, 60}));
+        assertNull(frame(rule, m, 1.1));
+        // a fast mover is seen again one frame later, and starts then
+        assertNull(frame(rule, m, 2.0, new double[] {2, 2.0, 31, 10, 60}));
+        Event e = frame(rule, m, 2.1, new double[] {2, 2.0, 39, 10, 63});
+        assertEquals(Event.Phase.START, e.phase());
     }
 
     @Test
