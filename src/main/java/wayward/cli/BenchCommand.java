@@ -10,6 +10,7 @@ import wayward.config.CameraConfig;
 import wayward.config.ConfigLoader;
 import wayward.config.SiteConfig;
 import wayward.service.Service;
+import wayward.service.StageFigures;
 
 /** CPU cost per camera and stage on a recorded file, to size a server. */
 final class BenchCommand implements Command {
@@ -103,7 +104,7 @@ final class BenchCommand implements Command {
         }
         s.stop();
         double wallSeconds = (System.nanoTime() - wall) / 1e9;
-        if (s.pipelines().stream().anyMatch(p -> p.stageFigures()[5] == 0)) {
+        if (s.pipelines().stream().anyMatch(p -> p.stageFigures().analysedFrames() == 0)) {
             err.println("wayward bench: --input " + input + ": too short to measure (the first " + (int) warmup
                     + " s are warm-up; give a recording of at least 15 s)");
             return Main.NO_INPUT;
@@ -114,14 +115,14 @@ final class BenchCommand implements Command {
         out.println("camera | frames decoded | analysed | decode ms/frame | luma+downscale ms/analysed | flow ms/analysed"
                 + " | zones+rules ms/analysed | CPU ms per video second | × decode");
         for (var p : s.pipelines()) {
-            double[] m = p.stageFigures();
-            double decoded = Math.max(1, m[4]);
-            double analysed = Math.max(1, m[5]);
-            double total = (m[0] + m[1] + m[2] + m[3]) / 1e6;
+            StageFigures m = p.stageFigures();
+            double decoded = Math.max(1, m.decodedFrames());
+            double analysed = Math.max(1, m.analysedFrames());
             out.printf(java.util.Locale.ROOT, "%s | %d | %d | %.3f | %.3f | %.3f | %.3f | %.1f | %.2f%n", p.id(),
-                    (long) m[4], (long) m[5], m[0] / 1e6 / decoded, m[1] / 1e6 / analysed, m[2] / 1e6 / analysed,
-                    m[3] / 1e6 / analysed, total / Math.max(1e-3, m[6]),
-                    m[0] == 0 ? Double.NaN : (m[0] + m[1] + m[2] + m[3]) / m[0]);
+                    m.decodedFrames(), m.analysedFrames(), m.decodeNanos() / 1e6 / decoded,
+                    m.shrinkNanos() / 1e6 / analysed, m.flowNanos() / 1e6 / analysed, m.zonesNanos() / 1e6 / analysed,
+                    m.totalNanos() / 1e6 / Math.max(1e-3, m.streamSeconds()),
+                    m.decodeNanos() == 0 ? Double.NaN : m.totalNanos() / m.decodeNanos());
         }
         return Main.OK;
     }

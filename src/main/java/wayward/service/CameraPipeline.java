@@ -88,16 +88,13 @@ public final class CameraPipeline {
         source.measureStages(fromSeconds);
     }
 
-    /**
-     * What was measured since counting began: CPU nanoseconds of decode, downscale, flow, zones and rules, then
-     * frames decoded, frames analysed and stream seconds covered (all 0 before counting began).
-     */
-    public double[] stageFigures() {
+    /** What was measured since counting began (all 0 before). */
+    public StageFigures stageFigures() {
         long before = analysedBeforeMeasuring;
         double from = streamAtMeasuring;
-        return new double[] {source.decodeCpuNanos(), source.downscaleCpuNanos(), flowCpu, zonesCpu,
-            source.framesMeasured(), before < 0 ? 0 : analysedFrames - before,
-            Double.isNaN(from) ? 0 : lastStreamSeconds - from};
+        return new StageFigures(source.decodeCpuNanos(), source.downscaleCpuNanos(), flowCpu, zonesCpu,
+                source.framesMeasured(), before < 0 ? 0 : analysedFrames - before,
+                Double.isNaN(from) ? 0 : lastStreamSeconds - from);
     }
 
     /** Before {@link #start}: every analysed frame also goes to {@code l}. */
