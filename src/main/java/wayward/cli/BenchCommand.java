@@ -13,20 +13,9 @@ import wayward.service.Service;
 import wayward.service.StageFigures;
 
 /** CPU cost per camera and stage on a recorded file, to size a server. */
-final class BenchCommand implements Command {
-    @Override
-    public String name() {
-        return "bench";
-    }
-
-    @Override
-    public Set<String> options() {
-        return Set.of("--input", "--cameras", "--config");
-    }
-
-    @Override
-    public String help() {
-        return String.join("\n",
+final class BenchCommand extends Command {
+    BenchCommand() {
+        super("bench", Set.of("--input", "--cameras", "--config"), String.join("\n",
                 "usage: java -jar wayward.jar bench --input VIDEO [--cameras N] [--config FILE]",
                 "",
                 "Runs N cameras (default 1) on the same file at full speed, every frame decoded and analysed at the",
@@ -35,11 +24,11 @@ final class BenchCommand implements Command {
                 "H.264's deblocking filter; `ffmpeg -threads 1 -benchmark -i VIDEO -f null -` shows a full decode).",
                 "The first 5 s of stream are JIT warm-up and not counted. With --config, the first camera's zones",
                 "and settings are used; without, one zone over the middle of the picture with the default",
-                "settings. CPU times are the threads' own (ThreadMXBean).");
+                "settings. CPU times are the threads' own (ThreadMXBean)."));
     }
 
     @Override
-    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+    int run(Options o, PrintStream out, PrintStream err) throws Exception {
         String input = o.get("--input");
         if (input == null) {
             err.println("wayward bench: --input VIDEO is required");

@@ -10,29 +10,18 @@ import wayward.config.ConfigPrinter;
 import wayward.config.SiteConfig;
 
 /** Checks a config and prints the effective one (secrets masked), what learning zones learned. */
-final class CheckCommand implements Command {
-    @Override
-    public String name() {
-        return "check";
-    }
-
-    @Override
-    public Set<String> options() {
-        return Set.of("--config");
-    }
-
-    @Override
-    public String help() {
-        return String.join("\n",
+final class CheckCommand extends Command {
+    CheckCommand() {
+        super("check", Set.of("--config"), String.join("\n",
                 "usage: java -jar wayward.jar check --config FILE",
                 "",
                 "Checks the config file and prints the effective config (defaults filled in, secrets masked).",
                 "Exit 0 when it is usable; otherwise every mistake on one line each (file:line:column: key: value",
-                "(expected ...)) and exit 78.");
+                "(expected ...)) and exit 78."));
     }
 
     @Override
-    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+    int run(Options o, PrintStream out, PrintStream err) throws Exception {
         SiteConfig c = o.config(null, err);
         out.print(ConfigPrinter.toToml(c));
         if (c.shard() != null) {

@@ -13,29 +13,18 @@ import wayward.service.Lifecycle;
 import wayward.service.Service;
 
 /** Runs the service on the bundled demo scene, looped. */
-final class DemoCommand implements Command {
-    @Override
-    public String name() {
-        return "demo";
-    }
-
-    @Override
-    public Set<String> options() {
-        return Set.of("--config", "--loops");
-    }
-
-    @Override
-    public String help() {
-        return String.join("\n",
+final class DemoCommand extends Command {
+    DemoCommand() {
+        super("demo", Set.of("--config", "--loops"), String.join("\n",
                 "usage: java -jar wayward.jar demo [--config FILE] [--loops N]",
                 "",
                 "Runs the service on the bundled demo scene (a one-way lane in a fictional yard) played as a looping",
                 "camera, with conf/demo.toml. Prints every event phase as a JSON line and writes the event log",
-                "under the config's data folder. Runs until Ctrl-C, or for N passes over the scene with --loops.");
+                "under the config's data folder. Runs until Ctrl-C, or for N passes over the scene with --loops."));
     }
 
     @Override
-    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+    int run(Options o, PrintStream out, PrintStream err) throws Exception {
         int loops = 0;
         if (o.has("--loops")) {
             try {

@@ -7,31 +7,20 @@ import java.util.List;
 import java.util.Set;
 
 /** Optical flow between two pictures, or a video frame and the next, as .flo and colour-wheel PNG. */
-final class FlowCommand implements Command {
-    @Override
-    public String name() {
-        return "flow";
-    }
-
-    @Override
-    public Set<String> options() {
-        return Set.of("--input", "--at", "--output", "--picture");
-    }
-
-    @Override
-    public String help() {
-        return String.join("\n",
+final class FlowCommand extends Command {
+    FlowCommand() {
+        super("flow", Set.of("--input", "--at", "--output", "--picture"), String.join("\n",
                 "usage: java -jar wayward.jar flow --input A.png --input B.png --output OUT.flo [--picture OUT.png]",
                 "       java -jar wayward.jar flow --input VIDEO --at SECONDS --output OUT.flo [--picture OUT.png]",
                 "",
                 "Estimates the optical flow from picture A to picture B (or from the video frame at SECONDS to the next",
                 "one) at their own resolution, with the service's estimator and default settings. Writes it as a",
                 "Middlebury .flo file (Baker et al. 2011) and as a PNG in their colour wheel, with the wheel as legend",
-                "(default: OUT.png beside OUT.flo). Prints the speed of the legend's rim in pixels per frame.");
+                "(default: OUT.png beside OUT.flo). Prints the speed of the legend's rim in pixels per frame."));
     }
 
     @Override
-    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+    int run(Options o, PrintStream out, PrintStream err) throws Exception {
         String first = o.get("--input");
         String second = o.get("--input2");
         String output = o.get("--output");

@@ -9,27 +9,16 @@ import wayward.scene.Scene;
 import wayward.scene.SceneGenerator;
 
 /** Renders a test scene video with exact ground truth. */
-final class MakeSceneCommand implements Command {
-    @Override
-    public String name() {
-        return "make-scene";
-    }
-
-    @Override
-    public Set<String> options() {
-        return Set.of("--scene", "--video", "--truth");
-    }
-
-    @Override
-    public String help() {
-        return String.join("\n",
+final class MakeSceneCommand extends Command {
+    MakeSceneCommand() {
+        super("make-scene", Set.of("--scene", "--video", "--truth"), String.join("\n",
                 "usage: java -jar wayward.jar make-scene --scene FILE.scene.toml --video OUT.mp4 --truth OUT.json",
                 "",
-                "Renders a scenario video with exact ground truth (see test-streams/README.md).");
+                "Renders a scenario video with exact ground truth (see test-streams/README.md)."));
     }
 
     @Override
-    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+    int run(Options o, PrintStream out, PrintStream err) throws Exception {
         for (String k : List.of("--scene", "--video", "--truth")) {
             if (!o.has(k)) {
                 err.println("wayward make-scene: " + k + " is required");

@@ -11,20 +11,9 @@ import wayward.config.SiteConfig;
 import wayward.service.Service;
 
 /** Analyses a recorded file as fast as the CPU allows, with one camera's zones; events on stdout. */
-final class ReplayCommand implements Command {
-    @Override
-    public String name() {
-        return "replay";
-    }
-
-    @Override
-    public Set<String> options() {
-        return Set.of("--config", "--input", "--camera", "--report", "--annotate");
-    }
-
-    @Override
-    public String help() {
-        return String.join("\n",
+final class ReplayCommand extends Command {
+    ReplayCommand() {
+        super("replay", Set.of("--config", "--input", "--camera", "--report", "--annotate"), String.join("\n",
                 "usage: java -jar wayward.jar replay --config FILE --input VIDEO [--camera ID] [--report DIR]",
                 "           [--annotate OUT.mp4]",
                 "",
@@ -41,11 +30,11 @@ final class ReplayCommand implements Command {
                 "second with: wayward what-if --report DIR --min-travel-px 15",
                 "",
                 "--annotate OUT.mp4 writes the analysis frames with the flow arrows (Baker et al. colour wheel, the",
-                "wheel in the corner as legend), zones, headings and each rule's state, as H.264.");
+                "wheel in the corner as legend), zones, headings and each rule's state, as H.264."));
     }
 
     @Override
-    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+    int run(Options o, PrintStream out, PrintStream err) throws Exception {
         SiteConfig c = o.config(null, err);
         String input = o.get("--input");
         if (input == null) {

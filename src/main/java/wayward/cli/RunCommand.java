@@ -9,30 +9,19 @@ import wayward.service.Lifecycle;
 import wayward.service.Service;
 
 /** Runs the service on the configured cameras until a signal stops it. */
-final class RunCommand implements Command {
-    @Override
-    public String name() {
-        return "run";
-    }
-
-    @Override
-    public Set<String> options() {
-        return Set.of("--config");
-    }
-
-    @Override
-    public String help() {
-        return String.join("\n",
+final class RunCommand extends Command {
+    RunCommand() {
+        super("run", Set.of("--config"), String.join("\n",
                 "usage: java -jar wayward.jar run --config FILE",
                 "",
                 "Runs the service: reads every configured camera, analyses motion in its zones and sends each event",
                 "phase to the event log (DATA_DIR/events.jsonl) and the configured webhooks. File sources play at",
                 "their own speed, like a camera. Stops on SIGTERM or Ctrl-C, or when every file camera has ended.",
-                "Logs go to standard error.");
+                "Logs go to standard error."));
     }
 
     @Override
-    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+    int run(Options o, PrintStream out, PrintStream err) throws Exception {
         SiteConfig c = o.config(null, err);
         Service s = new Service(c, c.cameras(), Service.Mode.RUN, System.out, 0);
         Lifecycle.serve(s, Path.of(o.get("--config")), StatusServer::start);

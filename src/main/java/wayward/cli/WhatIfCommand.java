@@ -9,21 +9,10 @@ import java.util.Map;
 import java.util.Set;
 
 /** Re-runs only the rules of a replay report with other settings. */
-final class WhatIfCommand implements Command {
-    @Override
-    public String name() {
-        return "what-if";
-    }
-
-    @Override
-    public Set<String> options() {
-        return Set.of("--report", "--onset-level", "--release-level", "--hold-seconds",
-                "--clear-seconds", "--rest-seconds", "--min-travel-px", "--quick-travel-px", "--min-mover-area-px");
-    }
-
-    @Override
-    public String help() {
-        return String.join("\n",
+final class WhatIfCommand extends Command {
+    WhatIfCommand() {
+        super("what-if", Set.of("--report", "--onset-level", "--release-level", "--hold-seconds",
+                "--clear-seconds", "--rest-seconds", "--min-travel-px", "--quick-travel-px", "--min-mover-area-px"), String.join("\n",
                 "usage: java -jar wayward.jar what-if --report DIR [--hold-seconds S] [--clear-seconds S]",
                 "           [--rest-seconds S] [--min-travel-px P] [--quick-travel-px P] [--min-mover-area-px A]",
                 "           [--onset-level X] [--release-level X]",
@@ -33,11 +22,11 @@ final class WhatIfCommand implements Command {
                 "would. Zones with a heading re-run the mover rule on the saved movers (the tracker does not depend",
                 "on the rule's settings); zones without re-run the share rule (onset and release levels) on the",
                 "saved readings. A setting no zone of the report takes is an error. Then a summary line on standard",
-                "error.");
+                "error."));
     }
 
     @Override
-    public int run(Options o, PrintStream out, PrintStream err) throws Exception {
+    int run(Options o, PrintStream out, PrintStream err) throws Exception {
         String dir = o.get("--report");
         if (dir == null) {
             err.println("wayward what-if: --report DIR is required (a folder written by replay --report)");
