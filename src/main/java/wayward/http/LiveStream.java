@@ -20,7 +20,7 @@ import java.nio.charset.StandardCharsets;
 import java.util.concurrent.TimeUnit;
 import javax.imageio.ImageIO;
 import wayward.config.ZoneConfig;
-import wayward.service.CameraPipeline;
+import wayward.service.CameraStatus;
 
 /**
  * The live view as MJPEG over HTTP (multipart/x-mixed-replace, one JPEG per part): the analysis frame with
@@ -34,7 +34,7 @@ final class LiveStream {
     }
 
     /** The current live picture as JPEG, or null before the first one. */
-    static byte[] jpeg(CameraPipeline p) throws IOException {
+    static byte[] jpeg(CameraStatus p) throws IOException {
         double minStep = ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps();
         double[] headings = new double[p.config().zones().size()];
         for (int z = 0; z < headings.length; z++) {
@@ -49,7 +49,7 @@ final class LiveStream {
         return out.toByteArray();
     }
 
-    static void start(ChannelHandlerContext ctx, FullHttpRequest req, CameraPipeline p) {
+    static void start(ChannelHandlerContext ctx, FullHttpRequest req, CameraStatus p) {
         if (p == null) {
             ctx.writeAndFlush(new io.netty.handler.codec.http.DefaultFullHttpResponse(HttpVersion.HTTP_1_1,
                     HttpResponseStatus.NOT_FOUND, Unpooled.copiedBuffer("no such camera\n", StandardCharsets.UTF_8)))

@@ -9,7 +9,7 @@ import wayward.config.ZoneConfig;
 import wayward.delivery.Courier;
 import wayward.delivery.EventBus;
 import wayward.delivery.Outbox;
-import wayward.service.CameraPipeline;
+import wayward.service.CameraStatus;
 import wayward.service.Service;
 
 /**
@@ -24,7 +24,7 @@ final class MetricsText {
 
     static String of(Service service) {
         MetricsText m = new MetricsText();
-        m.cameras(service.pipelines());
+        m.cameras(service.cameraStatus());
         m.delivery(service.bus(), service.outbox());
         m.process();
         return m.b.toString();
@@ -66,23 +66,23 @@ final class MetricsText {
     }
 
     private interface CameraValue {
-        double of(CameraPipeline p);
+        double of(CameraStatus p);
     }
 
-    private void perCamera(List<CameraPipeline> ps, String name, String type, String help, CameraValue v) {
+    private void perCamera(List<CameraStatus> ps, String name, String type, String help, CameraValue v) {
         family(name, type, help);
-        for (CameraPipeline p : ps) {
+        for (CameraStatus p : ps) {
             sample(name, v.of(p), "camera", p.id());
         }
     }
 
     private interface ZoneValue {
-        double of(CameraPipeline p, int zone);
+        double of(CameraStatus p, int zone);
     }
 
-    private void perZone(List<CameraPipeline> ps, String name, String type, String help, ZoneValue v) {
+    private void perZone(List<CameraStatus> ps, String name, String type, String help, ZoneValue v) {
         family(name, type, help);
-        for (CameraPipeline p : ps) {
+        for (CameraStatus p : ps) {
             List<ZoneConfig> zones = p.config().zones();
             for (int z = 0; z < zones.size(); z++) {
                 sample(name, v.of(p, z), "camera", p.id(), "zone", zones.get(z).id());
@@ -90,32 +90,32 @@ final class MetricsText {
         }
     }
 
-    private void cameras(List<CameraPipeline> ps) {
+    private void cameras(List<CameraStatus> ps) {
         perCamera(ps, "wayward_camera_up", "gauge", "1 while the camera delivers pictures, else 0.",
                 p -> p.delivering() ? 1 : 0);
         perCamera(ps, "wayward_camera_frames_in_total", "counter", "Pictures decoded from the camera.",
-                CameraPipeline::framesIn);
+                CameraStatus::framesIn);
         perCamera(ps, "wayward_camera_frames_analysed_total", "counter", "Pictures the flow estimator took.",
-                CameraPipeline::analysedFrames);
+                CameraStatus::analysedFrames);
         perCamera(ps, "wayward_camera_frames_dropped_total", "counter",
-                "Pictures replaced by a newer one before analysis took them.", CameraPipeline::droppedFrames);
+                "Pictures replaced by a newer one before analysis took them.", CameraStatus::droppedFrames);
         perCamera(ps, "wayward_camera_decode_errors_total", "counter", "Packets the decoder refused.",
-                CameraPipeline::decodeErrors);
+                CameraStatus::decodeErrors);
         perCamera(ps, "wayward_camera_reconnects_total", "counter", "Reconnect attempts of the source.",
-                CameraPipeline::reconnects);
+                CameraStatus::reconnects);
         perCamera(ps, "wayward_camera_analysis_seconds_total", "counter",
-                "Wall time spent in flow, zone meters and rules.", CameraPipeline::analysisSeconds);
+                "Wall time spent in flow, zone meters and rules.", CameraStatus::analysisSeconds);
         perCamera(ps, "wayward_camera_stream_seconds", "gauge", "Stream time of the newest analysed picture.",
-                CameraPipeline::streamSeconds);
+                CameraStatus::streamSeconds);
         perCamera(ps, "wayward_camera_analysis_fps", "gauge",
                 "Frames analysed per second over the last 30 s (under overload, lower than configured).",
-                CameraPipeline::analysisFps);
+                CameraStatus::analysisFps);
         perZone(ps, "wayward_zone_coverage", "gauge", "Share of the zone's pixels moving, newest reading (0..1).",
-                CameraPipeline::zoneCoverage);
+                CameraStatus::zoneCoverage);
         perZone(ps, "wayward_zone_against", "gauge",
                 "Share of the zone's pixels moving against its heading, newest reading (0..1).",
-                CameraPipeline::zoneAgainst);
-        perZone(ps, "wayward_zone_events_total", "counter", "Events started in the zone.", CameraPipeline::zoneEvents);
+                CameraStatus::zoneAgainst);
+        perZone(ps, "wayward_zone_events_total", "counter", "Events started in the zone.", CameraStatus::zoneEvents);
         family("wayward_clips_failed_total", "counter", "Evidence clips that could not be written.");
         sample("wayward_clips_failed_total", (double) ClipWriter.failedClips());
     }

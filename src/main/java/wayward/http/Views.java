@@ -22,7 +22,7 @@ import wayward.config.ConfigPrinter;
 import wayward.config.ZoneConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
-import wayward.service.CameraPipeline;
+import wayward.service.CameraStatus;
 import wayward.service.Service;
 
 /**
@@ -37,8 +37,8 @@ final class Views {
     }
 
     /** The camera with this id, or null. */
-    CameraPipeline camera(String id) {
-        for (CameraPipeline p : service.pipelines()) {
+    CameraStatus camera(String id) {
+        for (CameraStatus p : service.cameraStatus()) {
             if (p.id().equals(id)) {
                 return p;
             }
@@ -49,7 +49,7 @@ final class Views {
     /** {@code /health} (always 200 while the process answers) and {@code /health/ready} (503 with a camera down). */
     void health(ChannelHandlerContext ctx, FullHttpRequest req, boolean readiness) {
         List<String> down = new ArrayList<>();
-        for (CameraPipeline p : service.pipelines()) {
+        for (CameraStatus p : service.cameraStatus()) {
             if (!p.delivering()) {
                 down.add(p.id());
             }
@@ -88,7 +88,7 @@ final class Views {
 
     private void writeCameras(JsonGenerator g) throws IOException {
         g.writeArrayFieldStart("cameras");
-        for (CameraPipeline p : service.pipelines()) {
+        for (CameraStatus p : service.cameraStatus()) {
             g.writeStartObject();
             g.writeStringField("id", p.id());
             g.writeStringField("source", ConfigPrinter.maskUrl(p.config().source()));
@@ -179,7 +179,7 @@ final class Views {
 
     /** {@code /live/<camera>.jpg}: the latest analysed picture with its flow drawn; 503 until there is one. */
     void picture(ChannelHandlerContext ctx, FullHttpRequest req, String id) throws IOException {
-        CameraPipeline p = camera(id);
+        CameraStatus p = camera(id);
         if (p == null) {
             text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such camera\n", false);
             return;
@@ -203,7 +203,7 @@ final class Views {
 
     /** {@code /api/measure}: coverage and against share of a drawn zone on the camera's latest flow. */
     void measure(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q) {
-        CameraPipeline p = camera(Replies.first(q, "camera", ""));
+        CameraStatus p = camera(Replies.first(q, "camera", ""));
         if (p == null) {
             text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such camera\n", false);
             return;

@@ -17,7 +17,9 @@ import wayward.config.ZoneConfig;
 import wayward.flow.FlowField;
 import wayward.image.GrayFrame;
 import wayward.picture.FlowColours;
-import wayward.service.CameraPipeline;
+import wayward.service.CameraStatus;
+import wayward.service.FrameListener;
+import wayward.service.ReadingListener;
 import wayward.zone.ZoneReading;
 
 /**
@@ -25,7 +27,7 @@ import wayward.zone.ZoneReading;
  * wheel, the zones, their headings and each rule's state, and the wheel itself as a legend, encoded as H.264
  * (the FFmpeg build's libopenh264) at the frames' own stream times. Analysis thread.
  */
-public final class Annotator implements CameraPipeline.FrameListener, CameraPipeline.ReadingListener, AutoCloseable {
+public final class Annotator implements FrameListener, ReadingListener, AutoCloseable {
     private final Path out;
     private final double fps;
     private final Java2DFrameConverter converter = new Java2DFrameConverter();
@@ -49,7 +51,7 @@ public final class Annotator implements CameraPipeline.FrameListener, CameraPipe
     }
 
     @Override
-    public void frame(CameraPipeline p, GrayFrame f, FlowField field, double t) {
+    public void frame(CameraStatus p, GrayFrame f, FlowField field, double t) {
         List<ZoneConfig> zones = p.config().zones();
         double[] headings = new double[zones.size()];
         for (int z = 0; z < zones.size(); z++) {

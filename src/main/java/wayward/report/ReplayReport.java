@@ -26,7 +26,7 @@ import wayward.config.ZoneConfig;
 import wayward.delivery.EventSink;
 import wayward.event.Event;
 import wayward.event.EventJson;
-import wayward.service.CameraPipeline;
+import wayward.service.ReadingListener;
 import wayward.zone.Movers;
 import wayward.zone.ZoneReading;
 
@@ -36,7 +36,7 @@ import wayward.zone.ZoneReading;
  * events as JSON lines, and an index.html that gathers them. Readings arrive on the analysis thread, events on
  * the bus's thread; {@link #write} after the replay ended.
  */
-public final class ReplayReport implements CameraPipeline.ReadingListener, EventSink {
+public final class ReplayReport implements ReadingListener, EventSink {
     /** The CSV columns; {@link WhatIf} reads them back. movers and largest_travel_against_px: 0 without heading. */
     static final String HEADER = "stream_s,coverage,against,speed,heading_deg,against_speed,against_heading_deg,"
             + "movers,largest_travel_against_px,state";

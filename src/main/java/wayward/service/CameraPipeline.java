@@ -32,7 +32,7 @@ import wayward.zone.ZoneReading;
  * {@link FrameSlot}, and an analysis thread ({@code analysis-<id>}) running flow, zone meters and rules and
  * handing events to a consumer. Flow and zone buffers are sized on the first frame and reused.
  */
-public final class CameraPipeline {
+public final class CameraPipeline implements CameraStatus {
     private static final Logger LOG = LoggerFactory.getLogger(CameraPipeline.class);
     /** A pause between analysed frames longer than this restarts the flow (no motion across a gap). */
     private static final double MAX_GAP_SECONDS = 2.0;
@@ -53,19 +53,6 @@ public final class CameraPipeline {
     private final HeadingLearner[] learners;
     private volatile java.nio.file.Path learnedDir;
     private volatile ReadingListener readings;
-
-    /**
-     * Receives every zone reading, the zone's movers (null for a zone without heading) and the rule's state after
-     * them (analysis thread; replay reports). Both holders are refilled for the next frame: copy what you keep.
-     */
-    public interface ReadingListener {
-        void reading(CameraConfig camera, int zone, ZoneReading r, Movers movers, String ruleState);
-    }
-
-    /** Receives every analysed frame with its flow, after the zone readings (analysis thread; annotated replay). */
-    public interface FrameListener {
-        void frame(CameraPipeline pipeline, GrayFrame frame, FlowField field, double streamSeconds);
-    }
 
     private volatile FrameListener frames;
     private volatile double measureFrom = Double.NaN;
@@ -227,6 +214,7 @@ public final class CameraPipeline {
         }
     }
 
+    @Override
     public String id() {
         return camera.id();
     }
@@ -258,6 +246,7 @@ public final class CameraPipeline {
         return source.fileFailure();
     }
 
+    @Override
     public long analysedFrames() {
         return analysedFrames;
     }
@@ -296,33 +285,40 @@ public final class CameraPipeline {
     }
 
     /** Frames analysed per second over the last load check (NaN before the first). */
+    @Override
     public double analysisFps() {
         return analysisFps;
     }
 
     /** Pictures decoded by the capture thread. */
+    @Override
     public long framesIn() {
         return source.framesIn();
     }
 
+    @Override
     public long decodeErrors() {
         return source.decodeErrors();
     }
 
+    @Override
     public long reconnects() {
         return source.reconnects();
     }
 
     /** True while the source delivers pictures (false before the first and during an outage). */
+    @Override
     public boolean delivering() {
         return source.delivering();
     }
 
     /** Wall time spent in flow, zone meters and rules so far, seconds. */
+    @Override
     public double analysisSeconds() {
         return analysisNanos / 1e9;
     }
 
+    @Override
     public CameraConfig config() {
         return camera;
     }
@@ -353,11 +349,13 @@ public final class CameraPipeline {
     }
 
     /** The zone's heading in use: configured, learned, or NaN (motion zone, or still learning). */
+    @Override
     public double zoneHeading(int zone) {
         return headings[zone];
     }
 
     /** True while the zone is still learning its heading. */
+    @Override
     public boolean zoneLearning(int zone) {
         return learners[zone] != null;
     }
@@ -401,29 +399,35 @@ public final class CameraPipeline {
     }
 
     /** The latest frame and flow for the live view. */
+    @Override
     public LiveView live() {
         return live;
     }
 
     /** The zone's latest coverage (share of its pixels moving), 0..1; NaN before the first reading. */
+    @Override
     public double zoneCoverage(int zone) {
         return Double.longBitsToDouble(zoneCoverage.get(zone));
     }
 
     /** The zone's latest share of pixels moving against its heading, 0..1; NaN before the first reading. */
+    @Override
     public double zoneAgainst(int zone) {
         return Double.longBitsToDouble(zoneAgainst.get(zone));
     }
 
     /** Events started in the zone so far. */
+    @Override
     public long zoneEvents(int zone) {
         return zoneEvents.get(zone);
     }
 
+    @Override
     public long droppedFrames() {
         return slot.dropped();
     }
 
+    @Override
     public double streamSeconds() {
         return lastStreamSeconds;
     }

@@ -48,8 +48,8 @@ public final class Service {
     private volatile SiteConfig config;
     private final Clock clock = Clock.systemUTC();
     private CameraPipeline.Evidence evidence;
-    private CameraPipeline.ReadingListener readingListener;
-    private CameraPipeline.FrameListener frameListener;
+    private ReadingListener readingListener;
+    private FrameListener frameListener;
     private double measureFrom = Double.NaN;
 
     /** Before {@link #start}: every camera measures the CPU time of its stages from that stream time on (bench). */
@@ -58,12 +58,12 @@ public final class Service {
     }
 
     /** Before {@link #start}: every analysed frame of every camera goes to {@code l} (annotated replay). */
-    public void listenFrames(CameraPipeline.FrameListener l) {
+    public void listenFrames(FrameListener l) {
         this.frameListener = l;
     }
 
     /** Before {@link #start}: every zone reading of every camera goes to {@code l} (replay reports). */
-    public void listenReadings(CameraPipeline.ReadingListener l) {
+    public void listenReadings(ReadingListener l) {
         this.readingListener = l;
     }
     private final List<CameraConfig> cameras;
@@ -322,6 +322,11 @@ public final class Service {
     }
 
     public List<CameraPipeline> pipelines() {
+        return List.copyOf(pipelines);
+    }
+
+    /** The cameras as the status server and reports read them (read-only). */
+    public List<CameraStatus> cameraStatus() {
         return List.copyOf(pipelines);
     }
 

@@ -1,0 +1,53 @@
+package wayward.service;
+
+import wayward.config.CameraConfig;
+
+/**
+ * What the status server and reports read of a running camera: its counters and its zones' latest readings,
+ * read-only and safe from any thread (the pipeline behind it is the analysis, which they never drive).
+ */
+public interface CameraStatus {
+    String id();
+
+    CameraConfig config();
+
+    /** Frames are coming and being analysed (the camera is not lost). */
+    boolean delivering();
+
+    long framesIn();
+
+    long analysedFrames();
+
+    /** Pictures replaced by a newer one before analysis took them. */
+    long droppedFrames();
+
+    long decodeErrors();
+
+    long reconnects();
+
+    /** Wall seconds spent in flow, zone meters and rules. */
+    double analysisSeconds();
+
+    /** The latest analysed frame's stream time. */
+    double streamSeconds();
+
+    /** Analysed frames per second of stream, lately. */
+    double analysisFps();
+
+    /** The heading the zone uses (configured or learned), NaN for a motion zone or one still learning. */
+    double zoneHeading(int zone);
+
+    boolean zoneLearning(int zone);
+
+    /** The zone's latest coverage (share of its pixels moving), 0..1; NaN before the first reading. */
+    double zoneCoverage(int zone);
+
+    /** The zone's latest share of pixels moving against its heading, 0..1; NaN before the first reading. */
+    double zoneAgainst(int zone);
+
+    /** Events started in the zone so far. */
+    long zoneEvents(int zone);
+
+    /** The latest frame and flow for the live view. */
+    LiveView live();
+}
