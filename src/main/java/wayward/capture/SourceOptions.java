@@ -12,5 +12,5 @@ package wayward.capture;
  * @param input         transport and webcam options
  */
 public record SourceOptions(String source, boolean loop, boolean realtime, int analysisWidth, double analysisFps,
-        int maxLoops, wayward.config.CameraConfig.SourceInput input) {
+        int maxLoops, SourceInput input) {
 }

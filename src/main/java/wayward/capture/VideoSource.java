@@ -39,9 +39,9 @@ import org.bytedeco.javacv.FFmpegFrameGrabber;
 import org.bytedeco.javacv.FFmpegLogCallback;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.config.ConfigPrinter;
 import wayward.image.GrayFrame;
 import wayward.retry.Backoff;
+import wayward.secret.Urls;
 
 /**
  * Reads one camera: demuxes with JavaCV's {@link FFmpegFrameGrabber#grabPacket()} (the only reader of the
@@ -149,7 +149,7 @@ public final class VideoSource implements Runnable {
     /** @param clips the camera's clip recorder, or null for no clips (replay) */
     public VideoSource(String cameraId, SourceOptions options, FrameSlot slot, Health health, ClipRecorder clips) {
         this.clips = clips;
-        this.live = wayward.config.CameraConfig.isLive(options.source());
+        this.live = Sources.isLive(options.source());
         this.clock = new StreamClock(live, System::nanoTime);
         this.cameraId = cameraId;
         this.options = options;
@@ -193,8 +193,8 @@ public final class VideoSource implements Runnable {
     @Override
     public void run() {
         runner = Thread.currentThread();
-        boolean url = wayward.config.CameraConfig.isLive(options.source());
-        String shown = ConfigPrinter.maskUrl(options.source());
+        boolean url = Sources.isLive(options.source());
+        String shown = Urls.mask(options.source());
         int passes = 0;
         Backoff backoff = new Backoff(RECONNECT_FIRST_MILLIS, RECONNECT_MAX_MILLIS);
         try {
@@ -262,7 +262,7 @@ public final class VideoSource implements Runnable {
         if (options.source().startsWith("rtsp://") || options.source().startsWith("rtsps://")) {
             grabber.setOption("rtsp_transport", options.input().rtspTransport());
         }
-        if (wayward.config.CameraConfig.isDevice(options.source())) {
+        if (Sources.isDevice(options.source())) {
             grabber.setFormat("video4linux2");
             if (options.input().deviceSize() != null) {
                 grabber.setOption("video_size", options.input().deviceSize());
@@ -274,7 +274,7 @@ public final class VideoSource implements Runnable {
                 grabber.setOption("input_format", options.input().deviceFormat());
             }
         }
-        if (wayward.config.CameraConfig.isUrl(options.source())) {
+        if (Urls.isUrl(options.source())) {
             grabber.setOption("timeout", NETWORK_TIMEOUT_MICROS);
             grabber.setOption("analyzeduration", "500000");
         }
@@ -322,7 +322,7 @@ public final class VideoSource implements Runnable {
             frameStrides = frame.linesize();
             boolean keySeen = false;
             lastFrameNanos = System.nanoTime();
-            boolean network = wayward.config.CameraConfig.isLive(options.source());
+            boolean network = Sources.isLive(options.source());
             wallStartNanos = System.nanoTime();
             wallStartStream = Double.NaN;
             while (!stopping) {

@@ -1,6 +1,9 @@
 package wayward.config;
 
 import java.util.List;
+import wayward.capture.SourceInput;
+import wayward.capture.Sources;
+import wayward.secret.Urls;
 
 /**
  * One {@code [[camera]]} table.
@@ -18,17 +21,6 @@ import java.util.List;
 public record CameraConfig(String id, String source, boolean loop, int analysisWidth, double analysisFps,
         boolean removeCameraMotion, SourceInput input, List<ZoneConfig> zones, boolean tamperAlerts) {
 
-    /**
-     * Source opening options.
-     *
-     * @param rtspTransport "tcp" or "udp" (RTSP sources)
-     * @param deviceSize    "WIDTHxHEIGHT" asked of a webcam, or null for its default
-     * @param deviceFps     frame rate asked of a webcam, or 0 for its default
-     * @param deviceFormat  pixel or compression format asked of a webcam ("mjpeg", "yuyv422", ...), or null
-     */
-    public record SourceInput(String rtspTransport, String deviceSize, double deviceFps, String deviceFormat) {
-        public static final SourceInput DEFAULTS = new SourceInput("tcp", null, 0, null);
-    }
     public CameraConfig {
         zones = List.copyOf(zones);
     }
@@ -44,18 +36,17 @@ public record CameraConfig(String id, String source, boolean loop, int analysisW
         return isUrl(source);
     }
 
-    /** A webcam device (Video4Linux2), such as /dev/video0. */
+    /** A webcam device (Video4Linux2), such as /dev/video0 (capture decides: {@link Sources#isDevice}). */
     public static boolean isDevice(String source) {
-        return source.startsWith("/dev/video");
+        return Sources.isDevice(source);
     }
 
     /** A source that runs on its own and is reconnected when it stops: a URL or a device. */
     public static boolean isLive(String source) {
-        return isUrl(source) || isDevice(source);
+        return Sources.isLive(source);
     }
 
     public static boolean isUrl(String source) {
-        int i = source.indexOf("://");
-        return i > 0 && source.substring(0, i).matches("[A-Za-z][A-Za-z0-9+.-]*");
+        return Urls.isUrl(source);
     }
 }

@@ -16,6 +16,7 @@ import org.tomlj.TomlParseError;
 import org.tomlj.TomlParseResult;
 import org.tomlj.TomlPosition;
 import org.tomlj.TomlTable;
+import wayward.capture.SourceInput;
 import wayward.rule.MoverRuleSettings;
 import wayward.rule.RuleSettings;
 
@@ -415,7 +416,7 @@ public final class ConfigLoader {
         double fps = s.number("analysis_fps", 10, 0.5, 60);
         boolean removeCameraMotion = s.bool("remove_camera_motion", true);
         boolean tamperAlerts = s.bool("tamper_alerts", true);
-        CameraConfig.SourceInput d = CameraConfig.SourceInput.DEFAULTS;
+        SourceInput d = SourceInput.DEFAULTS;
         String transport = s.string("rtsp_transport", d.rtspTransport(), "\"tcp\" or \"udp\"");
         if (!transport.equals("tcp") && !transport.equals("udp")) {
             s.error("rtsp_transport", transport, "\"tcp\" or \"udp\"");
@@ -439,7 +440,7 @@ public final class ConfigLoader {
                 }
             }
         }
-        CameraConfig.SourceInput input = new CameraConfig.SourceInput(transport, deviceSize, deviceFps, deviceFormat);
+        SourceInput input = new SourceInput(transport, deviceSize, deviceFps, deviceFormat);
         List<ZoneConfig> zones = new ArrayList<>();
         TomlArray zoneArray = s.tableArray("zone");
         if (zoneArray == null || zoneArray.size() == 0) {

@@ -2,6 +2,7 @@ package wayward.config;
 
 import java.net.URI;
 import java.net.URISyntaxException;
+import wayward.secret.Urls;
 
 /**
  * Prints the effective configuration (every key, defaults filled in) as TOML, with secrets masked: passwords in
@@ -158,33 +159,9 @@ public final class ConfigPrinter {
         }
     }
 
-    /**
-     * A URL fit for logs: the password of user:password@ becomes ***, and a query string (where tokens tend to
-     * live) becomes ?***. Non-URLs come back unchanged.
-     */
+    /** A URL fit for logs ({@link Urls#mask}, the one place that masks). */
     public static String maskUrl(String s) {
-        if (!CameraConfig.isUrl(s)) {
-            return s;
-        }
-        try {
-            URI u = new URI(s);
-            String user = u.getRawUserInfo();
-            String masked = s;
-            if (user != null) {
-                int colon = user.indexOf(':');
-                String shown = colon >= 0 ? user.substring(0, colon) + ":***" : user;
-                masked = masked.replace(user + "@", shown + "@");
-            }
-            String query = u.getRawQuery();
-            if (query != null) {
-                masked = masked.replace("?" + query, "?***");
-            }
-            return masked;
-        } catch (URISyntaxException e) {
-            // not parseable: hide everything after the scheme's host part rather than risk a secret
-            int at = s.lastIndexOf('@');
-            return at > 0 ? s.substring(0, s.indexOf("://") + 3) + "***" + s.substring(at) : s;
-        }
+        return Urls.mask(s);
     }
 
     private static String num(double d) {

@@ -44,12 +44,12 @@ import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.TimeUnit;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.config.ConfigPrinter;
 import wayward.config.MqttConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.event.EventKind;
 import wayward.retry.Backoff;
+import wayward.secret.Urls;
 
 /**
  * Publishes event phases to an MQTT broker, MQTT 3.1.1 (OASIS standard) through Netty's MQTT codec, over TCP
@@ -117,7 +117,7 @@ public final class MqttPublisher implements Destination {
      */
     public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq) {
         this.config = config;
-        this.shownUrl = ConfigPrinter.maskUrl(config.url());
+        this.shownUrl = Urls.mask(config.url());
         URI uri = URI.create(config.url());
         boolean tls = "mqtts".equalsIgnoreCase(uri.getScheme());
         this.host = uri.getHost();

@@ -30,10 +30,10 @@ import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.TimeoutException;
-import wayward.config.ConfigPrinter;
 import wayward.config.WebhookConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
+import wayward.secret.Urls;
 
 /**
  * POSTs each event phase as JSON to a webhook URL over Netty (HTTP/1.1, one connection per attempt; HTTPS with
@@ -55,7 +55,7 @@ public final class WebhookSender implements Destination {
     public WebhookSender(WebhookConfig config) {
         this.config = config;
         this.uri = URI.create(config.url());
-        this.shownUrl = ConfigPrinter.maskUrl(config.url());
+        this.shownUrl = Urls.mask(config.url());
         this.signature = config.secret() != null ? new WebhookSignature(config.secret()) : null;
         this.group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("webhook", true),
                 NioIoHandler.newFactory());

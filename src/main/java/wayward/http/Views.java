@@ -18,10 +18,10 @@ import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.List;
-import wayward.config.ConfigPrinter;
 import wayward.config.ZoneConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
+import wayward.secret.Urls;
 import wayward.service.CameraStatus;
 import wayward.service.Service;
 
@@ -91,7 +91,7 @@ final class Views {
         for (CameraStatus p : service.cameraStatus()) {
             g.writeStartObject();
             g.writeStringField("id", p.id());
-            g.writeStringField("source", ConfigPrinter.maskUrl(p.config().source()));
+            g.writeStringField("source", Urls.mask(p.config().source()));
             g.writeBooleanField("delivering", p.delivering());
             g.writeNumberField("frames_in", p.framesIn());
             g.writeNumberField("frames_analysed", p.analysedFrames());

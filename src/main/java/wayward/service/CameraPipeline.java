@@ -14,17 +14,17 @@ import wayward.config.CameraConfig;
 import wayward.config.FlowConfig;
 import wayward.config.ZoneConfig;
 import wayward.event.Event;
-import wayward.flow.FlowField;
 import wayward.flow.FlowEstimator;
+import wayward.flow.FlowField;
 import wayward.image.GrayFrame;
 import wayward.rule.WrongWayRule;
 import wayward.rule.ZoneRule;
+import wayward.zone.HeadingLearner;
 import wayward.zone.MoverSettings;
 import wayward.zone.MoverTracker;
 import wayward.zone.Movers;
 import wayward.zone.ZoneMask;
 import wayward.zone.ZoneMeter;
-import wayward.zone.HeadingLearner;
 import wayward.zone.ZoneReading;
 
 /**

@@ -93,7 +93,7 @@ class VideoSourceTest {
         Path file = y4m(w, h, lumas);
         FrameSlot slot = new FrameSlot(true);
         VideoSource source = new VideoSource("test", new SourceOptions(file.toString(), false, false, analysisWidth,
-                1000, 0, CameraConfig.SourceInput.DEFAULTS), slot, NO_HEALTH, null);
+                1000, 0, SourceInput.DEFAULTS), slot, NO_HEALTH, null);
         Thread t = new Thread(source, "capture-test");
         t.start();
         int frames = 0;
