@@ -17,6 +17,8 @@ import org.tomlj.TomlParseResult;
 import org.tomlj.TomlPosition;
 import org.tomlj.TomlTable;
 import wayward.capture.SourceInput;
+import wayward.delivery.MqttConfig;
+import wayward.delivery.WebhookConfig;
 import wayward.rule.MoverRuleSettings;
 import wayward.rule.RuleSettings;
 

@@ -2,6 +2,8 @@ package wayward.config;
 
 import java.net.URI;
 import java.net.URISyntaxException;
+import wayward.delivery.MqttConfig;
+import wayward.delivery.WebhookConfig;
 import wayward.secret.Urls;
 
 /**

@@ -2,6 +2,8 @@ package wayward.config;
 
 import java.nio.file.Path;
 import java.util.List;
+import wayward.delivery.MqttConfig;
+import wayward.delivery.WebhookConfig;
 
 /**
  * A whole, checked configuration. Immutable; relative paths in the file are already resolved against the

@@ -44,7 +44,7 @@ import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.TimeUnit;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.config.MqttConfig;
+import wayward.delivery.MqttConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.event.EventKind;

@@ -30,7 +30,7 @@ import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.TimeoutException;
-import wayward.config.WebhookConfig;
+import wayward.delivery.WebhookConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.secret.Urls;

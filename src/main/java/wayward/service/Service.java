@@ -11,14 +11,14 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.config.CameraConfig;
 import wayward.config.ConfigPrinter;
-import wayward.config.MqttConfig;
 import wayward.config.SiteConfig;
-import wayward.config.WebhookConfig;
 import wayward.delivery.EventBus;
 import wayward.delivery.EventLog;
+import wayward.delivery.MqttConfig;
 import wayward.delivery.MqttPublisher;
 import wayward.delivery.Outbox;
 import wayward.delivery.PrintSink;
+import wayward.delivery.WebhookConfig;
 import wayward.delivery.WebhookSender;
 
 /**

@@ -19,7 +19,7 @@ import javax.net.ssl.SSLContext;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
-import wayward.config.WebhookConfig;
+import wayward.delivery.WebhookConfig;
 import wayward.event.Event;
 import wayward.event.EventKind;
 

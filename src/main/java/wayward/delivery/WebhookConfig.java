@@ -1,6 +1,7 @@
-package wayward.config;
+package wayward.delivery;
 
 import java.util.Map;
+import wayward.secret.Urls;
 
 /**
  * One {@code [[webhook]]} table.
@@ -27,6 +28,6 @@ public record WebhookConfig(String url, double timeoutSeconds, double maxBackoff
     @Override
     public String toString() {
         // the record's own toString would show the secret and header values (often tokens)
-        return "WebhookConfig[url=" + ConfigPrinter.maskUrl(url) + ", secretFile=" + secretFile + "]";
+        return "WebhookConfig[url=" + Urls.mask(url) + ", secretFile=" + secretFile + "]";
     }
 }

@@ -1,4 +1,6 @@
-package wayward.config;
+package wayward.delivery;
+
+import wayward.secret.Urls;
 
 /**
  * The {@code [mqtt]} table: one broker that receives every event phase.
@@ -36,7 +38,7 @@ public record MqttConfig(String url, String topicPrefix, String clientId, String
 
     @Override
     public String toString() {
-        return "MqttConfig[url=" + ConfigPrinter.maskUrl(url) + ", clientId=" + clientId + ", username=" + username
+        return "MqttConfig[url=" + Urls.mask(url) + ", clientId=" + clientId + ", username=" + username
                 + "]";
     }
 }
