@@ -13,14 +13,9 @@ import static org.bytedeco.ffmpeg.global.avformat.av_find_best_stream;
 import static org.bytedeco.ffmpeg.global.avutil.AVMEDIA_TYPE_VIDEO;
 import static org.bytedeco.ffmpeg.global.avutil.AV_LOG_ERROR;
 import static org.bytedeco.ffmpeg.global.avutil.AV_NOPTS_VALUE;
-import static org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_GRAY8;
 import static org.bytedeco.ffmpeg.global.avutil.av_frame_alloc;
 import static org.bytedeco.ffmpeg.global.avutil.av_frame_free;
 import static org.bytedeco.ffmpeg.global.avutil.av_log_set_level;
-import static org.bytedeco.ffmpeg.global.swscale.SWS_AREA;
-import static org.bytedeco.ffmpeg.global.swscale.sws_freeContext;
-import static org.bytedeco.ffmpeg.global.swscale.sws_getCachedContext;
-import static org.bytedeco.ffmpeg.global.swscale.sws_scale;
 
 import org.bytedeco.ffmpeg.avcodec.AVCodec;
 import org.bytedeco.ffmpeg.avcodec.AVCodecContext;
@@ -30,9 +25,6 @@ import org.bytedeco.ffmpeg.avformat.AVStream;
 import org.bytedeco.ffmpeg.avutil.AVDictionary;
 import org.bytedeco.ffmpeg.avutil.AVFrame;
 import org.bytedeco.ffmpeg.avutil.AVRational;
-import org.bytedeco.ffmpeg.swscale.SwsContext;
-import org.bytedeco.javacpp.BytePointer;
-import org.bytedeco.javacpp.DoublePointer;
 import org.bytedeco.javacpp.IntPointer;
 import org.bytedeco.javacpp.PointerPointer;
 import org.bytedeco.javacv.FFmpegFrameGrabber;
@@ -143,14 +135,14 @@ public final class VideoSource implements Runnable {
 
     // buffers, capture thread only
     /** Analysis size, fixed by the first frame (0 before it). */
-    private int outWidth;
-    private int outHeight;
+    private final Shrink shrink;
 
     /** @param clips the camera's clip recorder, or null for no clips (replay) */
     public VideoSource(String cameraId, SourceOptions options, FrameSlot slot, Health health, ClipRecorder clips) {
         this.clips = clips;
         this.live = Sources.isLive(options.source());
         this.clock = new StreamClock(live, System::nanoTime);
+        this.shrink = new Shrink(options.analysisWidth());
         this.cameraId = cameraId;
         this.options = options;
         this.slot = slot;
@@ -370,10 +362,7 @@ public final class VideoSource implements Runnable {
                 drain(decoder, frame, timeBase);
             }
         } finally {
-            if (sws != null) {
-                sws_freeContext(sws);
-                sws = null;
-            }
+            shrink.endPass();
             if (frame != null) {
                 av_frame_free(frame);
             }
@@ -435,35 +424,7 @@ public final class VideoSource implements Runnable {
             return;
         }
         long c0 = measure ? cpu() : 0;
-        if (outWidth == 0) {
-            outWidth = Math.min(options.analysisWidth(), w);
-            outHeight = heightFor(w, h, outWidth);
-        }
-        int ow = Math.min(outWidth, w);
-        int oh = Math.min(outHeight, h);
-        // swscale's area filter shrinks straight to analysis size, natively; for formats whose plane 0 is luma
-        // that plane is read as a gray picture (no chroma is touched), others are converted
-        int format = isPlanarLuma(f.format()) ? AV_PIX_FMT_GRAY8 : f.format();
-        // (on failure the old context is freed and null returned: the field must follow at once)
-        sws = sws_getCachedContext(sws, w, h, format, ow, oh, AV_PIX_FMT_GRAY8, SWS_AREA,
-                null, null, (DoublePointer) null);
-        if (sws == null) {
-            BytePointer name = org.bytedeco.ffmpeg.global.avutil.av_get_pix_fmt_name(f.format());
-            throw new IllegalStateException("cannot convert pixel format " + (name == null ? "#" + f.format()
-                    : name.getString()) + " (" + w + "x" + h + ") to gray");
-        }
-        int stride = (ow + 31) & ~31;
-        ensureGrayNative(stride, oh);
-        sws_scale(sws, framePlanes, frameStrides, 0, h, grayPlanes, grayStrides);
-        GrayFrame out = slot.writable(ow, oh);
-        if (stride == ow) {
-            grayNative.position(0).get(out.pixels, 0, ow * oh);
-        } else {
-            for (int y = 0; y < oh; y++) {
-                grayNative.position((long) y * stride).get(out.pixels, y * ow, ow);
-            }
-            grayNative.position(0);
-        }
+        GrayFrame out = shrink.into(f, framePlanes, frameStrides, slot);
         if (measure) {
             downscaleCpu += cpu() - c0;
         }
@@ -472,23 +433,9 @@ public final class VideoSource implements Runnable {
         slot.publish();
     }
 
-    /** The shrink to analysis size; capture thread only, freed at the end of each pass. */
-    private SwsContext sws;
     /** The decoded frame's plane pointers and line sizes (views into the AVFrame of the current pass). */
     private PointerPointer<?> framePlanes;
     private IntPointer frameStrides;
-    private BytePointer grayNative;
-    private PointerPointer<BytePointer> grayPlanes;
-    private IntPointer grayStrides;
-
-    private void ensureGrayNative(int stride, int h) {
-        long need = (long) stride * h;
-        if (grayNative == null || grayNative.capacity() < need || grayStrides.get(0) != stride) {
-            grayNative = new BytePointer(need);
-            grayPlanes = new PointerPointer<>(grayNative, null, null, null);
-            grayStrides = new IntPointer(stride, 0, 0, 0);
-        }
-    }
 
     /** Sleeps so that stream time advances no faster than wall time (a file played as a camera). */
     private void pace(double t) throws InterruptedException {
@@ -506,26 +453,7 @@ public final class VideoSource implements Runnable {
 
     /** Output height that keeps the aspect ratio for a given output width, rounded to an even number. */
     public static int heightFor(int srcWidth, int srcHeight, int dstWidth) {
-        int h = (int) Math.round((double) srcHeight * dstWidth / srcWidth);
-        h += h & 1;
-        return Math.max(2, Math.min(h, srcHeight));
-    }
-
-    /** Pixel formats whose plane 0 is 8-bit luma: the gray picture as it is. */
-    private static boolean isPlanarLuma(int format) {
-        return format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV420P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUVJ420P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV422P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUVJ422P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV444P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUVJ444P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV440P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUVJ440P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV411P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV410P
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_NV12
-                || format == org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_NV21
-                || format == AV_PIX_FMT_GRAY8;
+        return Shrink.heightFor(srcWidth, srcHeight, dstWidth);
     }
 
     private static void check(int ret, String what) {
