@@ -35,7 +35,13 @@ public final class ConfigLoader {
     private ConfigLoader() {
     }
 
+    /** Loads a config file with the process environment's overrides ({@link Environment#fromSystem}). */
     public static SiteConfig load(Path file) throws ConfigException {
+        return load(file, Environment.fromSystem());
+    }
+
+    /** Loads a config file; {@code env} says what the environment sets over it. */
+    public static SiteConfig load(Path file, Environment env) throws ConfigException {
         String shown = file.toString();
         TomlParseResult toml;
         try {
@@ -57,18 +63,18 @@ public final class ConfigLoader {
             throw new ConfigException(errors.sorted());
         }
         Path base = file.toAbsolutePath().getParent();
-        SiteConfig config = bind(toml, base, file, errors);
+        SiteConfig config = bind(toml, base, file, env, errors);
         if (!errors.lines.isEmpty()) {
             throw new ConfigException(errors.sorted());
         }
         return config;
     }
 
-    private static SiteConfig bind(TomlParseResult root, Path base, Path file, Errors errors) {
+    private static SiteConfig bind(TomlParseResult root, Path base, Path file, Environment env, Errors errors) {
         Scope top = new Scope(errors, root, "", TomlPosition.positionAt(1, 1));
         Path dataDir = base.resolve("data");
         HttpConfig http = new HttpConfig("127.0.0.1", 8786, null, null);
-        String instance = System.getenv("WAYWARD_INSTANCE");
+        String instance = env.instance();
         List<String> instances = new ArrayList<>();
         TomlTable serviceTable = top.table("service");
         if (serviceTable != null) {
@@ -95,8 +101,8 @@ public final class ConfigLoader {
             }
             s.finish();
         }
-        String fromEnv = System.getenv("WAYWARD_INSTANCES");
-        if (fromEnv != null && !fromEnv.isBlank()) {
+        String fromEnv = env.instances();
+        if (Environment.set(fromEnv)) {
             instances = new ArrayList<>();
             for (String part : fromEnv.split(",")) {
                 instances.add(part.trim());
@@ -120,8 +126,8 @@ public final class ConfigLoader {
                 dataDir = dataDir.resolve(instance);
             }
         }
-        String httpFromEnv = System.getenv("WAYWARD_HTTP");
-        if (httpFromEnv != null && !httpFromEnv.isBlank() && http != null) {
+        String httpFromEnv = env.http();
+        if (Environment.set(httpFromEnv) && http != null) {
             // per-instance address (the systemd template sets it); the token stays the config's
             int colon = httpFromEnv.lastIndexOf(':');
             try {
@@ -130,6 +136,12 @@ public final class ConfigLoader {
             } catch (RuntimeException e) {
                 errors.at(TomlPosition.positionAt(1, 1), "environment WAYWARD_HTTP: " + render(httpFromEnv)
                         + " (expected \"host:port\" or \"off\")");
+            }
+            if (http != null && !http.loopback() && http.tokenFile() == null) {
+                // the same rule as for [service] http, however the address is set
+                errors.at(TomlPosition.positionAt(1, 1), "environment WAYWARD_HTTP: " + render(httpFromEnv)
+                        + " (expected a loopback address such as 127.0.0.1:8786, or [service] token_file set as"
+                        + " well: anything but /health needs the token when the server is reachable from elsewhere)");
             }
         }
         FlowConfig flow = FlowConfig.DEFAULTS;

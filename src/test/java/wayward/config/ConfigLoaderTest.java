@@ -148,4 +148,35 @@ class ConfigLoaderTest {
         assertEquals(ConfigLoader.load(f).cameras().get(0).zones().get(0).rule(),
                 ConfigLoader.load(again).cameras().get(0).zones().get(0).rule());
     }
+
+    @Test
+    void theEnvironmentSetsTheStatusAddressButNotPastTheTokenRule(@TempDir Path dir) throws Exception {
+        Path f = dir.resolve("site.toml");
+        Files.writeString(f, String.join("\n", "[[camera]]", "id = \"gate\"", "source = \"rtsp://cam.yard.example/s\"",
+                "[[camera.zone]]", "id = \"lane\"", "polygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]", ""));
+        assertEquals("127.0.0.1", ConfigLoader.load(f, Environment.NONE).http().host());
+        SiteConfig local = ConfigLoader.load(f, new Environment(null, null, "127.0.0.2:9001"));
+        assertEquals(9001, local.http().port());
+        assertEquals(null, ConfigLoader.load(f, new Environment(null, null, "off")).http());
+        // reachable from elsewhere without a token: refused, as it is when the file says so
+        ConfigException e = assertThrows(ConfigException.class,
+                () -> ConfigLoader.load(f, new Environment(null, null, "0.0.0.0:8786")));
+        assertEquals(1, e.errors().size(), e.errors().toString());
+        assertTrue(e.errors().get(0).startsWith(f + ":1:1: environment WAYWARD_HTTP: \"0.0.0.0:8786\" (expected a "
+                + "loopback address"), e.errors().get(0));
+        Files.writeString(dir.resolve("token"), "yard-token\n");
+        Files.writeString(f, "[service]\ntoken_file = \"token\"\n" + Files.readString(f));
+        assertEquals("0.0.0.0", ConfigLoader.load(f, new Environment(null, null, "0.0.0.0:8786")).http().host());
+    }
+
+    @Test
+    void theEnvironmentNamesTheInstances(@TempDir Path dir) throws Exception {
+        Path f = dir.resolve("site.toml");
+        Files.writeString(f, String.join("\n", "[[camera]]", "id = \"gate\"", "source = \"rtsp://cam.yard.example/s\"",
+                "[[camera.zone]]", "id = \"lane\"", "polygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]", ""));
+        SiteConfig c = ConfigLoader.load(f, new Environment("south", "north, south", null));
+        assertEquals("south", c.shard().instance());
+        assertEquals(List.of("north", "south"), c.shard().instances());
+        assertEquals(null, ConfigLoader.load(f, Environment.NONE).shard());
+    }
 }
