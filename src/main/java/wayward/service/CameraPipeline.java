@@ -122,13 +122,7 @@ public final class CameraPipeline implements CameraStatus {
             wayward.clip.EvidenceWriter writer) {
     }
 
-    private final Evidence evidence;
-    private final wayward.capture.ClipRecorder recorder;
-    /** Open events' evidence paths (relative to the data folder), by event id; analysis thread only. */
-    private final java.util.Map<String, String[]> openEvidence = new java.util.HashMap<>();
-    private final java.util.Map<String, String> startJson = new java.util.HashMap<>();
-    private static final java.time.format.DateTimeFormatter FILE_TIME =
-            java.time.format.DateTimeFormatter.ofPattern("yyyyMMdd'T'HHmmss'Z'").withZone(java.time.ZoneOffset.UTC);
+    private final EvidenceKeeper evidence;
 
     public CameraPipeline(CameraConfig camera, FlowConfig flowConfig, Consumer<Event> events, Clock clock,
             boolean lossless, boolean realtime, int maxLoops) {
@@ -142,12 +136,10 @@ public final class CameraPipeline implements CameraStatus {
         this.flowConfig = flowConfig;
         this.events = events;
         this.slot = new FrameSlot(lossless);
-        this.evidence = evidence != null && evidence.clips().enabled() ? evidence : null;
-        this.recorder = this.evidence == null ? null : new wayward.capture.ClipRecorder(camera.id(),
-                evidence.clips().preRollSeconds(), evidence.clips().postRollSeconds(), evidence.clips().maxSeconds());
+        this.evidence = new EvidenceKeeper(camera, evidence);
         this.source = new VideoSource(camera.id(), new SourceOptions(camera.source(), camera.loop(), realtime,
-                camera.analysisWidth(), camera.analysisFps(), maxLoops, camera.input()), slot, new HealthEvents(clock),
-                recorder);
+                camera.analysisWidth(), camera.analysisFps(), maxLoops, camera.input()), slot,
+                new HealthEvents(camera.id(), events, clock), this.evidence.recorder());
         this.captureThread = new Thread(() -> {
             MDC.put("camera", camera.id());
             source.run();
@@ -182,35 +174,6 @@ public final class CameraPipeline implements CameraStatus {
         for (int z = 0; z < zones; z++) {
             zoneCoverage.set(z, Double.doubleToRawLongBits(Double.NaN));
             zoneAgainst.set(z, Double.doubleToRawLongBits(Double.NaN));
-        }
-    }
-
-    /** Turns the source's health into camera_lost / camera_back events (capture thread; never blocks). */
-    private final class HealthEvents implements VideoSource.Health {
-        private final Clock clock;
-        private String outageId;
-        private java.time.Instant lostAt;
-
-        HealthEvents(Clock clock) {
-            this.clock = clock;
-        }
-
-        @Override
-        public void lost(String reason, double streamSeconds) {
-            outageId = java.util.UUID.randomUUID().toString();
-            lostAt = clock.instant();
-            LOG.warn("camera {}: lost ({})", camera.id(), reason);
-            events.accept(new Event(outageId, camera.id(), null, wayward.event.EventKind.CAMERA_LOST,
-                    Event.Phase.START, streamSeconds, lostAt, Double.NaN, Double.NaN, Double.NaN, Double.NaN));
-        }
-
-        @Override
-        public void back(double streamSeconds) {
-            java.time.Instant now = clock.instant();
-            double outage = java.time.Duration.between(lostAt, now).toMillis() / 1000.0;
-            LOG.info("camera {}: back after {} s", camera.id(), outage);
-            events.accept(new Event(outageId, camera.id(), null, wayward.event.EventKind.CAMERA_BACK,
-                    Event.Phase.END, streamSeconds, now, Double.NaN, Double.NaN, Double.NaN, outage));
         }
     }
 
@@ -507,7 +470,7 @@ public final class CameraPipeline implements CameraStatus {
                         if (e.phase() == Event.Phase.START) {
                             zoneEvents.incrementAndGet(z);
                         }
-                        emit(withEvidence(e, camera.zones().get(z), f));
+                        emit(evidence.name(e, camera.zones().get(z), f, field));
                     }
                 }
                 if (tamper != null) {
@@ -542,7 +505,7 @@ public final class CameraPipeline implements CameraStatus {
                 Event e = rules.get(z) != null ? rules.get(z).finish(lastStreamSeconds)
                         : moverRules.get(z) != null ? moverRules.get(z).finish(lastStreamSeconds) : null;
                 if (e != null) {
-                    emit(withEvidence(e, camera.zones().get(z), null));
+                    emit(evidence.name(e, camera.zones().get(z), null, field));
                 }
             }
         }
@@ -550,43 +513,7 @@ public final class CameraPipeline implements CameraStatus {
 
     /** Waits for this camera's clip writers to write their trailers (shutdown). */
     public void awaitClips(long timeoutMillis) throws InterruptedException {
-        if (recorder != null) {
-            recorder.awaitWriters(timeoutMillis);
-        }
-    }
-
-    /**
-     * Names the event's evidence and starts or finishes it: at a start, the clip request to the capture thread
-     * and the snapshot of this frame; at an end, the end of the clip (after its post-roll) and the sidecar.
-     */
-    private Event withEvidence(Event e, ZoneConfig zone, GrayFrame frame) {
-        if (evidence == null) {
-            return e;
-        }
-        if (e.phase() == Event.Phase.START) {
-            String base = "clips/" + camera.id() + "/" + FILE_TIME.format(e.at()) + "-" + zone.id() + "-"
-                    + e.id().substring(0, 8);
-            String[] paths = {base + ".mp4", base + ".jpg", base + ".json"};
-            openEvidence.put(e.id(), paths);
-            recorder.start(e.id(), e.streamSeconds(), evidence.dataDir().resolve(paths[0]));
-            if (frame != null) {
-                double minStep = zone.minSpeedPxPerSecond() / camera.analysisFps();
-                evidence.writer().snapshot(wayward.clip.Snapshot.draw(frame, field, zone.xs(), zone.ys(), minStep,
-                        e.mover() == null ? null : e.mover().path()), evidence.dataDir().resolve(paths[1]));
-            }
-            Event named = e.withEvidence(paths[0], paths[1]);
-            startJson.put(e.id(), wayward.event.EventJson.toJson(named));
-            return named;
-        }
-        String[] paths = openEvidence.remove(e.id());
-        if (paths == null) {
-            return e;
-        }
-        recorder.finish(e.id(), e.streamSeconds());
-        Event named = e.withEvidence(paths[0], paths[1]);
-        evidence.writer().sidecar(startJson.remove(e.id()) + "\n" + wayward.event.EventJson.toJson(named) + "\n",
-                evidence.dataDir().resolve(paths[2]));
-        return named;
+        evidence.awaitClips(timeoutMillis);
     }
 
     private void emit(Event e) {
