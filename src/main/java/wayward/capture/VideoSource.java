@@ -198,7 +198,8 @@ public final class VideoSource implements Runnable {
                 } catch (InterruptedException e) {
                     break;
                 } catch (Exception e) {
-                    failure = e.getMessage() == null ? e.getClass().getSimpleName() : e.getMessage();
+                    // FFmpeg's messages quote the address, password included
+                    failure = e.getMessage() == null ? e.getClass().getSimpleName() : Urls.maskIn(e.getMessage());
                 }
                 if (stopping) {
                     break;

@@ -17,6 +17,27 @@ public final class Urls {
         return i > 0 && s.substring(0, i).matches("[A-Za-z][A-Za-z0-9+.-]*");
     }
 
+    /** Where a URL starts inside free text: a scheme and "://". */
+    private static final java.util.regex.Pattern IN_TEXT =
+            java.util.regex.Pattern.compile("[A-Za-z][A-Za-z0-9+.-]*://[^\\s'\"<>]+");
+
+    /**
+     * Free text (an FFmpeg or socket error message) with every URL in it masked: such messages quote the address
+     * they failed on, password included.
+     */
+    public static String maskIn(String text) {
+        if (text == null || text.indexOf("://") < 0) {
+            return text;
+        }
+        java.util.regex.Matcher m = IN_TEXT.matcher(text);
+        StringBuilder b = new StringBuilder();
+        while (m.find()) {
+            m.appendReplacement(b, java.util.regex.Matcher.quoteReplacement(mask(m.group())));
+        }
+        m.appendTail(b);
+        return b.toString();
+    }
+
     /**
      * A URL fit for logs: the password of user:password@ becomes ***, and a query string (where tokens tend to
      * live) becomes ?***. Non-URLs come back unchanged.
