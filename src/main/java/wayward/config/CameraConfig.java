@@ -20,6 +20,11 @@ import wayward.secret.Urls;
  */
 public record CameraConfig(String id, String source, boolean loop, int analysisWidth, double analysisFps,
         boolean removeCameraMotion, SourceInput input, List<ZoneConfig> zones, boolean tamperAlerts) {
+    /** Width the picture is shrunk to for analysis, pixels ({@code analysis_width}). */
+    public static final int DEFAULT_ANALYSIS_WIDTH = 320;
+    /** Most frames analysed per second ({@code analysis_fps}); others are decoded and passed over. */
+    public static final double DEFAULT_ANALYSIS_FPS = 10;
+
 
     public CameraConfig {
         zones = List.copyOf(zones);

@@ -72,14 +72,14 @@ public final class ConfigLoader {
 
     private static SiteConfig bind(TomlParseResult root, Path base, Path file, Environment env, Errors errors) {
         Scope top = new Scope(errors, root, "", TomlPosition.positionAt(1, 1));
-        Path dataDir = base.resolve("data");
-        HttpConfig http = new HttpConfig("127.0.0.1", 8786, null, null);
+        Path dataDir = base.resolve(SiteConfig.DEFAULT_DATA_DIR);
+        HttpConfig http = new HttpConfig(HttpConfig.DEFAULT_HOST, HttpConfig.DEFAULT_PORT, null, null);
         String instance = env.instance();
         List<String> instances = new ArrayList<>();
         TomlTable serviceTable = top.table("service");
         if (serviceTable != null) {
             Scope s = new Scope(errors, serviceTable, "service", root.inputPositionOf(List.of("service")));
-            String dir = s.string("data_dir", "data", "a folder path");
+            String dir = s.string("data_dir", SiteConfig.DEFAULT_DATA_DIR, "a folder path");
             dataDir = base.resolve(dir).normalize();
             http = http(s, base);
             String configured = s.string("instance", null, ID_EXPECTED);
@@ -207,8 +207,8 @@ public final class ConfigLoader {
                 if (url != null && !isHttpUrl(url)) {
                     s.error("url", url, "an http:// or https:// URL with a host");
                 }
-                double timeout = s.number("timeout_seconds", 5.0, 0.1, 300);
-                double maxBackoff = s.number("max_backoff_seconds", 60, 1, 3600);
+                double timeout = s.number("timeout_seconds", WebhookConfig.DEFAULT_TIMEOUT_SECONDS, 0.1, 300);
+                double maxBackoff = s.number("max_backoff_seconds", WebhookConfig.DEFAULT_MAX_BACKOFF_SECONDS, 1, 3600);
                 java.util.Map<String, String> headers = headers(s);
                 String caFile = caFile(s, base, url != null && url.regionMatches(true, 0, "https:", 0, 6));
                 String secretFile = s.string("secret_file", null, "a file holding the signing secret");
@@ -226,11 +226,11 @@ public final class ConfigLoader {
             mqtt = mqtt(new Scope(errors, mqttTable, "mqtt", root.inputPositionOf(List.of("mqtt"))), base);
         }
 
-        long outboxMaxBytes = 256L << 20;
+        long outboxMaxBytes = (long) (SiteConfig.DEFAULT_OUTBOX_MB * (1 << 20));
         TomlTable outboxTable = top.table("outbox");
         if (outboxTable != null) {
             Scope s = new Scope(errors, outboxTable, "outbox", root.inputPositionOf(List.of("outbox")));
-            outboxMaxBytes = (long) (s.number("max_mb", 256, 1, 1_000_000) * (1 << 20));
+            outboxMaxBytes = (long) (s.number("max_mb", SiteConfig.DEFAULT_OUTBOX_MB, 1, 1_000_000) * (1 << 20));
             s.finish();
         }
         top.finish();
@@ -248,7 +248,7 @@ public final class ConfigLoader {
     /** {@code http} ("host:port" or "off") and {@code token_file} of [service]; null when off. */
     private static HttpConfig http(Scope s, Path base) {
         String expected = "\"host:port\" such as \"127.0.0.1:8786\", or \"off\"";
-        String address = s.string("http", "127.0.0.1:8786", expected);
+        String address = s.string("http", HttpConfig.DEFAULT_ADDRESS, expected);
         String tokenFile = s.string("token_file", null, "a file holding the bearer token for the status server");
         byte[] token = tokenFile == null ? null : secret(s, base, "token_file", tokenFile, "bearer token");
         if (address.equals("off")) {
@@ -294,7 +294,7 @@ public final class ConfigLoader {
                 tls = scheme.equals("mqtts");
             }
         }
-        String prefix = s.string("topic_prefix", "wayward", "topic levels without wildcards, e.g. \"yard/north\"");
+        String prefix = s.string("topic_prefix", MqttConfig.DEFAULT_TOPIC_PREFIX, "topic levels without wildcards, e.g. \"yard/north\"");
         if (!prefix.matches("[^#+/\\u0000]+(/[^#+/\\u0000]+)*")) {
             s.error("topic_prefix", prefix, "topic levels without '+', '#', empty levels or a leading or trailing '/'");
             prefix = "wayward";
@@ -321,10 +321,10 @@ public final class ConfigLoader {
             }
             password = secret(s, base, "password_file", passwordFile, "password");
         }
-        int keepAlive = s.integer("keep_alive_seconds", 30, 5, 3600);
+        int keepAlive = s.integer("keep_alive_seconds", MqttConfig.DEFAULT_KEEP_ALIVE_SECONDS, 5, 3600);
         String caFile = caFile(s, base, tls);
-        int inFlight = s.integer("in_flight", 16, 1, 1000);
-        double maxBackoff = s.number("max_backoff_seconds", 30, 1, 3600);
+        int inFlight = s.integer("in_flight", MqttConfig.DEFAULT_IN_FLIGHT, 1, 1000);
+        double maxBackoff = s.number("max_backoff_seconds", MqttConfig.DEFAULT_MAX_BACKOFF_SECONDS, 1, 3600);
         s.finish();
         return url == null ? null : new MqttConfig(url, prefix, clientId, username, passwordFile, password, keepAlive,
                 caFile, inFlight, maxBackoff);
@@ -423,11 +423,11 @@ public final class ConfigLoader {
         } else if (source != null && loop) {
             s.error("loop", true, "false for a URL source; only files can loop");
         }
-        int width = s.integer("analysis_width", 320, 32, 1920);
+        int width = s.integer("analysis_width", CameraConfig.DEFAULT_ANALYSIS_WIDTH, 32, 1920);
         if (width % 2 != 0) {
             s.error("analysis_width", width, "an even number from 32 to 1920");
         }
-        double fps = s.number("analysis_fps", 10, 0.5, 60);
+        double fps = s.number("analysis_fps", CameraConfig.DEFAULT_ANALYSIS_FPS, 0.5, 60);
         boolean removeCameraMotion = s.bool("remove_camera_motion", true);
         boolean tamperAlerts = s.bool("tamper_alerts", true);
         SourceInput d = SourceInput.DEFAULTS;

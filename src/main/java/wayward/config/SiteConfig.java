@@ -22,6 +22,11 @@ import wayward.delivery.WebhookConfig;
  */
 public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
         List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http, ShardConfig shard) {
+    /** The data folder, beside the config file, when {@code data_dir} is not given. */
+    public static final String DEFAULT_DATA_DIR = "data";
+    /** The outbox's bound on disk, MB ({@code [outbox] max_mb}). */
+    public static final double DEFAULT_OUTBOX_MB = 256;
+
     public SiteConfig {
         cameras = List.copyOf(cameras);
         webhooks = List.copyOf(webhooks);

@@ -18,6 +18,13 @@ import wayward.secret.Urls;
  */
 public record MqttConfig(String url, String topicPrefix, String clientId, String username, String passwordFile,
         byte[] password, int keepAliveSeconds, String caFile, int inFlight, double maxBackoffSeconds) {
+    public static final String DEFAULT_TOPIC_PREFIX = "wayward";
+    public static final int DEFAULT_KEEP_ALIVE_SECONDS = 30;
+    /** Publishes sent and not yet acknowledged at most ({@code in_flight}). */
+    public static final int DEFAULT_IN_FLIGHT = 16;
+    /** Longest wait between reconnect attempts ({@code max_backoff_seconds}). */
+    public static final double DEFAULT_MAX_BACKOFF_SECONDS = 30;
+
 
     /** Defaults for everything but the broker address (tests). */
     public static MqttConfig of(String url, String topicPrefix, String clientId) {

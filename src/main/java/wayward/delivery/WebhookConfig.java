@@ -16,6 +16,11 @@ import wayward.secret.Urls;
  */
 public record WebhookConfig(String url, double timeoutSeconds, double maxBackoffSeconds, Map<String, String> headers,
         String caFile, String secretFile, byte[] secret) {
+    /** Seconds an attempt may take ({@code timeout_seconds}). */
+    public static final double DEFAULT_TIMEOUT_SECONDS = 5.0;
+    /** Longest wait between attempts ({@code max_backoff_seconds}). */
+    public static final double DEFAULT_MAX_BACKOFF_SECONDS = 60;
+
     public WebhookConfig {
         headers = java.util.Collections.unmodifiableMap(new java.util.LinkedHashMap<>(headers));
     }
