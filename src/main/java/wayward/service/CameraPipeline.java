@@ -17,14 +17,6 @@ import wayward.event.Event;
 import wayward.flow.FlowEstimator;
 import wayward.flow.FlowField;
 import wayward.image.GrayFrame;
-import wayward.rule.WrongWayRule;
-import wayward.rule.ZoneRule;
-import wayward.zone.HeadingLearner;
-import wayward.zone.MoverSettings;
-import wayward.zone.MoverTracker;
-import wayward.zone.Movers;
-import wayward.zone.ZoneMask;
-import wayward.zone.ZoneMeter;
 import wayward.zone.ZoneReading;
 
 /**
@@ -47,10 +39,8 @@ public final class CameraPipeline implements CameraStatus {
     private volatile long analysedFrames;
     private volatile long analysisNanos;
     private final LiveView live = new LiveView();
-    private final Clock clock;
-    /** Per zone: the heading in use (configured or learned), NaN for a motion zone or one still learning. */
-    private final double[] headings;
-    private final HeadingLearner[] learners;
+    /** Per zone, in the config's order: meter, rule or learner. */
+    private final List<ZoneChannel> channels = new ArrayList<>();
     private volatile java.nio.file.Path learnedDir;
     private volatile ReadingListener readings;
 
@@ -102,14 +92,6 @@ public final class CameraPipeline implements CameraStatus {
     // analysis-thread state
     private FlowEstimator flow;
     private FlowField field;
-    private final List<ZoneMeter> meters = new ArrayList<>();
-    /** Per zone: the share rule of a motion zone, else null. */
-    private final List<ZoneRule> rules = new ArrayList<>();
-    /** Per zone: the mover rule of a zone with a heading, else null (also while learning). */
-    private final List<WrongWayRule> moverRules = new ArrayList<>();
-    /** Per zone: its tracker and movers table (zones with a heading, once the flow's size is known), else null. */
-    private final List<MoverTracker> trackers = new ArrayList<>();
-    private final List<Movers> movers = new ArrayList<>();
     private final ZoneReading reading = new ZoneReading();
 
     /**
@@ -148,23 +130,8 @@ public final class CameraPipeline implements CameraStatus {
             MDC.put("camera", camera.id());
             analyse();
         }, "analysis-" + camera.id());
-        this.clock = clock;
-        this.headings = new double[camera.zones().size()];
-        this.learners = new HeadingLearner[camera.zones().size()];
-        for (int i = 0; i < camera.zones().size(); i++) {
-            ZoneConfig z = camera.zones().get(i);
-            headings[i] = z.headingDeg();
-            if (z.learnsHeading()) {
-                learners[i] = new HeadingLearner(z.learnHeadingSeconds());
-                rules.add(null); // no events while learning
-                moverRules.add(null);
-            } else if (z.hasHeading()) {
-                rules.add(null);
-                moverRules.add(new WrongWayRule(camera.id(), z.id(), z.movers(), clock));
-            } else {
-                rules.add(new ZoneRule(camera.id(), z.id(), false, z.rule(), clock));
-                moverRules.add(null);
-            }
+        for (ZoneConfig z : camera.zones()) {
+            channels.add(new ZoneChannel(camera, z, clock));
         }
         this.tamper = camera.tamperAlerts() ? new wayward.rule.TamperWatch(camera.id(), clock) : null;
         int zones = camera.zones().size();
@@ -292,21 +259,21 @@ public final class CameraPipeline implements CameraStatus {
      */
     public void learnInto(java.nio.file.Path dir) {
         this.learnedDir = dir;
-        for (int i = 0; i < learners.length; i++) {
-            if (learners[i] == null) {
+        for (ZoneChannel c : channels) {
+            if (!c.learning()) {
                 continue;
             }
-            java.nio.file.Path f = LearnedHeadings.file(dir, camera.zones().get(i).id());
+            java.nio.file.Path f = LearnedHeadings.file(dir, c.zone().id());
             try {
                 double h = LearnedHeadings.read(f);
                 if (!Double.isNaN(h)) {
-                    useLearned(i, h);
-                    LOG.info("camera {} zone {}: heading {}° learned earlier ({})", camera.id(),
-                            camera.zones().get(i).id(), String.format(java.util.Locale.ROOT, "%.1f", h), f);
+                    c.useLearned(h, field);
+                    LOG.info("camera {} zone {}: heading {}° learned earlier ({})", camera.id(), c.zone().id(),
+                            String.format(java.util.Locale.ROOT, "%.1f", h), f);
                 }
             } catch (java.io.IOException e) {
                 LOG.warn("camera {} zone {}: cannot read the learned heading ({}); learning again", camera.id(),
-                        camera.zones().get(i).id(), e.getMessage());
+                        c.zone().id(), e.getMessage());
             }
         }
     }
@@ -314,51 +281,13 @@ public final class CameraPipeline implements CameraStatus {
     /** The zone's heading in use: configured, learned, or NaN (motion zone, or still learning). */
     @Override
     public double zoneHeading(int zone) {
-        return headings[zone];
+        return channels.get(zone).heading();
     }
 
     /** True while the zone is still learning its heading. */
     @Override
     public boolean zoneLearning(int zone) {
-        return learners[zone] != null;
-    }
-
-    /** Analysis thread: one reading into the learner; on success the zone becomes a wrong-way zone. */
-    private void learn(int z, double dt) {
-        HeadingLearner l = learners[z];
-        l.add(reading, dt);
-        double h = l.heading();
-        if (Double.isNaN(h)) {
-            return;
-        }
-        ZoneConfig zc = camera.zones().get(z);
-        LOG.info("camera {} zone {}: learned heading {}° from {} s of traffic; alerts on movement against it from now",
-                camera.id(), zc.id(), String.format(java.util.Locale.ROOT, "%.1f", h),
-                String.format(java.util.Locale.ROOT, "%.0f", l.movingSeconds()));
-        useLearned(z, h);
-        java.nio.file.Path dir = learnedDir;
-        if (dir != null) {
-            java.nio.file.Path f = LearnedHeadings.file(dir, zc.id());
-            try {
-                LearnedHeadings.write(f, h, l.movingSeconds());
-            } catch (java.io.IOException e) {
-                LOG.warn("camera {} zone {}: cannot keep the learned heading in {} ({}); it is learned again next start",
-                        camera.id(), zc.id(), f, e.toString());
-            }
-        }
-    }
-
-    private void useLearned(int z, double h) {
-        ZoneConfig zc = camera.zones().get(z);
-        headings[z] = h;
-        learners[z] = null;
-        moverRules.set(z, new WrongWayRule(camera.id(), zc.id(), zc.movers(), clock));
-        if (z < meters.size()) {
-            meters.set(z, new ZoneMeter(meters.get(z).mask(), h, zc.toleranceDeg(), zc.minSpeedPxPerSecond(),
-                    zc.minConfidence(), camera.removeCameraMotion()));
-            trackers.set(z, tracker(meters.get(z).mask(), zc, h));
-            movers.set(z, trackers.get(z).newMovers());
-        }
+        return channels.get(zone).learning();
     }
 
     /** The latest frame and flow for the live view. */
@@ -414,11 +343,8 @@ public final class CameraPipeline implements CameraStatus {
                 double dt = t - previous;
                 if (!Double.isNaN(previous) && (dt <= 0 || dt > MAX_GAP_SECONDS)) {
                     flow.reset();
-                    for (int z = 0; z < trackers.size(); z++) {
-                        if (trackers.get(z) != null) {
-                            trackers.get(z).reset();
-                            movers.get(z).clear();
-                        }
+                    for (ZoneChannel c : channels) {
+                        c.resetTracks();
                     }
                 }
                 long began = System.nanoTime();
@@ -441,36 +367,19 @@ public final class CameraPipeline implements CameraStatus {
                     continue;
                 }
                 live.offer(f, field, dt);
-                for (int z = 0; z < meters.size(); z++) {
-                    meters.get(z).measure(field, dt, t, reading);
+                for (int z = 0; z < channels.size(); z++) {
+                    ZoneChannel c = channels.get(z);
+                    Event e = c.update(field, dt, t, reading, learnedDir);
                     zoneCoverage.set(z, Double.doubleToRawLongBits(reading.coverage));
                     zoneAgainst.set(z, Double.doubleToRawLongBits(reading.against));
-                    if (learners[z] != null) {
-                        learn(z, dt);
-                        if (readings != null) {
-                            readings.reading(camera, z, reading, null, "learning");
-                        }
-                        continue;
-                    }
-                    Event e;
-                    String state;
-                    Movers m = movers.get(z);
-                    if (moverRules.get(z) != null) {
-                        trackers.get(z).update(field, dt, t, m);
-                        e = moverRules.get(z).update(m, reading.against);
-                        state = moverRules.get(z).stateName();
-                    } else {
-                        e = rules.get(z).update(reading);
-                        state = rules.get(z).stateName();
-                    }
                     if (readings != null) {
-                        readings.reading(camera, z, reading, moverRules.get(z) != null ? m : null, state);
+                        readings.reading(camera, z, reading, c.movers(), c.state());
                     }
                     if (e != null) {
                         if (e.phase() == Event.Phase.START) {
                             zoneEvents.incrementAndGet(z);
                         }
-                        emit(evidence.name(e, camera.zones().get(z), f, field));
+                        emit(evidence.name(e, c.zone(), f, field));
                     }
                 }
                 if (tamper != null) {
@@ -501,11 +410,10 @@ public final class CameraPipeline implements CameraStatus {
                     emit(e);
                 }
             }
-            for (int z = 0; z < rules.size(); z++) {
-                Event e = rules.get(z) != null ? rules.get(z).finish(lastStreamSeconds)
-                        : moverRules.get(z) != null ? moverRules.get(z).finish(lastStreamSeconds) : null;
+            for (ZoneChannel c : channels) {
+                Event e = c.finish(lastStreamSeconds);
                 if (e != null) {
-                    emit(evidence.name(e, camera.zones().get(z), null, field));
+                    emit(evidence.name(e, c.zone(), null, field));
                 }
             }
         }
@@ -522,33 +430,16 @@ public final class CameraPipeline implements CameraStatus {
         events.accept(e);
     }
 
-    private MoverTracker tracker(ZoneMask mask, ZoneConfig z, double heading) {
-        return new MoverTracker(mask, field, heading, MoverSettings.of(z.minSpeedPxPerSecond(), z.minConfidence(),
-                z.toleranceDeg()), camera.removeCameraMotion());
-    }
-
     private void setUp(int w, int h) {
         if (flow != null) {
             flow.close();
         }
         flow = FlowEstimator.create(w, h, flowConfig.toSettings());
         field = flow.newField();
-        meters.clear();
-        trackers.clear();
-        movers.clear();
-        for (ZoneConfig z : camera.zones()) {
-            ZoneMask mask = ZoneMask.rasterise(z.xs(), z.ys(), field);
-            if (mask.size() == 0) {
-                LOG.warn("camera {} zone {}: covers no pixel at {}x{}", camera.id(), z.id(), w, h);
-            }
-            double heading = headings[meters.size()];
-            meters.add(new ZoneMeter(mask, heading, z.toleranceDeg(), z.minSpeedPxPerSecond(), z.minConfidence(),
-                    camera.removeCameraMotion()));
-            MoverTracker tracker = Double.isNaN(heading) ? null : tracker(mask, z, heading);
-            trackers.add(tracker);
-            movers.add(tracker == null ? null : tracker.newMovers());
+        for (ZoneChannel c : channels) {
+            c.setUp(field);
         }
         LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {} zones", camera.id(), w, h,
-                flow.levelCount(), meters.size());
+                flow.levelCount(), channels.size());
     }
 }
