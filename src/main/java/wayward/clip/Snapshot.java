@@ -108,18 +108,6 @@ public final class Snapshot {
         return img;
     }
 
-    /** The live view for configured zones, with the headings in use (configured or learned; NaN for none). */
-    public static BufferedImage live(GrayFrame frame, FlowField flow, java.util.List<wayward.config.ZoneConfig> zones,
-            double[] headings, double minStepPixels) {
-        java.util.List<double[]> xs = new java.util.ArrayList<>();
-        java.util.List<double[]> ys = new java.util.ArrayList<>();
-        for (wayward.config.ZoneConfig z : zones) {
-            xs.add(z.xs());
-            ys.add(z.ys());
-        }
-        return live(frame, flow, xs, ys, headings, minStepPixels);
-    }
-
     private static BufferedImage gray(GrayFrame frame) {
         int w = frame.width;
         int h = frame.height;

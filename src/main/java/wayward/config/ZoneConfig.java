@@ -71,4 +71,14 @@ public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg,
     public boolean learnsHeading() {
         return !hasHeading() && learnHeadingSeconds > 0;
     }
+
+    /** The zones' polygons' x fractions, in order (for drawing them). */
+    public static java.util.List<double[]> xsOf(java.util.List<ZoneConfig> zones) {
+        return zones.stream().map(ZoneConfig::xs).toList();
+    }
+
+    /** The zones' polygons' y fractions, in order. */
+    public static java.util.List<double[]> ysOf(java.util.List<ZoneConfig> zones) {
+        return zones.stream().map(ZoneConfig::ys).toList();
+    }
 }

@@ -57,7 +57,8 @@ public final class Annotator implements FrameListener, ReadingListener, AutoClos
         for (int z = 0; z < zones.size(); z++) {
             headings[z] = p.zoneHeading(z);
         }
-        BufferedImage img = Snapshot.live(f, field, zones, headings, ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps());
+        BufferedImage img = Snapshot.live(f, field, ZoneConfig.xsOf(zones), ZoneConfig.ysOf(zones), headings,
+                ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps());
         Graphics2D g = img.createGraphics();
         if (legend == null) {
             legend = wheel(48);

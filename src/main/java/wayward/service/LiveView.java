@@ -71,7 +71,8 @@ public final class LiveView {
     public BufferedImage render(List<ZoneConfig> zones, double[] headingsInUse, double minStepPixels) {
         lock.lock();
         try {
-            return frame == null ? null : Snapshot.live(frame, field, zones, headingsInUse, minStepPixels);
+            return frame == null ? null : Snapshot.live(frame, field, ZoneConfig.xsOf(zones),
+                    ZoneConfig.ysOf(zones), headingsInUse, minStepPixels);
         } finally {
             lock.unlock();
         }
