@@ -452,10 +452,6 @@ public final class VideoSource implements Runnable {
         }
     }
 
-    /** Output height that keeps the aspect ratio for a given output width, rounded to an even number. */
-    public static int heightFor(int srcWidth, int srcHeight, int dstWidth) {
-        return Shrink.heightFor(srcWidth, srcHeight, dstWidth);
-    }
 
     private static void check(int ret, String what) {
         if (ret < 0) {

@@ -8,6 +8,7 @@ import java.util.List;
 import java.util.Set;
 import wayward.config.CameraConfig;
 import wayward.config.SiteConfig;
+import wayward.secret.Urls;
 import wayward.service.Service;
 
 /** Analyses a recorded file as fast as the CPU allows, with one camera's zones; events on stdout. */
@@ -41,7 +42,7 @@ final class ReplayCommand extends Command {
             err.println("wayward replay: --input VIDEO is required");
             return Main.USAGE;
         }
-        if (!CameraConfig.isUrl(input) && !Files.isRegularFile(Path.of(input))) {
+        if (!Urls.isUrl(input) && !Files.isRegularFile(Path.of(input))) {
             err.println("wayward replay: --input " + input + ": file not found");
             return Main.NO_INPUT;
         }
@@ -62,7 +63,7 @@ final class ReplayCommand extends Command {
                     + " cameras; say whose zones to use with --camera ID");
             return Main.USAGE;
         }
-        String source = CameraConfig.isUrl(input) ? input : Path.of(input).toAbsolutePath().toString();
+        String source = Urls.isUrl(input) ? input : Path.of(input).toAbsolutePath().toString();
         CameraConfig replayed = cam.withSource(source, false);
         Service s = new Service(c, List.of(replayed), Service.Mode.REPLAY, out, 0);
         wayward.report.ReplayReport report = null;

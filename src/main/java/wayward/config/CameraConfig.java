@@ -2,7 +2,6 @@ package wayward.config;
 
 import java.util.List;
 import wayward.capture.SourceInput;
-import wayward.capture.Sources;
 import wayward.secret.Urls;
 
 /**
@@ -38,20 +37,6 @@ public record CameraConfig(String id, String source, boolean loop, int analysisW
 
     /** True when the source is a URL rather than a file. */
     public boolean isUrl() {
-        return isUrl(source);
-    }
-
-    /** A webcam device (Video4Linux2), such as /dev/video0 (capture decides: {@link Sources#isDevice}). */
-    public static boolean isDevice(String source) {
-        return Sources.isDevice(source);
-    }
-
-    /** A source that runs on its own and is reconnected when it stops: a URL or a device. */
-    public static boolean isLive(String source) {
-        return Sources.isLive(source);
-    }
-
-    public static boolean isUrl(String source) {
         return Urls.isUrl(source);
     }
 }

@@ -17,10 +17,12 @@ import org.tomlj.TomlParseResult;
 import org.tomlj.TomlPosition;
 import org.tomlj.TomlTable;
 import wayward.capture.SourceInput;
+import wayward.capture.Sources;
 import wayward.delivery.MqttConfig;
 import wayward.delivery.WebhookConfig;
 import wayward.rule.MoverRuleSettings;
 import wayward.rule.RuleSettings;
+import wayward.secret.Urls;
 
 /**
  * Reads a TOML config file (tomlj, TOML 1.0), binds it to {@link SiteConfig} and checks ranges and
@@ -410,11 +412,11 @@ public final class ConfigLoader {
         }
         String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");
         boolean loop = s.bool("loop", false);
-        if (source != null && CameraConfig.isDevice(source)) {
+        if (source != null && Sources.isDevice(source)) {
             if (loop) {
                 s.error("loop", true, "false for a webcam; only files can loop");
             }
-        } else if (source != null && !CameraConfig.isUrl(source)) {
+        } else if (source != null && !Urls.isUrl(source)) {
             Path p = base.resolve(source).normalize();
             if (!Files.isRegularFile(p)) {
                 s.error("source", source, "a video file that exists (looked for " + p + ") or a URL");
@@ -447,7 +449,7 @@ public final class ConfigLoader {
             s.error("device_format", deviceFormat, "a Video4Linux2 input format such as \"mjpeg\" or \"yuyv422\"");
             deviceFormat = null;
         }
-        if (source != null && !CameraConfig.isDevice(source)) {
+        if (source != null && !Sources.isDevice(source)) {
             for (String k : new String[] {"device_size", "device_fps", "device_format"}) {
                 if (s.raw(k) != null) {
                     s.error(k, s.raw(k), "no such key for a source that is not a webcam (/dev/videoN)");

@@ -52,7 +52,7 @@ public final class ConfigPrinter {
         }
         for (WebhookConfig w : c.webhooks()) {
             b.append("\n[[webhook]]\n");
-            b.append("url = ").append(quote(maskUrl(w.url()))).append('\n');
+            b.append("url = ").append(quote(Urls.mask(w.url()))).append('\n');
             b.append("timeout_seconds = ").append(num(w.timeoutSeconds())).append('\n');
             b.append("max_backoff_seconds = ").append(num(w.maxBackoffSeconds())).append('\n');
             if (!w.headers().isEmpty()) {
@@ -73,7 +73,7 @@ public final class ConfigPrinter {
         MqttConfig m = c.mqtt();
         if (m != null) {
             b.append("\n[mqtt]\n");
-            b.append("url = ").append(quote(maskUrl(m.url()))).append('\n');
+            b.append("url = ").append(quote(Urls.mask(m.url()))).append('\n');
             b.append("topic_prefix = ").append(quote(m.topicPrefix())).append('\n');
             b.append("client_id = ").append(quote(m.clientId())).append('\n');
             if (m.username() != null) {
@@ -106,7 +106,7 @@ public final class ConfigPrinter {
     private static void camera(StringBuilder b, CameraConfig cam, boolean masked) {
         b.append("\n[[camera]]\n");
         b.append("id = ").append(quote(cam.id())).append('\n');
-        b.append("source = ").append(quote(masked ? maskUrl(cam.source()) : cam.source())).append('\n');
+        b.append("source = ").append(quote(masked ? Urls.mask(cam.source()) : cam.source())).append('\n');
         b.append("loop = ").append(cam.loop()).append('\n');
         b.append("analysis_width = ").append(cam.analysisWidth()).append('\n');
         b.append("analysis_fps = ").append(num(cam.analysisFps())).append('\n');
@@ -159,11 +159,6 @@ public final class ConfigPrinter {
                 b.append("  rest_seconds = ").append(num(z.rule().restSeconds())).append('\n');
             }
         }
-    }
-
-    /** A URL fit for logs ({@link Urls#mask}, the one place that masks). */
-    public static String maskUrl(String s) {
-        return Urls.mask(s);
     }
 
     private static String num(double d) {

@@ -20,6 +20,7 @@ import wayward.delivery.Outbox;
 import wayward.delivery.PrintSink;
 import wayward.delivery.WebhookConfig;
 import wayward.delivery.WebhookSender;
+import wayward.secret.Urls;
 
 /**
  * Wires cameras to sinks, starts them, and shuts down in order: stop capture → drain analysis → deliver what
@@ -123,7 +124,7 @@ public final class Service {
                         + "least once)", outbox.folder(), config.outboxMaxBytes() >> 20);
                 for (WebhookConfig w : config.webhooks()) {
                     bus.add(new WebhookSender(w), 1000, (long) (w.maxBackoffSeconds() * 1000));
-                    LOG.info("events are posted to {}", ConfigPrinter.maskUrl(w.url()));
+                    LOG.info("events are posted to {}", Urls.mask(w.url()));
                 }
                 if (config.mqtt() != null) {
                     List<String> zones = new ArrayList<>();
@@ -134,7 +135,7 @@ public final class Service {
                     }
                     MqttConfig m = config.mqtt();
                     bus.add(new MqttPublisher(m, zones, runStart), 1000, (long) (m.maxBackoffSeconds() * 1000));
-                    LOG.info("events are published to {} under {}/", ConfigPrinter.maskUrl(m.url()), m.topicPrefix());
+                    LOG.info("events are published to {} under {}/", Urls.mask(m.url()), m.topicPrefix());
                 }
             }
         }
@@ -160,7 +161,7 @@ public final class Service {
             pipelines.add(pipeline(c, config.flow()));
         }
         for (CameraPipeline p : pipelines) {
-            LOG.info("camera {}: starting on {}", p.id(), ConfigPrinter.maskUrl(p.config().source()));
+            LOG.info("camera {}: starting on {}", p.id(), Urls.mask(p.config().source()));
             p.start();
         }
         Thread watcher = new Thread(this::watch, "service-watch");
@@ -295,7 +296,7 @@ public final class Service {
             }
             CameraPipeline p = pipeline(c, next.flow());
             if (pipelines.stream().noneMatch(old -> old.id().equals(c.id()))) {
-                LOG.info("reload: camera {} added; starting on {}", c.id(), ConfigPrinter.maskUrl(c.source()));
+                LOG.info("reload: camera {} added; starting on {}", c.id(), Urls.mask(c.source()));
             }
             p.start();
             now.add(p);

@@ -40,6 +40,8 @@ final class ZoneChannel {
     private MoverTracker tracker;
     private Movers movers;
     private String state = "idle";
+    /** The movers the rule read in the last frame; null when no mover rule ran. */
+    private Movers read;
 
     ZoneChannel(CameraConfig camera, ZoneConfig zone, Clock clock) {
         this.camera = camera;
@@ -103,6 +105,7 @@ final class ZoneChannel {
      */
     Event update(FlowField field, double dt, double t, ZoneReading reading, Path learnedDir) {
         meter.measure(field, dt, t, reading);
+        read = null;
         if (learner != null) {
             learn(reading, dt, field, learnedDir);
             state = "learning";
@@ -112,6 +115,7 @@ final class ZoneChannel {
         if (moverRule != null) {
             tracker.update(field, dt, t, movers);
             e = moverRule.update(movers, reading.against);
+            read = movers;
             state = moverRule.stateName();
         } else {
             e = shareRule.update(reading);
@@ -127,7 +131,7 @@ final class ZoneChannel {
 
     /** The movers of the last frame for a zone whose mover rule ran, else null. */
     Movers movers() {
-        return moverRule != null && !"learning".equals(state) ? movers : null;
+        return read;
     }
 
     /** Closes an open event at the end of the stream; returns its end phase or null. */

@@ -140,8 +140,8 @@ class VideoSourceTest {
 
     @Test
     void keepsAspectRatioWithEvenHeight() {
-        assertEquals(180, VideoSource.heightFor(1280, 720, 320));
-        assertEquals(240, VideoSource.heightFor(640, 480, 320));
-        assertEquals(182, VideoSource.heightFor(1920, 1088, 320));
+        assertEquals(180, Shrink.heightFor(1280, 720, 320));
+        assertEquals(240, Shrink.heightFor(640, 480, 320));
+        assertEquals(182, Shrink.heightFor(1920, 1088, 320));
     }
 }
