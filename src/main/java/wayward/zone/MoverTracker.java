@@ -64,6 +64,13 @@ public final class MoverTracker {
      * small objects lose most of their catch at 6–8 px).
      */
     static final double FAILED_JUMP_PX = 8;
+    /**
+     * Fastest jump a track follows from centroid to centroid when no group turned up near its prediction,
+     * analysis pixels per second: one and a half times a 320-pixel picture's width a second.
+     */
+    static final double MAX_JUMP_PX_PER_SECOND = 480;
+    /** Jumps alike in a row before a run of jumps counts as travel. */
+    static final int JUMPS_ALIKE = 3;
     /** Tracks followed at once at most; at least 4, otherwise a quarter of the zone's samples. */
     static final int MAX_TRACKS = 64;
     private static final byte NONE = 0;
@@ -146,6 +153,13 @@ public final class MoverTracker {
     private final int[] tW;
     private final int[] tH;
     private final int[] tGroup;
+    /** The track's group was found by a jump this frame (see {@code jump}). */
+    private final boolean[] tJumped;
+    /** Where and when the track's run of jumps began (its centroid before the first), and how many in a row. */
+    private final double[] tJumpX;
+    private final double[] tJumpY;
+    private final double[] tJumpT;
+    private final int[] tJumps;
     private long nextId = 1;
     private long untracked;
 
@@ -240,6 +254,11 @@ public final class MoverTracker {
         tW = new int[t];
         tH = new int[t];
         tGroup = new int[t];
+        tJumped = new boolean[t];
+        tJumpX = new double[t];
+        tJumpY = new double[t];
+        tJumpT = new double[t];
+        tJumps = new int[t];
     }
 
     /** Tracks followed at once at most for a zone of {@code samples} samples. */
@@ -568,12 +587,121 @@ public final class MoverTracker {
         return i >= 0 && j >= 0 && i < gridWidth && j < gridHeight ? j * gridWidth + i : -1;
     }
 
+    /**
+     * Follows small movers out of the flow's reach by their jumps. A mover crossing tens of pixels between analysed
+     * frames reads nonsense flow, so its group turns up far from the prediction made from that flow. Groups no
+     * track claimed pair with tracks no group claimed when the track can have jumped there ({@code jumpsTo}), at
+     * most {@link #MAX_JUMP_PX_PER_SECOND} × the time since it was seen (plus the gate and half the larger box)
+     * away, within {@link MoverSettings#lostSeconds}; nearest first. A track already jumping that was paired where
+     * its run predicts goes on jumping while its group moves far and its flow cannot follow ({@code jumpGoesOn}).
+     * The tracker counts a run's travel only once it has {@link #JUMPS_ALIKE} jumps alike, so one chance pairing of
+     * two noise clusters or of two movers counts nothing.
+     */
+    private void jump(double dt, double t) {
+        final int nt = tId.length;
+        for (int k = 0; k < nt; k++) {
+            if (tLive[k] && tGroup[k] >= 0 && tJumps[k] > 0 && jumpGoesOn(k, tGroup[k], dt, t)) {
+                tJumped[k] = true;
+            }
+        }
+        final double lost = settings.lostSeconds() + 1e-6;
+        while (true) {
+            double best = Double.MAX_VALUE;
+            int bt = -1;
+            int bg = -1;
+            for (int k = 0; k < nt; k++) {
+                if (!tLive[k] || tGroup[k] >= 0 || Double.isNaN(tSeenAt[k])) {
+                    continue;
+                }
+                final double since = t - tSeenAt[k];
+                if (!(since > 0 && since <= lost)) {
+                    continue;
+                }
+                for (int g = 0; g < groups; g++) {
+                    if (gTrack[g] >= 0) {
+                        continue;
+                    }
+                    final double d = Math.hypot(gSumX[g] / gCount[g] - tX[k], gSumY[g] / gCount[g] - tY[k]);
+                    final double reach = MAX_JUMP_PX_PER_SECOND * since + settings.gatePx()
+                            + 0.5 * Math.max(Math.max(tW[k], tH[k]), side(g));
+                    if (d > reach || d >= best || !jumpsTo(k, g, since)) {
+                        continue;
+                    }
+                    best = d;
+                    bt = k;
+                    bg = g;
+                }
+            }
+            if (bt < 0) {
+                return;
+            }
+            tGroup[bt] = bg;
+            gTrack[bg] = bt;
+            tJumped[bt] = true;
+        }
+    }
+
+    /** The larger side of group g's box, analysis pixels. */
+    private int side(int g) {
+        return stride * Math.max(gMaxI[g] - gMinI[g] + 1, gMaxJ[g] - gMinJ[g] + 1);
+    }
+
+    /**
+     * True when track k, jumping, jumps again to group g: it can have jumped there ({@code jumpsTo}), and the
+     * group's flow reads less than half the run's speed along it.
+     */
+    private boolean jumpGoesOn(int k, int g, double dt, double t) {
+        final double since = t - tSeenAt[k];
+        if (!(since > 0) || !jumpsTo(k, g, since)) {
+            return false;
+        }
+        final double run = t - tJumpT[k];
+        final double rvx = (gSumX[g] / gCount[g] - tJumpX[k]) / run;
+        final double rvy = (gSumY[g] / gCount[g] - tJumpY[k]) / run;
+        final double speed = Math.hypot(rvx, rvy);
+        // the flow's reading is px per frame pair of dt seconds
+        final double flowAlong = (gVU[g] * rvx + gVV[g] * rvy) / speed;
+        return flowAlong < 0.5 * speed * dt;
+    }
+
+    /**
+     * True when track k can have jumped to group g in {@code since} seconds: the group has at least
+     * {@link #MIN_STEADY_SAMPLES} samples, half to twice the track's peak; the step is at least
+     * {@link #FAILED_JUMP_PX} and half the group's larger side (less, and the flow follows it); and a track already
+     * jumping goes on its way, within the group angle of its run's direction and, after two jumps, at half to twice
+     * its run's speed.
+     */
+    private boolean jumpsTo(int k, int g, double since) {
+        final int n = gCount[g];
+        if (n < MIN_STEADY_SAMPLES || n < 0.5 * tPeak[k] || n > 2.0 * tPeak[k]) {
+            return false;
+        }
+        final double sx = gSumX[g] / n - tX[k];
+        final double sy = gSumY[g] / n - tY[k];
+        final double step = Math.hypot(sx, sy);
+        if (step < FAILED_JUMP_PX || step < 0.5 * side(g)) {
+            return false;
+        }
+        if (tJumps[k] == 0) {
+            return true;
+        }
+        final double rx = tX[k] - tJumpX[k];
+        final double ry = tY[k] - tJumpY[k];
+        final double run = Math.hypot(rx, ry);
+        final double runSpeed = run / (tSeenAt[k] - tJumpT[k]);
+        final double stepSpeed = step / since;
+        // one jump's speed scatters (centroids of fragments a fifteenth of a second apart); a longer run's does not
+        return run > 0 && rx * sx + ry * sy >= cosGroup * run * step
+                && (tJumps[k] < 2 || (stepSpeed >= 0.5 * runSpeed && stepSpeed <= 2.0 * runSpeed));
+    }
+
     /** Pairs groups with tracks, updates them, starts and drops tracks. */
     private void follow(double dt, double t) {
         final int nt = tId.length;
         final double minSpeed = settings.minSpeedPxPerSecond();
         for (int k = 0; k < nt; k++) {
             tGroup[k] = -1;
+            tJumped[k] = false;
         }
         while (true) {
             double best = Double.MAX_VALUE;
@@ -619,6 +747,7 @@ public final class MoverTracker {
             tGroup[bt] = bg;
             gTrack[bg] = bt;
         }
+        jump(dt, t);
         for (int g = 0; g < groups; g++) {
             if (gCount[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
                 continue;
@@ -645,6 +774,7 @@ public final class MoverTracker {
             tDistance[free] = 0;
             tMovingSeconds[free] = 0;
             tPeak[free] = 0;
+            tJumps[free] = 0;
             tGroup[free] = g;
             gTrack[g] = free;
         }
@@ -666,8 +796,31 @@ public final class MoverTracker {
             final double m = Math.sqrt(vu * vu + vv * vv);
             final double cx = gSumX[g] / gCount[g];
             final double cy = gSumY[g] / gCount[g];
-            final boolean flowFailed = flowFailed(k, g, cx, cy, dt, t);
-            if (hasHeading && centreInZone(cx, cy)) {
+            final boolean jumping = tJumped[k]; // see jump
+            if (jumping && tJumps[k] == 0) {
+                tJumpX[k] = tX[k];
+                tJumpY[k] = tY[k];
+                tJumpT[k] = tSeenAt[k];
+            }
+            tJumps[k] = jumping ? tJumps[k] + 1 : 0;
+            final boolean flowFailed = jumping || flowFailed(k, g, cx, cy, dt, t);
+            final boolean inZone = centreInZone(cx, cy);
+            if (hasHeading && inZone && jumping) {
+                // a run's travel counts once it has enough jumps alike: then all of it from where it began
+                final boolean first = tJumps[k] == JUMPS_ALIKE;
+                if (tJumps[k] >= JUMPS_ALIKE && (first || !Double.isNaN(tEntryX[k]))) {
+                    final double sx = cx - (first ? tJumpX[k] : tEntryX[k]);
+                    final double sy = cy - (first ? tJumpY[k] : tEntryY[k]);
+                    final double step = Math.sqrt(sx * sx + sy * sy);
+                    final double stepAlong = sx * ax + sy * ay;
+                    if (step > 0 && (stepAlong >= cosTolerance * step || -stepAlong >= cosTolerance * step)) {
+                        tCentroidTravel[k] += stepAlong;
+                    }
+                }
+                tEntryX[k] = cx;
+                tEntryY[k] = cy;
+                tTravel[k] = Math.max(tFlowTravel[k], tCentroidTravel[k]);
+            } else if (hasHeading && inZone) {
                 final double along = vu * ax + vv * ay;
                 // against adds, with subtracts (a sway back and forth cancels), crossing adds nothing
                 if (!flowFailed && m > 0 && (along >= cosTolerance * m || -along >= cosTolerance * m)) {
@@ -694,12 +847,23 @@ public final class MoverTracker {
                 tEntryX[k] = cx;
                 tEntryY[k] = cy;
                 tTravel[k] = Math.max(tFlowTravel[k], tCentroidTravel[k]);
+            } else {
+                // outside: the next step inside starts afresh (a step from an old sighting is no step)
+                tEntryX[k] = Double.NaN;
             }
             tDistance[k] += m;
             tMovingSeconds[k] += dt;
             double fvx = vu / dt;
             double fvy = vv / dt;
-            if (flowFailed) {
+            if (jumping) {
+                // the run's mean velocity: single steps between noisy centroids a fifteenth of a second apart
+                // scatter too much to predict with
+                final double run = t - tJumpT[k];
+                fvx = (cx - tJumpX[k]) / run;
+                fvy = (cy - tJumpY[k]) / run;
+                tPredVx[k] = fvx;
+                tPredVy[k] = fvy;
+            } else if (flowFailed) {
                 // the track goes on with its centroid's velocity, not the failed reading
                 final double since = t - tSeenAt[k];
                 fvx = (cx - tX[k]) / since;

@@ -109,6 +109,42 @@ class MoverTrackerTest {
     }
 
     @Test
+    void aSmallMoverThatTheFlowNeverFollowsIsFollowedByItsJumps() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        // 3 × 3 samples jumping 32 px down per frame (320 px/s, three times its size), with the flow reading a small
+        // wrong motion every time (a pyramid's answer when the object is gone from one frame to the next)
+        for (int n = 1; n <= 5; n++) {
+            ground(f, null, 0);
+            box(f, 150, 8 + 32 * (n - 1), 3, 3, 2, -1, null, 0);
+            t.update(f, DT, n * DT, m);
+        }
+        int k = slotOf(m);
+        // analytic: nothing counts until three jumps alike (frame 4), then the run from frame 1's centroid: 3 × 32;
+        // then 32 for frame 5
+        assertEquals(4 * 32, m.travelPx(k), 0.5);
+        assertEquals(320, m.vy(k), 0.5);
+    }
+
+    @Test
+    void groupsFlickeringBetweenTwoPlacesGainNoTravelByJumps() {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        // a 3 × 3 patch that appears 32 px lower and back again (a shaking mast, a blinking lamp): jumps that never
+        // go on one way are not a run
+        double maxTravel = 0;
+        for (int n = 1; n <= 12; n++) {
+            ground(f, null, 0);
+            box(f, 150, n % 2 == 0 ? 92 : 60, 3, 3, 2, -1, null, 0);
+            t.update(f, DT, n * DT, m);
+            maxTravel = Math.max(maxTravel, largestTravel(m));
+        }
+        assertEquals(0, maxTravel, 1e-9);
+    }
+
+    @Test
     void aSlowGroupWhoseOutlineJumpsGainsNoTravelFromIt() {
         FlowField f = field();
         MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
