@@ -73,17 +73,11 @@ public final class MoverTracker {
     static final int JUMPS_ALIKE = 3;
     /** Tracks followed at once at most; at least 4, otherwise a quarter of the zone's samples. */
     static final int MAX_TRACKS = 64;
-    private static final byte NONE = 0;
-    private static final byte FULL = 1;
-    private static final byte EDGE = 2;
-    /** A textured sample (full vector) that does not move: still ground. */
-    private static final byte STILL = 3;
     /** How far ahead of a track's centroid still ground is looked for, analysis pixels. */
     static final double LOOK_AHEAD_PX = 160;
 
     private final ZoneMask mask;
     private final MoverSettings settings;
-    private final boolean removeCameraMotion;
     private final int gridWidth;
     private final int gridHeight;
     private final int imageWidth;
@@ -94,41 +88,9 @@ public final class MoverTracker {
     private final float againstY;
     private final float cosTolerance;
     private final float cosGroup;
-    private final float cosEdge;
 
-    // per zone sample
-    private final int[] idx;
-    private final boolean[] inZone;
-    private final float[] px;
-    private final float[] py;
-    private final float[] emaU;
-    private final float[] emaV;
-    private final float[] wu;
-    private final float[] wv;
-    private final float[] nx;
-    private final float[] ny;
-    private final byte[] kind;
-    private final int[] label;
-    private final int[] queue;
-    // per group
-    private final int[] gCount;
-    private final int[] gMinI;
-    private final int[] gMaxI;
-    private final int[] gMinJ;
-    private final int[] gMaxJ;
-    private final double[] gSumX;
-    private final double[] gSumY;
-    private final double[] gA11;
-    private final double[] gA12;
-    private final double[] gA22;
-    private final double[] gB1;
-    private final double[] gB2;
-    private final float[] gDirX;
-    private final float[] gDirY;
-    private final double[] gVU;
-    private final double[] gVV;
+    private final MoverGroups gr;
     private final int[] gTrack;
-    private int groups;
     // per track
     private final long[] tId;
     private final boolean[] tLive;
@@ -179,7 +141,6 @@ public final class MoverTracker {
         }
         this.mask = mask;
         this.settings = settings;
-        this.removeCameraMotion = removeCameraMotion;
         this.gridWidth = mask.width;
         this.gridHeight = mask.height;
         this.imageWidth = layout.imageWidth;
@@ -192,46 +153,10 @@ public final class MoverTracker {
         this.againstY = (float) Math.cos(h);
         this.cosTolerance = (float) Math.cos(Math.toRadians(settings.toleranceDeg()));
         this.cosGroup = (float) Math.cos(Math.toRadians(settings.groupAngleDeg()));
-        this.cosEdge = (float) Math.cos(Math.toRadians(Math.min(85, settings.groupAngleDeg() + 30)));
-        idx = mask.indices();
+        gr = new MoverGroups(mask, layout, settings, removeCameraMotion);
         int n = gridWidth * gridHeight;
-        inZone = new boolean[n];
-        for (int k : idx) {
-            inZone[k] = true;
-        }
-        px = new float[n];
-        py = new float[n];
-        for (int k = 0; k < n; k++) {
-            px[k] = layout.pixelX(k % gridWidth);
-            py[k] = layout.pixelY(k / gridWidth);
-        }
-        emaU = new float[n];
-        emaV = new float[n];
-        wu = new float[n];
-        wv = new float[n];
-        nx = new float[n];
-        ny = new float[n];
-        kind = new byte[n];
-        label = new int[n];
-        queue = new int[n];
-        gCount = new int[n];
-        gMinI = new int[n];
-        gMaxI = new int[n];
-        gMinJ = new int[n];
-        gMaxJ = new int[n];
-        gSumX = new double[n];
-        gSumY = new double[n];
-        gA11 = new double[n];
-        gA12 = new double[n];
-        gA22 = new double[n];
-        gB1 = new double[n];
-        gB2 = new double[n];
-        gDirX = new float[n];
-        gDirY = new float[n];
-        gVU = new double[n];
-        gVV = new double[n];
         gTrack = new int[n];
-        int t = capacity(idx.length);
+        int t = capacity(gr.zoneSamples());
         tId = new long[t];
         tLive = new boolean[t];
         tBorn = new double[t];
@@ -283,8 +208,7 @@ public final class MoverTracker {
     /** Forgets every track and the averaged flow (the flow restarted after a gap). */
     public void reset() {
         Arrays.fill(tLive, false);
-        Arrays.fill(emaU, 0f);
-        Arrays.fill(emaV, 0f);
+        gr.reset();
     }
 
     /**
@@ -305,8 +229,7 @@ public final class MoverTracker {
         if (out.capacity() != tId.length) {
             throw new IllegalArgumentException("out: capacity " + out.capacity() + " (expected " + tId.length + ")");
         }
-        classify(flow, frameSeconds);
-        group();
+        gr.find(flow, frameSeconds);
         follow(frameSeconds, streamSeconds);
         out.begin(streamSeconds, imageWidth, imageHeight, stride);
         for (int t = 0; t < tId.length; t++) {
@@ -338,212 +261,22 @@ public final class MoverTracker {
         final double uy = tVy[t] / speed;
         final double step = 0.5 * stride;
         for (double d = step; d <= LOOK_AHEAD_PX; d += step) {
-            final int k = sampleAt(tX[t] + ux * d, tY[t] + uy * d);
+            final int k = gr.sampleAt(tX[t] + ux * d, tY[t] + uy * d);
             if (k < 0) {
                 break;
             }
-            if (kind[k] == STILL) {
+            if (gr.kind[k] == MoverGroups.STILL) {
                 return d;
             }
         }
         return Double.POSITIVE_INFINITY;
     }
 
-    /** Votes, averaged flow and which samples move. */
-    private void classify(FlowField flow, double dt) {
-        final int n = gridWidth * gridHeight;
-        final float[] u = flow.u;
-        final float[] v = flow.v;
-        final float[] conf = flow.confidence;
-        final float[] edge = flow.edge;
-        final float[] fnx = flow.normalX;
-        final float[] fny = flow.normalY;
-        final float minConf = (float) settings.minConfidence();
-        final float camU = removeCameraMotion ? flow.globalU : 0f;
-        final float camV = removeCameraMotion ? flow.globalV : 0f;
-        final float minStep = (float) (settings.minSpeedPxPerSecond() * dt);
-        final float minStep2 = minStep * minStep;
-        final boolean slow = settings.slowSeconds() > 0;
-        final float slowStep = (float) (settings.slowMinSpeedPxPerSecond() * dt);
-        final float slowStep2 = slowStep * slowStep;
-        // the average starts from zero: seeding it with a first noisy frame would make every sample slow-moving
-        final float alpha = !slow ? 1f : (float) (1 - Math.exp(-dt / settings.slowSeconds()));
-        for (int k = 0; k < n; k++) {
-            final int i = k;
-            final float du = u[i] - camU;
-            final float dv = v[i] - camV;
-            float voteU;
-            float voteV;
-            byte what;
-            if (conf[i] >= minConf) {
-                voteU = du;
-                voteV = dv;
-                what = FULL;
-            } else if (edge[i] >= minConf) {
-                final float ex = fnx[i];
-                final float ey = fny[i];
-                final float s = du * ex + dv * ey;
-                voteU = s * ex;
-                voteV = s * ey;
-                nx[k] = ex;
-                ny[k] = ey;
-                what = EDGE;
-            } else {
-                voteU = 0f;
-                voteV = 0f;
-                what = NONE;
-            }
-            final float au = emaU[k] + alpha * (voteU - emaU[k]);
-            final float av = emaV[k] + alpha * (voteV - emaV[k]);
-            emaU[k] = au;
-            emaV[k] = av;
-            final float m2 = voteU * voteU + voteV * voteV;
-            if (what != NONE && m2 >= minStep2 && m2 > 0f) {
-                wu[k] = voteU;
-                wv[k] = voteV;
-                kind[k] = what;
-            } else if (what != NONE && slow) {
-                final float a2 = au * au + av * av;
-                if (a2 >= slowStep2 && a2 > 0f && voteU * au + voteV * av >= 0.5f * a2) {
-                    wu[k] = au;
-                    wv[k] = av;
-                    kind[k] = what;
-                } else {
-                    kind[k] = what == FULL ? STILL : NONE;
-                }
-            } else {
-                kind[k] = what == FULL ? STILL : NONE;
-            }
-        }
-    }
-
-    /** Connected groups of samples moving alike: full samples seed first, then edge samples. */
-    private void group() {
-        final int[] ix = idx;
-        Arrays.fill(label, -1);
-        groups = 0;
-        for (int pass = 0; pass < 2; pass++) {
-            final byte seedKind = pass == 0 ? FULL : EDGE;
-            for (int z = 0; z < ix.length; z++) {
-                final int k = ix[z];
-                if (kind[k] != seedKind || label[k] >= 0) {
-                    continue;
-                }
-                grow(k, groups++);
-            }
-        }
-        for (int g = 0; g < groups; g++) {
-            solve(g);
-        }
-    }
-
-    private void grow(int seed, int g) {
-        final int w = gridWidth;
-        final int h = gridHeight;
-        gCount[g] = 0;
-        gMinI[g] = Integer.MAX_VALUE;
-        gMaxI[g] = Integer.MIN_VALUE;
-        gMinJ[g] = Integer.MAX_VALUE;
-        gMaxJ[g] = Integer.MIN_VALUE;
-        gSumX[g] = 0;
-        gSumY[g] = 0;
-        gA11[g] = 0;
-        gA12[g] = 0;
-        gA22[g] = 0;
-        gB1[g] = 0;
-        gB2[g] = 0;
-        gDirX[g] = 0f;
-        gDirY[g] = 0f;
-        gTrack[g] = -1;
-        int head = 0;
-        int tail = 0;
-        label[seed] = g;
-        add(seed, g);
-        queue[tail++] = seed;
-        while (head < tail) {
-            final int k = queue[head++];
-            final int i0 = k % w;
-            final int j0 = k / w;
-            for (int j = Math.max(0, j0 - 2); j <= Math.min(h - 1, j0 + 2); j++) {
-                final int row = j * w;
-                for (int i = Math.max(0, i0 - 2); i <= Math.min(w - 1, i0 + 2); i++) {
-                    final int q = row + i;
-                    if (label[q] >= 0 || (kind[q] != FULL && kind[q] != EDGE)) {
-                        continue;
-                    }
-                    final float dx = gDirX[g];
-                    final float dy = gDirY[g];
-                    final float dot = wu[q] * dx + wv[q] * dy;
-                    final float lim = kind[q] == FULL ? cosGroup : cosEdge;
-                    final float len = (float) Math.sqrt((wu[q] * wu[q] + wv[q] * wv[q]) * (dx * dx + dy * dy));
-                    if (dot < lim * len) {
-                        continue;
-                    }
-                    label[q] = g;
-                    add(q, g);
-                    queue[tail++] = q;
-                }
-            }
-        }
-    }
-
-    private void add(int k, int g) {
-        final int i = k % gridWidth;
-        final int j = k / gridWidth;
-        gCount[g]++;
-        if (i < gMinI[g]) {
-            gMinI[g] = i;
-        }
-        if (i > gMaxI[g]) {
-            gMaxI[g] = i;
-        }
-        if (j < gMinJ[g]) {
-            gMinJ[g] = j;
-        }
-        if (j > gMaxJ[g]) {
-            gMaxJ[g] = j;
-        }
-        gSumX[g] += px[k];
-        gSumY[g] += py[k];
-        final float a = wu[k];
-        final float b = wv[k];
-        final float m = (float) Math.sqrt(a * a + b * b);
-        gDirX[g] += a / m;
-        gDirY[g] += b / m;
-        if (kind[k] == FULL) {
-            gA11[g] += 1;
-            gA22[g] += 1;
-            gB1[g] += a;
-            gB2[g] += b;
-        } else {
-            // one constraint V·n = s; the vote is s·n, so s = vote·n
-            final float ex = nx[k];
-            final float ey = ny[k];
-            final float s = a * ex + b * ey;
-            gA11[g] += ex * ex;
-            gA12[g] += ex * ey;
-            gA22[g] += ey * ey;
-            gB1[g] += s * ex;
-            gB2[g] += s * ey;
-        }
-    }
-
-    /** The group's least-squares velocity, px per frame pair. */
-    private void solve(int g) {
-        final double eps = 0.01 * gCount[g];
-        final double a = gA11[g] + eps;
-        final double b = gA12[g];
-        final double c = gA22[g] + eps;
-        final double det = a * c - b * b;
-        gVU[g] = (c * gB1[g] - b * gB2[g]) / det;
-        gVV[g] = (a * gB2[g] - b * gB1[g]) / det;
-    }
-
     /** The group keeps the track's size and shape: samples within 0.6–1.6×, box sides within 8 px or a half. */
     private boolean steady(int k, int g) {
-        final int n = gCount[g];
-        final int w = (gMaxI[g] - gMinI[g] + 1) * stride;
-        final int h = (gMaxJ[g] - gMinJ[g] + 1) * stride;
+        final int n = gr.count[g];
+        final int w = (gr.maxI[g] - gr.minI[g] + 1) * stride;
+        final int h = (gr.maxJ[g] - gr.minJ[g] + 1) * stride;
         return n >= 0.6 * tSamples[k] && n <= 1.6 * tSamples[k]
                 && Math.abs(w - tW[k]) <= Math.max(8, 0.5 * tW[k]) && Math.abs(h - tH[k]) <= Math.max(8, 0.5 * tH[k]);
     }
@@ -558,7 +291,7 @@ public final class MoverTracker {
      * half of the predicted jump (plus a stride): where it should be, not a large group whose outline changed.
      */
     private boolean flowFailed(int k, int g, double cx, double cy, double dt, double t) {
-        if (Double.isNaN(tSeenAt[k]) || Math.abs(tSeenAt[k] - (t - dt)) > 1e-6 || gCount[g] < MIN_STEADY_SAMPLES) {
+        if (Double.isNaN(tSeenAt[k]) || Math.abs(tSeenAt[k] - (t - dt)) > 1e-6 || gr.count[g] < MIN_STEADY_SAMPLES) {
             return false;
         }
         final double tvx = tVx[k];
@@ -568,23 +301,9 @@ public final class MoverTracker {
         if (!(predicted >= FAILED_JUMP_PX)) {
             return false;
         }
-        final double flowAlong = (gVU[g] * tvx + gVV[g] * tvy) / (dt * speed);
+        final double flowAlong = (gr.vu[g] * tvx + gr.vv[g] * tvy) / (dt * speed);
         final double stepAlong = ((cx - tX[k]) * tvx + (cy - tY[k]) * tvy) / speed;
         return flowAlong < 0.5 * speed && stepAlong >= 0.25 * predicted && stepAlong <= 1.5 * predicted + stride;
-    }
-
-    /** True when the sample nearest to the point (analysis pixels) is one of the zone's. */
-    private boolean centreInZone(double x, double y) {
-        int k = sampleAt(x, y);
-        return k >= 0 && inZone[k];
-    }
-
-    /** Index of the sample nearest to the point (analysis pixels), or -1 outside the sample grid. */
-    private int sampleAt(double x, double y) {
-        final int half = stride / 2; // as FlowField.pixelX places samples: whole pixels
-        int i = (int) Math.round((x - half) / stride);
-        int j = (int) Math.round((y - half) / stride);
-        return i >= 0 && j >= 0 && i < gridWidth && j < gridHeight ? j * gridWidth + i : -1;
     }
 
     /**
@@ -617,13 +336,13 @@ public final class MoverTracker {
                 if (!(since > 0 && since <= lost)) {
                     continue;
                 }
-                for (int g = 0; g < groups; g++) {
+                for (int g = 0; g < gr.groups; g++) {
                     if (gTrack[g] >= 0) {
                         continue;
                     }
-                    final double d = Math.hypot(gSumX[g] / gCount[g] - tX[k], gSumY[g] / gCount[g] - tY[k]);
+                    final double d = Math.hypot(gr.sumX[g] / gr.count[g] - tX[k], gr.sumY[g] / gr.count[g] - tY[k]);
                     final double reach = MAX_JUMP_PX_PER_SECOND * since + settings.gatePx()
-                            + 0.5 * Math.max(Math.max(tW[k], tH[k]), side(g));
+                            + 0.5 * Math.max(Math.max(tW[k], tH[k]), gr.side(g));
                     if (d > reach || d >= best || !jumpsTo(k, g, since)) {
                         continue;
                     }
@@ -641,11 +360,6 @@ public final class MoverTracker {
         }
     }
 
-    /** The larger side of group g's box, analysis pixels. */
-    private int side(int g) {
-        return stride * Math.max(gMaxI[g] - gMinI[g] + 1, gMaxJ[g] - gMinJ[g] + 1);
-    }
-
     /**
      * True when track k, jumping, jumps again to group g: it can have jumped there ({@code jumpsTo}), and the
      * group's flow reads less than half the run's speed along it.
@@ -656,11 +370,11 @@ public final class MoverTracker {
             return false;
         }
         final double run = t - tJumpT[k];
-        final double rvx = (gSumX[g] / gCount[g] - tJumpX[k]) / run;
-        final double rvy = (gSumY[g] / gCount[g] - tJumpY[k]) / run;
+        final double rvx = (gr.sumX[g] / gr.count[g] - tJumpX[k]) / run;
+        final double rvy = (gr.sumY[g] / gr.count[g] - tJumpY[k]) / run;
         final double speed = Math.hypot(rvx, rvy);
         // the flow's reading is px per frame pair of dt seconds
-        final double flowAlong = (gVU[g] * rvx + gVV[g] * rvy) / speed;
+        final double flowAlong = (gr.vu[g] * rvx + gr.vv[g] * rvy) / speed;
         return flowAlong < 0.5 * speed * dt;
     }
 
@@ -672,14 +386,14 @@ public final class MoverTracker {
      * its run's speed.
      */
     private boolean jumpsTo(int k, int g, double since) {
-        final int n = gCount[g];
+        final int n = gr.count[g];
         if (n < MIN_STEADY_SAMPLES || n < 0.5 * tPeak[k] || n > 2.0 * tPeak[k]) {
             return false;
         }
-        final double sx = gSumX[g] / n - tX[k];
-        final double sy = gSumY[g] / n - tY[k];
+        final double sx = gr.sumX[g] / n - tX[k];
+        final double sy = gr.sumY[g] / n - tY[k];
         final double step = Math.hypot(sx, sy);
-        if (step < FAILED_JUMP_PX || step < 0.5 * side(g)) {
+        if (step < FAILED_JUMP_PX || step < 0.5 * gr.side(g)) {
             return false;
         }
         if (tJumps[k] == 0) {
@@ -703,6 +417,7 @@ public final class MoverTracker {
             tGroup[k] = -1;
             tJumped[k] = false;
         }
+        Arrays.fill(gTrack, 0, gr.groups, -1);
         while (true) {
             double best = Double.MAX_VALUE;
             int bt = -1;
@@ -716,15 +431,15 @@ public final class MoverTracker {
                 final double ey = tY[k] + tPredVy[k] * since;
                 final double gate = settings.gatePx() + 0.5 * Math.max(tW[k], tH[k]);
                 final double tSpeed2 = tVx[k] * tVx[k] + tVy[k] * tVy[k];
-                for (int g = 0; g < groups; g++) {
-                    if (gCount[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
+                for (int g = 0; g < gr.groups; g++) {
+                    if (gr.count[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
                         continue;
                     }
-                    final double gvx = gVU[g] / dt;
-                    final double gvy = gVV[g] / dt;
+                    final double gvx = gr.vu[g] / dt;
+                    final double gvy = gr.vv[g] / dt;
                     final double gSpeed2 = gvx * gvx + gvy * gvy;
-                    final double cx = gSumX[g] / gCount[g];
-                    final double cy = gSumY[g] / gCount[g];
+                    final double cx = gr.sumX[g] / gr.count[g];
+                    final double cy = gr.sumY[g] / gr.count[g];
                     final double d = Math.hypot(cx - ex, cy - ey);
                     if (gvx * tVx[k] + gvy * tVy[k] < 0 && gSpeed2 > minSpeed * minSpeed
                             && tSpeed2 > minSpeed * minSpeed && d > 0.5 * gate) {
@@ -732,8 +447,8 @@ public final class MoverTracker {
                         // same mover (where predicted it is, since the flow of a fast small mover can fail)
                         continue;
                     }
-                    final boolean inside = ex >= (double) gMinI[g] * stride - stride && ex <= (gMaxI[g] + 2.0) * stride
-                            && ey >= (double) gMinJ[g] * stride - stride && ey <= (gMaxJ[g] + 2.0) * stride;
+                    final boolean inside = ex >= (double) gr.minI[g] * stride - stride && ex <= (gr.maxI[g] + 2.0) * stride
+                            && ey >= (double) gr.minJ[g] * stride - stride && ey <= (gr.maxJ[g] + 2.0) * stride;
                     if ((d <= gate || inside) && d < best) {
                         best = d;
                         bt = k;
@@ -748,8 +463,8 @@ public final class MoverTracker {
             gTrack[bg] = bt;
         }
         jump(dt, t);
-        for (int g = 0; g < groups; g++) {
-            if (gCount[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
+        for (int g = 0; g < gr.groups; g++) {
+            if (gr.count[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
                 continue;
             }
             int free = -1;
@@ -791,11 +506,11 @@ public final class MoverTracker {
                 }
                 continue;
             }
-            final double vu = gVU[g];
-            final double vv = gVV[g];
+            final double vu = gr.vu[g];
+            final double vv = gr.vv[g];
             final double m = Math.sqrt(vu * vu + vv * vv);
-            final double cx = gSumX[g] / gCount[g];
-            final double cy = gSumY[g] / gCount[g];
+            final double cx = gr.sumX[g] / gr.count[g];
+            final double cy = gr.sumY[g] / gr.count[g];
             final boolean jumping = tJumped[k]; // see jump
             if (jumping && tJumps[k] == 0) {
                 tJumpX[k] = tX[k];
@@ -804,7 +519,7 @@ public final class MoverTracker {
             }
             tJumps[k] = jumping ? tJumps[k] + 1 : 0;
             final boolean flowFailed = jumping || flowFailed(k, g, cx, cy, dt, t);
-            final boolean inZone = centreInZone(cx, cy);
+            final boolean inZone = gr.centreInZone(cx, cy);
             if (hasHeading && inZone && jumping) {
                 // a run's travel counts once it has enough jumps alike: then all of it from where it began
                 final boolean first = tJumps[k] == JUMPS_ALIKE;
@@ -830,7 +545,7 @@ public final class MoverTracker {
                 // fails (tens of pixels a frame) still shows its travel here; a group that grows, shrinks or
                 // changes shape (shake, flicker, a crowd merging) moves its centroid without travelling
                 if (!Double.isNaN(tEntryX[k]) && Math.abs(tSeenAt[k] - (t - dt)) < 1e-6 && steady(k, g)
-                        && gCount[g] >= MIN_STEADY_SAMPLES) {
+                        && gr.count[g] >= MIN_STEADY_SAMPLES) {
                     final double sx = cx - tEntryX[k];
                     final double sy = cy - tEntryY[k];
                     final double step = Math.sqrt(sx * sx + sy * sy);
@@ -884,10 +599,10 @@ public final class MoverTracker {
             tVx[k] = fvx;
             tVy[k] = fvy;
             tSeenAt[k] = t;
-            tSamples[k] = gCount[g];
-            tPeak[k] = Math.max(tPeak[k], gCount[g]);
-            tW[k] = (gMaxI[g] - gMinI[g] + 1) * stride;
-            tH[k] = (gMaxJ[g] - gMinJ[g] + 1) * stride;
+            tSamples[k] = gr.count[g];
+            tPeak[k] = Math.max(tPeak[k], gr.count[g]);
+            tW[k] = (gr.maxI[g] - gr.minI[g] + 1) * stride;
+            tH[k] = (gr.maxJ[g] - gr.minJ[g] + 1) * stride;
         }
     }
 }
