@@ -7,8 +7,27 @@ import wayward.flow.FlowField;
  * The moving samples of one flow field and their coherent groups, for {@link MoverTracker}: which samples move
  * (full vectors, normal flow on straight edges, or a slow average) and which are still textured ground, and the
  * connected groups of samples moving alike with each group's size, box, centroid and least-squares velocity (see
- * the tracker's class comment for the rules). Every array is sized at construction from the sample grid; groups
+ * the tracker's class comment for the grouping). Every array is sized at construction from the sample grid; groups
  * may grow past the zone. {@link #find} allocates nothing.
+ *
+ * <p><b>What moves.</b> The picture's common motion is subtracted first when the camera's motion is removed.
+ * A sample whose structure tensor's smaller eigenvalue reaches the confidence floor votes with its flow. One
+ * below that floor whose larger eigenvalue reaches it lies on a straight edge, where only the motion across the
+ * edge is measured (the aperture problem): it votes with its normal flow s·n, s = (u, v)·n. A plain van's roof
+ * only shows its motion at its rim, and those rim samples are what makes it a mover. A sample with neither
+ * does not move. The group's velocity is the least-squares velocity of all its constraints: a full sample
+ * says V = (u, v), an edge sample says V·n = s (the intersection of constraints of Adelson &amp; Movshon 1982),
+ * lightly regularised so that a group of parallel edges alone reads its motion across them.
+ *
+ * <p><b>Slow movers.</b> A crawl of half a pixel per analysed frame is below the speed floor, and lowering the
+ * floor lets sensor noise through. Instead every sample keeps an exponential average of its vote (time
+ * constant {@link MoverSettings#slowSeconds}, in stream time): noise, which changes sign from frame to frame,
+ * averages towards 0 (its spread shrinks by about √(α / (2 − α)), a quarter at 0.75 s and 10 frames a second),
+ * while a steady crawl keeps its value. A sample also moves when its averaged flow reaches the slow floor and its
+ * present flow agrees with the average (its projection on the average is at least half the average's length):
+ * the agreement test keeps the decaying average behind a fast mover that has passed from reading as a trail.
+ * This was chosen over integrating along tracks because noise alone then never forms the groups that tracks
+ * would have to follow.
  */
 final class MoverGroups {
     static final byte NONE = 0;

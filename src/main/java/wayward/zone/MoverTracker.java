@@ -18,31 +18,14 @@ import wayward.flow.FlowField;
  * instead, but only while the group keeps its size and shape, has at least {@link #MIN_STEADY_SAMPLES} samples
  * and its flow goes the same way at the speed floor; the travel is the larger of the two sums.
  *
- * <p><b>What moves.</b> The picture's common motion is subtracted first when the camera's motion is removed.
- * A sample whose structure tensor's smaller eigenvalue reaches the confidence floor votes with its flow. One
- * below that floor whose larger eigenvalue reaches it lies on a straight edge, where only the motion across the
- * edge is measured (the aperture problem): it votes with its normal flow s·n, s = (u, v)·n. A plain van's roof
- * only shows its motion at its rim, and those rim samples are what makes it a mover. A sample with neither
- * does not move. The group's velocity is the least-squares velocity of all its constraints: a full sample
- * says V = (u, v), an edge sample says V·n = s (the intersection of constraints of Adelson &amp; Movshon 1982),
- * lightly regularised so that a group of parallel edges alone reads its motion across them.
- *
- * <p><b>Slow movers.</b> A crawl of half a pixel per analysed frame is below the speed floor, and lowering the
- * floor lets sensor noise through. Instead every sample keeps an exponential average of its vote (time
- * constant {@link MoverSettings#slowSeconds}, in stream time): noise, which changes sign from frame to frame,
- * averages towards 0 (its spread shrinks by about √(α / (2 − α)), a quarter at 0.75 s and 10 frames a second),
- * while a steady crawl keeps its value. A sample also moves when its averaged flow reaches the slow floor and its
- * present flow agrees with the average (its projection on the average is at least half the average's length):
- * the agreement test keeps the decaying average behind a fast mover that has passed from reading as a trail.
- * This was chosen over integrating along tracks because noise alone then never forms the groups that tracks
- * would have to follow.
- *
  * <p><b>Following.</b> Each track predicts its centroid (last centroid + velocity × time since seen); groups
  * and tracks are paired nearest first within a gate (gate + half the track's size, or the prediction inside the
  * group's box), never when both move clearly and in opposite directions. An unpaired group of at least two
  * samples starts a track; a track that finds no group for {@link MoverSettings#lostSeconds} is dropped. A track
  * whose flow reading fails on a jump it predicted ({@link #FAILED_JUMP_PX} or more) while its group turns up
- * where it should goes on with its centroid's velocity and step (see {@code flowFailed}).
+ * where it should goes on with its centroid's velocity and step (see {@code flowFailed}); a group that turns up
+ * far from every prediction may be a small mover that jumped beyond the flow's reach ({@link Jumps}). Which
+ * samples move and how they group: {@link MoverGroups}.
  *
  * <p><b>Still ground ahead.</b> For each seen track the tracker also looks along its motion for the nearest
  * still, textured sample ({@link Movers#stillAheadPx}): the wrong-way rule tells two vehicles nose to tail (still
@@ -64,13 +47,6 @@ public final class MoverTracker {
      * small objects lose most of their catch at 6–8 px).
      */
     static final double FAILED_JUMP_PX = 8;
-    /**
-     * Fastest jump a track follows from centroid to centroid when no group turned up near its prediction,
-     * analysis pixels per second: one and a half times a 320-pixel picture's width a second.
-     */
-    static final double MAX_JUMP_PX_PER_SECOND = 480;
-    /** Jumps alike in a row before a run of jumps counts as travel. */
-    static final int JUMPS_ALIKE = 3;
     /** Tracks followed at once at most; at least 4, otherwise a quarter of the zone's samples. */
     static final int MAX_TRACKS = 64;
     /** How far ahead of a track's centroid still ground is looked for, analysis pixels. */
@@ -87,42 +63,11 @@ public final class MoverTracker {
     private final float againstX;
     private final float againstY;
     private final float cosTolerance;
-    private final float cosGroup;
 
     private final MoverGroups gr;
     private final int[] gTrack;
-    // per track
-    private final long[] tId;
-    private final boolean[] tLive;
-    private final double[] tBorn;
-    private final double[] tSeenAt;
-    private final double[] tX;
-    private final double[] tY;
-    private final double[] tVx;
-    private final double[] tVy;
-    private final double[] tTravel;
-    private final double[] tFlowTravel;
-    private final double[] tCentroidTravel;
-    /** The centroid where it was last seen inside the zone (NaN: not yet). */
-    private final double[] tEntryX;
-    private final double[] tEntryY;
-    private final double[] tPredVx;
-    private final double[] tPredVy;
-    private final double[] tDistance;
-    private final double[] tMovingSeconds;
-    private final int[] tSamples;
-    private final int[] tPeak;
-    private final int[] tW;
-    private final int[] tH;
-    private final int[] tGroup;
-    /** The track's group was found by a jump this frame (see {@code jump}). */
-    private final boolean[] tJumped;
-    /** Where and when the track's run of jumps began (its centroid before the first), and how many in a row. */
-    private final double[] tJumpX;
-    private final double[] tJumpY;
-    private final double[] tJumpT;
-    private final int[] tJumps;
-    private long nextId = 1;
+    private final Tracks tr;
+    private final Jumps jumps;
     private long untracked;
 
     /**
@@ -152,38 +97,12 @@ public final class MoverTracker {
         this.againstX = (float) -Math.sin(h);
         this.againstY = (float) Math.cos(h);
         this.cosTolerance = (float) Math.cos(Math.toRadians(settings.toleranceDeg()));
-        this.cosGroup = (float) Math.cos(Math.toRadians(settings.groupAngleDeg()));
         gr = new MoverGroups(mask, layout, settings, removeCameraMotion);
         int n = gridWidth * gridHeight;
         gTrack = new int[n];
         int t = capacity(gr.zoneSamples());
-        tId = new long[t];
-        tLive = new boolean[t];
-        tBorn = new double[t];
-        tSeenAt = new double[t];
-        tX = new double[t];
-        tY = new double[t];
-        tVx = new double[t];
-        tVy = new double[t];
-        tTravel = new double[t];
-        tFlowTravel = new double[t];
-        tEntryX = new double[t];
-        tCentroidTravel = new double[t];
-        tEntryY = new double[t];
-        tPredVx = new double[t];
-        tPredVy = new double[t];
-        tDistance = new double[t];
-        tMovingSeconds = new double[t];
-        tSamples = new int[t];
-        tPeak = new int[t];
-        tW = new int[t];
-        tH = new int[t];
-        tGroup = new int[t];
-        tJumped = new boolean[t];
-        tJumpX = new double[t];
-        tJumpY = new double[t];
-        tJumpT = new double[t];
-        tJumps = new int[t];
+        tr = new Tracks(t);
+        jumps = new Jumps(gr, tr, gTrack, settings);
     }
 
     /** Tracks followed at once at most for a zone of {@code samples} samples. */
@@ -193,7 +112,7 @@ public final class MoverTracker {
 
     /** A table the size of this tracker's track capacity, for {@link #update}. */
     public Movers newMovers() {
-        return new Movers(tId.length);
+        return new Movers(tr.capacity());
     }
 
     public ZoneMask mask() {
@@ -207,7 +126,7 @@ public final class MoverTracker {
 
     /** Forgets every track and the averaged flow (the flow restarted after a gap). */
     public void reset() {
-        Arrays.fill(tLive, false);
+        Arrays.fill(tr.live, false);
         gr.reset();
     }
 
@@ -226,20 +145,20 @@ public final class MoverTracker {
         if (!(frameSeconds > 0)) {
             throw new IllegalArgumentException("frameSeconds: " + frameSeconds + " (expected more than 0)");
         }
-        if (out.capacity() != tId.length) {
-            throw new IllegalArgumentException("out: capacity " + out.capacity() + " (expected " + tId.length + ")");
+        if (out.capacity() != tr.capacity()) {
+            throw new IllegalArgumentException("out: capacity " + out.capacity() + " (expected " + tr.capacity() + ")");
         }
         gr.find(flow, frameSeconds);
         follow(frameSeconds, streamSeconds);
         out.begin(streamSeconds, imageWidth, imageHeight, stride);
-        for (int t = 0; t < tId.length; t++) {
-            if (!tLive[t]) {
+        for (int t = 0; t < tr.capacity(); t++) {
+            if (!tr.live[t]) {
                 continue;
             }
-            boolean seen = tSeenAt[t] == streamSeconds;
-            double speed = tMovingSeconds[t] > 0 ? tDistance[t] / tMovingSeconds[t] : 0;
-            int slot = out.put(tId[t], seen, streamSeconds - tBorn[t], tTravel[t], seen ? tSamples[t] : 0, tPeak[t],
-                    tW[t], tH[t], tX[t], tY[t], tVx[t], tVy[t], speed);
+            boolean seen = tr.seenAt[t] == streamSeconds;
+            double speed = tr.movingSeconds[t] > 0 ? tr.distance[t] / tr.movingSeconds[t] : 0;
+            int slot = out.put(tr.id[t], seen, streamSeconds - tr.born[t], tr.travel[t], seen ? tr.samples[t] : 0, tr.peak[t],
+                    tr.w[t], tr.h[t], tr.x[t], tr.y[t], tr.vx[t], tr.vy[t], speed);
             if (seen && slot >= 0) {
                 out.stillAheadPx(slot, stillAhead(t));
             }
@@ -253,15 +172,15 @@ public final class MoverTracker {
      * {@link #LOOK_AHEAD_PX} first, or the track does not move.
      */
     private double stillAhead(int t) {
-        final double speed = Math.hypot(tVx[t], tVy[t]);
+        final double speed = Math.hypot(tr.vx[t], tr.vy[t]);
         if (!(speed > 0)) {
             return Double.POSITIVE_INFINITY;
         }
-        final double ux = tVx[t] / speed;
-        final double uy = tVy[t] / speed;
+        final double ux = tr.vx[t] / speed;
+        final double uy = tr.vy[t] / speed;
         final double step = 0.5 * stride;
         for (double d = step; d <= LOOK_AHEAD_PX; d += step) {
-            final int k = gr.sampleAt(tX[t] + ux * d, tY[t] + uy * d);
+            final int k = gr.sampleAt(tr.x[t] + ux * d, tr.y[t] + uy * d);
             if (k < 0) {
                 break;
             }
@@ -277,8 +196,8 @@ public final class MoverTracker {
         final int n = gr.count[g];
         final int w = (gr.maxI[g] - gr.minI[g] + 1) * stride;
         final int h = (gr.maxJ[g] - gr.minJ[g] + 1) * stride;
-        return n >= 0.6 * tSamples[k] && n <= 1.6 * tSamples[k]
-                && Math.abs(w - tW[k]) <= Math.max(8, 0.5 * tW[k]) && Math.abs(h - tH[k]) <= Math.max(8, 0.5 * tH[k]);
+        return n >= 0.6 * tr.samples[k] && n <= 1.6 * tr.samples[k]
+                && Math.abs(w - tr.w[k]) <= Math.max(8, 0.5 * tr.w[k]) && Math.abs(h - tr.h[k]) <= Math.max(8, 0.5 * tr.h[k]);
     }
 
     /**
@@ -291,131 +210,28 @@ public final class MoverTracker {
      * half of the predicted jump (plus a stride): where it should be, not a large group whose outline changed.
      */
     private boolean flowFailed(int k, int g, double cx, double cy, double dt, double t) {
-        if (Double.isNaN(tSeenAt[k]) || Math.abs(tSeenAt[k] - (t - dt)) > 1e-6 || gr.count[g] < MIN_STEADY_SAMPLES) {
+        if (Double.isNaN(tr.seenAt[k]) || Math.abs(tr.seenAt[k] - (t - dt)) > 1e-6 || gr.count[g] < MIN_STEADY_SAMPLES) {
             return false;
         }
-        final double tvx = tVx[k];
-        final double tvy = tVy[k];
+        final double tvx = tr.vx[k];
+        final double tvy = tr.vy[k];
         final double speed = Math.sqrt(tvx * tvx + tvy * tvy);
         final double predicted = speed * dt;
         if (!(predicted >= FAILED_JUMP_PX)) {
             return false;
         }
         final double flowAlong = (gr.vu[g] * tvx + gr.vv[g] * tvy) / (dt * speed);
-        final double stepAlong = ((cx - tX[k]) * tvx + (cy - tY[k]) * tvy) / speed;
+        final double stepAlong = ((cx - tr.x[k]) * tvx + (cy - tr.y[k]) * tvy) / speed;
         return flowAlong < 0.5 * speed && stepAlong >= 0.25 * predicted && stepAlong <= 1.5 * predicted + stride;
-    }
-
-    /**
-     * Follows small movers out of the flow's reach by their jumps. A mover crossing tens of pixels between analysed
-     * frames reads nonsense flow, so its group turns up far from the prediction made from that flow. Groups no
-     * track claimed pair with tracks no group claimed when the track can have jumped there ({@code jumpsTo}), at
-     * most {@link #MAX_JUMP_PX_PER_SECOND} × the time since it was seen (plus the gate and half the larger box)
-     * away, within {@link MoverSettings#lostSeconds}; nearest first. A track already jumping that was paired where
-     * its run predicts goes on jumping while its group moves far and its flow cannot follow ({@code jumpGoesOn}).
-     * The tracker counts a run's travel only once it has {@link #JUMPS_ALIKE} jumps alike, so one chance pairing of
-     * two noise clusters or of two movers counts nothing.
-     */
-    private void jump(double dt, double t) {
-        final int nt = tId.length;
-        for (int k = 0; k < nt; k++) {
-            if (tLive[k] && tGroup[k] >= 0 && tJumps[k] > 0 && jumpGoesOn(k, tGroup[k], dt, t)) {
-                tJumped[k] = true;
-            }
-        }
-        final double lost = settings.lostSeconds() + 1e-6;
-        while (true) {
-            double best = Double.MAX_VALUE;
-            int bt = -1;
-            int bg = -1;
-            for (int k = 0; k < nt; k++) {
-                if (!tLive[k] || tGroup[k] >= 0 || Double.isNaN(tSeenAt[k])) {
-                    continue;
-                }
-                final double since = t - tSeenAt[k];
-                if (!(since > 0 && since <= lost)) {
-                    continue;
-                }
-                for (int g = 0; g < gr.groups; g++) {
-                    if (gTrack[g] >= 0) {
-                        continue;
-                    }
-                    final double d = Math.hypot(gr.sumX[g] / gr.count[g] - tX[k], gr.sumY[g] / gr.count[g] - tY[k]);
-                    final double reach = MAX_JUMP_PX_PER_SECOND * since + settings.gatePx()
-                            + 0.5 * Math.max(Math.max(tW[k], tH[k]), gr.side(g));
-                    if (d > reach || d >= best || !jumpsTo(k, g, since)) {
-                        continue;
-                    }
-                    best = d;
-                    bt = k;
-                    bg = g;
-                }
-            }
-            if (bt < 0) {
-                return;
-            }
-            tGroup[bt] = bg;
-            gTrack[bg] = bt;
-            tJumped[bt] = true;
-        }
-    }
-
-    /**
-     * True when track k, jumping, jumps again to group g: it can have jumped there ({@code jumpsTo}), and the
-     * group's flow reads less than half the run's speed along it.
-     */
-    private boolean jumpGoesOn(int k, int g, double dt, double t) {
-        final double since = t - tSeenAt[k];
-        if (!(since > 0) || !jumpsTo(k, g, since)) {
-            return false;
-        }
-        final double run = t - tJumpT[k];
-        final double rvx = (gr.sumX[g] / gr.count[g] - tJumpX[k]) / run;
-        final double rvy = (gr.sumY[g] / gr.count[g] - tJumpY[k]) / run;
-        final double speed = Math.hypot(rvx, rvy);
-        // the flow's reading is px per frame pair of dt seconds
-        final double flowAlong = (gr.vu[g] * rvx + gr.vv[g] * rvy) / speed;
-        return flowAlong < 0.5 * speed * dt;
-    }
-
-    /**
-     * True when track k can have jumped to group g in {@code since} seconds: the group has at least
-     * {@link #MIN_STEADY_SAMPLES} samples, half to twice the track's peak; the step is at least
-     * {@link #FAILED_JUMP_PX} and half the group's larger side (less, and the flow follows it); and a track already
-     * jumping goes on its way, within the group angle of its run's direction and, after two jumps, at half to twice
-     * its run's speed.
-     */
-    private boolean jumpsTo(int k, int g, double since) {
-        final int n = gr.count[g];
-        if (n < MIN_STEADY_SAMPLES || n < 0.5 * tPeak[k] || n > 2.0 * tPeak[k]) {
-            return false;
-        }
-        final double sx = gr.sumX[g] / n - tX[k];
-        final double sy = gr.sumY[g] / n - tY[k];
-        final double step = Math.hypot(sx, sy);
-        if (step < FAILED_JUMP_PX || step < 0.5 * gr.side(g)) {
-            return false;
-        }
-        if (tJumps[k] == 0) {
-            return true;
-        }
-        final double rx = tX[k] - tJumpX[k];
-        final double ry = tY[k] - tJumpY[k];
-        final double run = Math.hypot(rx, ry);
-        final double runSpeed = run / (tSeenAt[k] - tJumpT[k]);
-        final double stepSpeed = step / since;
-        // one jump's speed scatters (centroids of fragments a fifteenth of a second apart); a longer run's does not
-        return run > 0 && rx * sx + ry * sy >= cosGroup * run * step
-                && (tJumps[k] < 2 || (stepSpeed >= 0.5 * runSpeed && stepSpeed <= 2.0 * runSpeed));
     }
 
     /** Pairs groups with tracks, updates them, starts and drops tracks. */
     private void follow(double dt, double t) {
-        final int nt = tId.length;
+        final int nt = tr.capacity();
         final double minSpeed = settings.minSpeedPxPerSecond();
         for (int k = 0; k < nt; k++) {
-            tGroup[k] = -1;
-            tJumped[k] = false;
+            tr.group[k] = -1;
+            tr.jumped[k] = false;
         }
         Arrays.fill(gTrack, 0, gr.groups, -1);
         while (true) {
@@ -423,14 +239,14 @@ public final class MoverTracker {
             int bt = -1;
             int bg = -1;
             for (int k = 0; k < nt; k++) {
-                if (!tLive[k] || tGroup[k] >= 0) {
+                if (!tr.live[k] || tr.group[k] >= 0) {
                     continue;
                 }
-                final double since = t - tSeenAt[k];
-                final double ex = tX[k] + tPredVx[k] * since;
-                final double ey = tY[k] + tPredVy[k] * since;
-                final double gate = settings.gatePx() + 0.5 * Math.max(tW[k], tH[k]);
-                final double tSpeed2 = tVx[k] * tVx[k] + tVy[k] * tVy[k];
+                final double since = t - tr.seenAt[k];
+                final double ex = tr.x[k] + tr.predVx[k] * since;
+                final double ey = tr.y[k] + tr.predVy[k] * since;
+                final double gate = settings.gatePx() + 0.5 * Math.max(tr.w[k], tr.h[k]);
+                final double tSpeed2 = tr.vx[k] * tr.vx[k] + tr.vy[k] * tr.vy[k];
                 for (int g = 0; g < gr.groups; g++) {
                     if (gr.count[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
                         continue;
@@ -441,7 +257,7 @@ public final class MoverTracker {
                     final double cx = gr.sumX[g] / gr.count[g];
                     final double cy = gr.sumY[g] / gr.count[g];
                     final double d = Math.hypot(cx - ex, cy - ey);
-                    if (gvx * tVx[k] + gvy * tVy[k] < 0 && gSpeed2 > minSpeed * minSpeed
+                    if (gvx * tr.vx[k] + gvy * tr.vy[k] < 0 && gSpeed2 > minSpeed * minSpeed
                             && tSpeed2 > minSpeed * minSpeed && d > 0.5 * gate) {
                         // both clearly moving, in opposite directions, and not right where predicted: not the
                         // same mover (where predicted it is, since the flow of a fast small mover can fail)
@@ -459,50 +275,29 @@ public final class MoverTracker {
             if (bt < 0) {
                 break;
             }
-            tGroup[bt] = bg;
+            tr.group[bt] = bg;
             gTrack[bg] = bt;
         }
-        jump(dt, t);
+        jumps.pair(dt, t);
         for (int g = 0; g < gr.groups; g++) {
             if (gr.count[g] < MIN_GROUP_SAMPLES || gTrack[g] >= 0) {
                 continue;
             }
-            int free = -1;
-            for (int k = 0; k < nt; k++) {
-                if (!tLive[k]) {
-                    free = k;
-                    break;
-                }
-            }
+            final int free = tr.start(g, t);
             if (free < 0) {
                 untracked++;
                 continue;
             }
-            tLive[free] = true;
-            tId[free] = nextId++;
-            tBorn[free] = t;
-            tSeenAt[free] = Double.NaN;
-            tTravel[free] = 0;
-            tFlowTravel[free] = 0;
-            tEntryX[free] = Double.NaN;
-            tCentroidTravel[free] = 0;
-            tDistance[free] = 0;
-            tMovingSeconds[free] = 0;
-            tPeak[free] = 0;
-            tJumps[free] = 0;
-            tGroup[free] = g;
             gTrack[g] = free;
         }
-        final float ax = againstX;
-        final float ay = againstY;
         for (int k = 0; k < nt; k++) {
-            if (!tLive[k]) {
+            if (!tr.live[k]) {
                 continue;
             }
-            final int g = tGroup[k];
+            final int g = tr.group[k];
             if (g < 0) {
-                if (t - tSeenAt[k] > settings.lostSeconds() + 1e-6) {
-                    tLive[k] = false;
+                if (t - tr.seenAt[k] > settings.lostSeconds() + 1e-6) {
+                    tr.live[k] = false;
                 }
                 continue;
             }
@@ -511,98 +306,92 @@ public final class MoverTracker {
             final double m = Math.sqrt(vu * vu + vv * vv);
             final double cx = gr.sumX[g] / gr.count[g];
             final double cy = gr.sumY[g] / gr.count[g];
-            final boolean jumping = tJumped[k]; // see jump
-            if (jumping && tJumps[k] == 0) {
-                tJumpX[k] = tX[k];
-                tJumpY[k] = tY[k];
-                tJumpT[k] = tSeenAt[k];
-            }
-            tJumps[k] = jumping ? tJumps[k] + 1 : 0;
+            final boolean jumping = tr.jumped[k]; // see Jumps
             final boolean flowFailed = jumping || flowFailed(k, g, cx, cy, dt, t);
             final boolean inZone = gr.centreInZone(cx, cy);
             if (hasHeading && inZone && jumping) {
                 // a run's travel counts once it has enough jumps alike: then all of it from where it began
-                final boolean first = tJumps[k] == JUMPS_ALIKE;
-                if (tJumps[k] >= JUMPS_ALIKE && (first || !Double.isNaN(tEntryX[k]))) {
-                    final double sx = cx - (first ? tJumpX[k] : tEntryX[k]);
-                    final double sy = cy - (first ? tJumpY[k] : tEntryY[k]);
-                    final double step = Math.sqrt(sx * sx + sy * sy);
-                    final double stepAlong = sx * ax + sy * ay;
-                    if (step > 0 && (stepAlong >= cosTolerance * step || -stepAlong >= cosTolerance * step)) {
-                        tCentroidTravel[k] += stepAlong;
-                    }
+                final boolean first = tr.jumps[k] == Jumps.JUMPS_ALIKE;
+                if (tr.jumps[k] >= Jumps.JUMPS_ALIKE && (first || !Double.isNaN(tr.entryX[k]))) {
+                    tr.centroidTravel[k] += headed(cx - (first ? tr.jumpX[k] : tr.entryX[k]),
+                            cy - (first ? tr.jumpY[k] : tr.entryY[k]));
                 }
-                tEntryX[k] = cx;
-                tEntryY[k] = cy;
-                tTravel[k] = Math.max(tFlowTravel[k], tCentroidTravel[k]);
+                tr.entryX[k] = cx;
+                tr.entryY[k] = cy;
+                tr.travel[k] = Math.max(tr.flowTravel[k], tr.centroidTravel[k]);
             } else if (hasHeading && inZone) {
-                final double along = vu * ax + vv * ay;
+                final double along = vu * againstX + vv * againstY;
                 // against adds, with subtracts (a sway back and forth cancels), crossing adds nothing
-                if (!flowFailed && m > 0 && (along >= cosTolerance * m || -along >= cosTolerance * m)) {
-                    tFlowTravel[k] += along;
+                if (!flowFailed) {
+                    tr.flowTravel[k] += headed(vu, vv);
                 }
                 // the centroid's steps, while the group keeps its size and shape: a fast mover whose flow
                 // fails (tens of pixels a frame) still shows its travel here; a group that grows, shrinks or
                 // changes shape (shake, flicker, a crowd merging) moves its centroid without travelling
-                if (!Double.isNaN(tEntryX[k]) && Math.abs(tSeenAt[k] - (t - dt)) < 1e-6 && steady(k, g)
+                if (!Double.isNaN(tr.entryX[k]) && Math.abs(tr.seenAt[k] - (t - dt)) < 1e-6 && steady(k, g)
                         && gr.count[g] >= MIN_STEADY_SAMPLES) {
-                    final double sx = cx - tEntryX[k];
-                    final double sy = cy - tEntryY[k];
-                    final double step = Math.sqrt(sx * sx + sy * sy);
-                    final double stepAlong = sx * ax + sy * ay;
+                    final double stepAlong = headed(cx - tr.entryX[k], cy - tr.entryY[k]);
                     final double floor = settings.minSpeedPxPerSecond() * dt;
                     // and only where the flow, however short, goes the same way at least at the speed floor:
                     // a track hopping between chance clusters of noise moves its centroid, not its flow
-                    final boolean flowAgrees = flowFailed || (stepAlong > 0 ? along >= floor : along <= -floor);
-                    if (step > 0 && flowAgrees
-                            && (stepAlong >= cosTolerance * step || -stepAlong >= cosTolerance * step)) {
-                        tCentroidTravel[k] += stepAlong;
+                    if (flowFailed || (stepAlong > 0 ? along >= floor : along <= -floor)) {
+                        tr.centroidTravel[k] += stepAlong;
                     }
                 }
-                tEntryX[k] = cx;
-                tEntryY[k] = cy;
-                tTravel[k] = Math.max(tFlowTravel[k], tCentroidTravel[k]);
+                tr.entryX[k] = cx;
+                tr.entryY[k] = cy;
+                tr.travel[k] = Math.max(tr.flowTravel[k], tr.centroidTravel[k]);
             } else {
                 // outside: the next step inside starts afresh (a step from an old sighting is no step)
-                tEntryX[k] = Double.NaN;
+                tr.entryX[k] = Double.NaN;
             }
-            tDistance[k] += m;
-            tMovingSeconds[k] += dt;
+            tr.distance[k] += m;
+            tr.movingSeconds[k] += dt;
             double fvx = vu / dt;
             double fvy = vv / dt;
             if (jumping) {
                 // the run's mean velocity: single steps between noisy centroids a fifteenth of a second apart
                 // scatter too much to predict with
-                final double run = t - tJumpT[k];
-                fvx = (cx - tJumpX[k]) / run;
-                fvy = (cy - tJumpY[k]) / run;
-                tPredVx[k] = fvx;
-                tPredVy[k] = fvy;
+                final double run = t - tr.jumpT[k];
+                fvx = (cx - tr.jumpX[k]) / run;
+                fvy = (cy - tr.jumpY[k]) / run;
+                tr.predVx[k] = fvx;
+                tr.predVy[k] = fvy;
             } else if (flowFailed) {
                 // the track goes on with its centroid's velocity, not the failed reading
-                final double since = t - tSeenAt[k];
-                fvx = (cx - tX[k]) / since;
-                fvy = (cy - tY[k]) / since;
-                tPredVx[k] = fvx;
-                tPredVy[k] = fvy;
-            } else if (!Double.isNaN(tSeenAt[k]) && t > tSeenAt[k]) {
+                final double since = t - tr.seenAt[k];
+                fvx = (cx - tr.x[k]) / since;
+                fvy = (cy - tr.y[k]) / since;
+                tr.predVx[k] = fvx;
+                tr.predVy[k] = fvy;
+            } else if (!Double.isNaN(tr.seenAt[k]) && t > tr.seenAt[k]) {
                 // predict with the mean of the flow's velocity and the centroid's
-                final double since = t - tSeenAt[k];
-                tPredVx[k] = 0.5 * (fvx + (cx - tX[k]) / since);
-                tPredVy[k] = 0.5 * (fvy + (cy - tY[k]) / since);
+                final double since = t - tr.seenAt[k];
+                tr.predVx[k] = 0.5 * (fvx + (cx - tr.x[k]) / since);
+                tr.predVy[k] = 0.5 * (fvy + (cy - tr.y[k]) / since);
             } else {
-                tPredVx[k] = fvx;
-                tPredVy[k] = fvy;
+                tr.predVx[k] = fvx;
+                tr.predVy[k] = fvy;
             }
-            tX[k] = cx;
-            tY[k] = cy;
-            tVx[k] = fvx;
-            tVy[k] = fvy;
-            tSeenAt[k] = t;
-            tSamples[k] = gr.count[g];
-            tPeak[k] = Math.max(tPeak[k], gr.count[g]);
-            tW[k] = (gr.maxI[g] - gr.minI[g] + 1) * stride;
-            tH[k] = (gr.maxJ[g] - gr.minJ[g] + 1) * stride;
+            tr.x[k] = cx;
+            tr.y[k] = cy;
+            tr.vx[k] = fvx;
+            tr.vy[k] = fvy;
+            tr.seenAt[k] = t;
+            tr.samples[k] = gr.count[g];
+            tr.peak[k] = Math.max(tr.peak[k], gr.count[g]);
+            tr.w[k] = (gr.maxI[g] - gr.minI[g] + 1) * stride;
+            tr.h[k] = (gr.maxJ[g] - gr.minJ[g] + 1) * stride;
         }
+    }
+
+    /**
+     * The part of the step (sx, sy) along the against direction when the step goes with or against the heading
+     * within the tolerance; 0 when it crosses (or is no step).
+     */
+    private double headed(double sx, double sy) {
+        final double step = Math.sqrt(sx * sx + sy * sy);
+        final double along = sx * againstX + sy * againstY;
+        return step > 0 && (along >= cosTolerance * step || -along >= cosTolerance * step) ? along : 0;
     }
 }
