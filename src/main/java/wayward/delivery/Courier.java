@@ -24,7 +24,7 @@ public final class Courier {
 
     private final Outbox outbox;
     private final Destination destination;
-    private final Outbox.Progress progress;
+    private final OutboxProgress progress;
     private final Outbox.Reader reader;
     private final long baseBackoffMillis;
     private final long maxBackoffMillis;

@@ -1,7 +1,6 @@
 package wayward.delivery;
 
 import io.netty.bootstrap.Bootstrap;
-import io.netty.buffer.Unpooled;
 import io.netty.channel.Channel;
 import io.netty.channel.ChannelFuture;
 import io.netty.channel.ChannelHandlerContext;
@@ -18,15 +17,8 @@ import io.netty.handler.codec.mqtt.MqttConnAckMessage;
 import io.netty.handler.codec.mqtt.MqttConnectReturnCode;
 import io.netty.handler.codec.mqtt.MqttDecoder;
 import io.netty.handler.codec.mqtt.MqttEncoder;
-import io.netty.handler.codec.mqtt.MqttFixedHeader;
 import io.netty.handler.codec.mqtt.MqttMessage;
-import io.netty.handler.codec.mqtt.MqttMessageBuilders;
 import io.netty.handler.codec.mqtt.MqttMessageIdVariableHeader;
-import io.netty.handler.codec.mqtt.MqttMessageType;
-import io.netty.handler.codec.mqtt.MqttPublishMessage;
-import io.netty.handler.codec.mqtt.MqttPublishVariableHeader;
-import io.netty.handler.codec.mqtt.MqttQoS;
-import io.netty.handler.codec.mqtt.MqttVersion;
 import io.netty.handler.ssl.SslContext;
 import io.netty.handler.timeout.IdleState;
 import io.netty.handler.timeout.IdleStateEvent;
@@ -34,39 +26,24 @@ import io.netty.handler.timeout.IdleStateHandler;
 import io.netty.util.concurrent.DefaultThreadFactory;
 import java.net.URI;
 import java.nio.charset.StandardCharsets;
-import java.time.Instant;
-import java.time.format.DateTimeFormatter;
-import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.TimeUnit;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.delivery.MqttConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
-import wayward.event.EventKind;
 import wayward.retry.Backoff;
 import wayward.secret.Urls;
 
 /**
  * Publishes event phases to an MQTT broker, MQTT 3.1.1 (OASIS standard) through Netty's MQTT codec, over TCP
- * or TLS. Every publish is QoS 1; a publish counts as delivered when its PUBACK arrives. The session is kept
- * (clean session 0), and after a reconnect every unacknowledged publish is sent again with its packet
- * identifier and the DUP flag (MQTT 3.1.1 §4.4). Keep-alive pings when idle; reconnect with exponential
- * backoff and jitter; the will marks the service offline when the connection dies.
- *
- * <p>Topics, below the configured prefix:
- * <ul>
- * <li>{@code <camera>/<zone>/event}: every phase of a zone event (not retained)</li>
- * <li>{@code <camera>/<zone>/state}: retained {@code alert} (with the event id) or {@code clear}</li>
- * <li>{@code <camera>/event} and retained {@code <camera>/state} ({@code lost} / {@code watching}):
- *     camera health</li>
- * <li>{@code status/<client id>}: retained {@code online}; the will sets {@code offline}</li>
- * </ul>
- * All network work runs on one Netty event loop thread; {@link #send} may be called from the courier thread.
+ * or TLS, to the {@link MqttTopics}. Every publish is QoS 1 and counts as delivered when its PUBACK arrives. The
+ * session is kept (clean session 0); after a reconnect every unacknowledged publish is sent again with its
+ * packet identifier and the DUP flag (MQTT 3.1.1 §4.4). Keep-alive pings when idle; reconnect with exponential
+ * backoff and jitter; the will marks the service offline. All network work runs on one Netty event loop
+ * thread; {@link #send} may be called from the courier thread.
  */
 public final class MqttPublisher implements Destination {
     private static final Logger LOG = LoggerFactory.getLogger(MqttPublisher.class);
@@ -83,31 +60,15 @@ public final class MqttPublisher implements Destination {
     private final String statusTopic;
 
     // confined to the event loop thread
-    private final LinkedHashMap<Integer, Outgoing> inFlight = new LinkedHashMap<>();
+    private final MqttInFlight inFlight = new MqttInFlight();
     /** Zones ("camera/zone") that had a phase in this run; their retained state is already current. */
     private final java.util.Set<String> touchedThisRun = new java.util.HashSet<>();
     private Channel channel;
     private boolean connected;
     private boolean closing;
-    private int nextPacketId = 1;
     private final Backoff backoff;
     private String lastProblem;
     private int failedAttempts;
-
-    /** One QoS 1 publish waiting for its PUBACK. */
-    private static final class Outgoing {
-        final String topic;
-        final byte[] payload;
-        final boolean retain;
-        final CompletableFuture<Void> acked = new CompletableFuture<>();
-        boolean sent;
-
-        Outgoing(String topic, byte[] payload, boolean retain) {
-            this.topic = topic;
-            this.payload = payload;
-            this.retain = retain;
-        }
-    }
 
     /**
      * @param zones       every configured zone as "camera/zone"; once the outbox backlog is delivered, the state
@@ -125,7 +86,7 @@ public final class MqttPublisher implements Destination {
         this.ssl = tls ? TlsTrust.clientContext(config.caFile(), shownUrl) : null;
         this.zones = List.copyOf(zones);
         this.runStartSeq = runStartSeq;
-        this.statusTopic = config.topicPrefix() + "/status/" + config.clientId();
+        this.statusTopic = MqttTopics.statusTopic(config.topicPrefix(), config.clientId());
         this.backoff = new Backoff(1000, (long) (config.maxBackoffSeconds() * 1000));
         this.group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("mqtt", true),
                 NioIoHandler.newFactory());
@@ -148,27 +109,17 @@ public final class MqttPublisher implements Destination {
         return Math.max(1, config.inFlight());
     }
 
-    /** The topic of a phase's own message. */
-    public static String eventTopic(String prefix, Event e) {
-        return prefix + "/" + e.camera() + (e.zone() != null ? "/" + e.zone() : "") + "/event";
-    }
-
-    /** The retained state topic a phase updates. */
-    public static String stateTopic(String prefix, String camera, String zone) {
-        return prefix + "/" + camera + (zone != null ? "/" + zone : "") + "/state";
-    }
-
     @Override
     public CompletableFuture<Result> send(long seq, Event e) {
         byte[] body = EventJson.toJson(e).getBytes(StandardCharsets.UTF_8);
-        String stateTopic = stateTopic(config.topicPrefix(), e.camera(), e.zone());
-        byte[] state = statePayload(e);
+        String stateTopic = MqttTopics.stateTopic(config.topicPrefix(), e.camera(), e.zone());
+        byte[] state = MqttTopics.statePayload(e);
         CompletableFuture<Result> done = new CompletableFuture<>();
         loop.execute(() -> {
             if (e.zone() != null && seq >= runStartSeq) {
                 touchedThisRun.add(e.camera() + "/" + e.zone());
             }
-            CompletableFuture<Void> a = publish(eventTopic(config.topicPrefix(), e), body, false);
+            CompletableFuture<Void> a = publish(MqttTopics.eventTopic(config.topicPrefix(), e), body, false);
             CompletableFuture<Void> b = publish(stateTopic, state, true);
             CompletableFuture.allOf(a, b).whenComplete((v, x) -> done.complete(
                     x == null ? Result.DELIVERED : Result.retry(String.valueOf(x))));
@@ -182,80 +133,32 @@ public final class MqttPublisher implements Destination {
             for (String z : zones) {
                 if (!touchedThisRun.contains(z)) {
                     int slash = z.indexOf('/');
-                    publish(stateTopic(config.topicPrefix(), z.substring(0, slash), z.substring(slash + 1)),
-                            json(g -> {
-                                g.writeStringField("state", "clear");
-                                g.writeStringField("at", now());
-                            }), true);
+                    publish(MqttTopics.stateTopic(config.topicPrefix(), z.substring(0, slash),
+                            z.substring(slash + 1)), MqttTopics.clearPayload(), true);
                 }
             }
         });
     }
 
-    /** The retained state a phase sets: alert/clear for zones, lost/watching for cameras. */
-    static byte[] statePayload(Event e) {
-        String state;
-        if (e.zone() != null) {
-            state = e.phase() == Event.Phase.START ? "alert" : "clear";
-        } else {
-            // camera_lost → lost; a tamper kind → its name (view_blocked, camera_moved, …); any end → watching
-            state = e.phase() == Event.Phase.END || e.kind() == EventKind.CAMERA_BACK ? "watching"
-                    : e.kind() == EventKind.CAMERA_LOST ? "lost" : e.kind().jsonName();
-        }
-        return json(g -> {
-            g.writeStringField("state", state);
-            g.writeStringField("event", e.id());
-            g.writeStringField("kind", e.kind().jsonName());
-            g.writeStringField("at", DateTimeFormatter.ISO_INSTANT.format(e.at()));
-        });
-    }
-
-    private static byte[] json(EventJson.Fields f) {
-        return EventJson.object(f).getBytes(StandardCharsets.UTF_8);
-    }
-
-    private static String now() {
-        return DateTimeFormatter.ISO_INSTANT.format(Instant.now());
-    }
-
+    /** The client's status; offline is stamped only when sent on closing, not as the will. */
     private byte[] statusPayload(String state) {
-        return json(g -> {
-            g.writeStringField("state", state);
-            g.writeStringField("client", config.clientId());
-            if (!"offline".equals(state) || closing) {
-                g.writeStringField("at", now());
-            }
-        });
+        return MqttTopics.statusPayload(config.clientId(), state, !"offline".equals(state) || closing);
     }
 
     /** Queues a QoS 1 publish and sends it now if connected. Event loop only. */
     private CompletableFuture<Void> publish(String topic, byte[] payload, boolean retain) {
-        Outgoing o = new Outgoing(topic, payload, retain);
-        int id = allocatePacketId();
-        inFlight.put(id, o);
+        MqttInFlight.Outgoing o = new MqttInFlight.Outgoing(topic, payload, retain);
+        int id = inFlight.add(o);
         if (connected) {
             write(id, o);
         }
         return o.acked;
     }
 
-    private int allocatePacketId() {
-        // MQTT 3.1.1 §2.3.1: a non-zero 16-bit identifier not in use by another unacknowledged publish
-        while (inFlight.containsKey(nextPacketId)) {
-            nextPacketId = nextPacketId % 65535 + 1;
-        }
-        int id = nextPacketId;
-        nextPacketId = nextPacketId % 65535 + 1;
-        return id;
-    }
-
-    private void write(int id, Outgoing o) {
+    private void write(int id, MqttInFlight.Outgoing o) {
         boolean dup = o.sent;
         o.sent = true;
-        MqttPublishMessage m = new MqttPublishMessage(
-                new MqttFixedHeader(MqttMessageType.PUBLISH, dup, MqttQoS.AT_LEAST_ONCE, o.retain, 0),
-                new MqttPublishVariableHeader(o.topic, id), Unpooled.wrappedBuffer(o.payload));
-        channel.writeAndFlush(m);
+        channel.writeAndFlush(MqttPackets.publish(id, o.topic, o.payload, o.retain, dup));
     }
 
     private void connect() {
@@ -329,23 +232,7 @@ public final class MqttPublisher implements Destination {
                 return;
             }
             channel = ctx.channel();
-            MqttMessageBuilders.ConnectBuilder c = MqttMessageBuilders.connect()
-                    .protocolVersion(MqttVersion.MQTT_3_1_1)
-                    .clientId(config.clientId())
-                    .cleanSession(false)
-                    .keepAlive(config.keepAliveSeconds())
-                    .willFlag(true)
-                    .willQoS(MqttQoS.AT_LEAST_ONCE)
-                    .willRetain(true)
-                    .willTopic(statusTopic)
-                    .willMessage(statusPayload("offline"));
-            if (config.username() != null) {
-                c.hasUser(true).username(config.username());
-                if (config.password() != null) {
-                    c.hasPassword(true).password(config.password());
-                }
-            }
-            ctx.writeAndFlush(c.build());
+            ctx.writeAndFlush(MqttPackets.connect(config, statusTopic, statusPayload("offline")));
         }
 
         @Override
@@ -357,13 +244,8 @@ public final class MqttPublisher implements Destination {
             }
             switch (m.fixedHeader().messageType()) {
                 case CONNACK -> connAck(ctx, (MqttConnAckMessage) m);
-                case PUBACK -> {
-                    int id = ((MqttMessageIdVariableHeader) m.variableHeader()).messageId();
-                    Outgoing o = inFlight.remove(id);
-                    if (o != null) {
-                        o.acked.complete(null);
-                    }
-                }
+                case PUBACK -> inFlight.acknowledged(
+                        ((MqttMessageIdVariableHeader) m.variableHeader()).messageId());
                 case PINGRESP -> {
                     // the idle handler counts it as traffic
                 }
@@ -374,18 +256,7 @@ public final class MqttPublisher implements Destination {
         private void connAck(ChannelHandlerContext ctx, MqttConnAckMessage m) {
             MqttConnectReturnCode code = m.variableHeader().connectReturnCode();
             if (code != MqttConnectReturnCode.CONNECTION_ACCEPTED) {
-                dropReason = switch (code) {
-                    case CONNECTION_REFUSED_BAD_USER_NAME_OR_PASSWORD ->
-                            "broker refused the login of user '" + config.username()
-                                    + "': bad user name or password (CONNACK code 4)";
-                    case CONNECTION_REFUSED_NOT_AUTHORIZED ->
-                            "broker refused the connection: not authorised"
-                                    + (config.username() == null ? " (no username configured)" : " for user '"
-                                    + config.username() + "'") + " (CONNACK code 5)";
-                    case CONNECTION_REFUSED_IDENTIFIER_REJECTED ->
-                            "broker rejected the client id '" + config.clientId() + "' (CONNACK code 2)";
-                    default -> "broker refused the connection: " + code;
-                };
+                dropReason = MqttPackets.refusal(code, config);
                 ctx.close();
                 return;
             }
@@ -401,7 +272,7 @@ public final class MqttPublisher implements Destination {
             lastProblem = null;
             backoff.reset();
             // everything still unacknowledged, in its order (DUP set on those sent before), then the status
-            for (Map.Entry<Integer, Outgoing> en : new ArrayList<>(inFlight.entrySet())) {
+            for (Map.Entry<Integer, MqttInFlight.Outgoing> en : inFlight.all()) {
                 write(en.getKey(), en.getValue());
             }
             publish(statusTopic, statusPayload("online"), true);
@@ -411,8 +282,7 @@ public final class MqttPublisher implements Destination {
         public void userEventTriggered(ChannelHandlerContext ctx, Object evt) throws Exception {
             if (evt instanceof IdleStateEvent idle) {
                 if (idle.state() == IdleState.WRITER_IDLE) {
-                    ctx.writeAndFlush(new MqttMessage(new MqttFixedHeader(MqttMessageType.PINGREQ, false,
-                            MqttQoS.AT_MOST_ONCE, false, 0)));
+                    ctx.writeAndFlush(MqttPackets.pingReq());
                 } else if (idle.state() == IdleState.READER_IDLE) {
                     dropReason = "broker silent for " + config.keepAliveSeconds() * 3 / 2 + " s";
                     ctx.close();
@@ -462,8 +332,7 @@ public final class MqttPublisher implements Destination {
                     .whenComplete((v, x) -> loop.execute(() -> {
                         if (channel != null) {
                             Channel ch = channel;
-                            ch.writeAndFlush(new MqttMessage(new MqttFixedHeader(MqttMessageType.DISCONNECT,
-                                    false, MqttQoS.AT_MOST_ONCE, false, 0))).addListener(f -> ch.close());
+                            ch.writeAndFlush(MqttPackets.disconnect()).addListener(f -> ch.close());
                         }
                         done.complete(null);
                     }));

@@ -18,9 +18,8 @@ public final class LogCapture implements AutoCloseable {
     }
 
     public List<String> lines() {
-        final java.util.List<ILoggingEvent> list = appender.list; // the appender adds under this lock
-        synchronized (list) {
-            return list.stream().map(e -> e.getLevel() + " " + e.getFormattedMessage()).toList();
+        synchronized (appender) { // AppenderBase.doAppend adds to the list holding the appender's lock
+            return appender.list.stream().map(e -> e.getLevel() + " " + e.getFormattedMessage()).toList();
         }
     }
 

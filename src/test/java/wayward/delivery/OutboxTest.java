@@ -78,7 +78,7 @@ class OutboxTest {
     void progressSurvivesAReopenAndANewDestinationStartsAtTheEnd() throws Exception {
         try (Outbox o = Outbox.open(dir, 1 << 20, 4096)) {
             appendEach(o, 1, 10);
-            Outbox.Progress p = o.progress("webhook-a");
+            OutboxProgress p = o.progress("webhook-a");
             assertEquals(11, p.next(), "a new destination does not get the history");
             appendEach(o, 11, 20);
             p.save(15);
@@ -133,9 +133,9 @@ class OutboxTest {
             appendEach(o, 1, 9);
         }
         Path seg = segments().get(0);
-        int size = Outbox.HEADER + record(1).length;
+        int size = OutboxRecord.HEADER + record(1).length;
         try (RandomAccessFile f = new RandomAccessFile(seg.toFile(), "rw")) {
-            f.seek(2L * size + Outbox.HEADER + 4); // inside record 3's payload
+            f.seek(2L * size + OutboxRecord.HEADER + 4); // inside record 3's payload
             f.write('#');
         }
         try (LogCapture log = new LogCapture(Outbox.class); Outbox o = Outbox.open(dir, 1 << 20, 1 << 16)) {
@@ -149,10 +149,10 @@ class OutboxTest {
 
     @Test
     void sizeBoundRemovesTheOldestAndCountsWhatWasNotDelivered() throws Exception {
-        int size = Outbox.HEADER + record(1).length;
+        int size = OutboxRecord.HEADER + record(1).length;
         long bound = 20_000;
         try (LogCapture log = new LogCapture(Outbox.class); Outbox o = Outbox.open(dir, bound, 4096)) {
-            Outbox.Progress fast = o.progress("fast");
+            OutboxProgress fast = o.progress("fast");
             o.progress("slow"); // a destination that never confirms anything
             for (int i = 1; i <= 100; i++) {
                 o.append(List.of(record(i)));
@@ -173,7 +173,7 @@ class OutboxTest {
         }
         // on reopen 'slow' resumes at the oldest record kept, and says so
         try (LogCapture log = new LogCapture(Outbox.class); Outbox o = Outbox.open(dir, bound, 4096)) {
-            Outbox.Progress slow = o.progress("slow");
+            OutboxProgress slow = o.progress("slow");
             assertTrue(slow.next() > 1);
             assertEquals(readAll(o, 1).get(0), (int) slow.next());
         }
