@@ -65,6 +65,10 @@ public final class TamperWatch {
     private double shiftX;
     private double shiftY;
     private double movedSince = Double.NaN;
+    /** The 2×2-block picture the moved-camera check registers on. */
+    private double[] reference;
+    private double lastRegistration = Double.NEGATIVE_INFINITY;
+    private final BlockShift shift = new BlockShift();
     private final Condition blocked = new Condition(EventKind.VIEW_BLOCKED, 2);
     private final Condition focus = new Condition(EventKind.FOCUS_LOST, 3);
     private final Condition frozen = new Condition(EventKind.PICTURE_FROZEN, 0);
@@ -135,10 +139,7 @@ public final class TamperWatch {
             height = f.height;
             previous = new byte[width * height];
             blocks = new double[(width / 2) * (height / 2)];
-            centred = new double[blocks.length];
-            centredReference = new double[blocks.length];
-            coarse = new double[(width / 4) * (height / 4)];
-            coarseReference = new double[coarse.length];
+            shift.size(width / 2, height / 2);
             reference = null; // a new size starts a new reference
             System.arraycopy(f.pixels, 0, previous, 0, previous.length);
             startT = t;
@@ -187,7 +188,9 @@ public final class TamperWatch {
             reference = blocks.clone(); // once per size
         } else if (!flat && t - lastRegistration + 1e-9 >= 0.5) {
             lastRegistration = t;
-            register();
+            shift.find(blocks, reference);
+            shiftX = shift.x;
+            shiftY = shift.y;
             boolean shifted = Math.hypot(shiftX, shiftY) >= MOVED_BLOCKS;
             if (!shifted) {
                 movedSince = Double.NaN;
@@ -227,118 +230,6 @@ public final class TamperWatch {
             baseDetail += a * (detail - baseDetail);
             if (!frozen.active() && !mostlyStill) {
                 baseStill += a * ((still ? 1 : 0) - baseStill);
-            }
-        }
-    }
-
-    private double[] reference;
-    /** Scratch of {@link #register}: the blocks and the reference with their means removed, and both halved. */
-    private double[] centred;
-    private double[] centredReference;
-    private double[] coarse;
-    private double[] coarseReference;
-    private double lastRegistration = Double.NEGATIVE_INFINITY;
-    private double best;
-    private int bestX;
-    private int bestY;
-
-    /**
-     * The whole-block shift (±{@link #SEARCH_BLOCKS}) minimising the mean absolute difference, means removed,
-     * between the 2×2-block picture and the reference over their overlap; into shiftX/shiftY (blocks). Movers
-     * cover a small part of the picture, so the best shift is the camera's. Searched coarse to fine (common
-     * practice in block matching): every shift of half the range on 4×4 blocks, then the 3×3 shifts around
-     * twice the coarse one on the 2×2 blocks; at most 49 + 10 trials instead of 169.
-     */
-    private void register() {
-        int bw = width / 2;
-        int bh = height / 2;
-        double meanNow = 0;
-        double meanRef = 0;
-        for (int i = 0; i < blocks.length; i++) {
-            meanNow += blocks[i];
-            meanRef += reference[i];
-        }
-        meanNow /= blocks.length;
-        meanRef /= blocks.length;
-        final double[] now = centred;
-        final double[] ref = centredReference;
-        for (int i = 0; i < blocks.length; i++) {
-            now[i] = blocks[i] - meanNow;
-            ref[i] = reference[i] - meanRef;
-        }
-        int cw = bw / 2;
-        int ch = bh / 2;
-        halve(now, bw, coarse, cw, ch);
-        halve(ref, bw, coarseReference, cw, ch);
-        int range = SEARCH_BLOCKS / 2;
-        bestX = 0;
-        bestY = 0;
-        best = Double.MAX_VALUE;
-        for (int dy = -range; dy <= range; dy++) {
-            for (int dx = -range; dx <= range; dx++) {
-                if (dx != 0 || dy != 0) {
-                    consider(mad(coarse, coarseReference, cw, ch, dx, dy, 1), dx, dy);
-                }
-            }
-        }
-        keepStill(mad(coarse, coarseReference, cw, ch, 0, 0, 1));
-        int cx = 2 * bestX;
-        int cy = 2 * bestY;
-        bestX = 0;
-        bestY = 0;
-        best = Double.MAX_VALUE;
-        for (int dy = Math.max(-SEARCH_BLOCKS, cy - 1); dy <= Math.min(SEARCH_BLOCKS, cy + 1); dy++) {
-            for (int dx = Math.max(-SEARCH_BLOCKS, cx - 1); dx <= Math.min(SEARCH_BLOCKS, cx + 1); dx++) {
-                if (dx != 0 || dy != 0) {
-                    consider(mad(now, ref, bw, bh, dx, dy, 2), dx, dy);
-                }
-            }
-        }
-        keepStill(mad(now, ref, bw, bh, 0, 0, 2));
-        shiftX = bestX;
-        shiftY = bestY;
-    }
-
-    /** Keeps the better of the trials of one level (shifts other than none). */
-    private void consider(double mad, int dx, int dy) {
-        if (mad < best) {
-            best = mad;
-            bestX = dx;
-            bestY = dy;
-        }
-    }
-
-    /** No shift wins unless the best trial beats it by more than 2 %: equal scores keep the camera where it was. */
-    private void keepStill(double still) {
-        if (still <= best * 1.02) {
-            best = still;
-            bestX = 0;
-            bestY = 0;
-        }
-    }
-
-    /** Mean absolute difference of a and b shifted by (dx, dy) over their overlap, every step-th sample. */
-    private static double mad(double[] a, double[] b, int w, int h, int dx, int dy, int step) {
-        double sum = 0;
-        int n = 0;
-        for (int y = Math.max(0, -dy); y < Math.min(h, h - dy); y += step) {
-            int row = y * w;
-            int refRow = (y + dy) * w;
-            for (int x = Math.max(0, -dx); x < Math.min(w, w - dx); x += step) {
-                sum += Math.abs(a[row + x] - b[refRow + x + dx]);
-                n++;
-            }
-        }
-        return n == 0 ? Double.MAX_VALUE : sum / n;
-    }
-
-    /** 2×2 means of a w-wide picture into out (cw × ch). */
-    private static void halve(double[] in, int w, double[] out, int cw, int ch) {
-        for (int y = 0; y < ch; y++) {
-            int r0 = 2 * y * w;
-            int r1 = r0 + w;
-            for (int x = 0; x < cw; x++) {
-                out[y * cw + x] = 0.25 * (in[r0 + 2 * x] + in[r0 + 2 * x + 1] + in[r1 + 2 * x] + in[r1 + 2 * x + 1]);
             }
         }
     }
