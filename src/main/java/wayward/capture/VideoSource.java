@@ -2,29 +2,17 @@ package wayward.capture;
 
 import static org.bytedeco.ffmpeg.global.avcodec.AV_PKT_FLAG_KEY;
 import static org.bytedeco.ffmpeg.global.avcodec.av_packet_unref;
-import static org.bytedeco.ffmpeg.global.avcodec.avcodec_alloc_context3;
-import static org.bytedeco.ffmpeg.global.avcodec.avcodec_find_decoder;
-import static org.bytedeco.ffmpeg.global.avcodec.avcodec_free_context;
-import static org.bytedeco.ffmpeg.global.avcodec.avcodec_open2;
-import static org.bytedeco.ffmpeg.global.avcodec.avcodec_parameters_to_context;
 import static org.bytedeco.ffmpeg.global.avcodec.avcodec_receive_frame;
 import static org.bytedeco.ffmpeg.global.avcodec.avcodec_send_packet;
-import static org.bytedeco.ffmpeg.global.avformat.av_find_best_stream;
-import static org.bytedeco.ffmpeg.global.avutil.AVMEDIA_TYPE_VIDEO;
 import static org.bytedeco.ffmpeg.global.avutil.AV_LOG_ERROR;
 import static org.bytedeco.ffmpeg.global.avutil.AV_NOPTS_VALUE;
 import static org.bytedeco.ffmpeg.global.avutil.av_frame_alloc;
 import static org.bytedeco.ffmpeg.global.avutil.av_frame_free;
 import static org.bytedeco.ffmpeg.global.avutil.av_log_set_level;
 
-import org.bytedeco.ffmpeg.avcodec.AVCodec;
 import org.bytedeco.ffmpeg.avcodec.AVCodecContext;
 import org.bytedeco.ffmpeg.avcodec.AVPacket;
-import org.bytedeco.ffmpeg.avformat.AVFormatContext;
-import org.bytedeco.ffmpeg.avformat.AVStream;
-import org.bytedeco.ffmpeg.avutil.AVDictionary;
 import org.bytedeco.ffmpeg.avutil.AVFrame;
-import org.bytedeco.ffmpeg.avutil.AVRational;
 import org.bytedeco.javacpp.IntPointer;
 import org.bytedeco.javacpp.PointerPointer;
 import org.bytedeco.javacv.FFmpegFrameGrabber;
@@ -65,8 +53,6 @@ public final class VideoSource implements Runnable {
     static final long RECONNECT_MAX_MILLIS = 30_000;
 
     private static final Logger LOG = LoggerFactory.getLogger(VideoSource.class);
-    /** Socket timeout for network sources, microseconds (FFmpeg's option "timeout"). */
-    private static final String NETWORK_TIMEOUT_MICROS = "5000000";
 
     static {
         // FFmpeg's own chatter goes through SLF4J at error level only.
@@ -82,43 +68,7 @@ public final class VideoSource implements Runnable {
     private volatile boolean lost;
     private volatile boolean connectedOnce;
     private volatile long reconnects;
-    /** Stream time from which stage CPU is counted (bench); NaN: not measured. */
-    private volatile double measureFrom = Double.NaN;
-    /** Capture thread: counting has begun (the first frame at or after measureFrom was decoded). */
-    private boolean measure;
-    private volatile long decodeCpu;
-    private volatile long downscaleCpu;
-    private volatile long decodedBeforeMeasuring = -1;
-    private static final java.lang.management.ThreadMXBean THREADS = java.lang.management.ManagementFactory.getThreadMXBean();
-
-    /** The calling thread's CPU time, nanoseconds (stage measurements of bench). */
-    public static long cpu() {
-        return THREADS.getCurrentThreadCpuTime();
-    }
-
-    /**
-     * Before the run: measure the CPU time of decoding and of gray conversion plus downscaling from stream time
-     * {@code fromSeconds} on (bench; the seconds before it are JIT warm-up).
-     */
-    public void measureStages(double fromSeconds) {
-        measureFrom = fromSeconds;
-    }
-
-    /** Frames decoded since counting began, or 0 before it. */
-    public long framesMeasured() {
-        long before = decodedBeforeMeasuring;
-        return before < 0 ? 0 : frameIndex - before;
-    }
-
-    /** CPU nanoseconds spent decoding (send and receive), when measured. */
-    public long decodeCpuNanos() {
-        return decodeCpu;
-    }
-
-    /** CPU nanoseconds spent taking the luma plane and downscaling it, when measured. */
-    public long downscaleCpuNanos() {
-        return downscaleCpu;
-    }
+    private final CaptureMeter meter = new CaptureMeter();
     private long lastFrameNanos;
     private volatile boolean stopping;
     private volatile String fileFailure;
@@ -136,6 +86,9 @@ public final class VideoSource implements Runnable {
     // buffers, capture thread only
     /** Analysis size, fixed by the first frame (0 before it). */
     private final Shrink shrink;
+    /** The decoded frame's plane pointers and line sizes (views into the AVFrame of the current pass). */
+    private PointerPointer<?> framePlanes;
+    private IntPointer frameStrides;
 
     /** @param clips the camera's clip recorder, or null for no clips (replay) */
     public VideoSource(String cameraId, SourceOptions options, FrameSlot slot, Health health, ClipRecorder clips) {
@@ -175,6 +128,11 @@ public final class VideoSource implements Runnable {
     /** True while frames arrive: connected once and not lost since. Any thread. */
     public boolean delivering() {
         return connectedOnce && !lost;
+    }
+
+    /** CPU time of decoding and shrinking (bench). */
+    public CaptureMeter meter() {
+        return meter;
     }
 
     /** For a file that gave no frame at all: why (FFmpeg's reason); otherwise null. */
@@ -249,65 +207,22 @@ public final class VideoSource implements Runnable {
 
     /** One open–read–close pass over the source. */
     private void readOnce() throws Exception {
-        FFmpegFrameGrabber grabber = new FFmpegFrameGrabber(options.source());
-        // The grabber opens a decoder of its own that we never use: keep it to one thread.
-        grabber.setVideoOption("threads", "1");
-        if (options.source().startsWith("rtsp://") || options.source().startsWith("rtsps://")) {
-            grabber.setOption("rtsp_transport", options.input().rtspTransport());
-        }
-        if (Sources.isDevice(options.source())) {
-            grabber.setFormat("video4linux2");
-            if (options.input().deviceSize() != null) {
-                grabber.setOption("video_size", options.input().deviceSize());
-            }
-            if (options.input().deviceFps() > 0) {
-                grabber.setOption("framerate", Double.toString(options.input().deviceFps()));
-            }
-            if (options.input().deviceFormat() != null) {
-                grabber.setOption("input_format", options.input().deviceFormat());
-            }
-        }
-        if (Urls.isUrl(options.source())) {
-            grabber.setOption("timeout", NETWORK_TIMEOUT_MICROS);
-            grabber.setOption("analyzeduration", "500000");
-        }
-        AVCodecContext decoder = null;
+        FFmpegFrameGrabber grabber = VideoDecoder.grabber(options);
+        VideoDecoder input = null;
         AVFrame frame = null;
         try {
             grabber.start();
-            AVFormatContext fmt = grabber.getFormatContext();
-            String formatName = fmt.iformat() != null && fmt.iformat().name() != null
-                    ? fmt.iformat().name().getString() : "";
-            // multipart JPEG: FFmpeg makes the timestamps up at an assumed rate
-            boolean untimedContainer = formatName.equals("mpjpeg") || formatName.equals("mjpeg");
-            int videoIndex = av_find_best_stream(fmt, AVMEDIA_TYPE_VIDEO, -1, -1, (AVCodec) null, 0);
-            if (videoIndex < 0) {
-                throw new IllegalStateException("no video stream");
-            }
-            AVStream stream = fmt.streams(videoIndex);
-            AVCodec codec = avcodec_find_decoder(stream.codecpar().codec_id());
-            if (codec == null) {
-                throw new IllegalStateException("no decoder for codec id " + stream.codecpar().codec_id());
-            }
-            decoder = avcodec_alloc_context3(codec);
-            check(avcodec_parameters_to_context(decoder, stream.codecpar()), "copy codec parameters");
-            decoder.thread_count(1);
-            decoder.pkt_timebase(stream.time_base());
-            // skip the deblocking filter (10–20 % of H.264 decode time here): it smooths block edges, which the
-            // shrink to analysis size averages out anyway; only analysis sees these pictures (clips are copies)
-            decoder.skip_loop_filter(org.bytedeco.ffmpeg.global.avcodec.AVDISCARD_ALL);
-            check(avcodec_open2(decoder, codec, (AVDictionary) null), "open decoder");
-            AVRational tb = stream.time_base();
-            double timeBase = (double) tb.num() / tb.den();
-            AVRational rate = stream.avg_frame_rate();
-            clock.opened(untimedContainer, rate.num() > 0 && rate.den() > 0 ? (double) rate.den() / rate.num()
-                    : Double.NaN);
+            input = new VideoDecoder(grabber.getFormatContext());
+            final AVCodecContext decoder = input.context;
+            final int videoIndex = input.streamIndex;
+            final double timeBase = input.timeBase;
+            clock.opened(input.untimed, input.nominalFrameSeconds);
             if (clips != null) {
-                if (stream.codecpar().codec_id() == org.bytedeco.ffmpeg.global.avcodec.AV_CODEC_ID_RAWVIDEO) {
+                if (input.raw()) {
                     LOG.info("camera {}: raw video; clips are encoded with libopenh264 (device_format = \"mjpeg\""
                             + " costs less CPU)", cameraId);
                 }
-                clips.onStream(stream.codecpar(), stream.time_base(), 1.0 / clock.nominalFrameSeconds());
+                clips.onStream(input.stream.codecpar(), input.stream.time_base(), 1.0 / clock.nominalFrameSeconds());
             }
             frame = av_frame_alloc();
             // views of the frame's own plane and stride arrays, valid while it lives: no wrapper per picture
@@ -344,11 +259,9 @@ public final class VideoSource implements Runnable {
                     if (clips != null) {
                         clips.onPacket(pkt, pktSeconds);
                     }
-                    long c0 = measure ? cpu() : 0;
+                    long c0 = meter.begin();
                     int sent = avcodec_send_packet(decoder, pkt);
-                    if (measure) {
-                        decodeCpu += cpu() - c0;
-                    }
+                    meter.decoded(c0);
                     if (sent < 0) {
                         decodeErrors++;
                         continue;
@@ -367,8 +280,8 @@ public final class VideoSource implements Runnable {
             if (frame != null) {
                 av_frame_free(frame);
             }
-            if (decoder != null) {
-                avcodec_free_context(decoder);
+            if (input != null) {
+                input.close();
             }
             try {
                 grabber.close();
@@ -380,11 +293,9 @@ public final class VideoSource implements Runnable {
 
     private void drain(AVCodecContext decoder, AVFrame frame, double timeBase) throws InterruptedException {
         while (true) {
-            long c0 = measure ? cpu() : 0;
+            long c0 = meter.begin();
             int got = avcodec_receive_frame(decoder, frame);
-            if (measure) {
-                decodeCpu += cpu() - c0;
-            }
+            meter.decoded(c0);
             if (got != 0) {
                 return;
             }
@@ -398,10 +309,7 @@ public final class VideoSource implements Runnable {
             ts = f.pts();
         }
         double t = clock.frameSeconds(ts, timeBase);
-        if (!measure && t >= measureFrom) {
-            measure = true; // from this frame on (its decode was just before: the count starts with the next)
-            decodedBeforeMeasuring = frameIndex + 1;
-        }
+        meter.frame(t);
         long index = frameIndex++;
         lastFrameNanos = System.nanoTime();
         connectedOnce = true;
@@ -424,19 +332,13 @@ public final class VideoSource implements Runnable {
             decodeErrors++;
             return;
         }
-        long c0 = measure ? cpu() : 0;
+        long c0 = meter.begin();
         GrayFrame out = shrink.into(f, framePlanes, frameStrides, slot);
-        if (measure) {
-            downscaleCpu += cpu() - c0;
-        }
+        meter.downscaled(c0);
         out.streamSeconds = t;
         out.frameIndex = index;
         slot.publish();
     }
-
-    /** The decoded frame's plane pointers and line sizes (views into the AVFrame of the current pass). */
-    private PointerPointer<?> framePlanes;
-    private IntPointer frameStrides;
 
     /** Sleeps so that stream time advances no faster than wall time (a file played as a camera). */
     private void pace(double t) throws InterruptedException {
@@ -449,13 +351,6 @@ public final class VideoSource implements Runnable {
         long waitNanos = dueNanos - System.nanoTime();
         if (waitNanos > 1_000_000) {
             Thread.sleep(waitNanos / 1_000_000, (int) (waitNanos % 1_000_000));
-        }
-    }
-
-
-    private static void check(int ret, String what) {
-        if (ret < 0) {
-            throw new IllegalStateException(what + " failed (FFmpeg error " + ret + ")");
         }
     }
 }

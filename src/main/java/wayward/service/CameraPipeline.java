@@ -7,6 +7,7 @@ import java.util.function.Consumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.slf4j.MDC;
+import wayward.capture.CaptureMeter;
 import wayward.capture.FrameSlot;
 import wayward.capture.SourceOptions;
 import wayward.capture.VideoSource;
@@ -53,7 +54,7 @@ public final class CameraPipeline implements CameraStatus {
     private volatile long analysedBeforeMeasuring = -1;
     private volatile double streamAtMeasuring = Double.NaN;
     private static long cpu() {
-        return VideoSource.cpu();
+        return CaptureMeter.cpu();
     }
 
     /**
@@ -62,15 +63,15 @@ public final class CameraPipeline implements CameraStatus {
      */
     public void measureStages(double fromSeconds) {
         measureFrom = fromSeconds;
-        source.measureStages(fromSeconds);
+        source.meter().startAt(fromSeconds);
     }
 
     /** What was measured since counting began (all 0 before). */
     public StageFigures stageFigures() {
         long before = analysedBeforeMeasuring;
         double from = streamAtMeasuring;
-        return new StageFigures(source.decodeCpuNanos(), source.downscaleCpuNanos(), flowCpu, zonesCpu,
-                source.framesMeasured(), before < 0 ? 0 : analysedFrames - before,
+        return new StageFigures(source.meter().decodeCpuNanos(), source.meter().downscaleCpuNanos(), flowCpu, zonesCpu,
+                source.meter().framesMeasured(), before < 0 ? 0 : analysedFrames - before,
                 Double.isNaN(from) ? 0 : lastStreamSeconds - from);
     }
 
