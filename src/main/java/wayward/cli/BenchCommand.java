@@ -10,7 +10,7 @@ import wayward.config.CameraConfig;
 import wayward.config.ConfigLoader;
 import wayward.config.SiteConfig;
 import wayward.service.Service;
-import wayward.service.StageFigures;
+import wayward.analysis.StageFigures;
 
 /** CPU cost per camera and stage on a recorded file, to size a server. */
 final class BenchCommand extends Command {

@@ -37,11 +37,11 @@ final class CheckCommand extends Command {
                 if (!z.learnsHeading()) {
                     continue;
                 }
-                Path f = wayward.service.LearnedHeadings.file(
-                        wayward.service.LearnedHeadings.folder(c.dataDir(), cam.id()), z.id());
+                Path f = wayward.analysis.LearnedHeadings.file(
+                        wayward.analysis.LearnedHeadings.folder(c.dataDir(), cam.id()), z.id());
                 String learned;
                 try {
-                    double h = wayward.service.LearnedHeadings.read(f);
+                    double h = wayward.analysis.LearnedHeadings.read(f);
                     learned = Double.isNaN(h) ? "not learned yet"
                             : "learned heading_deg = " + String.format(java.util.Locale.ROOT, "%.1f", h) + " (" + f + ")";
                 } catch (java.io.IOException e) {

@@ -20,7 +20,7 @@ import java.nio.charset.StandardCharsets;
 import java.util.concurrent.TimeUnit;
 import javax.imageio.ImageIO;
 import wayward.config.ZoneConfig;
-import wayward.service.CameraStatus;
+import wayward.analysis.CameraStatus;
 
 /**
  * The live view as MJPEG over HTTP (multipart/x-mixed-replace, one JPEG per part): the analysis frame with

@@ -9,7 +9,7 @@ import wayward.config.ZoneConfig;
 import wayward.delivery.Courier;
 import wayward.delivery.EventBus;
 import wayward.delivery.Outbox;
-import wayward.service.CameraStatus;
+import wayward.analysis.CameraStatus;
 import wayward.service.Service;
 
 /**

@@ -22,7 +22,7 @@ import wayward.config.ZoneConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.secret.Urls;
-import wayward.service.CameraStatus;
+import wayward.analysis.CameraStatus;
 import wayward.service.Service;
 
 /**

@@ -17,9 +17,9 @@ import wayward.config.ZoneConfig;
 import wayward.flow.FlowField;
 import wayward.image.GrayFrame;
 import wayward.picture.FlowColours;
-import wayward.service.CameraStatus;
-import wayward.service.FrameListener;
-import wayward.service.ReadingListener;
+import wayward.analysis.CameraStatus;
+import wayward.analysis.FrameListener;
+import wayward.analysis.ReadingListener;
 import wayward.zone.ZoneReading;
 
 /**

@@ -26,7 +26,7 @@ import wayward.config.ZoneConfig;
 import wayward.delivery.EventSink;
 import wayward.event.Event;
 import wayward.event.EventJson;
-import wayward.service.ReadingListener;
+import wayward.analysis.ReadingListener;
 import wayward.zone.Movers;
 import wayward.zone.ZoneReading;
 

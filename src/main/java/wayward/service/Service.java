@@ -21,6 +21,11 @@ import wayward.delivery.PrintSink;
 import wayward.delivery.WebhookConfig;
 import wayward.delivery.WebhookSender;
 import wayward.secret.Urls;
+import wayward.analysis.CameraPipeline;
+import wayward.analysis.CameraStatus;
+import wayward.analysis.FrameListener;
+import wayward.analysis.LearnedHeadings;
+import wayward.analysis.ReadingListener;
 
 /**
  * Wires cameras to sinks, starts them, and shuts down in order: stop capture → drain analysis → deliver what

@@ -15,6 +15,7 @@ import java.util.Map;
 import java.util.concurrent.TimeUnit;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
+import wayward.analysis.CameraPipeline;
 
 /**
  * systemd's notify protocol (sd_notify(3)): newline-separated {@code KEY=VALUE} datagrams to the Unix socket

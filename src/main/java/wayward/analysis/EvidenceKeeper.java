@@ -1,4 +1,4 @@
-package wayward.service;
+package wayward.analysis;
 
 import java.nio.file.Path;
 import java.time.ZoneOffset;

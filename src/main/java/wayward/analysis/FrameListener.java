@@ -1,4 +1,4 @@
-package wayward.service;
+package wayward.analysis;
 
 import wayward.flow.FlowField;
 import wayward.image.GrayFrame;

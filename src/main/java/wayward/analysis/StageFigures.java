@@ -1,4 +1,4 @@
-package wayward.service;
+package wayward.analysis;
 
 /**
  * What one camera's stages cost since counting began (all 0 before): CPU nanoseconds of each stage, frames

@@ -1,4 +1,4 @@
-package wayward.service;
+package wayward.analysis;
 
 import java.io.IOException;
 import java.nio.file.Path;

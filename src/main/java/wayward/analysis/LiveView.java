@@ -1,4 +1,4 @@
-package wayward.service;
+package wayward.analysis;
 
 import java.awt.image.BufferedImage;
 import java.util.List;

@@ -1,4 +1,4 @@
-package wayward.service;
+package wayward.analysis;
 
 import java.time.Clock;
 import java.time.Duration;

@@ -1,4 +1,4 @@
-package wayward.service;
+package wayward.analysis;
 
 import java.time.Clock;
 import java.util.ArrayList;
@@ -192,7 +192,7 @@ public final class CameraPipeline implements CameraStatus {
      * the frame slot hands it the newest picture and drops the stale ones, so capture never falls behind the
      * camera and the camera's analysis rate sinks instead; this logs when that begins and ends.
      */
-    void checkLoad(double seconds) {
+    public void checkLoad(double seconds) {
         long a = analysedFrames;
         long d = droppedFrames();
         long da = a - loadAnalysed;
