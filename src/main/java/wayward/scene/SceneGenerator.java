@@ -3,12 +3,8 @@ package wayward.scene;
 import static org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_GRAY8;
 import static org.bytedeco.ffmpeg.global.avutil.AV_PIX_FMT_YUV420P;
 
-import com.fasterxml.jackson.core.JsonFactory;
-import com.fasterxml.jackson.core.JsonGenerator;
 import java.io.IOException;
-import java.io.Writer;
 import java.nio.ByteBuffer;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -16,7 +12,6 @@ import java.util.List;
 import java.util.SplittableRandom;
 import org.bytedeco.javacv.FFmpegFrameRecorder;
 import org.bytedeco.javacv.Frame;
-import wayward.zone.ZoneMeter;
 
 /**
  * Renders a scenario video with exact ground truth: a textured background (generated, or a real photograph),
@@ -27,9 +22,10 @@ import wayward.zone.ZoneMeter;
  * it moves against that zone's heading. Deterministic for a given scene (seeded). Used for tests and the demo.
  */
 public final class SceneGenerator {
-    private final Scene scene;
     /** Slower than this (pixels per second) a mover counts as standing, not as going the wrong way. */
     public static final double AGAINST_MIN_SPEED = 5;
+
+    private final Scene scene;
 
     public SceneGenerator(Scene scene) {
         this.scene = scene;
@@ -39,18 +35,12 @@ public final class SceneGenerator {
     public void write(Path video, Path truth) throws IOException {
         int w = scene.width();
         int h = scene.height();
-        float[] background = background(w, h, new SplittableRandom(scene.seed()));
+        float[] background = Textures.background(scene, w, h, new SplittableRandom(scene.seed()));
         List<float[]> textures = new ArrayList<>();
         for (int i = 0; i < scene.movers().size(); i++) {
             Scene.Mover m = scene.movers().get(i);
-            int tw = pixels(m.width(), w);
-            int th = pixels(m.height(), h);
-            Scene.Look look = m.look();
-            textures.add(switch (look.texture()) {
-                case "plain" -> plain(tw, th, look);
-                case "photo" -> photoPatch(look, tw, th);
-                default -> texture(tw, th, new SplittableRandom(scene.seed() * 31 + i + 1));
-            });
+            textures.add(Textures.mover(m.look(), pixels(m.width(), w), pixels(m.height(), h),
+                    scene.seed() * 31 + i + 1));
         }
         float[] flickerWeight = flickerWeight(scene.nuisances().flicker(), w, h);
         double[] flickerKnots = flickerKnots(scene.nuisances().flicker(), scene.seconds(),
@@ -60,7 +50,7 @@ public final class SceneGenerator {
         List<float[]> swayTextures = new ArrayList<>();
         for (int i = 0; i < nu.sways().size(); i++) {
             Scene.Sway sw = nu.sways().get(i);
-            swayTextures.add(foliage(pixels(sw.width(), w), pixels(sw.height(), h), new SplittableRandom(scene.seed() * 97 + i)));
+            swayTextures.add(Textures.foliage(pixels(sw.width(), w), pixels(sw.height(), h), new SplittableRandom(scene.seed() * 97 + i)));
         }
         SplittableRandom rainRandom = new SplittableRandom(scene.seed() * 13 + 7);
         SplittableRandom shakeRandom = new SplittableRandom(scene.seed() * 17 + 3);
@@ -168,7 +158,7 @@ public final class SceneGenerator {
             }
             rec.stop();
         }
-        writeTruth(truth, video.getFileName().toString());
+        TruthWriter.write(scene, truth, video.getFileName().toString());
     }
 
     /** The background seen by a camera moved by (ox, oy) pixels: bilinear, edges repeated. */
@@ -266,15 +256,6 @@ public final class SceneGenerator {
         }
     }
 
-    /** Leaves: bright and dark speckles at a few scales, rounded corners. */
-    private static float[] foliage(int tw, int th, SplittableRandom r) {
-        float[] t = new float[tw * th];
-        for (int i = 0; i < t.length; i++) {
-            t[i] = (float) (70 + r.nextDouble() * 110);
-        }
-        return t;
-    }
-
     private static int pixels(double fraction, int size) {
         return Math.max(4, (int) Math.round(fraction * size));
     }
@@ -284,111 +265,6 @@ public final class SceneGenerator {
         double u1 = 1.0 - r.nextDouble();
         double u2 = r.nextDouble();
         return Math.sqrt(-2 * Math.log(u1)) * Math.cos(2 * Math.PI * u2);
-    }
-
-    /**
-     * The ground: a real photograph (scene key background) scaled to cover the frame, centre-cropped, or
-     * asphalt-like smooth value noise at a few scales with fine grain; then the painted lines.
-     */
-    private float[] background(int w, int h, SplittableRandom r) {
-        if (scene.background() != null) {
-            Photo p = Photo.load(scene.background());
-            float[] img = new float[w * h];
-            double scale = Math.max((double) w / p.width, (double) h / p.height); // frame px per photo px
-            double x0 = (p.width - w / scale) / 2;
-            double y0 = (p.height - h / scale) / 2;
-            for (int y = 0; y < h; y++) {
-                for (int x = 0; x < w; x++) {
-                    img[y * w + x] = (float) p.area(x0 + (x + 0.5) / scale, y0 + (y + 0.5) / scale, 1 / scale);
-                }
-            }
-            for (Scene.Line line : scene.lines()) {
-                paintLine(img, w, h, line);
-            }
-            return img;
-        }
-        float[] img = new float[w * h];
-        double[] amplitude = {28, 14, 7};
-        int[] cell = {64, 16, 4};
-        for (int o = 0; o < cell.length; o++) {
-            int gw = w / cell[o] + 2;
-            int gh = h / cell[o] + 2;
-            double[] grid = new double[gw * gh];
-            for (int i = 0; i < grid.length; i++) {
-                grid[i] = r.nextDouble() * 2 - 1;
-            }
-            for (int y = 0; y < h; y++) {
-                double gy = (double) y / cell[o];
-                int y0 = (int) gy;
-                double fy = smooth(gy - y0);
-                for (int x = 0; x < w; x++) {
-                    double gx = (double) x / cell[o];
-                    int x0 = (int) gx;
-                    double fx = smooth(gx - x0);
-                    double a = grid[y0 * gw + x0] + fx * (grid[y0 * gw + x0 + 1] - grid[y0 * gw + x0]);
-                    double b = grid[(y0 + 1) * gw + x0] + fx * (grid[(y0 + 1) * gw + x0 + 1] - grid[(y0 + 1) * gw + x0]);
-                    img[y * w + x] += (float) (amplitude[o] * (a + fy * (b - a)));
-                }
-            }
-        }
-        for (int i = 0; i < img.length; i++) {
-            img[i] += 100;
-        }
-        for (Scene.Line line : scene.lines()) {
-            paintLine(img, w, h, line);
-        }
-        return img;
-    }
-
-    private static double smooth(double f) {
-        return f * f * (3 - 2 * f);
-    }
-
-    private static void paintLine(float[] img, int w, int h, Scene.Line line) {
-        double x0 = line.x0() * w;
-        double y0 = line.y0() * h;
-        double x1 = line.x1() * w;
-        double y1 = line.y1() * h;
-        double len = Math.hypot(x1 - x0, y1 - y0);
-        double half = line.widthPx() / 2.0;
-        for (int y = 0; y < h; y++) {
-            for (int x = 0; x < w; x++) {
-                double px = x + 0.5 - x0;
-                double py = y + 0.5 - y0;
-                double along = (px * (x1 - x0) + py * (y1 - y0)) / len;
-                double across = Math.abs(px * (y1 - y0) - py * (x1 - x0)) / len;
-                if (along < 0 || along > len || across > half + 0.5) {
-                    continue;
-                }
-                if (line.dashPx() > 0 && ((int) (along / line.dashPx()) & 1) == 1) {
-                    continue;
-                }
-                double cover = Math.min(1, half + 0.5 - across);
-                img[y * w + x] += (float) (cover * (215 - img[y * w + x]));
-            }
-        }
-    }
-
-    /** A mover's look: a dark frame around blocks of varied brightness with fine detail, like a loaded cart. */
-    private static float[] texture(int tw, int th, SplittableRandom r) {
-        float[] t = new float[tw * th];
-        int block = Math.max(3, Math.min(tw, th) / 5);
-        int bw = tw / block + 1;
-        int bh = th / block + 1;
-        double[] blocks = new double[bw * bh];
-        for (int i = 0; i < blocks.length; i++) {
-            blocks[i] = 60 + r.nextDouble() * 170;
-        }
-        for (int y = 0; y < th; y++) {
-            for (int x = 0; x < tw; x++) {
-                double v = blocks[(y / block) * bw + x / block] + (r.nextDouble() - 0.5) * 50;
-                if (x < 2 || y < 2 || x >= tw - 2 || y >= th - 2) {
-                    v = 25;
-                }
-                t[y * tw + x] = (float) v;
-            }
-        }
-        return t;
     }
 
     /** Draws a texture centred at (cx, cy) pixels with sub-pixel placement (bilinear sampling). */
@@ -418,87 +294,6 @@ public final class SceneGenerator {
                 double b = tex[i + tw] + fx * (tex[i + tw + 1] - tex[i + tw]);
                 canvas[y * w + x] = (float) (a + fy * (b - a));
             }
-        }
-    }
-
-    /** A flat grey box with an optional darker rim, like a van's roof seen from above. */
-    private static float[] plain(int tw, int th, Scene.Look look) {
-        float[] t = new float[tw * th];
-        for (int y = 0; y < th; y++) {
-            for (int x = 0; x < tw; x++) {
-                boolean rim = x < look.rimPx() || y < look.rimPx() || x >= tw - look.rimPx() || y >= th - look.rimPx();
-                t[y * tw + x] = (float) (rim ? look.rimGrey() : look.grey());
-            }
-        }
-        return t;
-    }
-
-    /** A tw × th patch of a photograph, centred at the look's place in it, photoScale photo px per px. */
-    private static float[] photoPatch(Scene.Look look, int tw, int th) {
-        Photo p = Photo.load(look.photo());
-        float[] t = new float[tw * th];
-        double s = look.photoScale();
-        double cx = look.photoX() * p.width;
-        double cy = look.photoY() * p.height;
-        for (int y = 0; y < th; y++) {
-            for (int x = 0; x < tw; x++) {
-                t[y * tw + x] = (float) p.area(cx + (x + 0.5 - tw / 2.0) * s, cy + (y + 0.5 - th / 2.0) * s, s);
-            }
-        }
-        return t;
-    }
-
-    /** A photograph from Debian's opencv-doc examples, as grey levels (ITU-R BT.601 luma weights). */
-    private record Photo(int width, int height, float[] grey) {
-        static Photo load(String name) {
-            Path file = Scene.photoFolder().resolve(name);
-            if (!Files.isRegularFile(file)) {
-                throw new IllegalArgumentException("photo " + name + ": " + file + " not found (the scene's "
-                        + "photographs come from Debian's opencv-doc package: apt-get install opencv-doc)");
-            }
-            java.awt.image.BufferedImage img;
-            try {
-                img = javax.imageio.ImageIO.read(file.toFile());
-            } catch (IOException e) {
-                throw new IllegalArgumentException("photo " + name + ": " + file + ": " + e.getMessage(), e);
-            }
-            if (img == null) {
-                throw new IllegalArgumentException("photo " + name + ": " + file + ": not a picture ImageIO reads");
-            }
-            float[] g = new float[img.getWidth() * img.getHeight()];
-            for (int y = 0; y < img.getHeight(); y++) {
-                for (int x = 0; x < img.getWidth(); x++) {
-                    int rgb = img.getRGB(x, y);
-                    g[y * img.getWidth() + x] = (float) (0.299 * ((rgb >> 16) & 0xff) + 0.587 * ((rgb >> 8) & 0xff)
-                            + 0.114 * (rgb & 0xff));
-                }
-            }
-            return new Photo(img.getWidth(), img.getHeight(), g);
-        }
-
-        /** Mean over a footprint × footprint square centred at (x, y) (photo px; edges repeated). */
-        double area(double x, double y, double footprint) {
-            int n = Math.max(1, (int) Math.ceil(footprint));
-            double sum = 0;
-            for (int j = 0; j < n; j++) {
-                for (int i = 0; i < n; i++) {
-                    sum += bilinear(x - 0.5 + (i + 0.5 - n / 2.0) * footprint / n, y - 0.5 + (j + 0.5 - n / 2.0) * footprint / n);
-                }
-            }
-            return sum / (n * n);
-        }
-
-        private double bilinear(double x, double y) {
-            double sx = Math.max(0, Math.min(width - 1.001, x));
-            double sy = Math.max(0, Math.min(height - 1.001, y));
-            int x0 = (int) sx;
-            int y0 = (int) sy;
-            double fx = sx - x0;
-            double fy = sy - y0;
-            int i = y0 * width + x0;
-            double a = grey[i] + fx * (grey[i + 1] - grey[i]);
-            double b = grey[i + width] + fx * (grey[i + width + 1] - grey[i + width]);
-            return a + fy * (b - a);
         }
     }
 
@@ -633,67 +428,6 @@ public final class SceneGenerator {
                 double dy = y - py;
                 canvas[y * w + x] += (float) (g.brightness() * Math.exp(-(dx * dx + dy * dy) / (2 * sigma * sigma)));
             }
-        }
-    }
-
-    private void writeTruth(Path truth, String videoName) throws IOException {
-        if (truth.getParent() != null) {
-            Files.createDirectories(truth.getParent());
-        }
-        try (Writer out = Files.newBufferedWriter(truth, StandardCharsets.UTF_8);
-                JsonGenerator g = new JsonFactory().createGenerator(out)) {
-            g.useDefaultPrettyPrinter();
-            g.writeStartObject();
-            g.writeStringField("scene", scene.name());
-            g.writeStringField("video", videoName);
-            g.writeNumberField("width", scene.width());
-            g.writeNumberField("height", scene.height());
-            g.writeNumberField("fps", scene.fps());
-            g.writeNumberField("seconds", scene.seconds());
-            Scene.Nuisances nu = scene.nuisances();
-            if (nu.tamper() != null || nu.bump() != null) {
-                g.writeObjectFieldStart("tamper");
-                g.writeStringField("event", nu.tamper() != null ? nu.tamper().expectedEvent() : "camera_moved");
-                g.writeNumberField("at_s", nu.tamper() != null ? nu.tamper().atSeconds() : nu.bump().atSeconds());
-                g.writeEndObject();
-            }
-            g.writeArrayFieldStart("movers");
-            for (Scene.Mover m : scene.movers()) {
-                g.writeStartObject();
-                g.writeStringField("id", m.id());
-                g.writeNumberField("start_s", m.startSeconds());
-                g.writeNumberField("end_s", m.endSeconds());
-                int last = m.ts().length - 1;
-                double bearing = ZoneMeter.bearingDeg((m.xs()[last] - m.xs()[0]) * scene.width(),
-                        (m.ys()[last] - m.ys()[0]) * scene.height());
-                g.writeNumberField("heading_deg", Math.round(bearing * 10) / 10.0);
-                g.writeNumberField("speed_px_s", Math.round(m.speedPxPerSecond(scene.width(), scene.height()) * 10) / 10.0);
-                g.writeArrayFieldStart("zones");
-                for (Scene.Zone z : scene.zones()) {
-                    double[] inside = m.insideInterval(z, 1.0 / scene.fps());
-                    if (inside == null) {
-                        continue;
-                    }
-                    g.writeStartObject();
-                    g.writeStringField("zone", z.id());
-                    g.writeNumberField("enter_s", Math.round(inside[0] * 1000) / 1000.0);
-                    g.writeNumberField("exit_s", Math.round(inside[1] * 1000) / 1000.0);
-                    List<double[]> against = m.againstIntervals(z, 1.0 / scene.fps(), scene.width(),
-                            scene.height(), AGAINST_MIN_SPEED);
-                    g.writeBooleanField("against", !against.isEmpty());
-                    // each interval inside the zone moving against its heading is one wrong-way passage
-                    g.writeArrayFieldStart("against_intervals");
-                    for (double[] iv : against) {
-                        g.writeArray(new double[] {Math.round(iv[0] * 1000) / 1000.0, Math.round(iv[1] * 1000) / 1000.0}, 0, 2);
-                    }
-                    g.writeEndArray();
-                    g.writeEndObject();
-                }
-                g.writeEndArray();
-                g.writeEndObject();
-            }
-            g.writeEndArray();
-            g.writeEndObject();
         }
     }
 }
