@@ -117,26 +117,24 @@ final class Drawing {
 
     /** Box blur of radius r, rows then columns, through {@code tmp}. */
     static void blur(float[] img, float[] tmp, int w, int h, int r) {
-        for (int y = 0; y < h; y++) {
-            for (int x = 0; x < w; x++) {
+        boxMeans(img, tmp, h, w, w, 1, r);
+        boxMeans(tmp, img, w, h, 1, w, r);
+    }
+
+    /**
+     * Means over 2r + 1 neighbours (fewer at the ends) along {@code lines} lines of {@code length} samples each:
+     * sample i of line j is at j · lineStep + i · step.
+     */
+    private static void boxMeans(float[] src, float[] dst, int lines, int length, int lineStep, int step, int r) {
+        for (int j = 0; j < lines; j++) {
+            for (int i = 0; i < length; i++) {
                 double sum = 0;
                 int n = 0;
-                for (int k = Math.max(0, x - r); k <= Math.min(w - 1, x + r); k++) {
-                    sum += img[y * w + k];
+                for (int k = Math.max(0, i - r); k <= Math.min(length - 1, i + r); k++) {
+                    sum += src[j * lineStep + k * step];
                     n++;
                 }
-                tmp[y * w + x] = (float) (sum / n);
-            }
-        }
-        for (int y = 0; y < h; y++) {
-            for (int x = 0; x < w; x++) {
-                double sum = 0;
-                int n = 0;
-                for (int k = Math.max(0, y - r); k <= Math.min(h - 1, y + r); k++) {
-                    sum += tmp[k * w + x];
-                    n++;
-                }
-                img[y * w + x] = (float) (sum / n);
+                dst[j * lineStep + i * step] = (float) (sum / n);
             }
         }
     }
