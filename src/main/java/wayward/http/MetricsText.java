@@ -10,7 +10,6 @@ import wayward.delivery.Courier;
 import wayward.delivery.EventBus;
 import wayward.delivery.Outbox;
 import wayward.analysis.CameraStatus;
-import wayward.service.Service;
 
 /**
  * The service's figures in the Prometheus text exposition format (version 0.0.4): one HELP and TYPE line per
@@ -22,7 +21,7 @@ final class MetricsText {
     private MetricsText() {
     }
 
-    static String of(Service service) {
+    static String of(StatusSource service) {
         MetricsText m = new MetricsText();
         m.cameras(service.cameraStatus());
         m.delivery(service.bus(), service.outbox());

@@ -20,7 +20,6 @@ import java.security.MessageDigest;
 import java.util.List;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.service.Service;
 
 /**
  * Routes one connection's requests (GET and HEAD only) to their responders; every refusal is a short plain-text
@@ -35,7 +34,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
     private static final Logger LOG = LoggerFactory.getLogger(StatusHandler.class);
 
     /** What all connections share. */
-    record Shared(Service service, byte[] token) {
+    record Shared(StatusSource service, byte[] token) {
     }
 
     private final Shared shared;
@@ -43,7 +42,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
     private final ClipFiles clips;
 
     StatusHandler(Shared shared) {
-        this(shared, new ClipFiles(() -> shared.service().config().dataDir().resolve("clips")));
+        this(shared, new ClipFiles(() -> shared.service().clipsDir()));
     }
 
     StatusHandler(Shared shared, ClipFiles clips) {

@@ -19,7 +19,6 @@ import java.util.concurrent.TimeUnit;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.config.HttpConfig;
-import wayward.service.Service;
 
 /**
  * The status server (Netty, HTTP/1.1): health, Prometheus metrics, a JSON API, clip downloads and the live
@@ -41,7 +40,7 @@ public final class StatusServer implements AutoCloseable {
     }
 
     /** Binds and serves; throws with a plain reason when the address cannot be used. */
-    public static StatusServer start(HttpConfig config, Service service) throws IOException {
+    public static StatusServer start(HttpConfig config, StatusSource service) throws IOException {
         EventLoopGroup group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("http", true),
                 NioIoHandler.newFactory());
         StatusHandler.Shared shared = new StatusHandler.Shared(service, config.token());

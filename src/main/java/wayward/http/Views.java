@@ -23,16 +23,15 @@ import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.secret.Urls;
 import wayward.analysis.CameraStatus;
-import wayward.service.Service;
 
 /**
  * The views of the running service: health and readiness, the cameras and their zones, the recent events, the
  * live picture and page, and a drawn zone measured on the live flow.
  */
 final class Views {
-    private final Service service;
+    private final StatusSource service;
 
-    Views(Service service) {
+    Views(StatusSource service) {
         this.service = service;
     }
 

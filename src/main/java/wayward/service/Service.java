@@ -26,12 +26,13 @@ import wayward.analysis.CameraStatus;
 import wayward.analysis.FrameListener;
 import wayward.analysis.LearnedHeadings;
 import wayward.analysis.ReadingListener;
+import wayward.http.StatusSource;
 
 /**
  * Wires cameras to sinks, starts them, and shuts down in order: stop capture → drain analysis → deliver what
  * is queued → close the sinks. One instance per run; {@link #start} then {@link #awaitEnd} or {@link #stop}.
  */
-public final class Service {
+public final class Service implements StatusSource {
     private static final Logger LOG = LoggerFactory.getLogger(Service.class);
     /** Shown in the log at every start; the README says the same. */
     public static final String CAUTION = "wayward is an aid for people who watch a site, not a safety system: "
@@ -332,6 +333,7 @@ public final class Service {
     }
 
     /** The cameras as the status server and reports read them (read-only). */
+    @Override
     public List<CameraStatus> cameraStatus() {
         return List.copyOf(pipelines);
     }
@@ -340,17 +342,25 @@ public final class Service {
         return config;
     }
 
+    @Override
     public EventBus bus() {
         return bus;
     }
 
     /** The outbox, or null when no webhook or broker is configured (or in replay). */
+    @Override
     public Outbox outbox() {
         return outbox;
     }
 
+    @Override
     public wayward.delivery.RecentEvents recentEvents() {
         return recent;
+    }
+
+    @Override
+    public java.nio.file.Path clipsDir() {
+        return config().dataDir().resolve("clips");
     }
 
     /** Orderly shutdown, each step time-limited. Idempotent; any thread. */

@@ -1,0 +1,23 @@
+package wayward.http;
+
+import java.nio.file.Path;
+import java.util.List;
+import wayward.analysis.CameraStatus;
+import wayward.delivery.EventBus;
+import wayward.delivery.Outbox;
+import wayward.delivery.RecentEvents;
+
+/** What the status server reads of the running service; the service implements it, http never sees the service. */
+public interface StatusSource {
+    /** The cameras, in configuration order. */
+    List<CameraStatus> cameraStatus();
+
+    EventBus bus();
+
+    Outbox outbox();
+
+    RecentEvents recentEvents();
+
+    /** Where evidence clips are kept (may change with a reload). */
+    Path clipsDir();
+}
