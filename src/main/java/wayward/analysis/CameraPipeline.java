@@ -7,7 +7,6 @@ import java.util.function.Consumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.slf4j.MDC;
-import wayward.capture.CaptureMeter;
 import wayward.capture.FrameSlot;
 import wayward.capture.SourceOptions;
 import wayward.capture.VideoSource;
@@ -37,76 +36,36 @@ public final class CameraPipeline implements CameraStatus {
     private final VideoSource source;
     private final Thread captureThread;
     private final Thread analysisThread;
-    private volatile long analysedFrames;
-    private volatile long analysisNanos;
-    private final LiveView live = new LiveView();
+    private final EvidenceKeeper evidence;
+    private final wayward.rule.TamperWatch tamper;
     /** Per zone, in the config's order: meter, rule or learner. */
     private final List<ZoneChannel> channels = new ArrayList<>();
+    private final ZoneFigures zoneFigures;
+    private final LiveView live = new LiveView();
+    private final StageMeter stages = new StageMeter();
+    private final LoadCheck load;
+    private volatile long analysedFrames;
+    private volatile long analysisNanos;
+    private volatile double lastStreamSeconds;
     private volatile java.nio.file.Path learnedDir;
     private volatile ReadingListener readings;
-
     private volatile FrameListener frames;
-    private volatile double measureFrom = Double.NaN;
-    /** Analysis thread: counting has begun. */
-    private boolean measure;
-    private volatile long flowCpu;
-    private volatile long zonesCpu;
-    private volatile long analysedBeforeMeasuring = -1;
-    private volatile double streamAtMeasuring = Double.NaN;
-    private static long cpu() {
-        return CaptureMeter.cpu();
-    }
-
-    /**
-     * Before {@link #start}: measure each stage's CPU time from stream time {@code fromSeconds} on (bench), each
-     * thread starting its own count when its frames reach that time.
-     */
-    public void measureStages(double fromSeconds) {
-        measureFrom = fromSeconds;
-        source.meter().startAt(fromSeconds);
-    }
-
-    /** What was measured since counting began (all 0 before). */
-    public StageFigures stageFigures() {
-        long before = analysedBeforeMeasuring;
-        double from = streamAtMeasuring;
-        return new StageFigures(source.meter().decodeCpuNanos(), source.meter().downscaleCpuNanos(), flowCpu, zonesCpu,
-                source.meter().framesMeasured(), before < 0 ? 0 : analysedFrames - before,
-                Double.isNaN(from) ? 0 : lastStreamSeconds - from);
-    }
-
-    /** Before {@link #start}: every analysed frame also goes to {@code l}. */
-    public void listenFrames(FrameListener l) {
-        this.frames = l;
-    }
-
-    /** Before {@link #start}: every zone reading also goes to {@code l}. */
-    public void listenReadings(ReadingListener l) {
-        this.readings = l;
-    }
-    private final wayward.rule.TamperWatch tamper;
-    private final java.util.concurrent.atomic.AtomicLongArray zoneCoverage;
-    private final java.util.concurrent.atomic.AtomicLongArray zoneAgainst;
-    private final java.util.concurrent.atomic.AtomicLongArray zoneEvents;
-    private volatile double lastStreamSeconds;
 
     // analysis-thread state
     private FlowEstimator flow;
     private FlowField field;
     private final ZoneReading reading = new ZoneReading();
 
-    /**
-     * @param lossless analyse every frame up to the rate cap (replay); otherwise newest-wins (live)
-     * @param realtime pace file sources to their timestamps
-     * @param maxLoops for looping files, passes before the camera ends (0 = forever)
-     */
     /** Evidence settings of a pipeline: where clips go and who writes snapshots; null for none. */
     public record Evidence(java.nio.file.Path dataDir, wayward.config.ClipConfig clips,
             wayward.clip.EvidenceWriter writer) {
     }
 
-    private final EvidenceKeeper evidence;
-
+    /**
+     * @param lossless analyse every frame up to the rate cap (replay); otherwise newest-wins (live)
+     * @param realtime pace file sources to their timestamps
+     * @param maxLoops for looping files, passes before the camera ends (0 = forever)
+     */
     public CameraPipeline(CameraConfig camera, FlowConfig flowConfig, Consumer<Event> events, Clock clock,
             boolean lossless, boolean realtime, int maxLoops) {
         this(camera, flowConfig, events, clock, lossless, realtime, maxLoops, null);
@@ -135,19 +94,37 @@ public final class CameraPipeline implements CameraStatus {
             channels.add(new ZoneChannel(camera, z, clock));
         }
         this.tamper = camera.tamperAlerts() ? new wayward.rule.TamperWatch(camera.id(), clock) : null;
-        int zones = camera.zones().size();
-        this.zoneCoverage = new java.util.concurrent.atomic.AtomicLongArray(zones);
-        this.zoneAgainst = new java.util.concurrent.atomic.AtomicLongArray(zones);
-        this.zoneEvents = new java.util.concurrent.atomic.AtomicLongArray(zones);
-        for (int z = 0; z < zones; z++) {
-            zoneCoverage.set(z, Double.doubleToRawLongBits(Double.NaN));
-            zoneAgainst.set(z, Double.doubleToRawLongBits(Double.NaN));
-        }
+        this.zoneFigures = new ZoneFigures(camera.zones().size());
+        this.load = new LoadCheck(camera.id(), camera.analysisFps());
     }
 
     @Override
     public String id() {
         return camera.id();
+    }
+
+    /**
+     * Before {@link #start}: measure each stage's CPU time from stream time {@code fromSeconds} on (bench), each
+     * thread starting its own count when its frames reach that time.
+     */
+    public void measureStages(double fromSeconds) {
+        stages.startAt(fromSeconds);
+        source.meter().startAt(fromSeconds);
+    }
+
+    /** What was measured since counting began (all 0 before). */
+    public StageFigures stageFigures() {
+        return stages.figures(source.meter(), analysedFrames, lastStreamSeconds);
+    }
+
+    /** Before {@link #start}: every analysed frame also goes to {@code l}. */
+    public void listenFrames(FrameListener l) {
+        this.frames = l;
+    }
+
+    /** Before {@link #start}: every zone reading also goes to {@code l}. */
+    public void listenReadings(ReadingListener l) {
+        this.readings = l;
     }
 
     public void start() {
@@ -182,43 +159,15 @@ public final class CameraPipeline implements CameraStatus {
         return analysedFrames;
     }
 
-    private long loadAnalysed;
-    private long loadDropped;
-    private volatile double analysisFps = Double.NaN;
-    private boolean behind;
-
-    /**
-     * Every 30 s (service watcher): the analysis rate actually reached. When the analysis thread cannot keep up,
-     * the frame slot hands it the newest picture and drops the stale ones, so capture never falls behind the
-     * camera and the camera's analysis rate sinks instead; this logs when that begins and ends.
-     */
+    /** Every 30 s (service watcher): the analysis rate actually reached; logs when analysis falls behind. */
     public void checkLoad(double seconds) {
-        long a = analysedFrames;
-        long d = droppedFrames();
-        long da = a - loadAnalysed;
-        long dd = d - loadDropped;
-        loadAnalysed = a;
-        loadDropped = d;
-        analysisFps = da / seconds;
-        boolean nowBehind = dd > 0.1 * (da + dd);
-        if (nowBehind != behind) {
-            behind = nowBehind;
-            if (nowBehind) {
-                LOG.warn("camera {}: analysis cannot keep up: {} of {} due frames analysed in the last {} s ({} a "
-                        + "second instead of {}); the newest frame is always taken, the rest dropped", camera.id(), da,
-                        da + dd, (long) seconds, String.format(java.util.Locale.ROOT, "%.1f", analysisFps),
-                        camera.analysisFps());
-            } else {
-                LOG.info("camera {}: analysis keeps up again ({} frames a second)", camera.id(),
-                        String.format(java.util.Locale.ROOT, "%.1f", analysisFps));
-            }
-        }
+        load.check(seconds, analysedFrames, droppedFrames());
     }
 
     /** Frames analysed per second over the last load check (NaN before the first). */
     @Override
     public double analysisFps() {
-        return analysisFps;
+        return load.fps();
     }
 
     /** Pictures decoded by the capture thread. */
@@ -300,19 +249,19 @@ public final class CameraPipeline implements CameraStatus {
     /** The zone's latest coverage (share of its pixels moving), 0..1; NaN before the first reading. */
     @Override
     public double zoneCoverage(int zone) {
-        return Double.longBitsToDouble(zoneCoverage.get(zone));
+        return zoneFigures.coverage(zone);
     }
 
     /** The zone's latest share of pixels moving against its heading, 0..1; NaN before the first reading. */
     @Override
     public double zoneAgainst(int zone) {
-        return Double.longBitsToDouble(zoneAgainst.get(zone));
+        return zoneFigures.against(zone);
     }
 
     /** Events started in the zone so far. */
     @Override
     public long zoneEvents(int zone) {
-        return zoneEvents.get(zone);
+        return zoneFigures.events(zone);
     }
 
     @Override
@@ -349,17 +298,10 @@ public final class CameraPipeline implements CameraStatus {
                     }
                 }
                 long began = System.nanoTime();
-                if (!measure && t >= measureFrom) {
-                    measure = true;
-                    analysedBeforeMeasuring = analysedFrames;
-                    streamAtMeasuring = Double.isNaN(previous) ? t : previous;
-                }
-                long c0 = measure ? cpu() : 0;
+                stages.frame(t, previous, analysedFrames);
+                long c0 = stages.clock();
                 boolean estimated = flow.push(f.pixels, field);
-                long c1 = measure ? cpu() : 0;
-                if (measure) {
-                    flowCpu += c1 - c0;
-                }
+                long c1 = stages.flowDone(c0);
                 previous = t;
                 lastStreamSeconds = t;
                 analysedFrames++;
@@ -371,14 +313,13 @@ public final class CameraPipeline implements CameraStatus {
                 for (int z = 0; z < channels.size(); z++) {
                     ZoneChannel c = channels.get(z);
                     Event e = c.update(field, dt, t, reading, learnedDir);
-                    zoneCoverage.set(z, Double.doubleToRawLongBits(reading.coverage));
-                    zoneAgainst.set(z, Double.doubleToRawLongBits(reading.against));
+                    zoneFigures.read(z, reading);
                     if (readings != null) {
                         readings.reading(camera, z, reading, c.movers(), c.state());
                     }
                     if (e != null) {
                         if (e.phase() == Event.Phase.START) {
-                            zoneEvents.incrementAndGet(z);
+                            zoneFigures.started(z);
                         }
                         emit(evidence.name(e, c.zone(), f, field));
                     }
@@ -390,9 +331,7 @@ public final class CameraPipeline implements CameraStatus {
                     }
                 }
                 analysisNanos += System.nanoTime() - began;
-                if (measure) {
-                    zonesCpu += cpu() - c1;
-                }
+                stages.zonesDone(c1);
                 if (frames != null) {
                     frames.frame(this, f, field, t);
                 }
