@@ -6,7 +6,6 @@ import java.nio.file.NoSuchFileException;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashSet;
-import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Locale;
 import java.util.Set;
@@ -31,9 +30,6 @@ import wayward.secret.Urls;
  * against the config file's folder. Stateless; any thread.
  */
 public final class ConfigLoader {
-    private static final String ID_PATTERN = "[a-z0-9][a-z0-9._-]{0,62}";
-    private static final String ID_EXPECTED = "lower-case letters, digits, '.', '_' or '-', 1 to 63 characters";
-
     private ConfigLoader() {
     }
 
@@ -56,7 +52,7 @@ public final class ConfigLoader {
         } catch (IOException e) {
             throw new ConfigException(List.of(shown + ": cannot read (" + e.getMessage() + ")"));
         }
-        Errors errors = new Errors(shown);
+        ConfigErrors errors = new ConfigErrors(shown);
         if (toml.hasErrors()) {
             for (TomlParseError e : toml.errors()) {
                 String message = e.getMessage();
@@ -66,35 +62,35 @@ public final class ConfigLoader {
         }
         Path base = file.toAbsolutePath().getParent();
         SiteConfig config = bind(toml, base, file, env, errors);
-        if (!errors.lines.isEmpty()) {
+        if (!errors.isEmpty()) {
             throw new ConfigException(errors.sorted());
         }
         return config;
     }
 
-    private static SiteConfig bind(TomlParseResult root, Path base, Path file, Environment env, Errors errors) {
-        Scope top = new Scope(errors, root, "", TomlPosition.positionAt(1, 1));
+    private static SiteConfig bind(TomlParseResult root, Path base, Path file, Environment env, ConfigErrors errors) {
+        TableReader top = new TableReader(errors, root, "", TomlPosition.positionAt(1, 1));
         Path dataDir = base.resolve(SiteConfig.DEFAULT_DATA_DIR);
         HttpConfig http = new HttpConfig(HttpConfig.DEFAULT_HOST, HttpConfig.DEFAULT_PORT, null, null);
         String instance = env.instance();
         List<String> instances = new ArrayList<>();
-        TomlTable serviceTable = top.table("service");
-        if (serviceTable != null) {
-            Scope s = new Scope(errors, serviceTable, "service", root.inputPositionOf(List.of("service")));
+        TableReader serviceSection = top.section("service");
+        if (serviceSection != null) {
+            TableReader s = serviceSection;
             String dir = s.string("data_dir", SiteConfig.DEFAULT_DATA_DIR, "a folder path");
             dataDir = base.resolve(dir).normalize();
             http = http(s, base);
-            String configured = s.string("instance", null, ID_EXPECTED);
+            String configured = s.string("instance", null, TableReader.ID_EXPECTED);
             if (instance == null || instance.isBlank()) {
                 instance = configured;
             }
             Object list = s.raw("instances");
             if (list instanceof TomlArray a) {
                 for (int i = 0; i < a.size(); i++) {
-                    if (a.get(i) instanceof String name && name.matches(ID_PATTERN)) {
+                    if (a.get(i) instanceof String name && TableReader.isId(name)) {
                         instances.add(name);
                     } else {
-                        s.error("instances", list, "a list of instance names (" + ID_EXPECTED + ")");
+                        s.error("instances", list, "a list of instance names (" + TableReader.ID_EXPECTED + ")");
                         break;
                     }
                 }
@@ -113,14 +109,14 @@ public final class ConfigLoader {
         ShardConfig shard = null;
         if (!instances.isEmpty() || instance != null) {
             String where = "service.instance";
-            if (instance == null || !instance.matches(ID_PATTERN)) {
-                errors.at(TomlPosition.positionAt(1, 1), where + ": " + render(instance) + " (expected this instance's "
-                        + "name, " + ID_EXPECTED + ", in [service] instance or WAYWARD_INSTANCE)");
+            if (!TableReader.isId(instance)) {
+                errors.at(TomlPosition.positionAt(1, 1), where + ": " + TomlText.render(instance) + " (expected this instance's "
+                        + "name, " + TableReader.ID_EXPECTED + ", in [service] instance or WAYWARD_INSTANCE)");
             } else if (instances.isEmpty()) {
                 errors.at(TomlPosition.positionAt(1, 1), "service.instances: missing (expected every instance's name "
-                        + "in [service] instances or WAYWARD_INSTANCES, since instance is " + render(instance) + ")");
+                        + "in [service] instances or WAYWARD_INSTANCES, since instance is " + TomlText.render(instance) + ")");
             } else if (!instances.contains(instance)) {
-                errors.at(TomlPosition.positionAt(1, 1), where + ": " + render(instance) + " (expected one of "
+                errors.at(TomlPosition.positionAt(1, 1), where + ": " + TomlText.render(instance) + " (expected one of "
                         + String.join(", ", instances) + ", the instances)");
             } else {
                 shard = new ShardConfig(instance, instances);
@@ -136,20 +132,20 @@ public final class ConfigLoader {
                 http = httpFromEnv.equals("off") ? null : new HttpConfig(httpFromEnv.substring(0, colon),
                         Integer.parseInt(httpFromEnv.substring(colon + 1)), http.tokenFile(), http.token());
             } catch (RuntimeException e) {
-                errors.at(TomlPosition.positionAt(1, 1), "environment WAYWARD_HTTP: " + render(httpFromEnv)
+                errors.at(TomlPosition.positionAt(1, 1), "environment WAYWARD_HTTP: " + TomlText.render(httpFromEnv)
                         + " (expected \"host:port\" or \"off\")");
             }
             if (http != null && !http.loopback() && http.tokenFile() == null) {
                 // the same rule as for [service] http, however the address is set
-                errors.at(TomlPosition.positionAt(1, 1), "environment WAYWARD_HTTP: " + render(httpFromEnv)
+                errors.at(TomlPosition.positionAt(1, 1), "environment WAYWARD_HTTP: " + TomlText.render(httpFromEnv)
                         + " (expected a loopback address such as 127.0.0.1:8786, or [service] token_file set as"
                         + " well: anything but /health needs the token when the server is reachable from elsewhere)");
             }
         }
         FlowConfig flow = FlowConfig.DEFAULTS;
-        TomlTable flowTable = top.table("flow");
-        if (flowTable != null) {
-            Scope s = new Scope(errors, flowTable, "flow", root.inputPositionOf(List.of("flow")));
+        TableReader flowSection = top.section("flow");
+        if (flowSection != null) {
+            TableReader s = flowSection;
             FlowConfig d = FlowConfig.DEFAULTS;
             int levels = s.integer("levels", d.levels(), 0, 8);
             int iterations = s.integer("iterations", d.iterations(), 1, 20);
@@ -168,9 +164,9 @@ public final class ConfigLoader {
         }
 
         ClipConfig clips = ClipConfig.DEFAULTS;
-        TomlTable clipTable = top.table("clips");
-        if (clipTable != null) {
-            Scope s = new Scope(errors, clipTable, "clips", root.inputPositionOf(List.of("clips")));
+        TableReader clipsSection = top.section("clips");
+        if (clipsSection != null) {
+            TableReader s = clipsSection;
             ClipConfig d = ClipConfig.DEFAULTS;
             clips = new ClipConfig(s.bool("enabled", d.enabled()), s.number("pre_roll_seconds", d.preRollSeconds(), 0, 60),
                     s.number("post_roll_seconds", d.postRollSeconds(), 0, 60), s.number("max_seconds", d.maxSeconds(), 5, 3600),
@@ -179,16 +175,14 @@ public final class ConfigLoader {
         }
 
         List<CameraConfig> cameras = new ArrayList<>();
-        TomlArray cameraArray = top.tableArray("camera");
-        if (cameraArray == null || cameraArray.size() == 0) {
-            if (!root.contains(List.of("camera"))) {
-                errors.at(TomlPosition.positionAt(1, 1), "camera: missing (expected at least one [[camera]] table)");
+        List<TableReader> cameraTables = top.entries("camera");
+        if (cameraTables.isEmpty()) {
+            if (!top.has("camera")) {
+                top.errorAtTable("camera", "missing (expected at least one [[camera]] table)");
             }
         } else {
             Set<String> ids = new HashSet<>();
-            for (int i = 0; i < cameraArray.size(); i++) {
-                TomlTable t = (TomlTable) cameraArray.get(i);
-                Scope s = new Scope(errors, t, "camera[" + i + "]", cameraArray.inputPositionOf(i));
+            for (TableReader s : cameraTables) {
                 CameraConfig c = camera(s, base);
                 if (c != null) {
                     if (!ids.add(c.id())) {
@@ -200,11 +194,8 @@ public final class ConfigLoader {
         }
 
         List<WebhookConfig> webhooks = new ArrayList<>();
-        TomlArray hookArray = top.tableArray("webhook");
-        if (hookArray != null) {
-            for (int i = 0; i < hookArray.size(); i++) {
-                TomlTable t = (TomlTable) hookArray.get(i);
-                Scope s = new Scope(errors, t, "webhook[" + i + "]", hookArray.inputPositionOf(i));
+        {
+            for (TableReader s : top.entries("webhook")) {
                 String url = s.requiredString("url", "an http:// or https:// URL");
                 if (url != null && !isHttpUrl(url)) {
                     s.error("url", url, "an http:// or https:// URL with a host");
@@ -223,15 +214,15 @@ public final class ConfigLoader {
         }
 
         MqttConfig mqtt = null;
-        TomlTable mqttTable = top.table("mqtt");
+        TableReader mqttTable = top.section("mqtt");
         if (mqttTable != null) {
-            mqtt = mqtt(new Scope(errors, mqttTable, "mqtt", root.inputPositionOf(List.of("mqtt"))), base);
+            mqtt = mqtt(mqttTable, base);
         }
 
         long outboxMaxBytes = (long) (SiteConfig.DEFAULT_OUTBOX_MB * (1 << 20));
-        TomlTable outboxTable = top.table("outbox");
-        if (outboxTable != null) {
-            Scope s = new Scope(errors, outboxTable, "outbox", root.inputPositionOf(List.of("outbox")));
+        TableReader outboxSection = top.section("outbox");
+        if (outboxSection != null) {
+            TableReader s = outboxSection;
             outboxMaxBytes = (long) (s.number("max_mb", SiteConfig.DEFAULT_OUTBOX_MB, 1, 1_000_000) * (1 << 20));
             s.finish();
         }
@@ -248,7 +239,7 @@ public final class ConfigLoader {
     }
 
     /** {@code http} ("host:port" or "off") and {@code token_file} of [service]; null when off. */
-    private static HttpConfig http(Scope s, Path base) {
+    private static HttpConfig http(TableReader s, Path base) {
         String expected = "\"host:port\" such as \"127.0.0.1:8786\", or \"off\"";
         String address = s.string("http", HttpConfig.DEFAULT_ADDRESS, expected);
         String tokenFile = s.string("token_file", null, "a file holding the bearer token for the status server");
@@ -276,7 +267,7 @@ public final class ConfigLoader {
         return c;
     }
 
-    private static MqttConfig mqtt(Scope s, Path base) {
+    private static MqttConfig mqtt(TableReader s, Path base) {
         String expected = "mqtt://host[:port] or mqtts://host[:port]";
         String url = s.requiredString("url", expected);
         boolean tls = false;
@@ -333,7 +324,7 @@ public final class ConfigLoader {
     }
 
     /** The {@code headers} inline table: names and values as strings; our own headers may not be replaced. */
-    private static java.util.Map<String, String> headers(Scope s) {
+    private static java.util.Map<String, String> headers(TableReader s) {
         java.util.Map<String, String> out = new java.util.LinkedHashMap<>();
         Object v = s.raw("headers");
         if (v == null) {
@@ -362,7 +353,7 @@ public final class ConfigLoader {
     }
 
     /** The optional {@code ca_file}: a readable PEM file with at least one certificate; resolved path or null. */
-    private static String caFile(Scope s, Path base, boolean tls) {
+    private static String caFile(TableReader s, Path base, boolean tls) {
         String caFile = s.string("ca_file", null, "a PEM file of CA certificates");
         if (caFile == null) {
             return null;
@@ -389,7 +380,7 @@ public final class ConfigLoader {
     }
 
     /** The content of a secret file without a trailing line break, or null after reporting. */
-    private static byte[] secret(Scope s, Path base, String key, String file, String what) {
+    private static byte[] secret(TableReader s, Path base, String key, String file, String what) {
         Path p = base.resolve(file).normalize();
         try {
             String text = Files.readString(p).replaceAll("[\\r\\n]+$", "");
@@ -405,11 +396,8 @@ public final class ConfigLoader {
         }
     }
 
-    private static CameraConfig camera(Scope s, Path base) {
-        String id = s.requiredString("id", ID_EXPECTED);
-        if (id != null && !id.matches(ID_PATTERN)) {
-            s.error("id", id, ID_EXPECTED);
-        }
+    private static CameraConfig camera(TableReader s, Path base) {
+        String id = s.requiredId("id");
         String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");
         boolean loop = s.bool("loop", false);
         if (source != null && Sources.isDevice(source)) {
@@ -458,14 +446,12 @@ public final class ConfigLoader {
         }
         SourceInput input = new SourceInput(transport, deviceSize, deviceFps, deviceFormat);
         List<ZoneConfig> zones = new ArrayList<>();
-        TomlArray zoneArray = s.tableArray("zone");
-        if (zoneArray == null || zoneArray.size() == 0) {
+        List<TableReader> zoneTables = s.entries("zone");
+        if (zoneTables.isEmpty()) {
             s.errorAtTable("zone", "missing (expected at least one [[camera.zone]] table)");
         } else {
             Set<String> ids = new HashSet<>();
-            for (int i = 0; i < zoneArray.size(); i++) {
-                TomlTable t = (TomlTable) zoneArray.get(i);
-                Scope z = new Scope(s.errors, t, s.path + ".zone[" + i + "]", zoneArray.inputPositionOf(i));
+            for (TableReader z : zoneTables) {
                 ZoneConfig zone = zone(z);
                 if (zone != null) {
                     if (!ids.add(zone.id())) {
@@ -482,11 +468,8 @@ public final class ConfigLoader {
         return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones, tamperAlerts);
     }
 
-    private static ZoneConfig zone(Scope z) {
-        String id = z.requiredString("id", ID_EXPECTED);
-        if (id != null && !id.matches(ID_PATTERN)) {
-            z.error("id", id, ID_EXPECTED);
-        }
+    private static ZoneConfig zone(TableReader z) {
+        String id = z.requiredId("id");
         double[][] polygon = z.polygon("polygon");
         double heading = Double.NaN;
         if (z.has("heading_deg")) {
@@ -525,7 +508,7 @@ public final class ConfigLoader {
             quickTravel = z.number("quick_travel_px", ZoneConfig.DEFAULT_QUICK_TRAVEL_PX, 1, 10000);
             if (quickTravel < minTravel) {
                 z.error("quick_travel_px", z.raw("quick_travel_px") != null ? z.raw("quick_travel_px") : quickTravel,
-                        "at least min_travel_px " + format(minTravel));
+                        "at least min_travel_px " + TomlText.format(minTravel));
                 quickTravel = minTravel;
             }
             minArea = z.number("min_mover_area_px", MoverRuleSettings.DEFAULT_MIN_MOVER_AREA_PX, 0, 1000000);
@@ -533,7 +516,7 @@ public final class ConfigLoader {
             onset = z.number("onset_level", onset, 0.0001, 1);
             release = z.number("release_level", Math.min(onset, release), 0, 1);
             if (release > onset) {
-                z.error("release_level", release, "at most onset_level " + format(onset));
+                z.error("release_level", release, "at most onset_level " + TomlText.format(onset));
                 release = onset;
             }
             for (String k : new String[] {"min_travel_px", "quick_travel_px", "min_mover_area_px"}) {
@@ -558,304 +541,6 @@ public final class ConfigLoader {
             return (scheme.equals("http") || scheme.equals("https")) && u.getHost() != null;
         } catch (java.net.URISyntaxException e) {
             return false;
-        }
-    }
-
-    static String format(double d) {
-        if (d == Math.rint(d) && Math.abs(d) < 1e15) {
-            return Long.toString((long) d);
-        }
-        return Double.toString(d);
-    }
-
-    /** A value as it would be written in TOML, for messages. */
-    static String render(Object value) {
-        if (value instanceof String) {
-            return "\"" + ((String) value).replace("\\", "\\\\").replace("\"", "\\\"") + "\"";
-        }
-        if (value instanceof Double) {
-            return format((Double) value);
-        }
-        if (value instanceof TomlArray) {
-            TomlArray a = (TomlArray) value;
-            StringBuilder b = new StringBuilder("[");
-            for (int i = 0; i < a.size(); i++) {
-                b.append(i == 0 ? "" : ", ").append(render(a.get(i)));
-            }
-            return b.append(']').toString();
-        }
-        if (value instanceof TomlTable) {
-            TomlTable t = (TomlTable) value;
-            StringBuilder b = new StringBuilder("{");
-            boolean first = true;
-            for (String k : t.keySet()) {
-                b.append(first ? " " : ", ").append(k).append(" = ").append(render(t.get(List.of(k))));
-                first = false;
-            }
-            return b.append(first ? "}" : " }").toString();
-        }
-        return String.valueOf(value);
-    }
-
-    /** The error list of one file. */
-    private static final class Errors {
-        final String file;
-        final List<String> lines = new ArrayList<>();
-
-        Errors(String file) {
-            this.file = file;
-        }
-
-        private final List<long[]> order = new ArrayList<>();
-
-        void at(TomlPosition p, String text) {
-            int line = p == null ? 1 : p.line();
-            int column = p == null ? 1 : p.column();
-            order.add(new long[] {line, column, order.size()});
-            lines.add(file + ":" + line + ":" + column + ": " + text);
-        }
-
-        /** The lines in file order (line, then column, then the order found). */
-        List<String> sorted() {
-            List<long[]> o = new ArrayList<>(order);
-            o.sort((a, b) -> a[0] != b[0] ? Long.compare(a[0], b[0])
-                    : a[1] != b[1] ? Long.compare(a[1], b[1]) : Long.compare(a[2], b[2]));
-            List<String> out = new ArrayList<>();
-            for (long[] k : o) {
-                out.add(lines.get((int) k[2]));
-            }
-            return out;
-        }
-    }
-
-    /** One table being read: remembers which keys were read, so the rest can be reported as unknown. */
-    private static final class Scope {
-        final Errors errors;
-        final TomlTable table;
-        final String path;
-        final TomlPosition position;
-        final Set<String> known = new LinkedHashSet<>();
-
-        Scope(Errors errors, TomlTable table, String path, TomlPosition position) {
-            this.errors = errors;
-            this.table = table;
-            this.path = path;
-            this.position = position;
-        }
-
-        String key(String name) {
-            return path.isEmpty() ? name : path + "." + name;
-        }
-
-        boolean has(String name) {
-            known.add(name);
-            return table.get(List.of(name)) != null;
-        }
-
-        TomlPosition where(String name) {
-            TomlPosition p = table.inputPositionOf(List.of(name));
-            return p != null ? p : position;
-        }
-
-        void error(String name, Object value, String expected) {
-            errors.at(where(name), key(name) + ": " + render(value) + " (expected " + expected + ")");
-        }
-
-        void errorAtTable(String name, String text) {
-            errors.at(position, key(name) + ": " + text);
-        }
-
-        Object raw(String name) {
-            known.add(name);
-            return table.get(List.of(name));
-        }
-
-        TomlTable table(String name) {
-            Object v = raw(name);
-            if (v == null) {
-                return null;
-            }
-            if (v instanceof TomlTable) {
-                return (TomlTable) v;
-            }
-            error(name, v, "a table [" + key(name) + "]");
-            return null;
-        }
-
-        TomlArray tableArray(String name) {
-            Object v = raw(name);
-            if (v == null) {
-                return null;
-            }
-            if (v instanceof TomlArray && allTables((TomlArray) v)) {
-                return (TomlArray) v;
-            }
-            error(name, v, "tables written as [[" + key(name).replaceAll("\\[\\d+\\]", "") + "]]");
-            return null;
-        }
-
-        private static boolean allTables(TomlArray a) {
-            for (int i = 0; i < a.size(); i++) {
-                if (!(a.get(i) instanceof TomlTable)) {
-                    return false;
-                }
-            }
-            return true;
-        }
-
-        String requiredString(String name, String expected) {
-            Object v = raw(name);
-            if (v == null) {
-                errors.at(position, key(name) + ": missing (expected " + expected + ")");
-                return null;
-            }
-            if (!(v instanceof String) || ((String) v).isBlank()) {
-                error(name, v, expected);
-                return null;
-            }
-            return (String) v;
-        }
-
-        String string(String name, String fallback, String expected) {
-            Object v = raw(name);
-            if (v == null) {
-                return fallback;
-            }
-            if (!(v instanceof String) || ((String) v).isBlank()) {
-                error(name, v, expected);
-                return fallback;
-            }
-            return (String) v;
-        }
-
-        boolean bool(String name, boolean fallback) {
-            Object v = raw(name);
-            if (v == null) {
-                return fallback;
-            }
-            if (!(v instanceof Boolean)) {
-                error(name, v, "true or false");
-                return fallback;
-            }
-            return (Boolean) v;
-        }
-
-        int integer(String name, int fallback, int min, int max) {
-            Object v = raw(name);
-            if (v == null) {
-                return fallback;
-            }
-            if (!(v instanceof Long) || (Long) v < min || (Long) v > max) {
-                error(name, v, "a whole number from " + min + " to " + max);
-                return fallback;
-            }
-            return (int) (long) (Long) v;
-        }
-
-        double number(String name, double fallback, double min, double max) {
-            return number(name, fallback, min, max, "a number from " + format(min) + " to " + format(max));
-        }
-
-        double number(String name, double fallback, double min, double max, String expected) {
-            Object v = raw(name);
-            if (v == null) {
-                return fallback;
-            }
-            double d;
-            if (v instanceof Long) {
-                d = (Long) v;
-            } else if (v instanceof Double) {
-                d = (Double) v;
-            } else {
-                d = Double.NaN;
-            }
-            if (!(d >= min && d <= max)) {
-                error(name, v, expected);
-                return fallback;
-            }
-            return d;
-        }
-
-        /** A polygon [[x, y], ...] in frame fractions; returns {xs, ys} or null after reporting. */
-        double[][] polygon(String name) {
-            Object v = raw(name);
-            String expected = "at least 3 points [x, y] with x and y from 0 to 1";
-            if (v == null) {
-                errors.at(position, key(name) + ": missing (expected " + expected + ")");
-                return null;
-            }
-            if (!(v instanceof TomlArray) || ((TomlArray) v).size() < 3) {
-                error(name, v, expected);
-                return null;
-            }
-            TomlArray a = (TomlArray) v;
-            double[] xs = new double[a.size()];
-            double[] ys = new double[a.size()];
-            boolean ok = true;
-            for (int i = 0; i < a.size(); i++) {
-                Object p = a.get(i);
-                double[] xy = point(p);
-                if (xy == null) {
-                    TomlPosition at = a.inputPositionOf(i);
-                    errors.at(at != null ? at : where(name), key(name) + "[" + i + "]: " + render(p)
-                            + " (expected a point [x, y] with x and y from 0 to 1)");
-                    ok = false;
-                } else {
-                    xs[i] = xy[0];
-                    ys[i] = xy[1];
-                }
-            }
-            if (ok && Math.abs(area(xs, ys)) < 1e-6) {
-                error(name, v, "a polygon that encloses an area");
-                ok = false;
-            }
-            return ok ? new double[][] {xs, ys} : null;
-        }
-
-        private static double[] point(Object p) {
-            if (!(p instanceof TomlArray) || ((TomlArray) p).size() != 2) {
-                return null;
-            }
-            TomlArray a = (TomlArray) p;
-            double[] xy = new double[2];
-            for (int k = 0; k < 2; k++) {
-                Object c = a.get(k);
-                double d = c instanceof Long ? (Long) c : (c instanceof Double ? (Double) c : Double.NaN);
-                if (!(d >= 0 && d <= 1)) {
-                    return null;
-                }
-                xy[k] = d;
-            }
-            return xy;
-        }
-
-        private static double area(double[] xs, double[] ys) {
-            double s = 0;
-            for (int i = 0, j = xs.length - 1; i < xs.length; j = i++) {
-                s += (xs[j] + xs[i]) * (ys[j] - ys[i]);
-            }
-            return s / 2;
-        }
-
-        /** A key that exists but does not apply here: one error naming why, and not listed among the known. */
-        void refuse(String name, String expected) {
-            Object v = table.get(List.of(name));
-            if (v != null) {
-                error(name, v, expected);
-                refused.add(name);
-            }
-        }
-
-        final Set<String> refused = new HashSet<>();
-
-        void finish() {
-            for (String k : table.keySet()) {
-                if (!known.contains(k) && !refused.contains(k)) {
-                    TomlPosition p = table.inputPositionOf(List.of(k));
-                    errors.at(p != null ? p : position, key(k) + ": " + render(table.get(List.of(k)))
-                            + " (unknown key; expected one of " + String.join(", ", known) + ")");
-                }
-            }
         }
     }
 }
