@@ -7,14 +7,12 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
-import java.util.Locale;
 import java.util.Set;
 import org.tomlj.Toml;
 import org.tomlj.TomlArray;
 import org.tomlj.TomlParseError;
 import org.tomlj.TomlParseResult;
 import org.tomlj.TomlPosition;
-import org.tomlj.TomlTable;
 import wayward.capture.SourceInput;
 import wayward.capture.Sources;
 import wayward.delivery.MqttConfig;
@@ -193,47 +191,12 @@ public final class ConfigLoader {
             }
         }
 
-        List<WebhookConfig> webhooks = new ArrayList<>();
-        {
-            for (TableReader s : top.entries("webhook")) {
-                String url = s.requiredString("url", "an http:// or https:// URL");
-                if (url != null && !isHttpUrl(url)) {
-                    s.error("url", url, "an http:// or https:// URL with a host");
-                }
-                double timeout = s.number("timeout_seconds", WebhookConfig.DEFAULT_TIMEOUT_SECONDS, 0.1, 300);
-                double maxBackoff = s.number("max_backoff_seconds", WebhookConfig.DEFAULT_MAX_BACKOFF_SECONDS, 1, 3600);
-                java.util.Map<String, String> headers = headers(s);
-                String caFile = caFile(s, base, url != null && url.regionMatches(true, 0, "https:", 0, 6));
-                String secretFile = s.string("secret_file", null, "a file holding the signing secret");
-                byte[] secret = secretFile == null ? null : secret(s, base, "secret_file", secretFile, "signing secret");
-                s.finish();
-                if (url != null) {
-                    webhooks.add(new WebhookConfig(url, timeout, maxBackoff, headers, caFile, secretFile, secret));
-                }
-            }
-        }
-
-        MqttConfig mqtt = null;
-        TableReader mqttTable = top.section("mqtt");
-        if (mqttTable != null) {
-            mqtt = mqtt(mqttTable, base);
-        }
-
-        long outboxMaxBytes = (long) (SiteConfig.DEFAULT_OUTBOX_MB * (1 << 20));
-        TableReader outboxSection = top.section("outbox");
-        if (outboxSection != null) {
-            TableReader s = outboxSection;
-            outboxMaxBytes = (long) (s.number("max_mb", SiteConfig.DEFAULT_OUTBOX_MB, 1, 1_000_000) * (1 << 20));
-            s.finish();
-        }
+        List<WebhookConfig> webhooks = DeliveryBinder.webhooks(top, base);
+        MqttConfig mqtt = DeliveryBinder.mqtt(top, base);
+        long outboxMaxBytes = DeliveryBinder.outboxMaxBytes(top);
         top.finish();
         if (shard != null && mqtt != null) {
-            // one broker session per instance: the client id carries the instance's name
-            String suffix = "-" + shard.instance();
-            String stem = mqtt.clientId().substring(0, Math.max(1, Math.min(mqtt.clientId().length(), 23 - suffix.length())));
-            String id = (stem + suffix).substring(0, Math.min(23, stem.length() + suffix.length()));
-            mqtt = new MqttConfig(mqtt.url(), mqtt.topicPrefix(), id, mqtt.username(), mqtt.passwordFile(),
-                    mqtt.password(), mqtt.keepAliveSeconds(), mqtt.caFile(), mqtt.inFlight(), mqtt.maxBackoffSeconds());
+            mqtt = DeliveryBinder.forInstance(mqtt, shard);
         }
         return new SiteConfig(file, dataDir, flow, cameras, webhooks, clips, mqtt, outboxMaxBytes, http, shard);
     }
@@ -243,7 +206,7 @@ public final class ConfigLoader {
         String expected = "\"host:port\" such as \"127.0.0.1:8786\", or \"off\"";
         String address = s.string("http", HttpConfig.DEFAULT_ADDRESS, expected);
         String tokenFile = s.string("token_file", null, "a file holding the bearer token for the status server");
-        byte[] token = tokenFile == null ? null : secret(s, base, "token_file", tokenFile, "bearer token");
+        byte[] token = tokenFile == null ? null : ReferencedFiles.secret(s, base, "token_file", tokenFile, "bearer token");
         if (address.equals("off")) {
             return null;
         }
@@ -265,135 +228,6 @@ public final class ConfigLoader {
                     + "(anything but /health needs the token when the server is reachable from elsewhere)");
         }
         return c;
-    }
-
-    private static MqttConfig mqtt(TableReader s, Path base) {
-        String expected = "mqtt://host[:port] or mqtts://host[:port]";
-        String url = s.requiredString("url", expected);
-        boolean tls = false;
-        if (url != null) {
-            java.net.URI u = null;
-            try {
-                u = new java.net.URI(url);
-            } catch (java.net.URISyntaxException e) {
-                // reported below
-            }
-            String scheme = u == null || u.getScheme() == null ? "" : u.getScheme().toLowerCase(Locale.ROOT);
-            if (u == null || !(scheme.equals("mqtt") || scheme.equals("mqtts")) || u.getHost() == null
-                    || (u.getRawPath() != null && !u.getRawPath().isEmpty()) || u.getRawUserInfo() != null) {
-                s.error("url", url, expected + " (user name and password go in username and password_file)");
-                url = null;
-            } else {
-                tls = scheme.equals("mqtts");
-            }
-        }
-        String prefix = s.string("topic_prefix", MqttConfig.DEFAULT_TOPIC_PREFIX, "topic levels without wildcards, e.g. \"yard/north\"");
-        if (!prefix.matches("[^#+/\\u0000]+(/[^#+/\\u0000]+)*")) {
-            s.error("topic_prefix", prefix, "topic levels without '+', '#', empty levels or a leading or trailing '/'");
-            prefix = "wayward";
-        }
-        String host;
-        try {
-            host = java.net.InetAddress.getLocalHost().getHostName();
-        } catch (IOException e) {
-            host = "host";
-        }
-        String defaultId = ("wayward-" + host.replaceAll("[^A-Za-z0-9-]", "-"));
-        defaultId = defaultId.substring(0, Math.min(23, defaultId.length()));
-        String clientId = s.string("client_id", defaultId, "1 to 23 letters, digits or '-'");
-        if (!clientId.matches("[A-Za-z0-9-]{1,23}")) {
-            // MQTT 3.1.1 §3.1.3.1: every broker must accept 1 to 23 of these characters
-            s.error("client_id", clientId, "1 to 23 letters, digits or '-' (what every MQTT 3.1.1 broker accepts)");
-        }
-        String username = s.string("username", null, "a user name");
-        String passwordFile = s.string("password_file", null, "a file holding the password");
-        byte[] password = null;
-        if (passwordFile != null) {
-            if (username == null) {
-                s.error("password_file", passwordFile, "to come with username");
-            }
-            password = secret(s, base, "password_file", passwordFile, "password");
-        }
-        int keepAlive = s.integer("keep_alive_seconds", MqttConfig.DEFAULT_KEEP_ALIVE_SECONDS, 5, 3600);
-        String caFile = caFile(s, base, tls);
-        int inFlight = s.integer("in_flight", MqttConfig.DEFAULT_IN_FLIGHT, 1, 1000);
-        double maxBackoff = s.number("max_backoff_seconds", MqttConfig.DEFAULT_MAX_BACKOFF_SECONDS, 1, 3600);
-        s.finish();
-        return url == null ? null : new MqttConfig(url, prefix, clientId, username, passwordFile, password, keepAlive,
-                caFile, inFlight, maxBackoff);
-    }
-
-    /** The {@code headers} inline table: names and values as strings; our own headers may not be replaced. */
-    private static java.util.Map<String, String> headers(TableReader s) {
-        java.util.Map<String, String> out = new java.util.LinkedHashMap<>();
-        Object v = s.raw("headers");
-        if (v == null) {
-            return out;
-        }
-        if (!(v instanceof TomlTable)) {
-            s.error("headers", v, "a table of header names and string values, e.g. { \"Authorization\" = \"Bearer …\" }");
-            return out;
-        }
-        TomlTable t = (TomlTable) v;
-        for (String name : t.keySet()) {
-            Object value = t.get(List.of(name));
-            String lower = name.toLowerCase(Locale.ROOT);
-            if (!name.matches("[!#$%&'*+.^_`|~0-9A-Za-z-]+")) {
-                s.error("headers", name, "header names made of letters, digits and - (RFC 9110 token)");
-            } else if (Set.of("host", "content-type", "content-length", "connection", "user-agent",
-                    "transfer-encoding").contains(lower) || lower.startsWith("x-wayward-")) {
-                s.error("headers", name, "a header wayward does not set itself");
-            } else if (!(value instanceof String) || ((String) value).matches(".*[\\r\\n].*")) {
-                s.error("headers", value, "a string value on one line for header " + name);
-            } else {
-                out.put(name, (String) value);
-            }
-        }
-        return out;
-    }
-
-    /** The optional {@code ca_file}: a readable PEM file with at least one certificate; resolved path or null. */
-    private static String caFile(TableReader s, Path base, boolean tls) {
-        String caFile = s.string("ca_file", null, "a PEM file of CA certificates");
-        if (caFile == null) {
-            return null;
-        }
-        if (!tls) {
-            s.error("ca_file", caFile, "only with an https:// or mqtts:// url");
-            return null;
-        }
-        Path p = base.resolve(caFile).normalize();
-        try (java.io.InputStream in = Files.newInputStream(p)) {
-            if (java.security.cert.CertificateFactory.getInstance("X.509").generateCertificates(in).isEmpty()) {
-                s.error("ca_file", caFile, "a PEM file of CA certificates (" + p + " holds none)");
-                return null;
-            }
-        } catch (IOException e) {
-            s.error("ca_file", caFile, "a readable PEM file of CA certificates (" + p + ": "
-                    + (e instanceof NoSuchFileException ? "not found" : e.getMessage()) + ")");
-            return null;
-        } catch (java.security.cert.CertificateException e) {
-            s.error("ca_file", caFile, "a PEM file of CA certificates (" + p + ": " + e.getMessage() + ")");
-            return null;
-        }
-        return p.toString();
-    }
-
-    /** The content of a secret file without a trailing line break, or null after reporting. */
-    private static byte[] secret(TableReader s, Path base, String key, String file, String what) {
-        Path p = base.resolve(file).normalize();
-        try {
-            String text = Files.readString(p).replaceAll("[\\r\\n]+$", "");
-            if (text.isEmpty()) {
-                s.error(key, file, "a file holding a non-empty " + what + " (" + p + " is empty)");
-                return null;
-            }
-            return text.getBytes(java.nio.charset.StandardCharsets.UTF_8);
-        } catch (IOException e) {
-            s.error(key, file, "a readable file holding the " + what + " (" + p + ": "
-                    + (e instanceof NoSuchFileException ? "not found" : e.getMessage()) + ")");
-            return null;
-        }
     }
 
     private static CameraConfig camera(TableReader s, Path base) {
@@ -534,13 +368,4 @@ public final class ConfigLoader {
                 new MoverRuleSettings(hold, clear, rest, minTravel, quickTravel, minArea));
     }
 
-    static boolean isHttpUrl(String url) {
-        try {
-            java.net.URI u = new java.net.URI(url);
-            String scheme = u.getScheme() == null ? "" : u.getScheme().toLowerCase(Locale.ROOT);
-            return (scheme.equals("http") || scheme.equals("https")) && u.getHost() != null;
-        } catch (java.net.URISyntaxException e) {
-            return false;
-        }
-    }
 }
