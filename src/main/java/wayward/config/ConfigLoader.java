@@ -5,21 +5,14 @@ import java.nio.file.Files;
 import java.nio.file.NoSuchFileException;
 import java.nio.file.Path;
 import java.util.ArrayList;
-import java.util.HashSet;
 import java.util.List;
-import java.util.Set;
 import org.tomlj.Toml;
 import org.tomlj.TomlArray;
 import org.tomlj.TomlParseError;
 import org.tomlj.TomlParseResult;
 import org.tomlj.TomlPosition;
-import wayward.capture.SourceInput;
-import wayward.capture.Sources;
 import wayward.delivery.MqttConfig;
 import wayward.delivery.WebhookConfig;
-import wayward.rule.MoverRuleSettings;
-import wayward.rule.RuleSettings;
-import wayward.secret.Urls;
 
 /**
  * Reads a TOML config file (tomlj, TOML 1.0), binds it to {@link SiteConfig} and checks ranges and
@@ -172,24 +165,7 @@ public final class ConfigLoader {
             s.finish();
         }
 
-        List<CameraConfig> cameras = new ArrayList<>();
-        List<TableReader> cameraTables = top.entries("camera");
-        if (cameraTables.isEmpty()) {
-            if (!top.has("camera")) {
-                top.errorAtTable("camera", "missing (expected at least one [[camera]] table)");
-            }
-        } else {
-            Set<String> ids = new HashSet<>();
-            for (TableReader s : cameraTables) {
-                CameraConfig c = camera(s, base);
-                if (c != null) {
-                    if (!ids.add(c.id())) {
-                        s.error("id", c.id(), "an id no other camera has");
-                    }
-                    cameras.add(c);
-                }
-            }
-        }
+        List<CameraConfig> cameras = CameraBinder.cameras(top, base);
 
         List<WebhookConfig> webhooks = DeliveryBinder.webhooks(top, base);
         MqttConfig mqtt = DeliveryBinder.mqtt(top, base);
@@ -229,143 +205,4 @@ public final class ConfigLoader {
         }
         return c;
     }
-
-    private static CameraConfig camera(TableReader s, Path base) {
-        String id = s.requiredId("id");
-        String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");
-        boolean loop = s.bool("loop", false);
-        if (source != null && Sources.isDevice(source)) {
-            if (loop) {
-                s.error("loop", true, "false for a webcam; only files can loop");
-            }
-        } else if (source != null && !Urls.isUrl(source)) {
-            Path p = base.resolve(source).normalize();
-            if (!Files.isRegularFile(p)) {
-                s.error("source", source, "a video file that exists (looked for " + p + ") or a URL");
-            }
-            source = p.toString();
-        } else if (source != null && loop) {
-            s.error("loop", true, "false for a URL source; only files can loop");
-        }
-        int width = s.integer("analysis_width", CameraConfig.DEFAULT_ANALYSIS_WIDTH, 32, 1920);
-        if (width % 2 != 0) {
-            s.error("analysis_width", width, "an even number from 32 to 1920");
-        }
-        double fps = s.number("analysis_fps", CameraConfig.DEFAULT_ANALYSIS_FPS, 0.5, 60);
-        boolean removeCameraMotion = s.bool("remove_camera_motion", true);
-        boolean tamperAlerts = s.bool("tamper_alerts", true);
-        SourceInput d = SourceInput.DEFAULTS;
-        String transport = s.string("rtsp_transport", d.rtspTransport(), "\"tcp\" or \"udp\"");
-        if (!transport.equals("tcp") && !transport.equals("udp")) {
-            s.error("rtsp_transport", transport, "\"tcp\" or \"udp\"");
-            transport = d.rtspTransport();
-        }
-        String deviceSize = s.string("device_size", null, "a size such as \"1280x720\"");
-        if (deviceSize != null && !deviceSize.matches("[1-9][0-9]{1,4}x[1-9][0-9]{1,4}")) {
-            s.error("device_size", deviceSize, "a size such as \"1280x720\"");
-            deviceSize = null;
-        }
-        double deviceFps = s.has("device_fps") ? s.number("device_fps", 0, 1, 240) : 0;
-        String deviceFormat = s.string("device_format", null, "a Video4Linux2 input format such as \"mjpeg\" or \"yuyv422\"");
-        if (deviceFormat != null && !deviceFormat.matches("[a-z0-9_]{2,20}")) {
-            s.error("device_format", deviceFormat, "a Video4Linux2 input format such as \"mjpeg\" or \"yuyv422\"");
-            deviceFormat = null;
-        }
-        if (source != null && !Sources.isDevice(source)) {
-            for (String k : new String[] {"device_size", "device_fps", "device_format"}) {
-                if (s.raw(k) != null) {
-                    s.error(k, s.raw(k), "no such key for a source that is not a webcam (/dev/videoN)");
-                }
-            }
-        }
-        SourceInput input = new SourceInput(transport, deviceSize, deviceFps, deviceFormat);
-        List<ZoneConfig> zones = new ArrayList<>();
-        List<TableReader> zoneTables = s.entries("zone");
-        if (zoneTables.isEmpty()) {
-            s.errorAtTable("zone", "missing (expected at least one [[camera.zone]] table)");
-        } else {
-            Set<String> ids = new HashSet<>();
-            for (TableReader z : zoneTables) {
-                ZoneConfig zone = zone(z);
-                if (zone != null) {
-                    if (!ids.add(zone.id())) {
-                        z.error("id", zone.id(), "an id no other zone of this camera has");
-                    }
-                    zones.add(zone);
-                }
-            }
-        }
-        s.finish();
-        if (id == null || source == null) {
-            return null;
-        }
-        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones, tamperAlerts);
-    }
-
-    private static ZoneConfig zone(TableReader z) {
-        String id = z.requiredId("id");
-        double[][] polygon = z.polygon("polygon");
-        double heading = Double.NaN;
-        if (z.has("heading_deg")) {
-            String expected = "a bearing from 0 up to, not including, 360 degrees clockwise from image-up";
-            heading = z.number("heading_deg", Double.NaN, 0, 360, expected);
-            if (heading == 360) {
-                z.error("heading_deg", z.raw("heading_deg"), expected);
-                heading = Double.NaN;
-            }
-        }
-        double tolerance = z.number("tolerance_deg", ZoneConfig.DEFAULT_TOLERANCE_DEG, 0, 90);
-        double minSpeed = z.number("min_speed", ZoneConfig.DEFAULT_MIN_SPEED, 0, 10000);
-        double minConfidence = z.number("min_confidence", ZoneConfig.DEFAULT_MIN_CONFIDENCE, 0, 100000);
-        double learn = z.number("learn_heading_seconds", 0, 0, 86400);
-        if (learn > 0 && !Double.isNaN(heading)) {
-            z.error("learn_heading_seconds", z.raw("learn_heading_seconds"), "no learning when heading_deg is set "
-                    + "(leave out one of them)");
-            learn = 0;
-        }
-        boolean movers = !Double.isNaN(heading) || learn > 0;
-        double hold = z.number("hold_seconds", MoverRuleSettings.DEFAULT_HOLD_SECONDS, 0, 600);
-        double clear = z.number("clear_seconds", MoverRuleSettings.DEFAULT_CLEAR_SECONDS, 0, 600);
-        double rest = z.number("rest_seconds", MoverRuleSettings.DEFAULT_REST_SECONDS, 0, 3600);
-        double onset = 0.02;
-        double release = 0.008;
-        double minTravel = ZoneConfig.DEFAULT_MIN_TRAVEL_PX;
-        double quickTravel = ZoneConfig.DEFAULT_QUICK_TRAVEL_PX;
-        double minArea = MoverRuleSettings.DEFAULT_MIN_MOVER_AREA_PX;
-        if (movers) {
-            // a zone with a heading decides on movers: shares of the zone no longer start its events
-            for (String k : new String[] {"onset_level", "release_level"}) {
-                z.refuse(k, "no such key for a zone with a heading: it decides on movers (min_mover_area_px, "
-                        + "min_travel_px, quick_travel_px, hold_seconds), not on shares of the zone");
-            }
-            minTravel = z.number("min_travel_px", ZoneConfig.DEFAULT_MIN_TRAVEL_PX, 1, 10000);
-            quickTravel = z.number("quick_travel_px", ZoneConfig.DEFAULT_QUICK_TRAVEL_PX, 1, 10000);
-            if (quickTravel < minTravel) {
-                z.error("quick_travel_px", z.raw("quick_travel_px") != null ? z.raw("quick_travel_px") : quickTravel,
-                        "at least min_travel_px " + TomlText.format(minTravel));
-                quickTravel = minTravel;
-            }
-            minArea = z.number("min_mover_area_px", MoverRuleSettings.DEFAULT_MIN_MOVER_AREA_PX, 0, 1000000);
-        } else {
-            onset = z.number("onset_level", onset, 0.0001, 1);
-            release = z.number("release_level", Math.min(onset, release), 0, 1);
-            if (release > onset) {
-                z.error("release_level", release, "at most onset_level " + TomlText.format(onset));
-                release = onset;
-            }
-            for (String k : new String[] {"min_travel_px", "quick_travel_px", "min_mover_area_px"}) {
-                z.refuse(k, "no such key for a zone without a heading: it reports any motion by onset_level and "
-                        + "release_level (set heading_deg or learn_heading_seconds to decide on movers)");
-            }
-        }
-        z.finish();
-        if (id == null || polygon == null) {
-            return null;
-        }
-        return new ZoneConfig(id, polygon[0], polygon[1], heading, tolerance, minSpeed, minConfidence,
-                new RuleSettings(Math.max(onset, 0.0001), Math.max(0, Math.min(release, onset)), hold, clear, rest,
-                        minTravel, quickTravel), learn,
-                new MoverRuleSettings(hold, clear, rest, minTravel, quickTravel, minArea));
-    }
-
 }
