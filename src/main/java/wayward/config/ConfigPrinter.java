@@ -162,10 +162,10 @@ public final class ConfigPrinter {
     }
 
     private static String num(double d) {
-        return ConfigLoader.format(d);
+        return TomlText.format(d);
     }
 
     private static String quote(String s) {
-        return ConfigLoader.render(s);
+        return TomlText.render(s);
     }
 }

@@ -1,0 +1,183 @@
+package wayward.config;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.HashSet;
+import java.util.List;
+import java.util.Set;
+import java.util.function.Function;
+import wayward.capture.SourceInput;
+import wayward.capture.Sources;
+import wayward.rule.MoverRuleSettings;
+import wayward.rule.RuleSettings;
+import wayward.secret.Urls;
+
+/**
+ * Binds the [[camera]] tables and their [[camera.zone]] tables: the source and how it is read, the analysis size
+ * and rate, and each zone's polygon with either a heading (movers) or share levels (any motion). Stateless.
+ */
+final class CameraBinder {
+    private CameraBinder() {
+    }
+
+    /** The cameras in file order; at least one is required, and ids must differ. */
+    static List<CameraConfig> cameras(TableReader top, Path base) {
+        List<TableReader> tables = top.entries("camera");
+        if (tables.isEmpty() && !top.has("camera")) {
+            top.errorAtTable("camera", "missing (expected at least one [[camera]] table)");
+        }
+        return bindAll(tables, s -> camera(s, base), CameraConfig::id, "an id no other camera has");
+    }
+
+    private static CameraConfig camera(TableReader s, Path base) {
+        String id = s.requiredId("id");
+        String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");
+        boolean loop = s.bool("loop", false);
+        if (source != null && Sources.isDevice(source)) {
+            if (loop) {
+                s.error("loop", true, "false for a webcam; only files can loop");
+            }
+        } else if (source != null && !Urls.isUrl(source)) {
+            Path p = base.resolve(source).normalize();
+            if (!Files.isRegularFile(p)) {
+                s.error("source", source, "a video file that exists (looked for " + p + ") or a URL");
+            }
+            source = p.toString();
+        } else if (source != null && loop) {
+            s.error("loop", true, "false for a URL source; only files can loop");
+        }
+        int width = s.integer("analysis_width", CameraConfig.DEFAULT_ANALYSIS_WIDTH, 32, 1920);
+        if (width % 2 != 0) {
+            s.error("analysis_width", width, "an even number from 32 to 1920");
+        }
+        double fps = s.number("analysis_fps", CameraConfig.DEFAULT_ANALYSIS_FPS, 0.5, 60);
+        boolean removeCameraMotion = s.bool("remove_camera_motion", true);
+        boolean tamperAlerts = s.bool("tamper_alerts", true);
+        SourceInput input = input(s, source);
+        List<TableReader> zoneTables = s.entries("zone");
+        if (zoneTables.isEmpty()) {
+            s.errorAtTable("zone", "missing (expected at least one [[camera.zone]] table)");
+        }
+        List<ZoneConfig> zones = bindAll(zoneTables, CameraBinder::zone, ZoneConfig::id,
+                "an id no other zone of this camera has");
+        s.finish();
+        if (id == null || source == null) {
+            return null;
+        }
+        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones, tamperAlerts);
+    }
+
+    /** How the source is opened: RTSP transport, and a webcam's size, rate and format (only for webcams). */
+    private static SourceInput input(TableReader s, String source) {
+        SourceInput d = SourceInput.DEFAULTS;
+        String transport = s.string("rtsp_transport", d.rtspTransport(), "\"tcp\" or \"udp\"");
+        if (!transport.equals("tcp") && !transport.equals("udp")) {
+            s.error("rtsp_transport", transport, "\"tcp\" or \"udp\"");
+            transport = d.rtspTransport();
+        }
+        String deviceSize = s.string("device_size", null, "a size such as \"1280x720\"");
+        if (deviceSize != null && !deviceSize.matches("[1-9][0-9]{1,4}x[1-9][0-9]{1,4}")) {
+            s.error("device_size", deviceSize, "a size such as \"1280x720\"");
+            deviceSize = null;
+        }
+        double deviceFps = s.has("device_fps") ? s.number("device_fps", 0, 1, 240) : 0;
+        String formatExpected = "a Video4Linux2 input format such as \"mjpeg\" or \"yuyv422\"";
+        String deviceFormat = s.string("device_format", null, formatExpected);
+        if (deviceFormat != null && !deviceFormat.matches("[a-z0-9_]{2,20}")) {
+            s.error("device_format", deviceFormat, formatExpected);
+            deviceFormat = null;
+        }
+        if (source != null && !Sources.isDevice(source)) {
+            for (String k : new String[] {"device_size", "device_fps", "device_format"}) {
+                if (s.raw(k) != null) {
+                    s.error(k, s.raw(k), "no such key for a source that is not a webcam (/dev/videoN)");
+                }
+            }
+        }
+        return new SourceInput(transport, deviceSize, deviceFps, deviceFormat);
+    }
+
+    private static ZoneConfig zone(TableReader z) {
+        String id = z.requiredId("id");
+        double[][] polygon = z.polygon("polygon");
+        double heading = Double.NaN;
+        if (z.has("heading_deg")) {
+            String expected = "a bearing from 0 up to, not including, 360 degrees clockwise from image-up";
+            heading = z.number("heading_deg", Double.NaN, 0, 360, expected);
+            if (heading == 360) {
+                z.error("heading_deg", z.raw("heading_deg"), expected);
+                heading = Double.NaN;
+            }
+        }
+        double tolerance = z.number("tolerance_deg", ZoneConfig.DEFAULT_TOLERANCE_DEG, 0, 90);
+        double minSpeed = z.number("min_speed", ZoneConfig.DEFAULT_MIN_SPEED, 0, 10000);
+        double minConfidence = z.number("min_confidence", ZoneConfig.DEFAULT_MIN_CONFIDENCE, 0, 100000);
+        double learn = z.number("learn_heading_seconds", 0, 0, 86400);
+        if (learn > 0 && !Double.isNaN(heading)) {
+            z.error("learn_heading_seconds", z.raw("learn_heading_seconds"), "no learning when heading_deg is set "
+                    + "(leave out one of them)");
+            learn = 0;
+        }
+        boolean movers = !Double.isNaN(heading) || learn > 0;
+        double hold = z.number("hold_seconds", MoverRuleSettings.DEFAULT_HOLD_SECONDS, 0, 600);
+        double clear = z.number("clear_seconds", MoverRuleSettings.DEFAULT_CLEAR_SECONDS, 0, 600);
+        double rest = z.number("rest_seconds", MoverRuleSettings.DEFAULT_REST_SECONDS, 0, 3600);
+        double onset = 0.02;
+        double release = 0.008;
+        double minTravel = ZoneConfig.DEFAULT_MIN_TRAVEL_PX;
+        double quickTravel = ZoneConfig.DEFAULT_QUICK_TRAVEL_PX;
+        double minArea = MoverRuleSettings.DEFAULT_MIN_MOVER_AREA_PX;
+        if (movers) {
+            // a zone with a heading decides on movers: shares of the zone no longer start its events
+            for (String k : new String[] {"onset_level", "release_level"}) {
+                z.refuse(k, "no such key for a zone with a heading: it decides on movers (min_mover_area_px, "
+                        + "min_travel_px, quick_travel_px, hold_seconds), not on shares of the zone");
+            }
+            minTravel = z.number("min_travel_px", ZoneConfig.DEFAULT_MIN_TRAVEL_PX, 1, 10000);
+            quickTravel = z.number("quick_travel_px", ZoneConfig.DEFAULT_QUICK_TRAVEL_PX, 1, 10000);
+            if (quickTravel < minTravel) {
+                z.error("quick_travel_px", z.raw("quick_travel_px") != null ? z.raw("quick_travel_px") : quickTravel,
+                        "at least min_travel_px " + TomlText.format(minTravel));
+                quickTravel = minTravel;
+            }
+            minArea = z.number("min_mover_area_px", MoverRuleSettings.DEFAULT_MIN_MOVER_AREA_PX, 0, 1000000);
+        } else {
+            onset = z.number("onset_level", onset, 0.0001, 1);
+            release = z.number("release_level", Math.min(onset, release), 0, 1);
+            if (release > onset) {
+                z.error("release_level", release, "at most onset_level " + TomlText.format(onset));
+                release = onset;
+            }
+            for (String k : new String[] {"min_travel_px", "quick_travel_px", "min_mover_area_px"}) {
+                z.refuse(k, "no such key for a zone without a heading: it reports any motion by onset_level and "
+                        + "release_level (set heading_deg or learn_heading_seconds to decide on movers)");
+            }
+        }
+        z.finish();
+        if (id == null || polygon == null) {
+            return null;
+        }
+        return new ZoneConfig(id, polygon[0], polygon[1], heading, tolerance, minSpeed, minConfidence,
+                new RuleSettings(Math.max(onset, 0.0001), Math.max(0, Math.min(release, onset)), hold, clear, rest,
+                        minTravel, quickTravel), learn,
+                new MoverRuleSettings(hold, clear, rest, minTravel, quickTravel, minArea));
+    }
+
+    /** Binds each table in order; a table that did not bind (reported) is left out, a repeated id reported. */
+    private static <T> List<T> bindAll(List<TableReader> tables, Function<TableReader, T> bind,
+            Function<T, String> id, String unique) {
+        List<T> out = new ArrayList<>();
+        Set<String> ids = new HashSet<>();
+        for (TableReader t : tables) {
+            T bound = bind.apply(t);
+            if (bound != null) {
+                if (!ids.add(id.apply(bound))) {
+                    t.error("id", id.apply(bound), unique);
+                }
+                out.add(bound);
+            }
+        }
+        return out;
+    }
+}
