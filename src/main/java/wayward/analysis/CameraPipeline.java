@@ -10,9 +10,7 @@ import org.slf4j.MDC;
 import wayward.capture.FrameSlot;
 import wayward.capture.SourceOptions;
 import wayward.capture.VideoSource;
-import wayward.config.CameraConfig;
-import wayward.config.FlowConfig;
-import wayward.config.ZoneConfig;
+import wayward.flow.FlowConfig;
 import wayward.event.Event;
 import wayward.flow.FlowEstimator;
 import wayward.flow.FlowField;
@@ -57,7 +55,7 @@ public final class CameraPipeline implements CameraStatus {
     private final ZoneReading reading = new ZoneReading();
 
     /** Evidence settings of a pipeline: where clips go and who writes snapshots; null for none. */
-    public record Evidence(java.nio.file.Path dataDir, wayward.config.ClipConfig clips,
+    public record Evidence(java.nio.file.Path dataDir, wayward.clip.ClipConfig clips,
             wayward.clip.EvidenceWriter writer) {
     }
 

@@ -1,6 +1,5 @@
 package wayward.analysis;
 
-import wayward.config.CameraConfig;
 
 /**
  * What the status server and reports read of a running camera: its counters and its zones' latest readings,

@@ -7,8 +7,6 @@ import java.util.HashMap;
 import java.util.Map;
 import wayward.capture.ClipRecorder;
 import wayward.clip.Snapshot;
-import wayward.config.CameraConfig;
-import wayward.config.ZoneConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.flow.FlowField;

@@ -4,7 +4,6 @@ import java.awt.image.BufferedImage;
 import java.util.List;
 import java.util.concurrent.locks.ReentrantLock;
 import wayward.clip.Snapshot;
-import wayward.config.ZoneConfig;
 import wayward.flow.FlowField;
 import wayward.image.GrayFrame;
 import wayward.zone.ZoneMask;

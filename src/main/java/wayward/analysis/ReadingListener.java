@@ -1,6 +1,5 @@
 package wayward.analysis;
 
-import wayward.config.CameraConfig;
 import wayward.zone.Movers;
 import wayward.zone.ZoneReading;
 

@@ -6,8 +6,6 @@ import java.time.Clock;
 import java.util.Locale;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.config.CameraConfig;
-import wayward.config.ZoneConfig;
 import wayward.event.Event;
 import wayward.flow.FlowField;
 import wayward.rule.WrongWayRule;

@@ -5,7 +5,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Set;
-import wayward.config.CameraConfig;
+import wayward.analysis.CameraConfig;
 import wayward.config.ConfigPrinter;
 import wayward.config.SiteConfig;
 
@@ -33,7 +33,7 @@ final class CheckCommand extends Command {
         }
         // what zones that learn their heading have learned so far (data_dir/learned)
         for (CameraConfig cam : c.cameras()) {
-            for (wayward.config.ZoneConfig z : cam.zones()) {
+            for (wayward.analysis.ZoneConfig z : cam.zones()) {
                 if (!z.learnsHeading()) {
                     continue;
                 }

@@ -6,7 +6,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Set;
-import wayward.config.CameraConfig;
+import wayward.analysis.CameraConfig;
 import wayward.config.SiteConfig;
 import wayward.http.StatusServer;
 import wayward.service.Lifecycle;

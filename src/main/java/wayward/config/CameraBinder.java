@@ -12,6 +12,8 @@ import wayward.capture.Sources;
 import wayward.rule.MoverRuleSettings;
 import wayward.rule.RuleSettings;
 import wayward.secret.Urls;
+import wayward.analysis.CameraConfig;
+import wayward.analysis.ZoneConfig;
 
 /**
  * Binds the [[camera]] tables and their [[camera.zone]] tables: the source and how it is read, the analysis size

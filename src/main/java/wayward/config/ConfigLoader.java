@@ -11,6 +11,9 @@ import org.tomlj.TomlParseResult;
 import org.tomlj.TomlPosition;
 import wayward.delivery.MqttConfig;
 import wayward.delivery.WebhookConfig;
+import wayward.analysis.CameraConfig;
+import wayward.clip.ClipConfig;
+import wayward.flow.FlowConfig;
 
 /**
  * Reads a TOML config file (tomlj, TOML 1.0), binds it to {@link SiteConfig} and checks ranges and

@@ -5,6 +5,8 @@ import java.net.URISyntaxException;
 import wayward.delivery.MqttConfig;
 import wayward.delivery.WebhookConfig;
 import wayward.secret.Urls;
+import wayward.analysis.CameraConfig;
+import wayward.analysis.ZoneConfig;
 
 /**
  * Prints the effective configuration (every key, defaults filled in) as TOML, with secrets masked: passwords in

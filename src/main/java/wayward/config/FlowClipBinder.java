@@ -1,5 +1,8 @@
 package wayward.config;
 
+import wayward.clip.ClipConfig;
+import wayward.flow.FlowConfig;
+
 /** Binds [flow] (the flow estimator shared by all cameras) and [clips] (evidence clips); defaults when absent. */
 final class FlowClipBinder {
     private FlowClipBinder() {

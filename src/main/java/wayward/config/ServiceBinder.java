@@ -4,6 +4,7 @@ import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import org.tomlj.TomlArray;
+import wayward.http.HttpConfig;
 
 /**
  * Binds [service] with the environment's overrides: the data folder, the status server's address and token, and

@@ -4,6 +4,10 @@ import java.nio.file.Path;
 import java.util.List;
 import wayward.delivery.MqttConfig;
 import wayward.delivery.WebhookConfig;
+import wayward.analysis.CameraConfig;
+import wayward.clip.ClipConfig;
+import wayward.flow.FlowConfig;
+import wayward.http.HttpConfig;
 
 /**
  * A whole, checked configuration. Immutable; relative paths in the file are already resolved against the

@@ -30,7 +30,6 @@ import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.TimeoutException;
-import wayward.delivery.WebhookConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.secret.Urls;

@@ -19,7 +19,7 @@ import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.util.concurrent.TimeUnit;
 import javax.imageio.ImageIO;
-import wayward.config.ZoneConfig;
+import wayward.analysis.ZoneConfig;
 import wayward.analysis.CameraStatus;
 
 /**

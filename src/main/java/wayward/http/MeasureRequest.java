@@ -1,7 +1,7 @@
 package wayward.http;
 
 import io.netty.handler.codec.http.QueryStringDecoder;
-import wayward.config.ZoneConfig;
+import wayward.analysis.ZoneConfig;
 
 /**
  * The query of {@code /api/measure}: a zone drawn on the live view (polygon=x,y;x,y;… as fractions of the

@@ -5,7 +5,7 @@ import java.lang.management.MemoryMXBean;
 import java.util.List;
 import java.util.Locale;
 import wayward.clip.ClipWriter;
-import wayward.config.ZoneConfig;
+import wayward.analysis.ZoneConfig;
 import wayward.delivery.Courier;
 import wayward.delivery.EventBus;
 import wayward.delivery.Outbox;

@@ -18,7 +18,6 @@ import java.net.InetSocketAddress;
 import java.util.concurrent.TimeUnit;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.config.HttpConfig;
 
 /**
  * The status server (Netty, HTTP/1.1): health, Prometheus metrics, a JSON API, clip downloads and the live

@@ -18,7 +18,7 @@ import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.List;
-import wayward.config.ZoneConfig;
+import wayward.analysis.ZoneConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.secret.Urls;

@@ -7,7 +7,7 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.config.ConfigException;
 import wayward.config.ConfigLoader;
-import wayward.config.HttpConfig;
+import wayward.http.HttpConfig;
 import wayward.config.SiteConfig;
 
 /**

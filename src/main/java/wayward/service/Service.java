@@ -9,7 +9,7 @@ import java.util.concurrent.CountDownLatch;
 import java.util.concurrent.TimeUnit;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.config.CameraConfig;
+import wayward.analysis.CameraConfig;
 import wayward.config.ConfigPrinter;
 import wayward.config.SiteConfig;
 import wayward.delivery.EventBus;
@@ -135,7 +135,7 @@ public final class Service implements StatusSource {
                 if (config.mqtt() != null) {
                     List<String> zones = new ArrayList<>();
                     for (CameraConfig c : cameras) {
-                        for (wayward.config.ZoneConfig z : c.zones()) {
+                        for (wayward.analysis.ZoneConfig z : c.zones()) {
                             zones.add(c.id() + "/" + z.id());
                         }
                     }
@@ -192,7 +192,7 @@ public final class Service implements StatusSource {
         return out;
     }
 
-    private CameraPipeline pipeline(CameraConfig c, wayward.config.FlowConfig flow) {
+    private CameraPipeline pipeline(CameraConfig c, wayward.flow.FlowConfig flow) {
         CameraPipeline p = new CameraPipeline(c, flow, bus::publish, clock, mode == Mode.REPLAY, mode != Mode.REPLAY,
                 maxLoops, evidence);
         if (mode != Mode.REPLAY) {
@@ -239,7 +239,7 @@ public final class Service implements StatusSource {
 
     /** The settings outside [flow] and the cameras, as text, for telling whether they changed. */
     private static String rest(SiteConfig c) {
-        return ConfigPrinter.toToml(new SiteConfig(c.file(), c.dataDir(), wayward.config.FlowConfig.DEFAULTS,
+        return ConfigPrinter.toToml(new SiteConfig(c.file(), c.dataDir(), wayward.flow.FlowConfig.DEFAULTS,
                 List.of(), c.webhooks(), c.clips(), c.mqtt(), c.outboxMaxBytes(), c.http(), c.shard()));
     }
 

@@ -11,7 +11,7 @@ import java.nio.file.Path;
 import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
-import wayward.config.CameraConfig;
+import wayward.analysis.CameraConfig;
 import wayward.image.GrayFrame;
 
 /**

@@ -12,6 +12,8 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.CsvSource;
+import wayward.analysis.CameraConfig;
+import wayward.analysis.ZoneConfig;
 
 class ConfigLoaderTest {
     private static final String DIR = "src/test/resources/config/";

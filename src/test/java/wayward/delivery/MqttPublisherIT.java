@@ -20,7 +20,6 @@ import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
-import wayward.delivery.MqttConfig;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.event.EventKind;

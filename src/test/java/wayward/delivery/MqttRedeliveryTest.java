@@ -32,7 +32,6 @@ import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicInteger;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
-import wayward.delivery.MqttConfig;
 import wayward.event.Event;
 import wayward.event.EventKind;
 

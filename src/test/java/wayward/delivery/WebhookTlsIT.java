@@ -19,7 +19,6 @@ import javax.net.ssl.SSLContext;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
-import wayward.delivery.WebhookConfig;
 import wayward.event.Event;
 import wayward.event.EventKind;
 

@@ -8,7 +8,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import io.netty.handler.codec.http.QueryStringDecoder;
 import java.nio.charset.StandardCharsets;
 import org.junit.jupiter.api.Test;
-import wayward.config.ZoneConfig;
+import wayward.analysis.ZoneConfig;
 
 class MeasureRequestTest {
     private static MeasureRequest parse(String query) {

@@ -5,7 +5,7 @@ import java.time.Clock;
 import org.bytedeco.ffmpeg.global.avutil;
 import org.bytedeco.javacv.FFmpegFrameGrabber;
 import org.bytedeco.javacv.Frame;
-import wayward.config.FlowConfig;
+import wayward.flow.FlowConfig;
 import wayward.event.Event;
 import wayward.flow.FlowEstimator;
 import wayward.flow.FlowField;

@@ -20,7 +20,7 @@ import org.bytedeco.opencv.global.opencv_video;
 import org.bytedeco.opencv.opencv_core.Mat;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
-import wayward.config.ZoneConfig;
+import wayward.analysis.ZoneConfig;
 import wayward.flow.FlowEstimator;
 import wayward.flow.FlowField;
 import wayward.flow.FlowSettings;

@@ -1,4 +1,4 @@
-package wayward.config;
+package wayward.clip;
 
 /**
  * The {@code [clips]} table: evidence clips by stream copy and snapshots for every motion event.

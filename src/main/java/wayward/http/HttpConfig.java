@@ -1,4 +1,4 @@
-package wayward.config;
+package wayward.http;
 
 /**
  * The status server's address from {@code [service] http}, and its access token.

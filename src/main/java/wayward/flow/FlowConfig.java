@@ -1,6 +1,5 @@
-package wayward.config;
+package wayward.flow;
 
-import wayward.flow.FlowSettings;
 
 /**
  * The {@code [flow]} table.

@@ -1,4 +1,4 @@
-package wayward.config;
+package wayward.analysis;
 
 import wayward.rule.MoverRuleSettings;
 import wayward.rule.RuleSettings;

@@ -1,4 +1,4 @@
-package wayward.config;
+package wayward.analysis;
 
 import java.util.List;
 import wayward.capture.SourceInput;
