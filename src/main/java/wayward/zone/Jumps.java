@@ -20,6 +20,7 @@ final class Jumps {
     private final int[] gTrack;
     private final MoverSettings settings;
     private final float cosGroup;
+    private final Nearest near = new Nearest();
 
     Jumps(MoverGroups groups, Tracks tracks, int[] gTrack, MoverSettings settings) {
         this.gr = groups;
@@ -48,9 +49,7 @@ final class Jumps {
         }
         final double lost = settings.lostSeconds() + 1e-6;
         while (true) {
-            double best = Double.MAX_VALUE;
-            int bt = -1;
-            int bg = -1;
+            near.clear();
             for (int k = 0; k < nt; k++) {
                 if (!tr.live[k] || tr.group[k] >= 0 || Double.isNaN(tr.seenAt[k])) {
                     continue;
@@ -66,20 +65,17 @@ final class Jumps {
                     final double d = Math.hypot(gr.sumX[g] / gr.count[g] - tr.x[k], gr.sumY[g] / gr.count[g] - tr.y[k]);
                     final double reach = MAX_JUMP_PX_PER_SECOND * since + settings.gatePx()
                             + 0.5 * Math.max(Math.max(tr.w[k], tr.h[k]), gr.side(g));
-                    if (d > reach || d >= best || !jumpsTo(k, g, since)) {
-                        continue;
+                    if (d <= reach && d < near.distance && jumpsTo(k, g, since)) {
+                        near.offer(d, k, g);
                     }
-                    best = d;
-                    bt = k;
-                    bg = g;
                 }
             }
-            if (bt < 0) {
+            if (near.track < 0) {
                 break;
             }
-            tr.group[bt] = bg;
-            gTrack[bg] = bt;
-            tr.jumped[bt] = true;
+            tr.group[near.track] = near.group;
+            gTrack[near.group] = near.track;
+            tr.jumped[near.track] = true;
         }
         // runs: a first jump starts one from the track's last centroid; a pairing without a jump ends it
         for (int k = 0; k < nt; k++) {

@@ -68,6 +68,7 @@ public final class MoverTracker {
     private final int[] gTrack;
     private final Tracks tr;
     private final Jumps jumps;
+    private final Nearest near = new Nearest();
     private long untracked;
 
     /**
@@ -235,9 +236,7 @@ public final class MoverTracker {
         }
         Arrays.fill(gTrack, 0, gr.groups, -1);
         while (true) {
-            double best = Double.MAX_VALUE;
-            int bt = -1;
-            int bg = -1;
+            near.clear();
             for (int k = 0; k < nt; k++) {
                 if (!tr.live[k] || tr.group[k] >= 0) {
                     continue;
@@ -265,18 +264,16 @@ public final class MoverTracker {
                     }
                     final boolean inside = ex >= (double) gr.minI[g] * stride - stride && ex <= (gr.maxI[g] + 2.0) * stride
                             && ey >= (double) gr.minJ[g] * stride - stride && ey <= (gr.maxJ[g] + 2.0) * stride;
-                    if ((d <= gate || inside) && d < best) {
-                        best = d;
-                        bt = k;
-                        bg = g;
+                    if (d <= gate || inside) {
+                        near.offer(d, k, g);
                     }
                 }
             }
-            if (bt < 0) {
+            if (near.track < 0) {
                 break;
             }
-            tr.group[bt] = bg;
-            gTrack[bg] = bt;
+            tr.group[near.track] = near.group;
+            gTrack[near.group] = near.track;
         }
         jumps.pair(dt, t);
         for (int g = 0; g < gr.groups; g++) {
