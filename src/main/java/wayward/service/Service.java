@@ -58,6 +58,18 @@ public final class Service implements StatusSource {
     private ReadingListener readingListener;
     private FrameListener frameListener;
     private double measureFrom = Double.NaN;
+    private final List<CameraConfig> cameras;
+    private final Mode mode;
+    private final PrintStream stdout;
+    private final int maxLoops;
+    private final EventBus bus = new EventBus();
+    private final wayward.delivery.RecentEvents recent = new wayward.delivery.RecentEvents(200);
+    private Outbox outbox;
+    private final List<CameraPipeline> pipelines = new java.util.concurrent.CopyOnWriteArrayList<>();
+    private final CountDownLatch ended = new CountDownLatch(1);
+    private wayward.clip.EvidenceWriter evidenceWriter;
+    private java.util.concurrent.ScheduledExecutorService retention;
+    private volatile boolean stopped;
 
     /** Before {@link #start}: every camera measures the CPU time of its stages from that stream time on (bench). */
     public void measureStages(double fromSeconds) {
@@ -73,18 +85,6 @@ public final class Service implements StatusSource {
     public void listenReadings(ReadingListener l) {
         this.readingListener = l;
     }
-    private final List<CameraConfig> cameras;
-    private final Mode mode;
-    private final PrintStream stdout;
-    private final int maxLoops;
-    private final EventBus bus = new EventBus();
-    private final wayward.delivery.RecentEvents recent = new wayward.delivery.RecentEvents(200);
-    private Outbox outbox;
-    private final List<CameraPipeline> pipelines = new java.util.concurrent.CopyOnWriteArrayList<>();
-    private final CountDownLatch ended = new CountDownLatch(1);
-    private wayward.clip.EvidenceWriter evidenceWriter;
-    private java.util.concurrent.ScheduledExecutorService retention;
-
     /** Retention sweep of the evidence folder (the retention thread). */
     private void sweep() {
         try {
@@ -95,7 +95,6 @@ public final class Service implements StatusSource {
             LOG.error("retention sweep failed: {}", e.toString());
         }
     }
-    private volatile boolean stopped;
 
     /**
      * @param cameras  the cameras to watch (for replay: one camera whose source is the input file)
@@ -104,7 +103,7 @@ public final class Service implements StatusSource {
      */
     public Service(SiteConfig config, List<CameraConfig> cameras, Mode mode, PrintStream stdout, int maxLoops) {
         this.config = config;
-        this.cameras = mode == Mode.REPLAY ? List.copyOf(cameras) : shareOf(config, cameras);
+        this.cameras = mode == Mode.REPLAY ? List.copyOf(cameras) : Shards.camerasOf(config, cameras);
         this.mode = mode;
         this.stdout = stdout;
         this.maxLoops = maxLoops;
@@ -175,23 +174,6 @@ public final class Service implements StatusSource {
         watcher.start();
     }
 
-    /** The cameras this instance watches: all of them, or its share when instances share the config. */
-    static List<CameraConfig> shareOf(SiteConfig config, List<CameraConfig> cameras) {
-        if (config.shard() == null) {
-            return List.copyOf(cameras);
-        }
-        List<String> ids = new ArrayList<>();
-        cameras.forEach(c -> ids.add(c.id()));
-        List<String> mine = Shards.mine(ids, config.shard().instance(), config.shard().instances());
-        List<CameraConfig> out = new ArrayList<>();
-        for (CameraConfig c : cameras) {
-            if (mine.contains(c.id())) {
-                out.add(c);
-            }
-        }
-        return out;
-    }
-
     private CameraPipeline pipeline(CameraConfig c, wayward.flow.FlowConfig flow) {
         CameraPipeline p = new CameraPipeline(c, flow, bus::publish, clock, mode == Mode.REPLAY, mode != Mode.REPLAY,
                 maxLoops, evidence);
@@ -258,7 +240,7 @@ public final class Service implements StatusSource {
             LOG.info("reload: [flow] changed; every camera restarts");
         }
         java.util.Map<String, CameraConfig> wanted = new java.util.LinkedHashMap<>();
-        List<CameraConfig> nextCameras = mode == Mode.REPLAY ? next.cameras() : shareOf(next, next.cameras());
+        List<CameraConfig> nextCameras = mode == Mode.REPLAY ? next.cameras() : Shards.camerasOf(next, next.cameras());
         for (CameraConfig c : nextCameras) {
             wanted.put(c.id(), c);
         }

@@ -6,6 +6,8 @@ import java.security.MessageDigest;
 import java.security.NoSuchAlgorithmException;
 import java.util.ArrayList;
 import java.util.List;
+import wayward.analysis.CameraConfig;
+import wayward.config.SiteConfig;
 
 /**
  * Which instance watches which camera: rendezvous (highest random weight) hashing of the camera id over the
@@ -48,6 +50,23 @@ public final class Shards {
         List<String> out = new ArrayList<>();
         for (String c : cameras) {
             if (instance.equals(owner(c, instances))) {
+                out.add(c);
+            }
+        }
+        return out;
+    }
+
+    /** The cameras this instance watches: all of them, or its share when instances share the config. */
+    static List<CameraConfig> camerasOf(SiteConfig config, List<CameraConfig> cameras) {
+        if (config.shard() == null) {
+            return List.copyOf(cameras);
+        }
+        List<String> ids = new ArrayList<>();
+        cameras.forEach(c -> ids.add(c.id()));
+        List<String> mine = Shards.mine(ids, config.shard().instance(), config.shard().instances());
+        List<CameraConfig> out = new ArrayList<>();
+        for (CameraConfig c : cameras) {
+            if (mine.contains(c.id())) {
                 out.add(c);
             }
         }
