@@ -78,10 +78,10 @@ public final class LiveView {
     }
 
     /**
-     * Measures a zone that is not in the config (one being drawn) on the latest copy: {coverage, against}, or
-     * null before the first copy.
+     * Measures a zone that is not in the config (one being drawn) on the latest copy, or null before the first
+     * copy.
      */
-    public double[] measure(double[] xs, double[] ys, double headingDeg, double toleranceDeg, double minSpeed,
+    public ZoneReading measure(double[] xs, double[] ys, double headingDeg, double toleranceDeg, double minSpeed,
             double minConfidence, boolean removeCameraMotion) {
         lock.lock();
         try {
@@ -92,7 +92,7 @@ public final class LiveView {
                     minConfidence, removeCameraMotion);
             ZoneReading r = new ZoneReading();
             meter.measure(field, dt, 0, r);
-            return new double[] {r.coverage, r.against};
+            return r;
         } finally {
             lock.unlock();
         }

@@ -117,7 +117,7 @@ final class ClipFiles {
         boolean partial = false;
         String range = req.headers().get(HttpHeaderNames.RANGE);
         if (range != null) {
-            long[] r = parseRange(range, size);
+            Range r = parseRange(range, size);
             if (r == null) {
                 FullHttpResponse bad = response(HttpResponseStatus.REQUESTED_RANGE_NOT_SATISFIABLE,
                         "range not satisfiable (one range of bytes within " + size + ")\n", "text/plain");
@@ -125,8 +125,8 @@ final class ClipFiles {
                 send(ctx, req, bad);
                 return;
             }
-            from = r[0];
-            to = r[1];
+            from = r.first();
+            to = r.last();
             partial = true;
         }
         HttpResponse r = new DefaultHttpResponse(HttpVersion.HTTP_1_1,
@@ -152,8 +152,12 @@ final class ClipFiles {
         }
     }
 
+    /** A byte range of a file, first and last byte included. */
+    record Range(long first, long last) {
+    }
+
     /** One range "bytes=a-b", "bytes=a-" or "bytes=-n" (RFC 9110 §14.1.2), clipped to the size; else null. */
-    static long[] parseRange(String header, long size) {
+    static Range parseRange(String header, long size) {
         if (!header.startsWith("bytes=") || header.indexOf(',') >= 0 || size == 0) {
             return null;
         }
@@ -178,7 +182,7 @@ final class ClipFiles {
                 from = Long.parseLong(a);
                 to = b.isEmpty() ? size - 1 : Math.min(Long.parseLong(b), size - 1);
             }
-            return from >= 0 && from < size && from <= to ? new long[] {from, to} : null;
+            return from >= 0 && from < size && from <= to ? new Range(from, to) : null;
         } catch (NumberFormatException e) {
             return null;
         }

@@ -215,11 +215,11 @@ final class Views {
             return;
         }
         p.live().want();
-        double[] r = p.live().measure(m.xs(), m.ys(), m.headingDeg(), m.toleranceDeg(), ZoneConfig.DEFAULT_MIN_SPEED,
+        wayward.zone.ZoneReading r = p.live().measure(m.xs(), m.ys(), m.headingDeg(), m.toleranceDeg(), ZoneConfig.DEFAULT_MIN_SPEED,
                 ZoneConfig.DEFAULT_MIN_CONFIDENCE, p.config().removeCameraMotion());
         String body = EventJson.object(g -> {
-            number(g, "coverage", r == null ? Double.NaN : r[0]);
-            number(g, "against", r == null ? Double.NaN : r[1]);
+            number(g, "coverage", r == null ? Double.NaN : r.coverage);
+            number(g, "against", r == null ? Double.NaN : r.against);
         });
         Replies.json(ctx, req, HttpResponseStatus.OK, body);
     }

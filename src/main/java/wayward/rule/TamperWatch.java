@@ -290,9 +290,14 @@ public final class TamperWatch {
     private double lastSpread;
     private double lastRatio;
 
-    /** For tests and tuning: latest spread, its baseline, latest ratio, its baseline, the summed shift. */
-    double[] figures() {
-        return new double[] {lastSpread, baseSpread, lastRatio, baseRatio, Math.hypot(shiftX, shiftY), baseStill, stillness};
+    /** For tests and tuning: the latest figures and their baselines. */
+    record Figures(double spread, double baseSpread, double ratio, double baseRatio, double shift, double baseStill,
+            double stillness) {
+    }
+
+    Figures figures() {
+        return new Figures(lastSpread, baseSpread, lastRatio, baseRatio, Math.hypot(shiftX, shiftY), baseStill,
+                stillness);
     }
 
     /** The next event this watch raised, or null. */

@@ -1,6 +1,5 @@
 package wayward.http;
 
-import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNull;
 
@@ -10,14 +9,14 @@ class ClipFilesTest {
     @Test
     void oneRangeOfBytesAsRfc9110DefinesIt() {
         // RFC 9110 §14.1.2's examples on a 10000-byte representation
-        assertArrayEquals(new long[] {0, 499}, ClipFiles.parseRange("bytes=0-499", 10_000));
-        assertArrayEquals(new long[] {500, 999}, ClipFiles.parseRange("bytes=500-999", 10_000));
-        assertArrayEquals(new long[] {9500, 9999}, ClipFiles.parseRange("bytes=-500", 10_000));
-        assertArrayEquals(new long[] {9500, 9999}, ClipFiles.parseRange("bytes=9500-", 10_000));
-        assertArrayEquals(new long[] {0, 0}, ClipFiles.parseRange("bytes=0-0", 10_000));
+        assertEquals(new ClipFiles.Range(0, 499), ClipFiles.parseRange("bytes=0-499", 10_000));
+        assertEquals(new ClipFiles.Range(500, 999), ClipFiles.parseRange("bytes=500-999", 10_000));
+        assertEquals(new ClipFiles.Range(9500, 9999), ClipFiles.parseRange("bytes=-500", 10_000));
+        assertEquals(new ClipFiles.Range(9500, 9999), ClipFiles.parseRange("bytes=9500-", 10_000));
+        assertEquals(new ClipFiles.Range(0, 0), ClipFiles.parseRange("bytes=0-0", 10_000));
         // a last position past the end is clipped; a suffix longer than the file is the whole file
-        assertArrayEquals(new long[] {9000, 9999}, ClipFiles.parseRange("bytes=9000-20000", 10_000));
-        assertArrayEquals(new long[] {0, 9999}, ClipFiles.parseRange("bytes=-20000", 10_000));
+        assertEquals(new ClipFiles.Range(9000, 9999), ClipFiles.parseRange("bytes=9000-20000", 10_000));
+        assertEquals(new ClipFiles.Range(0, 9999), ClipFiles.parseRange("bytes=-20000", 10_000));
         // several ranges are not served (one range only), nor unsatisfiable or malformed ones
         assertNull(ClipFiles.parseRange("bytes=0-0,-1", 10_000));
         assertNull(ClipFiles.parseRange("bytes=10000-", 10_000));

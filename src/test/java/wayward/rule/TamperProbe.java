@@ -44,9 +44,9 @@ public final class TamperProbe {
                     System.out.println("EVENT " + e.kind().jsonName() + " " + e.phase().jsonName() + " " + t);
                 }
                 if (i % 15 == 0) {
-                    double[] x = w.figures();
+                    TamperWatch.Figures x = w.figures();
                     System.out.printf("t=%.1f spread=%.2f base=%.2f ratio=%.3f base=%.3f shift=%.2f baseStill=%.3f stillness=%.2f%n", t,
-                            x[0], x[1], x[2], x[3], x[4], x[5], x[6]);
+                            x.spread(), x.baseSpread(), x.ratio(), x.baseRatio(), x.shift(), x.baseStill(), x.stillness());
                 }
             }
         }
