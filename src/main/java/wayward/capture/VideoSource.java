@@ -211,7 +211,10 @@ public final class VideoSource implements Runnable {
         VideoDecoder input = null;
         AVFrame frame = null;
         try {
-            grabber.start();
+            // not start(): it holds one JVM-wide lock (on avcodec's class) for the whole open, so a camera whose
+            // server never answers would hold up every other camera's open until its socket timeout; FFmpeg's
+            // opening is thread-safe on its own (codecs that are not lock themselves), and we open our own decoder
+            grabber.startUnsafe();
             input = new VideoDecoder(grabber.getFormatContext());
             final AVCodecContext decoder = input.context;
             final int videoIndex = input.streamIndex;
