@@ -24,9 +24,6 @@ import wayward.secret.Urls;
  * analysis sees these pictures: clips are copies of the packets).
  */
 final class VideoDecoder implements AutoCloseable {
-    /** Socket timeout for network sources, microseconds (FFmpeg's option "timeout"). */
-    private static final String NETWORK_TIMEOUT_MICROS = "5000000";
-
     final int streamIndex;
     final AVStream stream;
     final AVCodecContext context;
@@ -58,7 +55,7 @@ final class VideoDecoder implements AutoCloseable {
             }
         }
         if (Urls.isUrl(options.source())) {
-            grabber.setOption("timeout", NETWORK_TIMEOUT_MICROS);
+            grabber.setOption("timeout", Long.toString(options.input().socketTimeoutMicros()));
             grabber.setOption("analyzeduration", "500000");
         }
         return grabber;

@@ -70,7 +70,10 @@ final class CameraBinder {
         return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones, tamperAlerts);
     }
 
-    /** How the source is opened: RTSP transport, and a webcam's size, rate and format (only for webcams). */
+    /**
+     * How the source is opened: RTSP transport, how long a silent network source is waited for, and a webcam's
+     * size, rate and format (only for webcams).
+     */
     private static SourceInput input(TableReader s, String source) {
         SourceInput d = SourceInput.DEFAULTS;
         String transport = s.string("rtsp_transport", d.rtspTransport(), "\"tcp\" or \"udp\"");
@@ -90,6 +93,8 @@ final class CameraBinder {
             s.error("device_format", deviceFormat, formatExpected);
             deviceFormat = null;
         }
+        double lostAfter = s.number("lost_after_seconds", d.lostAfterSeconds(), SourceInput.MIN_LOST_AFTER_SECONDS,
+                SourceInput.MAX_LOST_AFTER_SECONDS);
         if (source != null && !Sources.isDevice(source)) {
             for (String k : new String[] {"device_size", "device_fps", "device_format"}) {
                 if (s.raw(k) != null) {
@@ -97,7 +102,7 @@ final class CameraBinder {
                 }
             }
         }
-        return new SourceInput(transport, deviceSize, deviceFps, deviceFormat);
+        return new SourceInput(transport, deviceSize, deviceFps, deviceFormat, lostAfter);
     }
 
     private static ZoneConfig zone(TableReader z) {

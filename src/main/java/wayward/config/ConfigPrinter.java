@@ -115,6 +115,7 @@ public final class ConfigPrinter {
         b.append("remove_camera_motion = ").append(cam.removeCameraMotion()).append('\n');
         b.append("tamper_alerts = ").append(cam.tamperAlerts()).append('\n');
         b.append("rtsp_transport = ").append(quote(cam.input().rtspTransport())).append('\n');
+        b.append("lost_after_seconds = ").append(num(cam.input().lostAfterSeconds())).append('\n');
         if (cam.input().deviceSize() != null) {
             b.append("device_size = ").append(quote(cam.input().deviceSize())).append('\n');
         }
