@@ -16,7 +16,6 @@ import org.bytedeco.ffmpeg.avutil.AVFrame;
 import org.bytedeco.javacpp.IntPointer;
 import org.bytedeco.javacpp.PointerPointer;
 import org.bytedeco.javacv.FFmpegFrameGrabber;
-import org.bytedeco.javacv.FFmpegLogCallback;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.image.GrayFrame;
@@ -57,7 +56,7 @@ public final class VideoSource implements Runnable {
     static {
         // FFmpeg's own chatter goes through SLF4J at error level only.
         av_log_set_level(AV_LOG_ERROR);
-        FFmpegLogCallback.set();
+        FFmpegLog.install();
     }
 
     private final String cameraId;

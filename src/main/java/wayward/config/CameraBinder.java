@@ -49,6 +49,12 @@ final class CameraBinder {
         } else if (source != null && loop) {
             s.error("loop", true, "false for a URL source; only files can loop");
         }
+        if (source != null && Urls.reservedInPassword(source) != 0) {
+            char c = Urls.reservedInPassword(source);
+            s.error("source", Urls.mask(source), "a password with '" + c + "' written as %"
+                    + String.format(java.util.Locale.ROOT, "%02X", (int) c) + " (the characters / ? # in a password"
+                    + " must be percent-encoded; FFmpeg reads a raw one as the end of the address)");
+        }
         int width = s.integer("analysis_width", CameraConfig.DEFAULT_ANALYSIS_WIDTH, 32, 1920);
         if (width % 2 != 0) {
             s.error("analysis_width", width, "an even number from 32 to 1920");

@@ -6,13 +6,18 @@ import ch.qos.logback.core.read.ListAppender;
 import java.util.List;
 import org.slf4j.LoggerFactory;
 
-/** Collects the formatted log lines of one class while a test runs. */
+/** Collects the formatted log lines of one class (or logger) while a test runs. */
 public final class LogCapture implements AutoCloseable {
     private final Logger logger;
     private final ListAppender<ILoggingEvent> appender = new ListAppender<>();
 
     public LogCapture(Class<?> source) {
-        logger = (Logger) LoggerFactory.getLogger(source);
+        this(source.getName());
+    }
+
+    /** The lines of the logger of that name. */
+    public LogCapture(String name) {
+        logger = (Logger) LoggerFactory.getLogger(name);
         appender.start();
         logger.addAppender(appender);
     }
