@@ -6,11 +6,11 @@ import org.bytedeco.ffmpeg.global.avutil;
 import org.bytedeco.javacpp.BytePointer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
-import wayward.secret.Urls;
+import wayward.secret.LogText;
 
 /**
- * FFmpeg's own log lines into SLF4J (logger {@code ffmpeg}), each URL in them masked ({@link Urls#maskIn}: FFmpeg
- * quotes the addresses it opens, passwords included) and control characters written as \xNN. Installed once.
+ * FFmpeg's own log lines into SLF4J (logger {@code ffmpeg}) through {@link LogText#clean}: FFmpeg quotes the
+ * addresses it opens, passwords included, and a stream's metadata may hold control characters. Installed once.
  */
 final class FFmpegLog extends LogCallback {
     private static final Logger LOG = LoggerFactory.getLogger("ffmpeg");
@@ -29,7 +29,7 @@ final class FFmpegLog extends LogCallback {
         if (level > avutil.av_log_get_level()) {
             return; // FFmpeg hands a callback every line; the level it is set to filters only its own printing
         }
-        String text = clean(Urls.maskIn(msg.getString(StandardCharsets.UTF_8).strip()));
+        String text = LogText.clean(msg.getString(StandardCharsets.UTF_8).strip());
         if (text.isEmpty()) {
             return;
         }
@@ -42,22 +42,5 @@ final class FFmpegLog extends LogCallback {
         } else {
             LOG.debug(text);
         }
-    }
-
-    /** Control characters (a stream's metadata may hold any) as \xNN, so that a log line stays one line. */
-    static String clean(String s) {
-        StringBuilder b = null;
-        for (int i = 0; i < s.length(); i++) {
-            char c = s.charAt(i);
-            if (c < 0x20 || c == 0x7f) {
-                if (b == null) {
-                    b = new StringBuilder(s.length() + 8).append(s, 0, i);
-                }
-                b.append(String.format(java.util.Locale.ROOT, "\\x%02x", (int) c));
-            } else if (b != null) {
-                b.append(c);
-            }
-        }
-        return b == null ? s : b.toString();
     }
 }

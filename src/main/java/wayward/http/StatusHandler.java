@@ -20,6 +20,7 @@ import java.security.MessageDigest;
 import java.util.List;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
+import wayward.secret.LogText;
 
 /**
  * Routes one connection's requests (GET and HEAD only) to their responders; every refusal is a short plain-text
@@ -32,6 +33,8 @@ import org.slf4j.LoggerFactory;
  */
 final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
     private static final Logger LOG = LoggerFactory.getLogger(StatusHandler.class);
+    /** One budget of error lines for the whole status server. */
+    private static final ErrorLines ERRORS = new ErrorLines(LOG);
 
     /** What all connections share. */
     record Shared(StatusSource service, byte[] token) {
@@ -75,6 +78,14 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
         QueryStringDecoder q = new QueryStringDecoder(req.uri(), StandardCharsets.UTF_8, true, 1024, true);
         String path = q.rawPath();
         try {
+            q.parameters();
+            QueryStringDecoder.decodeComponent(path, StandardCharsets.UTF_8);
+        } catch (IllegalArgumentException e) {
+            // a broken %-escape is the client's mistake: 400, and nothing of the address (tokens) in the log
+            text(ctx, req, HttpResponseStatus.BAD_REQUEST, "malformed percent-escape in the address\n", false);
+            return;
+        }
+        try {
             if (path.equals("/health") || path.equals("/health/ready")) {
                 views.health(ctx, req, path.endsWith("/ready"));
                 return;
@@ -92,7 +103,8 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
             }
             route(ctx, req, q, path);
         } catch (RuntimeException | IOException e) {
-            LOG.error("status server: {} {} failed: {}", req.method(), shorten(path), e.toString());
+            ERRORS.error("status server: " + req.method() + " " + LogText.clean(path) + " failed: "
+                    + LogText.clean(e.toString()), System.nanoTime());
             text(ctx, req, HttpResponseStatus.INTERNAL_SERVER_ERROR, "internal error\n", true);
         }
     }
@@ -116,14 +128,10 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                 } else if (path.startsWith("/clips/")) {
                     clips.serve(ctx, req, path.substring("/clips/".length()));
                 } else {
-                    text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page: " + shorten(path) + "\n", false);
+                    text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page: " + LogText.clean(path) + "\n", false);
                 }
             }
         }
-    }
-
-    private static String shorten(String s) {
-        return s.length() > 100 ? s.substring(0, 100) + "…" : s;
     }
 
     /**

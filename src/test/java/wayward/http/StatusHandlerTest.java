@@ -154,4 +154,25 @@ class StatusHandlerTest {
         assertEquals(404, answer(ch, get("/clips/link.mp4")).status().code());
     }
 
+    @Test
+    void aBrokenPercentEscapeIsTheClientsMistakeAndLeavesNoTokenInTheLog() throws IOException {
+        EmbeddedChannel ch = channel(TOKEN);
+        try (wayward.delivery.LogCapture log = new wayward.delivery.LogCapture(StatusHandler.class)) {
+            // RFC 3986 §2.1: "%" must be followed by two hex digits; RFC 9110 §15.5.1: 400 for a malformed request
+            FullHttpResponse r = answer(ch, get("/api/events?access_token=yard-token&limit=%zz"));
+            assertEquals(400, r.status().code());
+            assertEquals(400, answer(ch, get("/clips/lane%2?access_token=yard-token")).status().code());
+            assertEquals(400, answer(ch, get("/api/measure%?access_token=yard-token")).status().code());
+            assertTrue(log.lines().stream().noneMatch(l -> l.startsWith("ERROR") || l.contains("yard-token")),
+                    String.valueOf(log.lines()));
+        }
+    }
+
+    @Test
+    void controlCharactersOfARequestComeBackEscaped() throws IOException {
+        EmbeddedChannel ch = channel(null);
+        FullHttpResponse r = answer(ch, get("/no\u001b[2Jsuch"));
+        assertEquals(404, r.status().code());
+        assertEquals("no such page: /no\\x1b[2Jsuch\n", body(r));
+    }
 }
