@@ -158,13 +158,20 @@ final class DeliveryBinder {
                 s.error("headers", name, "header names made of letters, digits and - (RFC 9110 token)");
             } else if (OWN_HEADERS.contains(lower) || lower.startsWith("x-wayward-")) {
                 s.error("headers", name, "a header wayward does not set itself");
-            } else if (!(value instanceof String) || ((String) value).matches(".*[\\r\\n].*")) {
-                s.error("headers", value, "a string value on one line for header " + name);
+            } else if (!(value instanceof String) || !fieldValue((String) value)) {
+                // the value itself is not shown: header values tend to be secrets
+                s.error("headers", name, "a string value on one line, without control characters (RFC 9110"
+                        + " field value), for header " + name);
             } else {
                 out.put(name, (String) value);
             }
         }
         return out;
+    }
+
+    /** RFC 9110 §5.5: visible characters, spaces and tabs; no CR, LF or other control characters. */
+    private static boolean fieldValue(String v) {
+        return v.chars().noneMatch(c -> (c < 0x20 && c != '\t') || c == 0x7f);
     }
 
     private static boolean isHttpUrl(String url) {

@@ -11,6 +11,8 @@ import org.slf4j.LoggerFactory;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.retry.Backoff;
+import java.util.concurrent.CompletableFuture;
+import wayward.secret.LogText;
 
 /**
  * Carries event phases from the outbox to one destination, in outbox order, on its own thread. Up to the
@@ -25,6 +27,7 @@ public final class Courier {
     private final Outbox outbox;
     private final Destination destination;
     private final OutboxProgress progress;
+    private final SetAside setAside;
     private final Outbox.Reader reader;
     private final long baseBackoffMillis;
     private final long maxBackoffMillis;
@@ -38,10 +41,10 @@ public final class Courier {
     private static final class Pending {
         final long seq;
         final Event event;
-        java.util.concurrent.CompletableFuture<Destination.Result> answer;
+        CompletableFuture<Destination.Result> answer;
         int attempts = 1;
 
-        Pending(long seq, Event event, java.util.concurrent.CompletableFuture<Destination.Result> answer) {
+        Pending(long seq, Event event, CompletableFuture<Destination.Result> answer) {
             this.seq = seq;
             this.event = event;
             this.answer = answer;
@@ -53,6 +56,7 @@ public final class Courier {
         this.outbox = outbox;
         this.destination = destination;
         this.progress = outbox.progress(destination.key());
+        this.setAside = new SetAside(outbox.setAsideFile(destination.key()));
         this.reader = outbox.reader(progress.next());
         this.baseBackoffMillis = baseBackoffMillis;
         this.maxBackoffMillis = Math.max(baseBackoffMillis, maxBackoffMillis);
@@ -117,7 +121,7 @@ public final class Courier {
                         }
                         continue;
                     }
-                    pending.add(new Pending(e.seq(), ev, destination.send(e.seq(), ev)));
+                    pending.add(new Pending(e.seq(), ev, send(e.seq(), ev)));
                 }
                 if (pending.isEmpty()) {
                     if (!caughtUp) {
@@ -153,8 +157,10 @@ public final class Courier {
                         backoff.reset();
                     }
                     case REFUSED -> {
-                        LOG.error("{}: event {} {} {} refused ({}); not retried", destination.name(), head.event.id(),
-                                head.event.kind().jsonName(), head.event.phase().jsonName(), r.detail());
+                        setAside.add(head.seq, head.event, r.detail());
+                        LOG.error("{}: event {} {} {} refused ({}); not retried, kept in {}", destination.name(),
+                                head.event.id(), head.event.kind().jsonName(), head.event.phase().jsonName(),
+                                r.detail(), setAside.file());
                         refused.incrementAndGet();
                         pending.poll();
                         progress.save(head.seq + 1);
@@ -169,7 +175,7 @@ public final class Courier {
                         Thread.sleep(wait);
                         retries.incrementAndGet();
                         head.attempts++;
-                        head.answer = destination.send(head.seq, head.event);
+                        head.answer = send(head.seq, head.event);
                     }
                 }
             }
@@ -183,6 +189,19 @@ public final class Courier {
             } catch (IOException e) {
                 LOG.debug("{}: {}", destination.name(), e.toString());
             }
+        }
+    }
+
+    /**
+     * The destination's answer to one event phase; a destination that throws (a header it cannot write, a bug)
+     * refuses that record rather than stopping the queue behind it.
+     */
+    private CompletableFuture<Destination.Result> send(long seq, Event ev) {
+        try {
+            return destination.send(seq, ev);
+        } catch (RuntimeException e) {
+            return CompletableFuture.completedFuture(Destination.Result.refused("cannot be sent: "
+                    + LogText.clean(e.toString())));
         }
     }
 

@@ -53,6 +53,11 @@ public final class Outbox implements AutoCloseable {
         this.segmentBytes = segmentBytes;
     }
 
+    /** Where the event phases a destination will not deliver are kept (see {@link SetAside}). */
+    Path setAsideFile(String key) {
+        return dir.resolve("set-aside-" + key + ".jsonl");
+    }
+
     /**
      * Opens (or creates) the outbox in {@code dir}, checking the newest segment and cutting off a torn tail.
      *

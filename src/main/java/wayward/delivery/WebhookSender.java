@@ -14,12 +14,12 @@ import io.netty.channel.socket.SocketChannel;
 import io.netty.channel.socket.nio.NioSocketChannel;
 import io.netty.handler.codec.http.DefaultFullHttpRequest;
 import io.netty.handler.codec.http.FullHttpRequest;
-import io.netty.handler.codec.http.FullHttpResponse;
 import io.netty.handler.codec.http.HttpClientCodec;
 import io.netty.handler.codec.http.HttpHeaderNames;
 import io.netty.handler.codec.http.HttpHeaderValues;
 import io.netty.handler.codec.http.HttpMethod;
-import io.netty.handler.codec.http.HttpObjectAggregator;
+import io.netty.handler.codec.http.HttpObject;
+import io.netty.handler.codec.http.HttpResponse;
 import io.netty.handler.codec.http.HttpVersion;
 import io.netty.handler.ssl.SslContext;
 import io.netty.handler.timeout.ReadTimeoutHandler;
@@ -119,12 +119,14 @@ public final class WebhookSender implements Destination {
                         }
                         ch.pipeline().addLast(new ReadTimeoutHandler(timeoutMillis, TimeUnit.MILLISECONDS));
                         ch.pipeline().addLast(new HttpClientCodec());
-                        ch.pipeline().addLast(new HttpObjectAggregator(64 * 1024));
-                        ch.pipeline().addLast(new SimpleChannelInboundHandler<FullHttpResponse>() {
+                        // the answer's status is all we read: a body of any size is not our concern
+                        ch.pipeline().addLast(new SimpleChannelInboundHandler<HttpObject>() {
                             @Override
-                            protected void channelRead0(ChannelHandlerContext ctx, FullHttpResponse r) {
-                                answer.complete(r.status().code());
-                                ctx.close();
+                            protected void channelRead0(ChannelHandlerContext ctx, HttpObject o) {
+                                if (o instanceof HttpResponse r) {
+                                    answer.complete(r.status().code());
+                                    ctx.close();
+                                }
                             }
 
                             @Override

@@ -39,6 +39,8 @@ class WebhookSenderTest {
     private static final Event EVENT_END = new Event("7d1c", "yard-mast-2", "lane-2-out", EventKind.WRONG_WAY,
             Event.Phase.END, 16.8, Instant.parse("2026-12-02T10:00:04.5Z"), 180, 45, 0.06, 4.5);
     private final List<String> authorizations = new CopyOnWriteArrayList<>();
+    /** What the receiver answers in its body. */
+    private byte[] answerBody = "ok".getBytes(StandardCharsets.UTF_8);
     @TempDir
     Path outboxDir;
 
@@ -65,7 +67,7 @@ class WebhookSenderTest {
                 }
                 status = 503;
             }
-            byte[] answer = "ok".getBytes(StandardCharsets.UTF_8);
+            byte[] answer = answerBody;
             exchange.sendResponseHeaders(status, answer.length);
             exchange.getResponseBody().write(answer);
             exchange.close();
@@ -143,6 +145,49 @@ class WebhookSenderTest {
         assertEquals(2, calls.get(), "404 not retried");
         assertEquals(1, c.refused());
         assertEquals(1, c.delivered());
+    }
+
+    @Test
+    void aRefusedPhaseIsKeptOnDiskBesideTheOutbox() throws Exception {
+        String url = receiver(404, 200);
+        Courier c = deliverThroughOutbox(new WebhookConfig(url, 5), 10_000, EVENT, EVENT_END);
+        assertEquals(1, c.refused());
+        List<String> kept = java.nio.file.Files.readAllLines(setAsideFile());
+        assertEquals(1, kept.size());
+        org.junit.jupiter.api.Assertions.assertTrue(kept.get(0).startsWith("{\"seq\":1,\"reason\":\"HTTP 404\",\"event\":"
+                + EventJson.toJson(EVENT)), kept.get(0));
+    }
+
+    @Test
+    void aTwoHundredWithAHugeBodyIsDelivered() throws Exception {
+        // RFC 9110 §15.3: any 2xx is success, whatever the body; 256 KiB is four times what the sender used to hold
+        answerBody = new byte[256 * 1024];
+        String url = receiver(200);
+        Courier c = deliverThroughOutbox(new WebhookConfig(url, 5), 10_000, EVENT);
+        assertEquals(1, calls.get());
+        assertEquals(1, c.delivered());
+        assertEquals(0, c.retries());
+    }
+
+    @Test
+    void aRecordThatCannotBeSentIsSetAsideAndTheQueueGoesOn() throws Exception {
+        // a header value with CR LF (what check refuses; here straight into the sender): Netty will not write it
+        String url = receiver(200);
+        WebhookConfig config = new WebhookConfig(url, 5, 60, Map.of("X-Site", "yard\r\nX-Injected: 1"), null, null,
+                null);
+        Courier c = deliverThroughOutbox(config, 10_000, EVENT, EVENT_END);
+        assertEquals(0, calls.get());
+        assertEquals(2, c.refused(), "both phases set aside; the courier did not stop at the first");
+        assertEquals(3, c.next(), "progress past both");
+        List<String> kept = java.nio.file.Files.readAllLines(setAsideFile());
+        assertEquals(2, kept.size());
+        org.junit.jupiter.api.Assertions.assertTrue(kept.get(1).contains("cannot be sent"), kept.get(1));
+    }
+
+    private Path setAsideFile() throws IOException {
+        try (java.util.stream.Stream<Path> files = java.nio.file.Files.list(outboxDir)) {
+            return files.filter(f -> f.getFileName().toString().startsWith("set-aside-")).findFirst().orElseThrow();
+        }
     }
 
     @Test
