@@ -37,6 +37,8 @@ public final class Courier {
     private final AtomicLong retries = new AtomicLong();
     private volatile long drainUntilNanos = Long.MAX_VALUE;
     private volatile boolean draining;
+    /** Why the courier thread ended before it was asked to (null while it runs or after an orderly stop). */
+    private volatile String stoppedBy;
 
     private static final class Pending {
         final long seq;
@@ -87,6 +89,11 @@ public final class Courier {
 
     public long retries() {
         return retries.get();
+    }
+
+    /** Why delivery to this destination stopped on its own (a disk error), or null while it goes on. */
+    public String stoppedBy() {
+        return stoppedBy;
     }
 
     /** Event phases in the outbox this destination has not yet taken. */
@@ -182,7 +189,9 @@ public final class Courier {
         } catch (InterruptedException ie) {
             Thread.currentThread().interrupt();
         } catch (IOException | RuntimeException e) {
-            LOG.error("{}: delivery stopped: {}", destination.name(), e.toString());
+            stoppedBy = LogText.clean(e.toString());
+            LOG.error("{}: delivery stopped: {}; what is left stays in the outbox for the next start",
+                    destination.name(), stoppedBy);
         } finally {
             try {
                 reader.close();

@@ -139,7 +139,10 @@ final class MetricsText {
         perDestination(cs, "wayward_delivery_retries_total", "counter", "Repeated delivery attempts.",
                 Courier::retries);
         perDestination(cs, "wayward_delivery_refused_total", "counter",
-                "Event phases refused for good by the destination.", Courier::refused);
+                "Event phases refused for good by the destination (kept in the outbox folder).", Courier::refused);
+        perDestination(cs, "wayward_delivery_stopped", "gauge",
+                "1 when delivery to the destination stopped on its own (see the log); restart to resume.",
+                c -> c.stoppedBy() == null ? 0 : 1);
         family("wayward_outbox_bytes", "gauge", "Size of the outbox segments on disk.");
         sample("wayward_outbox_bytes", outbox == null ? 0 : (double) outbox.bytes());
         family("wayward_outbox_lost_total", "counter",

@@ -53,17 +53,29 @@ final class Views {
                 down.add(p.id());
             }
         }
+        List<String> stopped = new ArrayList<>();
+        for (wayward.delivery.Courier c : service.bus().couriers()) {
+            if (c.stoppedBy() != null) {
+                stopped.add(c.destination().name());
+            }
+        }
+        boolean ready = down.isEmpty() && stopped.isEmpty();
         String body = EventJson.object(g -> {
             g.writeBooleanField("alive", true);
-            g.writeBooleanField("ready", down.isEmpty());
+            g.writeBooleanField("ready", ready);
             g.writeArrayFieldStart("cameras_down");
             for (String d : down) {
                 g.writeString(d);
             }
             g.writeEndArray();
+            g.writeArrayFieldStart("delivery_stopped");
+            for (String d : stopped) {
+                g.writeString(d);
+            }
+            g.writeEndArray();
         });
-        Replies.json(ctx, req, readiness && !down.isEmpty() ? HttpResponseStatus.SERVICE_UNAVAILABLE
-                : HttpResponseStatus.OK, body);
+        Replies.json(ctx, req, readiness && !ready ? HttpResponseStatus.SERVICE_UNAVAILABLE : HttpResponseStatus.OK,
+                body);
     }
 
     /** {@code /metrics}: Prometheus text format. */
