@@ -91,7 +91,7 @@ final class Options {
         try {
             return ConfigLoader.load(Path.of(file));
         } catch (ConfigException e) {
-            for (String line : e.errors()) {
+            for (String line : e.shown()) {
                 err.println(line);
             }
             err.println(e.errors().size() == 1 ? "1 error; nothing started"

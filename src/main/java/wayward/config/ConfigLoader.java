@@ -39,9 +39,14 @@ public final class ConfigLoader {
             if (Files.isDirectory(file)) {
                 throw new ConfigException(List.of(shown + ": is a folder (expected a TOML config file)"));
             }
-            toml = Toml.parse(file);
+            String text = TomlShape.text(Files.readAllBytes(file), shown);
+            TomlShape.checkNesting(text, shown);
+            toml = Toml.parse(text);
         } catch (NoSuchFileException e) {
             throw new ConfigException(List.of(shown + ": file not found"));
+        } catch (java.nio.file.AccessDeniedException e) {
+            throw new ConfigException(List.of(shown + ": cannot read: permission denied (the service's user needs"
+                    + " read access)"));
         } catch (IOException e) {
             throw new ConfigException(List.of(shown + ": cannot read (" + e.getMessage() + ")"));
         }

@@ -9,6 +9,7 @@ import wayward.config.ConfigException;
 import wayward.config.ConfigLoader;
 import wayward.http.HttpConfig;
 import wayward.config.SiteConfig;
+import wayward.secret.LogText;
 
 /**
  * Runs a service until its cameras end or a signal stops it: a shutdown hook for SIGTERM and Ctrl-C, SIGHUP to
@@ -109,8 +110,11 @@ public final class Lifecycle {
         SiteConfig next;
         try {
             next = ConfigLoader.load(file);
+        } catch (RuntimeException e) {
+            LOG.error("reload refused ({}); the running config stays", LogText.clean(e.toString()));
+            return;
         } catch (ConfigException e) {
-            for (String line : e.errors()) {
+            for (String line : e.shown()) {
                 LOG.error("reload: {}", line);
             }
             LOG.error("reload refused ({} {}); the running config stays", e.errors().size(),

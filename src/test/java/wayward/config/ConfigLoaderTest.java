@@ -59,6 +59,39 @@ class ConfigLoaderTest {
         assertEquals(List.of(DIR + fixture + ":" + expected), errorsOf(fixture));
     }
 
+    private static final String ONE_CAMERA = "[[camera]]\nid = \"gate\"\nsource = \"rtsp://cam.yard.example/s\"\n"
+            + "[[camera.zone]]\nid = \"lane\"\npolygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]\n";
+
+    @Test
+    void hostileFilesGetOneLocatedLineNotAStackTrace(@TempDir Path dir) throws Exception {
+        // a thousand nested arrays overflowed the parser's stack
+        Path deep = dir.resolve("deep.toml");
+        Files.writeString(deep, "x = " + "[".repeat(1000) + "]".repeat(1000) + "\n" + ONE_CAMERA);
+        ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.load(deep));
+        assertEquals(List.of(deep + ":1:37: arrays or tables nested more than 32 deep (expected a config; none needs"
+                + " more than three)"), e.errors());
+        // TOML 1.0: a TOML file is UTF-8; 0xFF is never UTF-8 (RFC 3629 §1)
+        Path binary = dir.resolve("binary.toml");
+        Files.write(binary, new byte[] {'x', ' ', '=', ' ', 1, '\n', 'y', '=', (byte) 0xff, 0});
+        e = assertThrows(ConfigException.class, () -> ConfigLoader.load(binary));
+        assertEquals(List.of(binary + ":2:3: not UTF-8 text at byte 8 (expected a TOML file, which is UTF-8 text)"),
+                e.errors());
+    }
+
+    @Test
+    void thousandsOfMistakesAreCountedNotAllShown(@TempDir Path dir) throws Exception {
+        StringBuilder b = new StringBuilder(ONE_CAMERA);
+        for (int i = 0; i < 5000; i++) {
+            b.append("[extra").append(i).append("]\nk = 1\n");
+        }
+        Path many = dir.resolve("many.toml");
+        Files.writeString(many, b);
+        ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.load(many));
+        assertEquals(5000, e.errors().size());
+        assertEquals(ConfigException.MAX_SHOWN + 1, e.shown().size());
+        assertEquals("… and 4960 more mistakes not shown", e.shown().get(ConfigException.MAX_SHOWN));
+    }
+
     @Test
     void missingSourceFileNamesThePathLookedAt() {
         Path looked = Path.of(DIR).toAbsolutePath().resolve("no-such-clip.mp4").normalize();
