@@ -31,10 +31,14 @@ final class DeliveryBinder {
 
     static List<WebhookConfig> webhooks(TableReader top, Path base) {
         List<WebhookConfig> webhooks = new ArrayList<>();
+        java.util.Set<String> urls = new java.util.HashSet<>();
         for (TableReader s : top.entries("webhook")) {
             String url = s.requiredString("url", "an http:// or https:// URL");
             if (url != null && !isHttpUrl(url)) {
                 s.error("url", url, "an http:// or https:// URL with a host");
+            } else if (url != null && !urls.add(url)) {
+                s.error("url", wayward.secret.Urls.mask(url), "a URL no other [[webhook]] has (two would share one"
+                        + " delivery progress and send every event phase twice)");
             }
             double timeout = s.number("timeout_seconds", WebhookConfig.DEFAULT_TIMEOUT_SECONDS, 0.1, 300);
             double maxBackoff = s.number("max_backoff_seconds", WebhookConfig.DEFAULT_MAX_BACKOFF_SECONDS, 1, 3600);

@@ -14,6 +14,8 @@ import java.security.cert.CertificateFactory;
  * Paths resolve against the config file's folder; a problem is reported on the key that named the file.
  */
 final class ReferencedFiles {
+    private static final org.slf4j.Logger LOG = org.slf4j.LoggerFactory.getLogger(ConfigLoader.class);
+
     private ReferencedFiles() {
     }
 
@@ -26,10 +28,26 @@ final class ReferencedFiles {
                 s.error(key, file, "a file holding a non-empty " + what + " (" + p + " is empty)");
                 return null;
             }
+            warnIfOthersRead(p, what);
             return text.getBytes(StandardCharsets.UTF_8);
         } catch (IOException e) {
             s.error(key, file, "a readable file holding the " + what + " (" + p + ": " + reason(e) + ")");
             return null;
+        }
+    }
+
+    /** Warns, as ssh does for keys, when users other than the owner may read a secret (POSIX file systems). */
+    private static void warnIfOthersRead(Path p, String what) {
+        try {
+            java.util.Set<java.nio.file.attribute.PosixFilePermission> perms = Files.getPosixFilePermissions(p);
+            if (perms.contains(java.nio.file.attribute.PosixFilePermission.GROUP_READ)
+                    || perms.contains(java.nio.file.attribute.PosixFilePermission.OTHERS_READ)) {
+                LOG.warn("{} file {} can be read by other users (mode {}); make it readable by the service's user"
+                        + " only: chmod 600 {}", what, p,
+                        java.nio.file.attribute.PosixFilePermissions.toString(perms), p);
+            }
+        } catch (UnsupportedOperationException | IOException e) {
+            // not a POSIX file system: nothing to say
         }
     }
 

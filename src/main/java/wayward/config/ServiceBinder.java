@@ -1,5 +1,6 @@
 package wayward.config;
 
+import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
@@ -27,6 +28,9 @@ final class ServiceBinder {
         if (s != null) {
             String dir = s.string("data_dir", SiteConfig.DEFAULT_DATA_DIR, "a folder path");
             dataDir = base.resolve(dir).normalize();
+            if (Files.exists(dataDir) && !Files.isDirectory(dataDir)) {
+                s.error("data_dir", dir, "a folder (this path names a file)");
+            }
             http = http(s, base);
             String configured = s.string("instance", null, TableReader.ID_EXPECTED);
             if (instance == null || instance.isBlank()) {

@@ -220,6 +220,12 @@ final class TableReader {
             error(name, v, "a polygon that encloses an area");
             ok = false;
         }
+        int[] crossing = ok ? Polygons.crossingEdges(xs, ys) : null;
+        if (crossing != null) {
+            error(name, v, "a polygon whose edges do not cross (edges " + crossing[0] + " and " + crossing[1]
+                    + " do; list the points in order around the zone)");
+            ok = false;
+        }
         return ok ? new double[][] {xs, ys} : null;
     }
 
