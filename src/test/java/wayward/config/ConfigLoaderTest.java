@@ -1,5 +1,6 @@
 package wayward.config;
 
+import static org.junit.jupiter.api.Assertions.assertDoesNotThrow;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -93,6 +94,29 @@ class ConfigLoaderTest {
         assertEquals(5000, e.errors().size());
         assertEquals(ConfigException.MAX_SHOWN + 1, e.shown().size());
         assertEquals("… and 4960 more mistakes not shown", e.shown().get(ConfigException.MAX_SHOWN));
+    }
+
+    @Test
+    void aSecretFileOthersCanReadIsWarnedAbout(@TempDir Path dir) throws Exception {
+        Path token = dir.resolve("status.token");
+        Files.writeString(token, "yard-token\n");
+        Path config = dir.resolve("site.toml");
+        Files.writeString(config, "[service]\ntoken_file = \"status.token\"\n" + ONE_CAMERA);
+        java.util.function.Supplier<List<String>> warned = () -> {
+            try (wayward.delivery.LogCapture log = new wayward.delivery.LogCapture(ConfigLoader.class)) {
+                assertDoesNotThrow(() -> ConfigLoader.load(config));
+                return log.lines();
+            }
+        };
+        // POSIX modes: 0644 lets group and others read (common practice: ssh refuses such key files)
+        Files.setPosixFilePermissions(token, java.nio.file.attribute.PosixFilePermissions.fromString("rw-r--r--"));
+        List<String> lines = warned.get();
+        assertEquals(1, lines.size(), String.valueOf(lines));
+        assertTrue(lines.get(0).startsWith("WARN bearer token file " + token + " can be read by other users (mode"
+                + " rw-r--r--)"), lines.get(0));
+        assertFalse(lines.get(0).contains("yard-token\n"));
+        Files.setPosixFilePermissions(token, java.nio.file.attribute.PosixFilePermissions.fromString("rw-------"));
+        assertEquals(List.of(), warned.get());
     }
 
     @Test
