@@ -1,5 +1,10 @@
 package wayward.delivery;
 
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.io.Writer;
@@ -24,6 +29,37 @@ public final class EventLog implements EventSink {
 
     public Path file() {
         return file;
+    }
+
+    /**
+     * The events an earlier run of the service started and never ended (it stopped or crashed while they were
+     * open), read from an event log file, in the order they started; empty when there is no such file. Lines that
+     * are not event phases (a line cut short by a crash) are passed over.
+     */
+    public static List<Event> leftOpen(Path file) throws IOException {
+        Map<String, Event> open = new LinkedHashMap<>();
+        if (!Files.isRegularFile(file)) {
+            return List.of();
+        }
+        try (java.io.BufferedReader in = Files.newBufferedReader(file, StandardCharsets.UTF_8)) {
+            for (String line; (line = in.readLine()) != null; ) {
+                Event e;
+                try {
+                    e = EventJson.parse(line.getBytes(StandardCharsets.UTF_8));
+                } catch (IllegalArgumentException bad) {
+                    continue;
+                }
+                if (e.id() == null) {
+                    continue;
+                }
+                if (e.phase() == Event.Phase.START) {
+                    open.put(e.id(), e);
+                } else {
+                    open.remove(e.id());
+                }
+            }
+        }
+        return new ArrayList<>(open.values());
     }
 
     @Override

@@ -21,10 +21,15 @@ import java.time.Instant;
  *                        after the end has passed)
  * @param snapshot        JPEG of the triggering frame, relative to the data folder, or null
  * @param mover           the mover that decided a {@code wrong_way} event, or null (other kinds)
+ * @param endedBy         for an end phase not decided by the rules, why it ended: {@link #SERVICE_STOPPED} for an
+ *                        event the service closed at its next start because it had stopped (or crashed) while the
+ *                        event was open; null otherwise
  */
 public record Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
         Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
-        String snapshot, Mover mover) {
+        String snapshot, Mover mover, String endedBy) {
+    /** {@link #endedBy} of an event closed at a start because the service had stopped while it was open. */
+    public static final String SERVICE_STOPPED = "service_stopped";
 
     /**
      * The mover that went the wrong way, as followed by the zone's tracker (analysis pixels).
@@ -77,6 +82,20 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
         }
     }
 
+    /** An event phase as the rules decide it. */
+    public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
+            Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
+            String snapshot, Mover mover) {
+        this(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage, durationSeconds, clip,
+                snapshot, mover, null);
+    }
+
+    /** The end phase of this started event, closed at {@code now} because the service stopped while it was open. */
+    public Event closedAtRestart(Instant now) {
+        return new Event(id, camera, zone, kind, Phase.END, Double.NaN, now, Double.NaN, Double.NaN, Double.NaN,
+                Double.NaN, null, null, null, SERVICE_STOPPED);
+    }
+
     /** An event phase with evidence files and no mover. */
     public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
             Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
@@ -94,7 +113,7 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
     /** The same phase naming its evidence files. */
     public Event withEvidence(String clipPath, String snapshotPath) {
         return new Event(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage,
-                durationSeconds, clipPath, snapshotPath, mover);
+                durationSeconds, clipPath, snapshotPath, mover, endedBy);
     }
 
     /** Start or end of an event. */

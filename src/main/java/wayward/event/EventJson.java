@@ -60,6 +60,9 @@ public final class EventJson {
             if (e.snapshot() != null) {
                 g.writeStringField("snapshot", e.snapshot());
             }
+            if (e.endedBy() != null) {
+                g.writeStringField("ended_by", e.endedBy());
+            }
             g.writeEndObject();
         } catch (IOException ex) {
             throw new UncheckedIOException(ex);
@@ -74,7 +77,7 @@ public final class EventJson {
      * @throws IllegalArgumentException when the bytes are not such an object
      */
     public static Event parse(byte[] json) {
-        String id = null, camera = null, zone = null, clip = null, snapshot = null, at = null;
+        String id = null, camera = null, zone = null, clip = null, snapshot = null, at = null, endedBy = null;
         EventKind kind = null;
         Event.Phase phase = null;
         double stream = Double.NaN, heading = Double.NaN, speed = Double.NaN, coverage = Double.NaN;
@@ -103,6 +106,7 @@ public final class EventJson {
                     case "duration_s" -> duration = p.getDoubleValue();
                     case "clip" -> clip = p.getText();
                     case "snapshot" -> snapshot = p.getText();
+                    case "ended_by" -> endedBy = p.getText();
                     case "mover_width_px" -> moverWidth = p.getIntValue();
                     case "mover_height_px" -> moverHeight = p.getIntValue();
                     case "mover_samples" -> moverSamples = p.getIntValue();
@@ -126,7 +130,7 @@ public final class EventJson {
             Event.Mover mover = moverPath == null ? null
                     : new Event.Mover(moverWidth, moverHeight, moverSamples, moverPath, moverSpeed, moverTravel);
             return new Event(id, camera, zone, kind, phase, stream, Instant.parse(at), heading, speed, coverage,
-                    duration, clip, snapshot, mover);
+                    duration, clip, snapshot, mover, endedBy);
         } catch (java.time.format.DateTimeParseException e) {
             throw new IllegalArgumentException("\"at\" is not an ISO-8601 instant: " + at);
         }

@@ -110,6 +110,7 @@ public final class Service implements StatusSource {
     }
 
     public void start() throws IOException {
+        List<wayward.event.Event> leftOpen = List.of();
         if (mode != Mode.REPLAY) {
             LOG.warn(CAUTION);
             if (config.shard() != null) {
@@ -118,6 +119,7 @@ public final class Service implements StatusSource {
                 LOG.info("instance {} of {}: watching {} of {} cameras: {}", config.shard().instance(),
                         config.shard().instances(), cameras.size(), config.cameras().size(), ids);
             }
+            leftOpen = EventLog.leftOpen(config.dataDir().resolve("events.jsonl"));
             EventLog log = new EventLog(config.dataDir());
             bus.add(log, QUEUE_CAPACITY);
             LOG.info("events are written to {}", log.file());
@@ -148,6 +150,11 @@ public final class Service implements StatusSource {
             bus.add(new PrintSink(stdout), QUEUE_CAPACITY);
         }
         bus.add(recent, QUEUE_CAPACITY);
+        for (wayward.event.Event e : leftOpen) {
+            LOG.warn("camera {} zone {}: {} event {} was still open when the service stopped; it ends now",
+                    e.camera(), e.zone(), e.kind().jsonName(), e.id());
+            bus.publish(e.closedAtRestart(clock.instant()));
+        }
         CameraPipeline.Evidence evidence = null;
         if (mode != Mode.REPLAY && config.clips().enabled()) {
             evidenceWriter = new wayward.clip.EvidenceWriter();

@@ -1,0 +1,46 @@
+package wayward.delivery;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Instant;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+import wayward.event.Event;
+import wayward.event.EventJson;
+import wayward.event.EventKind;
+
+/** Events a stopped run left open are found in its log and closed with an end that says why. */
+class EventLogTest {
+    private static Event phase(String id, EventKind kind, Event.Phase phase) {
+        return new Event(id, "yard-mast-2", kind == EventKind.CAMERA_LOST ? null : "lane-2-out", kind, phase, 12.3,
+                Instant.parse("2026-12-02T10:00:00Z"), 180, 45, 0.04, Double.NaN);
+    }
+
+    @Test
+    void startsWithoutAnEndAreLeftOpenAndClosedWithTheReason(@TempDir Path dir) throws Exception {
+        EventLog log = new EventLog(dir);
+        log.deliver(phase("a1", EventKind.WRONG_WAY, Event.Phase.START));
+        log.deliver(phase("b2", EventKind.WRONG_WAY, Event.Phase.START));
+        log.deliver(phase("a1", EventKind.WRONG_WAY, Event.Phase.END));
+        log.deliver(phase("c3", EventKind.CAMERA_LOST, Event.Phase.START));
+        log.close();
+        // a crash in the middle of a write leaves half a line
+        Files.writeString(log.file(), "{\"id\":\"d4\",\"camera\":\"yard-ma", StandardCharsets.UTF_8,
+                java.nio.file.StandardOpenOption.APPEND);
+        List<Event> open = EventLog.leftOpen(log.file());
+        assertEquals(List.of("b2", "c3"), open.stream().map(Event::id).toList());
+        Event end = open.get(0).closedAtRestart(Instant.parse("2026-12-03T08:00:00Z"));
+        assertEquals(Event.Phase.END, end.phase());
+        assertEquals(EventKind.WRONG_WAY, end.kind());
+        assertEquals("lane-2-out", end.zone());
+        String json = EventJson.toJson(end);
+        assertTrue(json.contains("\"phase\":\"end\"") && json.contains("\"ended_by\":\"service_stopped\""), json);
+        assertEquals(end, EventJson.parse(json.getBytes(StandardCharsets.UTF_8)), "read back as written");
+        assertEquals(List.of(), EventLog.leftOpen(dir.resolve("no-such.jsonl")));
+    }
+}
