@@ -22,6 +22,9 @@ public final class ConfigPrinter {
         b.append("[service]\n");
         b.append("data_dir = ").append(quote(c.dataDir().toString())).append('\n');
         b.append("http = ").append(quote(c.http() == null ? "off" : c.http().host() + ":" + c.http().port())).append('\n');
+        if (c.http() != null) {
+            b.append("http_max_connections = ").append(c.http().maxConnections()).append('\n');
+        }
         if (c.http() != null && c.http().tokenFile() != null) {
             b.append("token_file = ").append(quote(c.http().tokenFile())).append("   # the token itself is never printed\n");
         }

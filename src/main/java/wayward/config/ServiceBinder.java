@@ -21,7 +21,8 @@ final class ServiceBinder {
 
     static Service bind(TableReader top, ConfigErrors errors, Path base, Environment env) {
         Path dataDir = base.resolve(SiteConfig.DEFAULT_DATA_DIR);
-        HttpConfig http = new HttpConfig(HttpConfig.DEFAULT_HOST, HttpConfig.DEFAULT_PORT, null, null);
+        HttpConfig http = new HttpConfig(HttpConfig.DEFAULT_HOST, HttpConfig.DEFAULT_PORT, null, null,
+                HttpConfig.DEFAULT_MAX_CONNECTIONS);
         String instance = env.instance();
         List<String> instances = new ArrayList<>();
         TableReader s = top.section("service");
@@ -61,6 +62,8 @@ final class ServiceBinder {
         String tokenFile = s.string("token_file", null, "a file holding the bearer token for the status server");
         byte[] token = tokenFile == null ? null
                 : ReferencedFiles.secret(s, base, "token_file", tokenFile, "bearer token");
+        int maxConnections = s.integer("http_max_connections", HttpConfig.DEFAULT_MAX_CONNECTIONS, 1,
+                HttpConfig.MAX_MAX_CONNECTIONS);
         if (address.equals("off")) {
             return null;
         }
@@ -76,7 +79,7 @@ final class ServiceBinder {
             s.error("http", address, expected);
             return null;
         }
-        HttpConfig c = new HttpConfig(host, port, tokenFile, token);
+        HttpConfig c = new HttpConfig(host, port, tokenFile, token, maxConnections);
         if (!c.loopback() && tokenFile == null) {
             s.error("http", address, "a loopback address such as 127.0.0.1:8786, or token_file set as well "
                     + "(anything but /health needs the token when the server is reachable from elsewhere)");
@@ -133,7 +136,8 @@ final class ServiceBinder {
         int colon = value.lastIndexOf(':');
         try {
             out = value.equals("off") ? null : new HttpConfig(value.substring(0, colon),
-                    Integer.parseInt(value.substring(colon + 1)), http.tokenFile(), http.token());
+                    Integer.parseInt(value.substring(colon + 1)), http.tokenFile(), http.token(),
+                    http.maxConnections());
         } catch (RuntimeException e) {
             errors.atTop("environment WAYWARD_HTTP: " + TomlText.render(value)
                     + " (expected \"host:port\" or \"off\")");

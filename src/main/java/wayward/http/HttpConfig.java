@@ -7,8 +7,17 @@ package wayward.http;
  * @param port      TCP port; 0 picks a free one (logged)
  * @param tokenFile file holding the bearer token, or null
  * @param token     the token's bytes (never logged or printed), or null: then only loopback clients are served
+ * @param maxConnections connections served at once at most; more are closed at once, so that a flood of idle
+ *                  connections never takes the file descriptors the cameras, clips and outbox need
  */
-public record HttpConfig(String host, int port, String tokenFile, byte[] token) {
+public record HttpConfig(String host, int port, String tokenFile, byte[] token, int maxConnections) {
+    /** Default of {@link #maxConnections}: well below the 1024 descriptors a process gets by default (ulimit -n). */
+    public static final int DEFAULT_MAX_CONNECTIONS = 200;
+    public static final int MAX_MAX_CONNECTIONS = 10_000;
+    /** A request's line and headers must arrive within this many seconds of the connection or the last answer. */
+    public static final int HEADER_SECONDS = 10;
+    /** A connection with nothing read or written for this long is closed. */
+    public static final int IDLE_SECONDS = 60;
     /** The status server's address when {@code [service] http} is not given: loopback only. */
     public static final String DEFAULT_HOST = "127.0.0.1";
     public static final int DEFAULT_PORT = 8786;
@@ -21,6 +30,7 @@ public record HttpConfig(String host, int port, String tokenFile, byte[] token) 
 
     @Override
     public String toString() {
-        return "HttpConfig[" + host + ":" + port + ", tokenFile=" + tokenFile + "]";
+        return "HttpConfig[" + host + ":" + port + ", tokenFile=" + tokenFile + ", maxConnections=" + maxConnections
+                + "]";
     }
 }

@@ -40,18 +40,26 @@ public final class StatusServer implements AutoCloseable {
 
     /** Binds and serves; throws with a plain reason when the address cannot be used. */
     public static StatusServer start(HttpConfig config, StatusSource service) throws IOException {
+        return start(config, service, HttpConfig.HEADER_SECONDS);
+    }
+
+    /** As {@link #start(HttpConfig, StatusSource)} with another request deadline (tests). */
+    static StatusServer start(HttpConfig config, StatusSource service, int headerSeconds) throws IOException {
         EventLoopGroup group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("http", true),
                 NioIoHandler.newFactory());
         StatusHandler.Shared shared = new StatusHandler.Shared(service, config.token());
+        ConnectionLimits.Cap cap = new ConnectionLimits.Cap(config.maxConnections());
         ServerBootstrap b = new ServerBootstrap()
                 .group(group)
                 .channel(NioServerSocketChannel.class)
                 .childHandler(new ChannelInitializer<SocketChannel>() {
                     @Override
                     protected void initChannel(SocketChannel ch) {
-                        ch.pipeline().addLast(new IdleStateHandler(0, 0, 60, TimeUnit.SECONDS));
+                        ch.pipeline().addLast(cap);
+                        ch.pipeline().addLast(new IdleStateHandler(0, 0, HttpConfig.IDLE_SECONDS, TimeUnit.SECONDS));
                         ch.pipeline().addLast(new HttpServerCodec(MAX_LINE, MAX_HEADERS, 8192));
                         ch.pipeline().addLast(new HttpObjectAggregator(MAX_BODY));
+                        ch.pipeline().addLast(new ConnectionLimits.HeaderDeadline(headerSeconds));
                         ch.pipeline().addLast(new ChunkedWriteHandler());
                         ch.pipeline().addLast(new StatusHandler(shared));
                     }
