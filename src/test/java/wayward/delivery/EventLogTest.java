@@ -43,4 +43,32 @@ class EventLogTest {
         assertEquals(end, EventJson.parse(json.getBytes(StandardCharsets.UTF_8)), "read back as written");
         assertEquals(List.of(), EventLog.leftOpen(dir.resolve("no-such.jsonl")));
     }
+
+    @Test
+    void linesTheDiskRefusedAreWrittenLaterInOrderAndTheLogRollsOverAndFollowsARotator(@TempDir Path dir)
+            throws Exception {
+        EventLog log = new EventLog(dir, 1000, java.time.Clock.fixed(Instant.parse("2026-12-03T08:00:00Z"),
+                java.time.ZoneOffset.UTC));
+        log.deliver(phase("a1", EventKind.WRONG_WAY, Event.Phase.START));
+        // the file cannot be written (here: something else took its name), as when the disk is full
+        Path aside = dir.resolve("moved.jsonl");
+        Files.move(log.file(), aside);
+        Files.createDirectory(log.file());
+        org.junit.jupiter.api.Assertions.assertThrows(java.io.UncheckedIOException.class,
+                () -> log.deliver(phase("a1", EventKind.WRONG_WAY, Event.Phase.END)));
+        Files.delete(log.file());
+        // like a log rotator that moved the file away: the next write starts a new one, the held line first
+        log.deliver(phase("b2", EventKind.WRONG_WAY, Event.Phase.START));
+        List<String> lines = Files.readAllLines(log.file());
+        assertEquals(List.of("end a1", "start b2"), lines.stream().map(l -> {
+            Event e = EventJson.parse(l.getBytes(StandardCharsets.UTF_8));
+            return e.phase().jsonName() + " " + e.id();
+        }).toList());
+        // past 1000 bytes the log is renamed with the time and a new one begun
+        for (int i = 0; i < 6; i++) {
+            log.deliver(phase("c" + i, EventKind.WRONG_WAY, Event.Phase.START));
+        }
+        assertTrue(Files.isRegularFile(dir.resolve("events-20261203-080000.jsonl")));
+        assertEquals(0, log.dropped());
+    }
 }
