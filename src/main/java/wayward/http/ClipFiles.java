@@ -39,6 +39,10 @@ import wayward.event.EventJson;
  * out, only .mp4, .jpg and .json).
  */
 final class ClipFiles {
+    /** Clips listed in one answer of /api/clips by default, and at most (?limit=). */
+    static final int DEFAULT_PAGE = 100;
+    static final int MAX_PAGE = 1000;
+
     private final Supplier<Path> folder;
 
     /** @param folder the clips folder (read at each request: a reload may move it) */
@@ -51,26 +55,35 @@ final class ClipFiles {
     }
 
     /** {@code /api/clips}: every servable file, sorted, with its URL, size and modification time. */
-    void list(ChannelHandlerContext ctx, FullHttpRequest req) throws IOException {
+    void list(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q) throws IOException {
+        Integer limit = Replies.whole(ctx, req, q, "limit", DEFAULT_PAGE, 1, MAX_PAGE);
+        Integer offset = limit == null ? null : Replies.whole(ctx, req, q, "offset", 0, 0, Integer.MAX_VALUE);
+        if (offset == null) {
+            return;
+        }
         Path dir = dir();
+        List<Path> files = List.of();
+        if (Files.isDirectory(dir)) {
+            try (Stream<Path> s = Files.walk(dir)) {
+                files = s.filter(p -> Files.isRegularFile(p, LinkOption.NOFOLLOW_LINKS) && servable(p)).sorted()
+                        .toList();
+            }
+        }
+        List<Path> all = files;
+        List<Path> page = all.subList(Math.min(offset, all.size()), (int) Math.min(all.size(), (long) offset + limit));
         String body = EventJson.object(g -> {
+            g.writeNumberField("total", all.size());
+            g.writeNumberField("offset", offset);
             g.writeArrayFieldStart("clips");
-            if (Files.isDirectory(dir)) {
-                List<Path> files;
-                try (Stream<Path> s = Files.walk(dir)) {
-                    files = s.filter(p -> Files.isRegularFile(p, LinkOption.NOFOLLOW_LINKS) && servable(p)).sorted()
-                            .toList();
-                }
-                for (Path p : files) {
-                    g.writeStartObject();
-                    String rel = dir.relativize(p).toString().replace('\\', '/');
-                    g.writeStringField("path", "clips/" + rel);
-                    g.writeStringField("url", "/clips/" + rel);
-                    g.writeNumberField("bytes", Files.size(p));
-                    g.writeStringField("modified",
-                            DateTimeFormatter.ISO_INSTANT.format(Files.getLastModifiedTime(p).toInstant()));
-                    g.writeEndObject();
-                }
+            for (Path p : page) {
+                g.writeStartObject();
+                String rel = dir.relativize(p).toString().replace('\\', '/');
+                g.writeStringField("path", "clips/" + rel);
+                g.writeStringField("url", "/clips/" + rel);
+                g.writeNumberField("bytes", Files.size(p));
+                g.writeStringField("modified",
+                        DateTimeFormatter.ISO_INSTANT.format(Files.getLastModifiedTime(p).toInstant()));
+                g.writeEndObject();
             }
             g.writeEndArray();
         });

@@ -72,4 +72,27 @@ final class Replies {
         List<String> v = q.parameters().get(name);
         return v == null || v.isEmpty() ? fallback : v.get(0);
     }
+
+    /**
+     * A whole-number query parameter from min to max, the fallback when absent; null after answering 400 (the
+     * caller returns).
+     */
+    static Integer whole(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q, String name,
+            int fallback, int min, int max) {
+        String v = first(q, name, null);
+        if (v == null) {
+            return fallback;
+        }
+        try {
+            int n = Integer.parseInt(v);
+            if (n >= min && n <= max) {
+                return n;
+            }
+        } catch (NumberFormatException e) {
+            // answered below
+        }
+        text(ctx, req, HttpResponseStatus.BAD_REQUEST, name + ": a whole number from " + min + " to " + max + "\n",
+                false);
+        return null;
+    }
 }

@@ -117,7 +117,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
             case "/metrics" -> views.metrics(ctx, req);
             case "/api/cameras" -> views.cameras(ctx, req);
             case "/api/events" -> views.events(ctx, req, q);
-            case "/api/clips" -> clips.list(ctx, req);
+            case "/api/clips" -> clips.list(ctx, req, q);
             default -> {
                 if (path.startsWith("/view/")) {
                     views.view(ctx, req, path.substring("/view/".length()));

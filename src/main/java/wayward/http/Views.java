@@ -145,18 +145,9 @@ final class Views {
 
     /** {@code /api/events?limit=N}: the latest event phases, newest last (N from 1 to 200, 50 by default). */
     void events(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q) {
-        int limit = 50;
-        List<String> l = q.parameters().get("limit");
-        if (l != null && !l.isEmpty()) {
-            try {
-                limit = Integer.parseInt(l.get(0));
-            } catch (NumberFormatException e) {
-                limit = -1;
-            }
-            if (limit < 1 || limit > 200) {
-                text(ctx, req, HttpResponseStatus.BAD_REQUEST, "limit: a whole number from 1 to 200\n", false);
-                return;
-            }
+        Integer limit = Replies.whole(ctx, req, q, "limit", 50, 1, 200);
+        if (limit == null) {
+            return;
         }
         StringBuilder b = new StringBuilder("{\"events\":[");
         List<Event> last = service.recentEvents().last(limit);

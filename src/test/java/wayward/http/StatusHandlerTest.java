@@ -175,4 +175,21 @@ class StatusHandlerTest {
         assertEquals(404, r.status().code());
         assertEquals("no such page: /no\\x1b[2Jsuch\n", body(r));
     }
+
+    @Test
+    void theClipListComesInPagesWithItsTotal() throws IOException {
+        EmbeddedChannel ch = channel(null);
+        for (int i = 0; i < 250; i++) {
+            Files.writeString(clips.resolve(String.format(java.util.Locale.ROOT, "c%03d.json", i)), "{}");
+        }
+        String first = body(answer(ch, get("/api/clips")));
+        assertTrue(first.startsWith("{\"total\":250,\"offset\":0,\"clips\":[{\"path\":\"clips/c000.json\""), first);
+        assertEquals(ClipFiles.DEFAULT_PAGE, first.split("\"path\"").length - 1);
+        String last = body(answer(ch, get("/api/clips?offset=240&limit=50")));
+        assertEquals(10, last.split("\"path\"").length - 1);
+        assertTrue(last.contains("clips/c249.json") && !last.contains("clips/c239.json"), last);
+        assertEquals(400, answer(ch, get("/api/clips?limit=0")).status().code());
+        assertEquals(400, answer(ch, get("/api/clips?offset=-1")).status().code());
+        assertEquals("{\"total\":250,\"offset\":999,\"clips\":[]}", body(answer(ch, get("/api/clips?offset=999"))).strip());
+    }
 }
