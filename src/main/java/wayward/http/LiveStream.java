@@ -18,6 +18,9 @@ import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.util.concurrent.TimeUnit;
+import java.util.Map;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.atomic.AtomicInteger;
 import javax.imageio.ImageIO;
 import wayward.analysis.ZoneConfig;
 import wayward.analysis.CameraStatus;
@@ -29,12 +32,37 @@ import wayward.analysis.CameraStatus;
  */
 final class LiveStream {
     static final String BOUNDARY = "waywardframe";
+    /** MJPEG viewers served at once, all cameras together; more are answered 503. */
+    static final int MAX_VIEWERS = 16;
+
+    /** The last picture encoded per camera, with the live copy it was made from: each copy is encoded once. */
+    private record Encoded(long copy, byte[] jpeg) {
+    }
+
+    private static final Map<String, Encoded> LAST = new ConcurrentHashMap<>();
+    private static final AtomicInteger VIEWERS = new AtomicInteger();
 
     private LiveStream() {
     }
 
-    /** The current live picture as JPEG, or null before the first one. */
+    /**
+     * The current live picture as JPEG, or null before the first one; encoded once per live copy, however many
+     * viewers and picture requests ask for it.
+     */
     static byte[] jpeg(CameraStatus p) throws IOException {
+        long copy = p.live().copies();
+        Encoded last = LAST.get(p.id());
+        if (last != null && last.copy() == copy) {
+            return last.jpeg();
+        }
+        byte[] jpg = encode(p);
+        if (jpg != null) {
+            LAST.put(p.id(), new Encoded(copy, jpg));
+        }
+        return jpg;
+    }
+
+    private static byte[] encode(CameraStatus p) throws IOException {
         double minStep = ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps();
         double[] headings = new double[p.config().zones().size()];
         for (int z = 0; z < headings.length; z++) {
@@ -56,6 +84,16 @@ final class LiveStream {
                     .addListener(ChannelFutureListener.CLOSE);
             return;
         }
+        if (VIEWERS.incrementAndGet() > MAX_VIEWERS) {
+            VIEWERS.decrementAndGet();
+            io.netty.handler.codec.http.FullHttpResponse busy = new io.netty.handler.codec.http.DefaultFullHttpResponse(
+                    HttpVersion.HTTP_1_1, HttpResponseStatus.SERVICE_UNAVAILABLE, Unpooled.copiedBuffer(
+                            "too many live viewers (" + MAX_VIEWERS + "); try again later\n", StandardCharsets.UTF_8));
+            busy.headers().set(HttpHeaderNames.RETRY_AFTER, "10");
+            ctx.writeAndFlush(busy).addListener(ChannelFutureListener.CLOSE);
+            return;
+        }
+        ctx.channel().closeFuture().addListener(f -> VIEWERS.decrementAndGet());
         HttpResponse r = new DefaultHttpResponse(HttpVersion.HTTP_1_1, HttpResponseStatus.OK);
         r.headers().set(HttpHeaderNames.CONTENT_TYPE, "multipart/x-mixed-replace; boundary=" + BOUNDARY);
         r.headers().set(HttpHeaderNames.TRANSFER_ENCODING, HttpHeaderValues.CHUNKED);
