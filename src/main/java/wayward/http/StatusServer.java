@@ -30,10 +30,15 @@ public final class StatusServer implements AutoCloseable {
     static final int MAX_HEADERS = 8192;
     static final int MAX_BODY = 16 * 1024;
 
+    /** Threads that answer requests, apart from the one that reads and writes the sockets. */
+    static final int WORKERS = 4;
+
     private final EventLoopGroup group;
+    private final io.netty.util.concurrent.EventExecutorGroup workers;
     private final Channel channel;
 
-    private StatusServer(EventLoopGroup group, Channel channel) {
+    private StatusServer(EventLoopGroup group, io.netty.util.concurrent.EventExecutorGroup workers, Channel channel) {
+        this.workers = workers;
         this.group = group;
         this.channel = channel;
     }
@@ -49,6 +54,10 @@ public final class StatusServer implements AutoCloseable {
                 NioIoHandler.newFactory());
         StatusHandler.Shared shared = new StatusHandler.Shared(service, config.token());
         ConnectionLimits.Cap cap = new ConnectionLimits.Cap(config.maxConnections());
+        // answers (a clip listing over a large folder, JPEG encoding) run off the socket thread, so that a slow one
+        // never holds up /health or the other connections' reads and writes
+        io.netty.util.concurrent.EventExecutorGroup workers = new io.netty.util.concurrent.DefaultEventExecutorGroup(
+                WORKERS, new DefaultThreadFactory("http-work", true));
         ServerBootstrap b = new ServerBootstrap()
                 .group(group)
                 .channel(NioServerSocketChannel.class)
@@ -61,7 +70,7 @@ public final class StatusServer implements AutoCloseable {
                         ch.pipeline().addLast(new HttpObjectAggregator(MAX_BODY));
                         ch.pipeline().addLast(new ConnectionLimits.HeaderDeadline(headerSeconds));
                         ch.pipeline().addLast(new ChunkedWriteHandler());
-                        ch.pipeline().addLast(new StatusHandler(shared));
+                        ch.pipeline().addLast(workers, new StatusHandler(shared));
                     }
                 });
         try {
@@ -69,13 +78,15 @@ public final class StatusServer implements AutoCloseable {
             InetSocketAddress at = (InetSocketAddress) ch.localAddress();
             LOG.info("status server on http://{}:{}/ (health, metrics, API, live view){}", config.host(),
                     at.getPort(), config.token() != null ? "; a bearer token is required for all but /health" : "");
-            return new StatusServer(group, ch);
+            return new StatusServer(group, workers, ch);
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
             group.shutdownGracefully(0, 1, TimeUnit.SECONDS);
+            workers.shutdownGracefully(0, 1, TimeUnit.SECONDS);
             throw new IOException("interrupted while binding " + config.host() + ":" + config.port());
         } catch (RuntimeException e) {
             group.shutdownGracefully(0, 1, TimeUnit.SECONDS);
+            workers.shutdownGracefully(0, 1, TimeUnit.SECONDS);
             throw new IOException("cannot listen on " + config.host() + ":" + config.port() + " (" + e.getMessage()
                     + "); set [service] http to another address or \"off\"", e);
         }
@@ -89,5 +100,6 @@ public final class StatusServer implements AutoCloseable {
     public void close() {
         channel.close().awaitUninterruptibly(2000);
         group.shutdownGracefully(0, 2, TimeUnit.SECONDS).awaitUninterruptibly(3000);
+        workers.shutdownGracefully(0, 2, TimeUnit.SECONDS).awaitUninterruptibly(3000);
     }
 }
