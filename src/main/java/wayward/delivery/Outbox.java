@@ -127,10 +127,27 @@ public final class Outbox implements AutoCloseable {
                 seq++;
             }
             b.flip();
-            while (b.hasRemaining()) {
-                tail.write(b);
+            // records go right after the last accepted byte: a write that failed half-way (a full disk) left bytes
+            // past it, which would shift every later record from where readers look for it
+            if (tail.size() > s.end) {
+                LOG.warn("outbox: {} holds {} bytes of a write that failed; cut off", s.path.getFileName(),
+                        tail.size() - s.end);
+                tail.truncate(s.end);
             }
-            tail.force(false);
+            tail.position(s.end);
+            try {
+                while (b.hasRemaining()) {
+                    tail.write(b);
+                }
+                tail.force(false);
+            } catch (IOException e) {
+                try {
+                    tail.truncate(s.end);
+                } catch (IOException again) {
+                    e.addSuppressed(again); // cut off before the next append instead
+                }
+                throw e;
+            }
             nextSeq = seq;
             s.end += total;
             s.lastSeq = seq - 1;
