@@ -112,7 +112,7 @@ final class Jumps {
     /**
      * True when track k can have jumped to group g in {@code since} seconds: the group has at least
      * {@link MoverTracker#MIN_STEADY_SAMPLES} samples, half to twice the track's peak; the step is at least
-     * {@link #FAILED_JUMP_PX} and half the group's larger side (less, and the flow follows it); and a track already
+     * {@link MoverTracker#FAILED_JUMP_PX} and half the group's larger side (less, and the flow follows it); and a track already
      * jumping goes on its way, within the group angle of its run's direction and, after two jumps, at half to twice
      * its run's speed.
      */

@@ -80,8 +80,9 @@ class MqttServiceIT {
                     .redirectErrorStream(true).redirectOutput(got.toFile()).start();
             Process second = YardSite.startService(dir.resolve("."), config);
             try {
-                // the second run watches the clip again: one more start and its end
-                YardSite.awaitEvent(log, "wrong_way", "end", 1, 90);
+                // the second run first ends the event the killed run left open (ended_by service_stopped), then
+                // watches the clip again: one more start and its end
+                YardSite.awaitEvent(log, "wrong_way", "end", 2, 90);
                 List<Map<String, Object>> all = YardSite.events(log);
                 List<String> expected = new ArrayList<>();
                 for (Map<String, Object> e : all) {
@@ -90,7 +91,11 @@ class MqttServiceIT {
                     }
                 }
                 assertTrue(beforeKill.stream().anyMatch(e -> "start".equals(e.get("phase"))));
-                assertEquals(3, expected.size(), "start of run 1 (killed), start and end of run 2: " + all);
+                assertEquals(4, expected.size(), "start of run 1 (killed), its end at the restart, start and end"
+                        + " of run 2: " + all);
+                List<Map<String, Object>> zoned = all.stream().filter(e -> e.get("zone") != null).toList();
+                assertEquals(zoned.get(0).get("id"), zoned.get(1).get("id"), "the killed run's event is the one ended");
+                assertEquals("service_stopped", zoned.get(1).get("ended_by"), all.toString());
                 deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(30);
                 List<String> arrived = arrived(got);
                 while (!arrived.containsAll(expected) && System.nanoTime() < deadline) {
