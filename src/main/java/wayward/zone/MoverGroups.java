@@ -164,8 +164,6 @@ final class MoverGroups {
         final float[] v = flow.v;
         final float[] conf = flow.confidence;
         final float[] edge = flow.edge;
-        final float[] fnx = flow.normalX;
-        final float[] fny = flow.normalY;
         final float minConf = (float) settings.minConfidence();
         final float camU = removeCameraMotion ? flow.globalU : 0f;
         final float camV = removeCameraMotion ? flow.globalV : 0f;
@@ -188,8 +186,8 @@ final class MoverGroups {
                 voteV = dv;
                 what = FULL;
             } else if (edge[i] >= minConf) {
-                final float ex = fnx[i];
-                final float ey = fny[i];
+                final float ex = flow.normalX[i];
+                final float ey = flow.normalY[i];
                 final float s = du * ex + dv * ey;
                 voteU = s * ex;
                 voteV = s * ey;
