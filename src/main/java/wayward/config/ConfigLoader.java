@@ -74,7 +74,7 @@ public final class ConfigLoader {
         ClipConfig clips = FlowClipBinder.clips(top);
         List<CameraConfig> cameras = CameraBinder.cameras(top, base);
         List<WebhookConfig> webhooks = DeliveryBinder.webhooks(top, base);
-        MqttConfig mqtt = DeliveryBinder.mqtt(top, base);
+        MqttConfig mqtt = DeliveryBinder.mqtt(top, base, env.hostName());
         long outboxMaxBytes = DeliveryBinder.outboxMaxBytes(top);
         top.finish();
         if (service.shard() != null && mqtt != null) {

@@ -1,7 +1,5 @@
 package wayward.config;
 
-import java.io.IOException;
-import java.net.InetAddress;
 import java.net.URI;
 import java.net.URISyntaxException;
 import java.nio.file.Path;
@@ -56,7 +54,7 @@ final class DeliveryBinder {
     }
 
     /** The [mqtt] broker, or null when the table is absent or its url is wrong (reported). */
-    static MqttConfig mqtt(TableReader top, Path base) {
+    static MqttConfig mqtt(TableReader top, Path base, String hostName) {
         TableReader s = top.section("mqtt");
         if (s == null) {
             return null;
@@ -86,7 +84,7 @@ final class DeliveryBinder {
             s.error("topic_prefix", prefix, "topic levels without '+', '#', empty levels or a leading or trailing '/'");
             prefix = "wayward";
         }
-        String clientId = s.string("client_id", defaultClientId(), "1 to 23 letters, digits or '-'");
+        String clientId = s.string("client_id", defaultClientId(hostName), "1 to 23 letters, digits or '-'");
         if (!clientId.matches("[A-Za-z0-9-]{1,23}")) {
             // MQTT 3.1.1 §3.1.3.1: every broker must accept 1 to 23 of these characters
             s.error("client_id", clientId, "1 to 23 letters, digits or '-' (what every MQTT 3.1.1 broker accepts)");
@@ -131,13 +129,7 @@ final class DeliveryBinder {
     }
 
     /** "wayward-" and this host's name, cut to what every broker accepts. */
-    private static String defaultClientId() {
-        String host;
-        try {
-            host = InetAddress.getLocalHost().getHostName();
-        } catch (IOException e) {
-            host = "host";
-        }
+    private static String defaultClientId(String host) {
         String id = "wayward-" + host.replaceAll("[^A-Za-z0-9-]", "-");
         return id.substring(0, Math.min(MAX_CLIENT_ID, id.length()));
     }
