@@ -77,6 +77,46 @@ class WrongWayRuleTest {
     }
 
     @Test
+    void aWallClockSteppedBackDuringAnEventChangesOnlyItsAt() {
+        // NTP steps the wall clock an hour back after the start: hold, clear and duration run on stream time
+        java.util.concurrent.atomic.AtomicReference<Instant> wall =
+                new java.util.concurrent.atomic.AtomicReference<>(Instant.parse("2026-12-01T08:00:00Z"));
+        Clock stepping = new Clock() {
+            @Override
+            public ZoneOffset getZone() {
+                return ZoneOffset.UTC;
+            }
+
+            @Override
+            public Clock withZone(java.time.ZoneId zone) {
+                return this;
+            }
+
+            @Override
+            public Instant instant() {
+                return wall.get();
+            }
+        };
+        WrongWayRule rule = new WrongWayRule("yard-mast-2", "lane-2-out", SETTINGS, stepping);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        for (int n = 0; n <= 20; n++) {
+            if (n == 8) {
+                wall.set(wall.get().minusSeconds(3600));
+            }
+            collect(out, frame(rule, m, n * DT, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
+        }
+        for (int n = 21; n <= 40; n++) {
+            collect(out, frame(rule, m, n * DT));
+        }
+        assertEquals(2, out.size());
+        assertEquals(0.5, out.get(0).streamSeconds(), 1e-9, "the same start as with a steady clock");
+        assertEquals(3.0, out.get(1).streamSeconds(), 1e-9, "the same end");
+        assertEquals(2.5, out.get(1).durationSeconds(), 1e-9, "duration on stream time, not negative");
+        assertEquals(Instant.parse("2026-12-01T07:00:00Z"), out.get(1).at(), "only the wall time of the end moved");
+    }
+
+    @Test
     void quickTravelStartsBeforeTheHold() {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
         Movers m = new Movers(8);
