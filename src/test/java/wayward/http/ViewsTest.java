@@ -1,0 +1,95 @@
+package wayward.http;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import io.netty.channel.embedded.EmbeddedChannel;
+import io.netty.handler.codec.http.DefaultFullHttpRequest;
+import io.netty.handler.codec.http.FullHttpResponse;
+import io.netty.handler.codec.http.HttpMethod;
+import io.netty.handler.codec.http.HttpVersion;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Path;
+import java.time.Instant;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import wayward.analysis.CameraStatus;
+import wayward.delivery.EventBus;
+import wayward.delivery.Outbox;
+import wayward.delivery.RecentEvents;
+import wayward.event.Event;
+import wayward.event.EventKind;
+
+/** The JSON and text views on an in-memory channel, over a running service of our own making (no cameras). */
+class ViewsTest {
+    private final RecentEvents recent = new RecentEvents(10);
+
+    private final StatusSource site = new StatusSource() {
+        @Override
+        public List<CameraStatus> cameraStatus() {
+            return List.of();
+        }
+
+        @Override
+        public EventBus bus() {
+            return new EventBus();
+        }
+
+        @Override
+        public Outbox outbox() {
+            return null;
+        }
+
+        @Override
+        public RecentEvents recentEvents() {
+            return recent;
+        }
+
+        @Override
+        public Path clipsDir() {
+            return Path.of("no-clips");
+        }
+    };
+
+    private FullHttpResponse get(String uri) {
+        EmbeddedChannel ch = new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(site, null),
+                new ClipFiles(site::clipsDir)));
+        ch.writeInbound(new DefaultFullHttpRequest(HttpVersion.HTTP_1_1, HttpMethod.GET, uri));
+        return ch.readOutbound();
+    }
+
+    private static String body(FullHttpResponse r) {
+        return r.content().toString(StandardCharsets.UTF_8).strip();
+    }
+
+    @Test
+    void healthSaysReadyWithNothingDownOrStopped() {
+        FullHttpResponse r = get("/health/ready");
+        assertEquals(200, r.status().code());
+        assertEquals("{\"alive\":true,\"ready\":true,\"cameras_down\":[],\"delivery_stopped\":[]}", body(r));
+    }
+
+    @Test
+    void eventsAreTheLastPhasesNewestLastAndTheLimitIsChecked() {
+        for (int i = 0; i < 3; i++) {
+            recent.deliver(new Event("id-" + i, "yard-mast-2", "lane-2-out", EventKind.WRONG_WAY, Event.Phase.START,
+                    i, Instant.parse("2026-12-03T08:00:00Z"), 180, 45, 0.04, Double.NaN));
+        }
+        String two = body(get("/api/events?limit=2"));
+        assertTrue(two.startsWith("{\"events\":[{\"id\":\"id-1\"") && two.contains("\"id\":\"id-2\"")
+                && !two.contains("id-0"), two);
+        assertEquals(400, get("/api/events?limit=0").status().code());
+        assertEquals(400, get("/api/events?limit=ten").status().code());
+    }
+
+    @Test
+    void metricsAreThePrometheusTextFormat() {
+        FullHttpResponse r = get("/metrics");
+        assertEquals(200, r.status().code());
+        // Prometheus exposition format 0.0.4: HELP and TYPE lines before each family's samples
+        assertTrue(r.headers().get("Content-Type").startsWith("text/plain; version=0.0.4"));
+        String text = body(r);
+        assertTrue(text.contains("# TYPE wayward_outbox_bytes gauge\nwayward_outbox_bytes 0"), text);
+        assertTrue(text.contains("# TYPE wayward_process_uptime_seconds gauge"), text);
+    }
+}
