@@ -2,45 +2,27 @@ package wayward.analysis;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
-import java.time.Clock;
 import java.time.Instant;
-import java.time.ZoneOffset;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.atomic.AtomicLong;
-import java.util.concurrent.atomic.AtomicReference;
 import org.junit.jupiter.api.Test;
 import wayward.event.Event;
 import wayward.event.EventKind;
+import wayward.testing.SteppingClock;
 
 /** An outage measured while NTP steps the wall clock: fake wall and monotonic clocks, no waiting. */
 class HealthEventsTest {
     @Test
     void aWallClockSteppedBackOrForwardDoesNotChangeTheOutagesLength() {
-        AtomicReference<Instant> wall = new AtomicReference<>(Instant.parse("2026-12-03T08:00:00Z"));
-        Clock clock = new Clock() {
-            @Override
-            public ZoneOffset getZone() {
-                return ZoneOffset.UTC;
-            }
-
-            @Override
-            public Clock withZone(java.time.ZoneId zone) {
-                return this;
-            }
-
-            @Override
-            public Instant instant() {
-                return wall.get();
-            }
-        };
+        SteppingClock clock = new SteppingClock(Instant.parse("2026-12-03T08:00:00Z"));
         AtomicLong mono = new AtomicLong(5_000_000_000L);
         List<Event> events = new ArrayList<>();
         HealthEvents h = new HealthEvents("yard-mast-2", events::add, clock, mono::get);
         for (long stepSeconds : new long[] {-3600, 3600}) {
             events.clear();
             h.lost("stream ended", 10.0);
-            wall.set(wall.get().plusSeconds(stepSeconds)); // NTP steps the wall clock during the outage
+            clock.step(stepSeconds); // NTP steps the wall clock during the outage
             mono.addAndGet(12_500_000_000L); // 12.5 s pass
             h.back(22.5);
             assertEquals(List.of(EventKind.CAMERA_LOST, EventKind.CAMERA_BACK), events.stream().map(Event::kind).toList());

@@ -9,15 +9,11 @@ import java.net.InetAddress;
 import java.net.Socket;
 import java.net.SocketException;
 import java.nio.charset.StandardCharsets;
-import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.TimeUnit;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
-import wayward.analysis.CameraStatus;
-import wayward.delivery.EventBus;
-import wayward.delivery.Outbox;
 import wayward.delivery.RecentEvents;
 
 /**
@@ -27,32 +23,7 @@ import wayward.delivery.RecentEvents;
  */
 @Timeout(value = 60, unit = TimeUnit.SECONDS)
 class StatusServerLimitsTest {
-    private static final StatusSource NOTHING = new StatusSource() {
-        @Override
-        public List<CameraStatus> cameraStatus() {
-            return List.of();
-        }
-
-        @Override
-        public EventBus bus() {
-            return new EventBus();
-        }
-
-        @Override
-        public Outbox outbox() {
-            return null;
-        }
-
-        @Override
-        public RecentEvents recentEvents() {
-            return new RecentEvents(10);
-        }
-
-        @Override
-        public Path clipsDir() {
-            return Path.of("no-clips");
-        }
-    };
+    private static final StatusSource NOTHING = new EmptySite(new RecentEvents(10));
 
     private static HttpConfig loopback(int maxConnections) {
         return new HttpConfig("127.0.0.1", 0, null, null, maxConnections);

@@ -9,13 +9,8 @@ import io.netty.handler.codec.http.FullHttpResponse;
 import io.netty.handler.codec.http.HttpMethod;
 import io.netty.handler.codec.http.HttpVersion;
 import java.nio.charset.StandardCharsets;
-import java.nio.file.Path;
 import java.time.Instant;
-import java.util.List;
 import org.junit.jupiter.api.Test;
-import wayward.analysis.CameraStatus;
-import wayward.delivery.EventBus;
-import wayward.delivery.Outbox;
 import wayward.delivery.RecentEvents;
 import wayward.event.Event;
 import wayward.event.EventKind;
@@ -24,32 +19,7 @@ import wayward.event.EventKind;
 class ViewsTest {
     private final RecentEvents recent = new RecentEvents(10);
 
-    private final StatusSource site = new StatusSource() {
-        @Override
-        public List<CameraStatus> cameraStatus() {
-            return List.of();
-        }
-
-        @Override
-        public EventBus bus() {
-            return new EventBus();
-        }
-
-        @Override
-        public Outbox outbox() {
-            return null;
-        }
-
-        @Override
-        public RecentEvents recentEvents() {
-            return recent;
-        }
-
-        @Override
-        public Path clipsDir() {
-            return Path.of("no-clips");
-        }
-    };
+    private final StatusSource site = new EmptySite(recent);
 
     private FullHttpResponse get(String uri) {
         EmbeddedChannel ch = new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(site, null),

@@ -79,30 +79,14 @@ class WrongWayRuleTest {
     @Test
     void aWallClockSteppedBackDuringAnEventChangesOnlyItsAt() {
         // NTP steps the wall clock an hour back after the start: hold, clear and duration run on stream time
-        java.util.concurrent.atomic.AtomicReference<Instant> wall =
-                new java.util.concurrent.atomic.AtomicReference<>(Instant.parse("2026-12-01T08:00:00Z"));
-        Clock stepping = new Clock() {
-            @Override
-            public ZoneOffset getZone() {
-                return ZoneOffset.UTC;
-            }
-
-            @Override
-            public Clock withZone(java.time.ZoneId zone) {
-                return this;
-            }
-
-            @Override
-            public Instant instant() {
-                return wall.get();
-            }
-        };
+        wayward.testing.SteppingClock stepping = new wayward.testing.SteppingClock(
+                Instant.parse("2026-12-01T08:00:00Z"));
         WrongWayRule rule = new WrongWayRule("yard-mast-2", "lane-2-out", SETTINGS, stepping);
         Movers m = new Movers(8);
         List<Event> out = new ArrayList<>();
         for (int n = 0; n <= 20; n++) {
             if (n == 8) {
-                wall.set(wall.get().minusSeconds(3600));
+                stepping.step(-3600);
             }
             collect(out, frame(rule, m, n * DT, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
         }
