@@ -29,11 +29,7 @@ final class BenchCommand extends Command {
 
     @Override
     int run(Options o, PrintStream out, PrintStream err) throws Exception {
-        String input = o.get("--input");
-        if (input == null) {
-            err.println("wayward bench: --input VIDEO is required");
-            return Main.USAGE;
-        }
+        String input = o.required("--input", "VIDEO", "", err);
         if (!Files.isRegularFile(Path.of(input))) {
             err.println("wayward bench: --input " + input + ": file not found");
             return Main.NO_INPUT;

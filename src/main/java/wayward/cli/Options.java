@@ -82,6 +82,18 @@ final class Options {
         return new CommandExit(code);
     }
 
+    /**
+     * The value of a required option; without it, prints {@code wayward COMMAND: NAME WHAT is required} and the
+     * hint, and ends with the usage code.
+     */
+    String required(String name, String what, String hint, PrintStream err) throws CommandExit {
+        String v = get(name);
+        if (v == null) {
+            throw fail(err, Main.USAGE, name + " " + what + " is required" + hint);
+        }
+        return v;
+    }
+
     /** Loads the config named by --config (or the fallback); prints the errors and ends with 78 if it is wrong. */
     SiteConfig config(String fallback, PrintStream err) throws CommandExit {
         String file = getOrDefault("--config", fallback);

@@ -37,11 +37,7 @@ final class ReplayCommand extends Command {
     @Override
     int run(Options o, PrintStream out, PrintStream err) throws Exception {
         SiteConfig c = o.config(null, err);
-        String input = o.get("--input");
-        if (input == null) {
-            err.println("wayward replay: --input VIDEO is required");
-            return Main.USAGE;
-        }
+        String input = o.required("--input", "VIDEO", "", err);
         if (!Urls.isUrl(input) && !Files.isRegularFile(Path.of(input))) {
             err.println("wayward replay: --input " + input + ": file not found");
             return Main.NO_INPUT;

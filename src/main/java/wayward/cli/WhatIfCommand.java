@@ -27,11 +27,7 @@ final class WhatIfCommand extends Command {
 
     @Override
     int run(Options o, PrintStream out, PrintStream err) throws Exception {
-        String dir = o.get("--report");
-        if (dir == null) {
-            err.println("wayward what-if: --report DIR is required (a folder written by replay --report)");
-            return Main.USAGE;
-        }
+        String dir = o.required("--report", "DIR", " (a folder written by replay --report)", err);
         if (!Files.isDirectory(Path.of(dir)) || wayward.report.WhatIf.series(Path.of(dir)).isEmpty()) {
             err.println("wayward what-if: --report " + dir + ": no replay report there (expected the .csv series "
                     + "that replay --report writes)");
