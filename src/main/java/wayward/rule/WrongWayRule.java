@@ -25,7 +25,9 @@ import wayward.zone.ZoneMeter;
  * glare patch, a corner read apart) or, unless one of the two is a rim (a box thin along its motion: the front or back edge of a plain
  * body), not nose to tail with it (one behind the other along the motion with more than {@link #JOIN_GAP_PX}
  * between the boxes). So the front and the back rim of one plain
- * vehicle, or a pair of headlights side by side, are one passage, and two vehicles nose to tail two. A qualifying mover that does not ride with a member is a different one: it ends the open event at
+ * vehicle, or a pair of headlights side by side, are one passage, and two vehicles nose to tail two. A rim that
+ * far behind a whole body (not a rim) never joins it, not even as a fragment: it is the front of the plain body
+ * that follows ({@link #followsWholeBody}). A qualifying mover that does not ride with a member is a different one: it ends the open event at
  * once and starts its own with the next frame, so two wrong-way movers in a row are two events even when the
  * second enters before the first has left, and events of one zone never overlap. Otherwise the event ends when
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
@@ -247,10 +249,14 @@ public final class WrongWayRule {
             }
             // no test of velocity: both qualify, so both go against the heading, and parts of one body read their
             // velocity poorly (part of a photo texture's flow, a rim, a flickering lamp's pull)
+            final double speed = Math.hypot(jvx, jvy);
+            if (speed > 0 && followsWholeBody(m.x(k) - jx, m.y(k) - jy, m.widthPx(k), m.heightPx(k), m.vx(k),
+                    m.vy(k), jw, jh, jvx / speed, jvy / speed)) {
+                continue; // the front edge of a plain body that follows a whole one, with ground between them
+            }
             if (m.peakSamples(k) * FRAGMENT_SHARE <= memberSamples[j]) {
                 return true;
             }
-            final double speed = Math.hypot(jvx, jvy);
             if (speed > 0 && !rim(m.widthPx(k), m.heightPx(k), m.vx(k), m.vy(k)) && !rim(jw, jh, jvx, jvy)
                     && noseToTail(m.x(k) - jx, m.y(k) - jy, m.widthPx(k), m.heightPx(k), jw, jh, jvx / speed,
                             jvy / speed)) {
@@ -274,6 +280,18 @@ public final class WrongWayRule {
         final double width1 = extent(w1, h1, uy, ux);
         final double width2 = extent(w2, h2, uy, ux);
         return across <= 0.5 * Math.min(width1, width2) && along - (length1 + length2) / 2 > JOIN_GAP_PX;
+    }
+
+    /**
+     * A rim (the moving edge of a plain body) behind a member that is a whole body (not a rim), one behind the
+     * other along the member's motion (ux, uy) with a gap of more than {@link #JOIN_GAP_PX} between their boxes:
+     * a whole body's own samples reach its back, so a rim that far behind it is the front of the next body in the
+     * lane, not a piece of this one, however few samples it has. (dx, dy) is the rim's centre less the member's.
+     */
+    static boolean followsWholeBody(double dx, double dy, double w, double h, double vx, double vy, double jw,
+            double jh, double ux, double uy) {
+        return dx * ux + dy * uy < 0 && rim(w, h, vx, vy) && !rim(jw, jh, ux, uy)
+                && noseToTail(dx, dy, w, h, jw, jh, ux, uy);
     }
 
     /** A box at most half as long along its motion as across it: the moving edge of something longer. */

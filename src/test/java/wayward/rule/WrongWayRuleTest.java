@@ -191,6 +191,40 @@ class WrongWayRuleTest {
         assertEquals(1, twoBehind(8, 36, 36, 60, 0).size());
     }
 
+    /** A 36 × 36 px body of 60 samples and, {@code gapPx} behind it (box to box), a rim {@code rimW} × 6 px of 10. */
+    private static List<Event> rimBehindBody(double gapPx, int bodyW, int bodyH, int rimW) {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        for (int n = 0; n <= 30; n++) {
+            double t = n * DT;
+            double y1 = 100 + 3 * n;
+            double y2 = y1 - bodyH / 2.0 - gapPx - 3; // the rim's centre: half its 6 px behind the gap
+            m.begin(t, 320, 180, 4);
+            m.put(1, true, t, 3 * n, 60, 60, bodyW, bodyH, 160, y1, 0, 30, 30);
+            m.put(2, true, t, 3 * n, 10, 10, rimW, 6, 160, y2, 0, 30, 30);
+            m.end();
+            collect(out, rule.update(m, 0.01));
+        }
+        return out.stream().filter(e -> e.phase() == Event.Phase.START).toList();
+    }
+
+    @Test
+    void theFrontRimOfAPlainBodyFollowingAWholeOneIsTheNextPassage() {
+        // geometry alone: a 24 × 6 rim 20 px behind a 36 × 36 body along +y; ahead of it, or beside it, it is not
+        assertTrue(WrongWayRule.followsWholeBody(0, -41, 24, 6, 0, 30, 36, 36, 0, 1));
+        assertTrue(!WrongWayRule.followsWholeBody(0, 41, 24, 6, 0, 30, 36, 36, 0, 1), "ahead: a beam or a bumper");
+        assertTrue(!WrongWayRule.followsWholeBody(0, -25, 24, 6, 0, 30, 36, 36, 0, 1), "4 px behind: its own back");
+        assertTrue(!WrongWayRule.followsWholeBody(0, -41, 24, 6, 0, 30, 36, 8, 0, 1), "behind a rim: one plain body");
+        // a rim of 10 samples is a sixth of the body's 60, small enough to pass for a fragment of it; 20 px of
+        // ground between them (more than three grid points) make it the front of the next body
+        assertEquals(2, rimBehindBody(20, 36, 36, 24).size());
+        // touching the body's back (within three grid points) it is the body's own back edge
+        assertEquals(1, rimBehindBody(8, 36, 36, 24).size());
+        // behind the front rim of a plain body (36 × 8): the two rims of one body, as before
+        assertEquals(1, rimBehindBody(20, 36, 8, 24).size());
+    }
+
     @Test
     void quickTravelNeedsASecondSighting() {
         // a light switched on reads as one frame of large motion on a track that is never seen again
