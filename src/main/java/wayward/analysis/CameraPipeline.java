@@ -51,6 +51,8 @@ public final class CameraPipeline implements CameraStatus {
 
     // analysis-thread state
     private FlowEstimator flow;
+    /** Skips the flow of frames in which nothing changed around the zones; null when the config turns it off. */
+    private StillGate gate;
     private FlowField field;
     private final ZoneReading reading = new ZoneReading();
 
@@ -291,6 +293,9 @@ public final class CameraPipeline implements CameraStatus {
                 double dt = t - previous;
                 if (!Double.isNaN(previous) && (dt <= 0 || dt > MAX_GAP_SECONDS)) {
                     flow.reset();
+                    if (gate != null) {
+                        gate.reset();
+                    }
                     for (ZoneChannel c : channels) {
                         c.resetTracks();
                     }
@@ -298,7 +303,13 @@ public final class CameraPipeline implements CameraStatus {
                 long began = System.nanoTime();
                 stages.frame(t, previous, analysedFrames);
                 long c0 = stages.clock();
-                boolean estimated = flow.push(f.pixels, field);
+                boolean estimated;
+                if (gate == null || gate.changed(f, t)) {
+                    estimated = flow.push(f.pixels, field);
+                } else {
+                    flow.pushStill(f.pixels, field); // the gate passes only after frames it has primed on
+                    estimated = true;
+                }
                 long c1 = stages.flowDone(c0);
                 previous = t;
                 lastStreamSeconds = t;
@@ -339,6 +350,11 @@ public final class CameraPipeline implements CameraStatus {
         } catch (RuntimeException e) {
             LOG.error("camera {}: analysis stopped by an internal error", camera.id(), e);
         } finally {
+            if (gate != null) {
+                LOG.info("camera {}: flow skipped on {} of {} analysed frames (nothing changed around the zones;"
+                        + " block noise {} grey levels)", camera.id(), gate.stillFrames(), analysedFrames,
+                        String.format(java.util.Locale.ROOT, "%.2f", gate.noise()));
+            }
             if (flow != null) {
                 flow.close();
             }
@@ -376,6 +392,15 @@ public final class CameraPipeline implements CameraStatus {
         field = flow.newField();
         for (ZoneChannel c : channels) {
             c.setUp(field);
+        }
+        if (flowConfig.skipStill()) {
+            List<double[]> xs = new ArrayList<>();
+            List<double[]> ys = new ArrayList<>();
+            for (ZoneChannel c : channels) {
+                xs.add(c.zone().xs());
+                ys.add(c.zone().ys());
+            }
+            gate = new StillGate(xs, ys);
         }
         LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {} zones", camera.id(), w, h,
                 flow.levelCount(), channels.size());

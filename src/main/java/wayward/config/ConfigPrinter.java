@@ -45,6 +45,7 @@ public final class ConfigPrinter {
         b.append("stride = ").append(c.flow().stride()).append('\n');
         b.append("coarse_stride = ").append(c.flow().coarseStride()).append('\n');
         b.append("threads = ").append(c.flow().threads()).append('\n');
+        b.append("skip_still = ").append(c.flow().skipStill()).append('\n');
         b.append("\n[clips]\n");
         b.append("enabled = ").append(c.clips().enabled()).append('\n');
         b.append("pre_roll_seconds = ").append(num(c.clips().preRollSeconds())).append('\n');

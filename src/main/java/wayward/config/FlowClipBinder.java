@@ -26,8 +26,10 @@ final class FlowClipBinder {
         int stride = s.integer("stride", d.stride(), 1, 16);
         int coarseStride = s.integer("coarse_stride", d.coarseStride(), 1, 32);
         int threads = s.integer("threads", d.threads(), 1, 64);
+        boolean skipStill = s.bool("skip_still", d.skipStill());
         s.finish();
-        return new FlowConfig(levels, iterations, finestIterations, window, reg, stride, coarseStride, threads);
+        return new FlowConfig(levels, iterations, finestIterations, window, reg, stride, coarseStride, threads,
+                skipStill);
     }
 
     static ClipConfig clips(TableReader top) {

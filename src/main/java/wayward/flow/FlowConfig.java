@@ -12,10 +12,21 @@ package wayward.flow;
  * @param stride           pixels between solved points on the full-size level (1 = every pixel)
  * @param coarseStride     the same on the coarser levels
  * @param threads          threads sharing one camera's frame (bands)
+ * @param skipStill        skip the flow of frames in which nothing changed around the zones (the analysis's
+ *                         still-frame gate); off runs it on every analysed frame
  */
 public record FlowConfig(int levels, int iterations, int finestIterations, int window, double regularization,
-        int stride, int coarseStride, int threads) {
+        int stride, int coarseStride, int threads, boolean skipStill) {
+    /** Whether the flow of still frames is skipped unless the config says otherwise. */
+    public static final boolean DEFAULT_SKIP_STILL = true;
     public static final FlowConfig DEFAULTS = from(FlowSettings.defaults());
+
+    /** The estimator's settings with the still-frame gate on (the default). */
+    public FlowConfig(int levels, int iterations, int finestIterations, int window, double regularization,
+            int stride, int coarseStride, int threads) {
+        this(levels, iterations, finestIterations, window, regularization, stride, coarseStride, threads,
+                DEFAULT_SKIP_STILL);
+    }
 
     private static FlowConfig from(FlowSettings s) {
         return new FlowConfig(s.levels(), s.iterations(), s.finestIterations(), 2 * s.windowRadius() + 1,

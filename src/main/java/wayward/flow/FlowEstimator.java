@@ -18,6 +18,14 @@ public interface FlowEstimator extends AutoCloseable {
     boolean push(byte[] frame, FlowField out);
 
     /**
+     * Feeds the next frame of a stream in which the caller knows nothing moved: writes zero motion into {@code
+     * out} (its texture figures stay those of the last estimate) and keeps the frame as the next pair's earlier
+     * one, at the cost of a copy (its pyramid is built only if the next frame is pushed with {@link #push}).
+     * Allocates nothing.
+     */
+    void pushStill(byte[] frame, FlowField out);
+
+    /**
      * The flow from {@code first} to {@code second} at every pixel, for pictures, files and benchmarks (not the
      * analysis loop: allocates a new field). Estimators that solve on a grid fill in the pixels between their
      * points in the way that suits them; by default, bilinear interpolation ({@link FlowField#toDense()}).

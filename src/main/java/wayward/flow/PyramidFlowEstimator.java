@@ -12,6 +12,9 @@ abstract class PyramidFlowEstimator implements FlowEstimator {
     float[][] earlier;
     float[][] later;
     private boolean hasEarlier;
+    /** A still frame kept as it came ({@link #pushStill}); its pyramid becomes {@link #earlier} when needed. */
+    private final byte[] stillFrame;
+    private boolean earlierIsStill;
 
     PyramidFlowEstimator(int width, int height, int stride) {
         if (width < 1 || height < 1) {
@@ -20,6 +23,7 @@ abstract class PyramidFlowEstimator implements FlowEstimator {
         this.width = width;
         this.height = height;
         this.stride = stride;
+        this.stillFrame = new byte[width * height];
     }
 
     /** Fills every level of {@code pyramid} from a frame. */
@@ -46,6 +50,7 @@ abstract class PyramidFlowEstimator implements FlowEstimator {
         buildPyramid(second, later);
         estimate(out);
         hasEarlier = false;
+        earlierIsStill = false;
     }
 
     /**
@@ -58,6 +63,10 @@ abstract class PyramidFlowEstimator implements FlowEstimator {
         checkFrame(frame, "frame");
         checkField(out);
         buildPyramid(frame, later);
+        if (hasEarlier && earlierIsStill) {
+            buildPyramid(stillFrame, earlier);
+        }
+        earlierIsStill = false;
         boolean estimated = false;
         if (hasEarlier) {
             estimate(out);
@@ -70,10 +79,24 @@ abstract class PyramidFlowEstimator implements FlowEstimator {
         return estimated;
     }
 
+    @Override
+    public final void pushStill(byte[] frame, FlowField out) {
+        checkFrame(frame, "frame");
+        checkField(out);
+        System.arraycopy(frame, 0, stillFrame, 0, stillFrame.length);
+        earlierIsStill = true;
+        hasEarlier = true;
+        java.util.Arrays.fill(out.u, 0f);
+        java.util.Arrays.fill(out.v, 0f);
+        out.globalU = 0f;
+        out.globalV = 0f;
+    }
+
     /** Drops the stored frame, e.g. after a gap in the stream; the next {@link #push} starts afresh. */
     @Override
     public final void reset() {
         hasEarlier = false;
+        earlierIsStill = false;
     }
 
     private void checkFrame(byte[] frame, String name) {

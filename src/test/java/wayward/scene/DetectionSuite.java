@@ -133,10 +133,18 @@ public final class DetectionSuite {
         return out;
     }
 
-    /** wayward's {@code replay} on the video with the scene's zones and default settings. */
-    static List<Detection> wayward(Scene scene, Path video, Path work) throws IOException {
-        StringBuilder toml = new StringBuilder("[service]\ndata_dir = \"data\"\nhttp = \"off\"\n[[camera]]\n")
-                .append("id = \"suite\"\nsource = \"").append(video.toAbsolutePath()).append("\"\n");
+    /**
+     * The config wayward's {@code replay} runs a scene's video with: its zones and default settings, and the
+     * {@code [flow]} key of {@code -Dsuite.flow="key = value"} for a side-by-side run (e.g. skip_still = false).
+     */
+    static String config(Scene scene, Path video) {
+        StringBuilder toml = new StringBuilder("[service]\ndata_dir = \"data\"\nhttp = \"off\"\n");
+        // -Dsuite.flow="key = value" sets a [flow] key for a side-by-side run (e.g. skip_still = false)
+        String flow = System.getProperty("suite.flow");
+        if (flow != null) {
+            toml.append("[flow]\n").append(flow).append('\n');
+        }
+        toml.append("[[camera]]\nid = \"suite\"\nsource = \"").append(video.toAbsolutePath()).append("\"\n");
         for (Scene.Zone z : scene.zones()) {
             toml.append("[[camera.zone]]\nid = \"").append(z.id()).append("\"\npolygon = [");
             for (int i = 0; i < z.xs().length; i++) {
@@ -145,6 +153,12 @@ public final class DetectionSuite {
             toml.append("]\nheading_deg = ").append(z.headingDeg()).append("\ntolerance_deg = ")
                     .append(z.toleranceDeg()).append('\n');
         }
+        return toml.toString();
+    }
+
+    /** wayward's {@code replay} on the video with the scene's zones and default settings. */
+    static List<Detection> wayward(Scene scene, Path video, Path work) throws IOException {
+        String toml = config(scene, video);
         Path config = work.resolve(scene.name() + ".toml");
         Files.writeString(config, toml);
         ByteArrayOutputStream out = new ByteArrayOutputStream();

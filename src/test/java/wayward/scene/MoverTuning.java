@@ -51,15 +51,7 @@ public final class MoverTuning {
             Path video = DetectionSuite.render(file, work);
             Path report = work.resolve(scene.name() + "-report");
             if (replay || !Files.exists(report)) {
-                StringBuilder toml = new StringBuilder("[service]\ndata_dir = \"data\"\nhttp = \"off\"\n[[camera]]\n")
-                        .append("id = \"suite\"\nsource = \"").append(video.toAbsolutePath()).append("\"\n");
-                for (Scene.Zone z : scene.zones()) {
-                    toml.append("[[camera.zone]]\nid = \"").append(z.id()).append("\"\npolygon = [");
-                    for (int i = 0; i < z.xs().length; i++) {
-                        toml.append(i == 0 ? "" : ", ").append('[').append(z.xs()[i]).append(", ").append(z.ys()[i]).append(']');
-                    }
-                    toml.append("]\nheading_deg = ").append(z.headingDeg()).append("\ntolerance_deg = ").append(z.toleranceDeg()).append('\n');
-                }
+                String toml = DetectionSuite.config(scene, video);
                 Path config = work.resolve(scene.name() + ".toml");
                 Files.writeString(config, toml);
                 ByteArrayOutputStream out = new ByteArrayOutputStream();

@@ -1,0 +1,261 @@
+package wayward.analysis;
+
+import java.util.List;
+import wayward.image.GrayFrame;
+
+/**
+ * Tells the analysed frames in which nothing changed around the zones from those in which something may move, so
+ * that the flow (most of the analysis) runs only when it can find motion. A site camera sees nothing move for
+ * most of its day.
+ *
+ * <p>The test is cheap: the means of {@value #BLOCK}×{@value #BLOCK} blocks over the zones' bounding box plus
+ * {@value #MARGIN_PX} px (a mover is seen in the margin before it enters a zone), compared with the previous
+ * analysed frame (what moves at a pixel or more a frame) and with a reference frame up to
+ * {@value #REFERENCE_SECONDS} s old (what crawls: its change adds up). Each difference has the median over the
+ * blocks taken off (a light switched on, a mains flicker or an exposure step shifts them all). Something changed
+ * when a block's change exceeds {@value #NOISE_FACTOR} × the largest change the camera shows in still frames (learned
+ * per camera, by each comparison) + {@value #MIN_CHANGE} grey levels. Compressed video is still almost everywhere
+ * and noisy only in the blocks the encoder refreshes, so the largest change, not a spread, is the noise that counts.
+ * After a change the flow keeps running for {@value #KEEP_SECONDS} s, so the movers' tracks end as they would with
+ * the flow on. The first {@value #WARM_UP_SECONDS} s run the flow and learn the noise.
+ *
+ * <p>One instance per camera, called by the analysis thread; buffers sized once per resolution, nothing allocated
+ * per frame.
+ */
+final class StillGate {
+    /** Side of the blocks whose means are compared, analysis pixels. */
+    static final int BLOCK = 4;
+    /** Around the zones' bounding box, analysis pixels: a mover is seen before it enters. */
+    static final int MARGIN_PX = 16;
+    /** Times the learned largest still change from which a block's change counts. */
+    static final double NOISE_FACTOR = 2;
+    /** Added to that, grey levels: an encoder's still picture has almost no noise. */
+    static final double MIN_CHANGE = 2;
+    /**
+     * Most the learned still change is trusted with, grey levels: a camera that warmed up on a busy scene learns
+     * too much; above this, its gate errs towards running the flow.
+     */
+    static final double MAX_NOISE = 12;
+    /** Age of the reference frame at which it is taken again, seconds. */
+    static final double REFERENCE_SECONDS = 1.0;
+    /** How long the flow keeps running after the last change, seconds. */
+    static final double KEEP_SECONDS = 2.0;
+    /** Seconds from the first frame during which the flow always runs and the noise is learned. */
+    static final double WARM_UP_SECONDS = 1.0;
+    /** Weight of one still frame's largest change in the learned one. */
+    private static final double NOISE_RATE = 0.05;
+
+    private final double[] xs;
+    private final double[] ys;
+    private int width = -1;
+    private int height = -1;
+    private int x0;
+    private int y0;
+    private int columns;
+    private int rows;
+    private float[] current;
+    private float[] previous;
+    private float[] reference;
+    private float[] scratch;
+    private boolean primed;
+    private double firstSeconds;
+    private double referenceSeconds;
+    private double changedSeconds;
+    private double noisePrevious;
+    private double noiseReference;
+    private int warmFrames;
+    private long stillFrames;
+
+    /**
+     * A gate over the given zones' polygons (picture fractions; corners of all zones, x and y apart). Polygons
+     * are read once; the arrays are not kept.
+     */
+    StillGate(List<double[]> zoneXs, List<double[]> zoneYs) {
+        double minX = 1;
+        double maxX = 0;
+        double minY = 1;
+        double maxY = 0;
+        for (int z = 0; z < zoneXs.size(); z++) {
+            for (double x : zoneXs.get(z)) {
+                minX = Math.min(minX, x);
+                maxX = Math.max(maxX, x);
+            }
+            for (double y : zoneYs.get(z)) {
+                minY = Math.min(minY, y);
+                maxY = Math.max(maxY, y);
+            }
+        }
+        if (zoneXs.isEmpty()) {
+            minX = 0;
+            maxX = 1;
+            minY = 0;
+            maxY = 1;
+        }
+        xs = new double[] {minX, maxX};
+        ys = new double[] {minY, maxY};
+    }
+
+    /**
+     * Whether the flow should run for this frame of stream time t: true while warming up, when a block around the
+     * zones changed beyond the noise, and for {@link #KEEP_SECONDS} after.
+     */
+    boolean changed(GrayFrame f, double t) {
+        if (f.width != width || f.height != height) {
+            size(f.width, f.height);
+        }
+        blockMeans(f.pixels);
+        final int n = current.length;
+        if (!primed) {
+            primed = true;
+            firstSeconds = t;
+            referenceSeconds = t;
+            changedSeconds = t;
+            warmFrames = 0;
+            System.arraycopy(current, 0, previous, 0, n);
+            System.arraycopy(current, 0, reference, 0, n);
+            return true;
+        }
+        final double changePrevious = largest(previous);
+        final double changeReference = largest(reference);
+        final boolean warm = t - firstSeconds < WARM_UP_SECONDS;
+        final boolean moved = warm || changePrevious > limit(noisePrevious) || changeReference > limit(noiseReference);
+        if (warm) {
+            // a plain mean of the first second's largest changes
+            warmFrames++;
+            noisePrevious = warmFrames == 1 ? changePrevious : noisePrevious + (changePrevious - noisePrevious) / warmFrames;
+            noiseReference = warmFrames == 1 ? changeReference
+                    : noiseReference + (changeReference - noiseReference) / warmFrames;
+        } else if (!moved) {
+            noisePrevious += NOISE_RATE * (changePrevious - noisePrevious);
+            noiseReference += NOISE_RATE * (changeReference - noiseReference);
+        }
+        if (moved) {
+            changedSeconds = t;
+        }
+        System.arraycopy(current, 0, previous, 0, n);
+        if (t - referenceSeconds >= REFERENCE_SECONDS - 1e-6) {
+            System.arraycopy(current, 0, reference, 0, n);
+            referenceSeconds = t;
+        }
+        final boolean run = t - changedSeconds <= KEEP_SECONDS + 1e-6;
+        if (!run) {
+            stillFrames++;
+        }
+        return run;
+    }
+
+    /** The change of a block mean that counts, given the learned largest change of still frames. */
+    private static double limit(double noise) {
+        return NOISE_FACTOR * Math.min(noise, MAX_NOISE) + MIN_CHANGE;
+    }
+
+    /** Frames judged still so far (their flow was skipped). */
+    long stillFrames() {
+        return stillFrames;
+    }
+
+    /** The learned largest change of a block mean between still frames, grey levels (0 before a frame pair). */
+    double noise() {
+        return noisePrevious;
+    }
+
+    /** Starts over (after a gap in the stream): the next frame primes the gate again. */
+    void reset() {
+        primed = false;
+    }
+
+    private void size(int w, int h) {
+        width = w;
+        height = h;
+        int left = Math.max(0, (int) Math.floor(xs[0] * w) - MARGIN_PX);
+        int right = Math.min(w, (int) Math.ceil(xs[1] * w) + MARGIN_PX);
+        int top = Math.max(0, (int) Math.floor(ys[0] * h) - MARGIN_PX);
+        int bottom = Math.min(h, (int) Math.ceil(ys[1] * h) + MARGIN_PX);
+        columns = Math.max(1, (right - left) / BLOCK);
+        rows = Math.max(1, (bottom - top) / BLOCK);
+        // whole blocks inside the picture
+        columns = Math.min(columns, w / BLOCK);
+        rows = Math.min(rows, h / BLOCK);
+        x0 = Math.min(left, w - columns * BLOCK);
+        y0 = Math.min(top, h - rows * BLOCK);
+        int n = columns * rows;
+        current = new float[n];
+        previous = new float[n];
+        reference = new float[n];
+        scratch = new float[n];
+        primed = false;
+    }
+
+    private void blockMeans(byte[] p) {
+        final int w = width;
+        final float inv = 1f / (BLOCK * BLOCK);
+        for (int r = 0; r < rows; r++) {
+            final int top = (y0 + r * BLOCK) * w + x0;
+            final int out = r * columns;
+            for (int c = 0; c < columns; c++) {
+                int sum = 0;
+                final int at = top + c * BLOCK;
+                for (int dy = 0; dy < BLOCK; dy++) {
+                    final int row = at + dy * w;
+                    for (int dx = 0; dx < BLOCK; dx++) {
+                        sum += p[row + dx] & 0xff;
+                    }
+                }
+                current[out + c] = sum * inv;
+            }
+        }
+    }
+
+    /** Median of current − base over the blocks (the whole picture's brightness step). */
+    private float medianStep(float[] base) {
+        final int n = current.length;
+        for (int i = 0; i < n; i++) {
+            scratch[i] = current[i] - base[i];
+        }
+        return select(scratch, n, n / 2);
+    }
+
+    /** Largest change of a block mean from base, the picture's brightness step taken off. */
+    private double largest(float[] base) {
+        final float step = medianStep(base);
+        float most = 0f;
+        for (int i = 0; i < current.length; i++) {
+            most = Math.max(most, Math.abs(current[i] - base[i] - step));
+        }
+        return most;
+    }
+
+    /** The k-th smallest of a[0..n) (Hoare's selection; reorders a). */
+    static float select(float[] a, int n, int k) {
+        int lo = 0;
+        int hi = n - 1;
+        while (lo < hi) {
+            final float pivot = a[(lo + hi) >>> 1];
+            int i = lo;
+            int j = hi;
+            while (i <= j) {
+                while (a[i] < pivot) {
+                    i++;
+                }
+                while (a[j] > pivot) {
+                    j--;
+                }
+                if (i <= j) {
+                    final float x = a[i];
+                    a[i] = a[j];
+                    a[j] = x;
+                    i++;
+                    j--;
+                }
+            }
+            if (k <= j) {
+                hi = j;
+            } else if (k >= i) {
+                lo = i;
+            } else {
+                return a[k];
+            }
+        }
+        return a[k];
+    }
+}
