@@ -66,6 +66,29 @@ public final class FlowColours {
         return out;
     }
 
+    /**
+     * The colour wheel as a legend: a disc of the given radius (picture {@code 2 * radius + 1} square, transparent
+     * outside the disc) where each point shows the colour of the motion from the centre to it, the rim being the
+     * largest speed. Allocates the picture.
+     */
+    public static BufferedImage wheel(int radius) {
+        if (radius < 1) {
+            throw new IllegalArgumentException("radius: " + radius + " (expected: at least 1)");
+        }
+        int d = 2 * radius + 1;
+        BufferedImage w = new BufferedImage(d, d, BufferedImage.TYPE_INT_ARGB);
+        for (int y = 0; y < d; y++) {
+            for (int x = 0; x < d; x++) {
+                double fx = (x - radius) / (double) radius;
+                double fy = (y - radius) / (double) radius;
+                if (fx * fx + fy * fy <= 1) {
+                    w.setRGB(x, y, 0xff000000 | rgb(fx, fy));
+                }
+            }
+        }
+        return w;
+    }
+
     /** Largest speed in the field, pixels per frame pair (at least a tiny positive number). */
     public static double maxSpeed(FlowField f) {
         double m = 1e-6;
