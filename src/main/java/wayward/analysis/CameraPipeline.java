@@ -330,7 +330,7 @@ public final class CameraPipeline implements CameraStatus {
                         if (e.phase() == Event.Phase.START) {
                             zoneFigures.started(z);
                         }
-                        emit(evidence.name(e, c.zone(), f, field));
+                        emit(evidence.name(e, c.zone(), c.heading(), f, field));
                     }
                 }
                 if (tamper != null) {
@@ -367,7 +367,7 @@ public final class CameraPipeline implements CameraStatus {
             for (ZoneChannel c : channels) {
                 Event e = c.finish(lastStreamSeconds);
                 if (e != null) {
-                    emit(evidence.name(e, c.zone(), null, field));
+                    emit(evidence.name(e, c.zone(), c.heading(), null, field));
                 }
             }
         }

@@ -46,8 +46,10 @@ final class EvidenceKeeper {
      * Names the event's evidence and starts or finishes it: at a start, the clip request to the capture thread
      * and the snapshot of this frame (with its flow); at an end, the end of the clip (after its post-roll) and
      * the sidecar.
+     *
+     * @param headingDeg the zone's permitted heading in use (configured or learned), NaN for none
      */
-    Event name(Event e, ZoneConfig zone, GrayFrame frame, FlowField field) {
+    Event name(Event e, ZoneConfig zone, double headingDeg, GrayFrame frame, FlowField field) {
         if (evidence == null) {
             return e;
         }
@@ -60,7 +62,7 @@ final class EvidenceKeeper {
             if (frame != null) {
                 double minStep = zone.minSpeedPxPerSecond() / camera.analysisFps();
                 evidence.writer().snapshot(Snapshot.draw(frame, field, zone.xs(), zone.ys(), minStep,
-                        e.mover() == null ? null : e.mover().path()), resolve(paths[1]));
+                        e.mover() == null ? null : e.mover().path(), caption(e, headingDeg)), resolve(paths[1]));
             }
             Event named = e.withEvidence(paths[0], paths[1]);
             startJson.put(e.id(), EventJson.toJson(named));
@@ -74,6 +76,15 @@ final class EvidenceKeeper {
         Event named = e.withEvidence(paths[0], paths[1]);
         evidence.writer().sidecar(startJson.remove(e.id()) + "\n" + EventJson.toJson(named) + "\n", resolve(paths[2]));
         return named;
+    }
+
+    /**
+     * The snapshot's caption from a start phase: the one place that reads the record's measured direction and
+     * speed for the picture.
+     */
+    static Snapshot.Caption caption(Event e, double allowedHeadingDeg) {
+        return new Snapshot.Caption(e.camera(), e.zone(), e.kind().jsonName(), e.at(), e.headingDeg(),
+                allowedHeadingDeg, e.speed());
     }
 
     /** Waits for the clip writers to write their trailers (shutdown). */

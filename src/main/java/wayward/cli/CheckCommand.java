@@ -17,7 +17,7 @@ final class CheckCommand extends Command {
                 "",
                 "Checks the config file and prints the effective config (defaults filled in, secrets masked).",
                 "Exit 0 when it is usable; otherwise every mistake on one line each (file:line:column: key: value",
-                "(expected ...)) and exit 78."));
+                "(expected ...)) and exit 78 (config errors)."));
     }
 
     @Override

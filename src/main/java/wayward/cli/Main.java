@@ -26,7 +26,7 @@ public final class Main {
             "usage: java -jar wayward.jar COMMAND [options]",
             "",
             "commands:",
-            "  run     --config FILE                     run the service on the configured cameras",
+            "  run     --config FILE                     run the service on the configured cameras (webhooks, MQTT)",
             "  check   --config FILE                     check a config; print the effective config (secrets masked)",
             "  replay  --config FILE --input VIDEO [--camera ID] [--report DIR] [--annotate OUT.mp4]",
             "                                            analyse a recorded file as fast as possible; events on stdout",
@@ -40,7 +40,7 @@ public final class Main {
             "                                            optical flow between two pictures (Middlebury .flo + colour wheel PNG)",
             "  help                                      this text; COMMAND --help for one command",
             "",
-            "exit codes: 0 done, 1 failed, 2 bad command line, 66 input missing, 78 config errors");
+            "exit codes: 0 done, 1 failed, 2 bad command line, 66 input file missing, 78 config errors");
 
     /** The commands, in the order the help lists them. */
     private static final Map<String, Command> COMMANDS = new LinkedHashMap<>();

@@ -15,9 +15,10 @@ final class RunCommand extends Command {
                 "usage: java -jar wayward.jar run --config FILE",
                 "",
                 "Runs the service: reads every configured camera, analyses motion in its zones and sends each event",
-                "phase to the event log (DATA_DIR/events.jsonl) and the configured webhooks. File sources play at",
-                "their own speed, like a camera. Stops on SIGTERM or Ctrl-C, or when every file camera has ended.",
-                "Logs go to standard error."));
+                "phase to the event log (DATA_DIR/events.jsonl), the configured webhooks and the MQTT broker",
+                "([mqtt]; also each camera's and zone's state, retained). File sources play at their own speed,",
+                "like a camera. Stops on SIGTERM or Ctrl-C, or when every file camera has ended. Logs go to",
+                "standard error. Exit 78 (config errors) when the config is wrong."));
     }
 
     @Override

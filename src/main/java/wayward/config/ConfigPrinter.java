@@ -9,8 +9,9 @@ import wayward.analysis.CameraConfig;
 import wayward.analysis.ZoneConfig;
 
 /**
- * Prints the effective configuration (every key, defaults filled in) as TOML, with secrets masked: passwords in
- * URLs and webhook query strings never appear. Stateless.
+ * Prints the effective configuration (every key, defaults filled in; every key a zone of its kind takes, a key
+ * left unset named in a comment) as TOML, with secrets masked: passwords in URLs and webhook query strings never
+ * appear. Stateless.
  */
 public final class ConfigPrinter {
     private ConfigPrinter() {
@@ -139,13 +140,17 @@ public final class ConfigPrinter {
                 b.append(i == 0 ? "" : ", ").append('[').append(num(xs[i])).append(", ").append(num(ys[i])).append(']');
             }
             b.append("]\n");
+            // every key a zone of its kind takes, with its value; a key left unset is named in a comment
             if (z.hasHeading()) {
                 b.append("  heading_deg = ").append(num(z.headingDeg())).append('\n');
+                b.append("  learn_heading_seconds = 0   # no learning: the heading is set\n");
             } else if (z.learnsHeading()) {
+                b.append("  # heading_deg not set: learned from traffic\n");
                 b.append("  learn_heading_seconds = ").append(num(z.learnHeadingSeconds()))
                         .append("   # the heading is learned from traffic and kept in data_dir/learned\n");
             } else {
                 b.append("  # heading_deg not set: the zone reports any motion\n");
+                b.append("  learn_heading_seconds = 0   # no learning: a motion zone\n");
             }
             b.append("  tolerance_deg = ").append(num(z.toleranceDeg())).append('\n');
             b.append("  min_speed = ").append(num(z.minSpeedPxPerSecond())).append('\n');

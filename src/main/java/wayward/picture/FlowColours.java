@@ -66,6 +66,29 @@ public final class FlowColours {
         return out;
     }
 
+    /**
+     * The colour wheel as a legend: a disc of the given radius (picture {@code 2 * radius + 1} square, transparent
+     * outside the disc) where each point shows the colour of the motion from the centre to it, the rim being the
+     * largest speed. Allocates the picture.
+     */
+    public static BufferedImage wheel(int radius) {
+        if (radius < 1) {
+            throw new IllegalArgumentException("radius: " + radius + " (expected: at least 1)");
+        }
+        int d = 2 * radius + 1;
+        BufferedImage w = new BufferedImage(d, d, BufferedImage.TYPE_INT_ARGB);
+        for (int y = 0; y < d; y++) {
+            for (int x = 0; x < d; x++) {
+                double fx = (x - radius) / (double) radius;
+                double fy = (y - radius) / (double) radius;
+                if (fx * fx + fy * fy <= 1) {
+                    w.setRGB(x, y, 0xff000000 | rgb(fx, fy));
+                }
+            }
+        }
+        return w;
+    }
+
     /** Largest speed in the field, pixels per frame pair (at least a tiny positive number). */
     public static double maxSpeed(FlowField f) {
         double m = 1e-6;
@@ -78,13 +101,15 @@ public final class FlowColours {
     /**
      * The field (interpolated to every pixel) coloured by direction and speed, with a legend to its right: the
      * colour wheel itself (a disc where each point shows the colour of the motion from its centre to it, the rim
-     * being the largest speed) and, where the JDK has a font, the speed of the rim.
+     * being the largest speed) and, where the JDK has a font, the speed of the rim in pixels per frame.
      */
     public static BufferedImage picture(FlowField field) {
         FlowField f = field.toDense();
         double max = maxSpeed(f);
         int legend = Math.max(64, Math.min(160, f.height));
-        BufferedImage img = new BufferedImage(f.width + legend, Math.max(f.height, legend), BufferedImage.TYPE_INT_RGB);
+        // below the wheel, two lines of text: the rim's speed and its unit
+        BufferedImage img = new BufferedImage(f.width + legend, Math.max(f.height, legend + 14),
+                BufferedImage.TYPE_INT_RGB);
         for (int y = 0; y < img.getHeight(); y++) {
             for (int x = 0; x < img.getWidth(); x++) {
                 img.setRGB(x, y, 0xffffff);
@@ -112,6 +137,7 @@ public final class FlowColours {
             g.setColor(Color.BLACK);
             g.setFont(new Font(Font.SANS_SERIF, Font.PLAIN, 11));
             g.drawString(String.format(java.util.Locale.ROOT, "rim = %.2f px", max), f.width + 6, legend - 2);
+            g.drawString("per frame", f.width + 6, legend + 11);
             g.dispose();
         } catch (Throwable noFonts) {
             // a headless JDK without fonts: the wheel alone is the legend; the scale is printed by the command

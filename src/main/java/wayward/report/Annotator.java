@@ -61,7 +61,7 @@ public final class Annotator implements FrameListener, ReadingListener, AutoClos
                 ZoneConfig.DEFAULT_MIN_SPEED / p.config().analysisFps());
         Graphics2D g = img.createGraphics();
         if (legend == null) {
-            legend = wheel(48);
+            legend = FlowColours.wheel(48);
         }
         g.drawImage(legend, img.getWidth() - legend.getWidth() - 6, 6, null);
         g.setFont(new Font(Font.SANS_SERIF, Font.BOLD, 14));
@@ -103,22 +103,6 @@ public final class Annotator implements FrameListener, ReadingListener, AutoClos
         } catch (IOException e) {
             throw new java.io.UncheckedIOException("cannot write " + out, e);
         }
-    }
-
-    /** The colour wheel: each point shows the colour of the motion from the centre to it. */
-    static BufferedImage wheel(int radius) {
-        int d = 2 * radius + 1;
-        BufferedImage w = new BufferedImage(d, d, BufferedImage.TYPE_INT_ARGB);
-        for (int y = 0; y < d; y++) {
-            for (int x = 0; x < d; x++) {
-                double fx = (x - radius) / (double) radius;
-                double fy = (y - radius) / (double) radius;
-                if (fx * fx + fy * fy <= 1) {
-                    w.setRGB(x, y, 0xff000000 | FlowColours.rgb(fx, fy));
-                }
-            }
-        }
-        return w;
     }
 
     public long frames() {

@@ -32,13 +32,21 @@ import wayward.zone.ZoneReading;
 
 /**
  * A replay's tuning report: per zone a CSV time series of the readings and the rule's state, a PNG plot of
- * coverage and against share with the onset and release levels drawn and the events shaded (JFreeChart), the
+ * moving share and against share with the onset and release levels drawn and the events shaded (JFreeChart), the
  * events as JSON lines, and an index.html that gathers them. Readings arrive on the analysis thread, events on
  * the bus's thread; {@link #write} after the replay ended.
  */
 public final class ReplayReport implements ReadingListener, EventSink {
-    /** The CSV columns; {@link WhatIf} reads them back. movers and largest_travel_against_px: 0 without heading. */
-    static final String HEADER = "stream_s,coverage,against,speed,heading_deg,against_speed,against_heading_deg,"
+    /**
+     * The CSV columns; {@link WhatIf} reads them back. Shares are of the zone's pixels (0..1), speeds analysis
+     * pixels per second, bearings degrees clockwise from image-up (NaN when nothing moves); heading_deg appears
+     * only in the header line above, as the zone's permitted direction. movers and largest_travel_against_px: 0
+     * without heading.
+     */
+    static final String HEADER = "stream_s,moving_share,against_share,moving_speed_px_s,moving_bearing_deg,"
+            + "against_speed_px_s,against_bearing_deg,movers,largest_travel_against_px,state";
+    /** The same columns under the names reports written before the vocabulary was settled used ({@link WhatIf}). */
+    static final String OLDER_HEADER = "stream_s,coverage,against,speed,heading_deg,against_speed,against_heading_deg,"
             + "movers,largest_travel_against_px,state";
     /**
      * The columns of a zone's movers file ({@code <camera>-<zone>.movers.csv}): one row per followed track per
@@ -46,6 +54,10 @@ public final class ReplayReport implements ReadingListener, EventSink {
      */
     static final String MOVER_HEADER = "stream_s,track,seen,age_s,travel_against_px,samples,peak_samples,width_px,"
             + "height_px,x_px,y_px,vx_px_s,vy_px_s,speed_px_s,still_ahead_px";
+
+    /** The plot's colours of the moving_share and against_share series. */
+    static final Color MOVING_BLUE = new Color(0x2a6fd6);
+    static final Color AGAINST_RED = new Color(0xd62a2a);
 
     private final Map<String, Series> series = new LinkedHashMap<>();
     private final List<Event> events = new ArrayList<>();
@@ -55,8 +67,9 @@ public final class ReplayReport implements ReadingListener, EventSink {
         final ZoneConfig zone;
         final StringBuilder csv = new StringBuilder(1 << 16);
         final StringBuilder moverCsv = new StringBuilder(1 << 12);
-        final XYSeries coverage = new XYSeries("coverage", false, true);
-        final XYSeries against = new XYSeries("moving against the heading", false, true);
+        final XYSeries moving = new XYSeries("moving_share: moving at all", false, true);
+        final XYSeries against = new XYSeries("against_share: moving against the heading (drawn on top)", false,
+                true);
         final XYSeries travel = new XYSeries("largest mover travel against the heading (px, right axis)", false, true);
         String picture = "";
 
@@ -81,7 +94,7 @@ public final class ReplayReport implements ReadingListener, EventSink {
                 .append(r.speed).append(',').append(r.headingDeg).append(',').append(r.againstSpeed).append(',')
                 .append(r.againstHeadingDeg).append(',').append(count).append(',').append(largest).append(',')
                 .append(ruleState).append('\n');
-        s.coverage.add(r.streamSeconds, r.coverage);
+        s.moving.add(r.streamSeconds, r.coverage);
         s.against.add(r.streamSeconds, r.against);
         if (movers != null) {
             s.travel.add(r.streamSeconds, largest);
@@ -138,7 +151,7 @@ public final class ReplayReport implements ReadingListener, EventSink {
             ChartUtils.saveChartAsPNG(dir.resolve(base + ".png").toFile(), chart(s, mine), 1200, 420);
             html.append("<h2>camera ").append(s.camera.id()).append(", zone ").append(s.zone.id()).append("</h2>\n")
                     .append("<p>").append(settings(s.zone)).append("</p>\n<p><img src=\"").append(base)
-                    .append(".png\" alt=\"coverage and against share over stream time\"></p>\n<p><a href=\"")
+                    .append(".png\" alt=\"moving share and against share over stream time\"></p>\n<p><a href=\"")
                     .append(base).append(".csv\">").append(base).append(".csv</a> (every reading and the rule's state)")
                     .append(s.zone.decidesOnMovers() ? ", <a href=\"" + base + ".movers.csv\">" + base
                             + ".movers.csv</a> (every followed mover in every frame)" : "")
@@ -183,23 +196,34 @@ public final class ReplayReport implements ReadingListener, EventSink {
         return spans;
     }
 
+    /** The plot of one zone as {@link #write} draws it; null when the zone has no readings. For tests. */
+    synchronized JFreeChart chart(String camera, String zone) {
+        Series s = series.get(key(camera, zone));
+        return s == null ? null : chart(s, events.stream().filter(e -> zone.equals(e.zone())
+                && camera.equals(e.camera())).toList());
+    }
+
     private static JFreeChart chart(Series s, List<Event> events) {
         XYSeriesCollection data = new XYSeriesCollection();
-        data.addSeries(s.coverage);
+        data.addSeries(s.moving);
         data.addSeries(s.against);
         NumberAxis x = new NumberAxis("stream time (s)");
         NumberAxis y = new NumberAxis("share of the zone's pixels");
         XYLineAndShapeRenderer r = new XYLineAndShapeRenderer(true, false);
-        r.setSeriesPaint(0, new Color(0x2a6fd6));
-        r.setSeriesPaint(1, new Color(0xd62a2a));
+        // against_share is part of moving_share and often equal to it: drawn after it (on top), opaque and thicker,
+        // so where the two lie on each other the line reads red with blue edges, not a blend of the two; the
+        // legend shows each series' own stroke
+        r.setSeriesPaint(0, MOVING_BLUE);
+        r.setSeriesPaint(1, AGAINST_RED);
         r.setSeriesStroke(0, new BasicStroke(1.5f));
-        r.setSeriesStroke(1, new BasicStroke(2f));
+        r.setSeriesStroke(1, new BasicStroke(3f, BasicStroke.CAP_ROUND, BasicStroke.JOIN_ROUND));
         XYPlot plot = new XYPlot(data, x, y, r);
+        plot.setSeriesRenderingOrder(org.jfree.chart.plot.SeriesRenderingOrder.FORWARD);
         plot.setBackgroundPaint(Color.WHITE);
         plot.setRangeGridlinePaint(new Color(0xdddddd));
         plot.setDomainGridlinePaint(new Color(0xdddddd));
         for (double[] span : spans(events).values()) {
-            double end = Double.isNaN(span[1]) ? s.coverage.getMaxX() : span[1];
+            double end = Double.isNaN(span[1]) ? s.moving.getMaxX() : span[1];
             IntervalMarker m = new IntervalMarker(span[0], end, new Color(255, 200, 0, 70));
             plot.addDomainMarker(m);
         }

@@ -46,7 +46,8 @@ public final class WhatIf {
 
     static Saved read(Path csv) throws IOException {
         List<String> lines = Files.readAllLines(csv);
-        if (lines.size() < 2 || !lines.get(0).startsWith("# camera=") || !lines.get(1).equals(ReplayReport.HEADER)) {
+        if (lines.size() < 2 || !lines.get(0).startsWith("# camera=") || !(lines.get(1).equals(ReplayReport.HEADER)
+                || lines.get(1).equals(ReplayReport.OLDER_HEADER))) {
             throw new IOException(csv + ": not a wayward replay report series of this version");
         }
         Map<String, String> h = new HashMap<>();

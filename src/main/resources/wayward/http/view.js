@@ -133,15 +133,17 @@ function render() {
   const [w, h] = size();
   const g = draw.getContext("2d");
   g.clearRect(0, 0, w, h);
+  // the drawn zone in black and white only: every hue means a direction on the colour wheel
   if (points.length) {
-    g.lineWidth = 2;
-    g.strokeStyle = "#ffd400";
-    g.fillStyle = "rgba(255, 212, 0, 0.15)";
+    g.fillStyle = "rgba(255, 255, 255, 0.15)";
     g.beginPath();
     points.forEach((p, i) => i ? g.lineTo(p[0] * w, p[1] * h) : g.moveTo(p[0] * w, p[1] * h));
     if (closed) { g.closePath(); g.fill(); }
-    g.stroke();
-    for (const p of points) { g.fillStyle = "#ffd400"; g.fillRect(p[0] * w - 3, p[1] * h - 3, 6, 6); }
+    for (const [width, colour] of [[4, "#000"], [2, "#fff"]]) { g.lineWidth = width; g.strokeStyle = colour; g.stroke(); }
+    for (const p of points) {
+      g.fillStyle = "#000"; g.fillRect(p[0] * w - 4, p[1] * h - 4, 8, 8);
+      g.fillStyle = "#fff"; g.fillRect(p[0] * w - 3, p[1] * h - 3, 6, 6);
+    }
   }
   let b = heading;
   if (drag && press) b = bearing((drag[0] - press[0]) * w, (drag[1] - press[1]) * h);
@@ -149,13 +151,12 @@ function render() {
     const [cx, cy] = centroid();
     const a = b * Math.PI / 180, len = 40;
     const x0 = cx * w, y0 = cy * h, x1 = x0 + len * Math.sin(a), y1 = y0 - len * Math.cos(a);
-    g.strokeStyle = "#ffd400"; g.lineWidth = 3;
     g.beginPath(); g.moveTo(x0, y0); g.lineTo(x1, y1);
     for (const s of [-0.5, 0.5]) {
       const back = Math.atan2(y1 - y0, x1 - x0);
       g.moveTo(x1, y1); g.lineTo(x1 - 12 * Math.cos(back + s), y1 - 12 * Math.sin(back + s));
     }
-    g.stroke();
+    for (const [width, colour] of [[5, "#000"], [3, "#fff"]]) { g.lineWidth = width; g.strokeStyle = colour; g.stroke(); }
   }
   requestAnimationFrame(render);
 }

@@ -45,8 +45,11 @@ class RunWebhookIT {
         assertEquals("", YardSite.command("ffmpeg", "-v", "error", "-i", clip.toString(), "-f", "null", "-"), "decodes cleanly");
         java.awt.image.BufferedImage jpg = javax.imageio.ImageIO.read(snapshot.toFile());
         assertEquals(640, jpg.getWidth());
+        // the 320 x 180 analysis picture at twice its size, the caption band below it
+        int band = wayward.clip.Snapshot.BAND_HEIGHT;
+        assertEquals(360 + band, jpg.getHeight());
         int coloured = 0;
-        for (int y = 0; y < jpg.getHeight(); y += 2) {
+        for (int y = 0; y < jpg.getHeight() - band; y += 2) {
             for (int x = 0; x < jpg.getWidth(); x += 2) {
                 int rgb = jpg.getRGB(x, y);
                 int r = (rgb >> 16) & 0xff;
@@ -58,6 +61,17 @@ class RunWebhookIT {
             }
         }
         assertTrue(coloured > 50, "motion arrows drawn on the gray frame: " + coloured + " coloured samples");
+        int legend = 0;
+        for (int y = jpg.getHeight() - band; y < jpg.getHeight(); y += 2) {
+            for (int x = jpg.getWidth() / 2; x < jpg.getWidth(); x += 2) {
+                int rgb = jpg.getRGB(x, y);
+                int r = (rgb >> 16) & 0xff;
+                int g = (rgb >> 8) & 0xff;
+                int b = rgb & 0xff;
+                legend += Math.max(r, Math.max(g, b)) - Math.min(r, Math.min(g, b)) > 60 ? 1 : 0;
+            }
+        }
+        assertTrue(legend > 200, "the colour wheel in the caption band: " + legend + " coloured samples");
         Path sidecar = data.resolve(((String) end.get("clip")).replace(".mp4", ".json"));
         assertEquals(log, Files.readAllLines(sidecar, StandardCharsets.UTF_8), "the sidecar holds the event record");
     }
