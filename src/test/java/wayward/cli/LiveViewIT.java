@@ -199,7 +199,7 @@ class LiveViewIT {
                     "polygon = [[0.20, 0.90], [0.80, 0.90], [0.60, 0.20], [0.40, 0.20]]", "heading_deg = 45", ""),
                     snippet);
             // the chart gets measurements of the drawn zone from /api/measure
-            await(cdp, "series.filter(s => s.coverage !== null).length >= 3", Pattern.compile("true"), 20);
+            await(cdp, "series.filter(s => s.moving_share !== null).length >= 3", Pattern.compile("true"), 20);
 
             // a configured zone, moved: its first corner dragged from (0.31, 0.98) to (0.25, 0.95)
             await(cdp, "document.getElementById('existing').options.length", Pattern.compile("2"), 20);

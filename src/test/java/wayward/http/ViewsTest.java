@@ -36,7 +36,7 @@ class ViewsTest {
     void healthSaysReadyWithNothingDownOrStopped() {
         FullHttpResponse r = get("/health/ready");
         assertEquals(200, r.status().code());
-        assertEquals("{\"alive\":true,\"ready\":true,\"cameras_down\":[],\"delivery_stopped\":[]}", body(r));
+        assertEquals("{\"alive\":true,\"ready\":true,\"cameras_lost\":[],\"delivery_stopped\":[]}", body(r));
     }
 
     @Test
