@@ -28,8 +28,8 @@ import wayward.secret.LogText;
  * page's script, no site data). With a bearer token set, everything else needs it: {@code /} (the index page),
  * {@code /view/<camera>} (live view page), {@code /live/<camera>.jpg} and {@code /live/<camera>.mjpeg}
  * ({@link LiveStream}), {@code /api/measure} (a drawn zone on the live flow), {@code /metrics},
- * {@code /api/cameras}, {@code /api/events?limit=N} ({@link Views}), {@code /api/clips} and
- * {@code /clips/<path>} ({@link ClipFiles}).
+ * {@code /api/cameras}, {@code /api/events?limit=N} ({@link Views}), {@code /api/evidence} and
+ * {@code /evidence/<path>} ({@link EvidenceFiles}). {@code /openapi.json} describes the JSON answers.
  */
 final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
     private static final Logger LOG = LoggerFactory.getLogger(StatusHandler.class);
@@ -42,16 +42,16 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
 
     private final Shared shared;
     private final Views views;
-    private final ClipFiles clips;
+    private final EvidenceFiles evidence;
 
     StatusHandler(Shared shared) {
-        this(shared, new ClipFiles(() -> shared.service().clipsDir()));
+        this(shared, new EvidenceFiles(() -> shared.service().evidenceDir()));
     }
 
-    StatusHandler(Shared shared, ClipFiles clips) {
+    StatusHandler(Shared shared, EvidenceFiles evidence) {
         this.shared = shared;
         this.views = new Views(shared.service());
-        this.clips = clips;
+        this.evidence = evidence;
     }
 
     @Override
@@ -117,7 +117,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
             case "/metrics" -> views.metrics(ctx, req);
             case "/api/cameras" -> views.cameras(ctx, req);
             case "/api/events" -> views.events(ctx, req, q);
-            case "/api/clips" -> clips.list(ctx, req, q);
+            case "/api/evidence" -> evidence.list(ctx, req, q);
             default -> {
                 if (path.startsWith("/view/")) {
                     views.view(ctx, req, path.substring("/view/".length()));
@@ -125,8 +125,8 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                     views.picture(ctx, req, path.substring(6, path.length() - 4));
                 } else if (path.startsWith("/live/") && path.endsWith(".mjpeg")) {
                     LiveStream.start(ctx, req, views.camera(path.substring(6, path.length() - 6)));
-                } else if (path.startsWith("/clips/")) {
-                    clips.serve(ctx, req, path.substring("/clips/".length()));
+                } else if (path.startsWith("/evidence/")) {
+                    evidence.serve(ctx, req, path.substring("/evidence/".length()));
                 } else {
                     text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page: " + LogText.clean(path) + "\n", false);
                 }

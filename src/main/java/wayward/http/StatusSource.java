@@ -18,6 +18,6 @@ public interface StatusSource {
 
     RecentEvents recentEvents();
 
-    /** Where evidence clips are kept (may change with a reload). */
-    Path clipsDir();
+    /** The evidence folder: clips, snapshots and their JSON (may change with a reload). */
+    Path evidenceDir();
 }

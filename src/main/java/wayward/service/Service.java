@@ -88,7 +88,7 @@ public final class Service implements StatusSource {
     /** Retention sweep of the evidence folder (the retention thread). */
     private void sweep() {
         try {
-            wayward.clip.Retention.sweep(config.dataDir().resolve("clips"),
+            wayward.clip.Retention.sweep(evidenceDir(),
                     java.time.Duration.ofMinutes((long) (config.clips().keepDays() * 24 * 60)),
                     (long) (config.clips().keepGigabytes() * 1e9), java.time.Instant.now());
         } catch (IOException | RuntimeException e) {
@@ -120,6 +120,8 @@ public final class Service implements StatusSource {
                         config.shard().instances(), cameras.size(), config.cameras().size(), ids);
             }
             leftOpen = EventLog.leftOpen(config.dataDir().resolve("events.jsonl"));
+            // a data folder of an older version keeps its evidence in clips/: move it before retention looks
+            wayward.clip.EvidenceFolder.upgrade(config.dataDir());
             EventLog log = new EventLog(config.dataDir());
             bus.add(log, QUEUE_CAPACITY);
             LOG.info("events are written to {}", log.file());
@@ -160,7 +162,7 @@ public final class Service implements StatusSource {
             evidenceWriter = new wayward.clip.EvidenceWriter();
             evidence = new CameraPipeline.Evidence(config.dataDir(), config.clips(), evidenceWriter);
             LOG.info("evidence clips and snapshots go to {} (kept {} days, at most {} GB)",
-                    config.dataDir().resolve("clips"), config.clips().keepDays(), config.clips().keepGigabytes());
+                    evidenceDir(), config.clips().keepDays(), config.clips().keepGigabytes());
             retention = java.util.concurrent.Executors.newSingleThreadScheduledExecutor(r -> {
                 Thread t = new Thread(r, "retention");
                 t.setDaemon(true);
@@ -348,8 +350,8 @@ public final class Service implements StatusSource {
     }
 
     @Override
-    public java.nio.file.Path clipsDir() {
-        return config().dataDir().resolve("clips");
+    public java.nio.file.Path evidenceDir() {
+        return wayward.clip.EvidenceFolder.of(config().dataDir());
     }
 
     /** Orderly shutdown, each step time-limited. Idempotent; any thread. */

@@ -23,7 +23,7 @@ class ViewsTest {
 
     private FullHttpResponse get(String uri) {
         EmbeddedChannel ch = new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(site, null),
-                new ClipFiles(site::clipsDir)));
+                new EvidenceFiles(site::evidenceDir)));
         ch.writeInbound(new DefaultFullHttpRequest(HttpVersion.HTTP_1_1, HttpMethod.GET, uri));
         return ch.readOutbound();
     }
