@@ -175,6 +175,18 @@ final class Views {
         }
     }
 
+    /** {@code /openapi.json}: the OpenAPI 3.1 description of the JSON answers, from the jar (no site data). */
+    static void openapi(ChannelHandlerContext ctx, FullHttpRequest req) throws IOException {
+        try (java.io.InputStream in = Views.class.getResourceAsStream("/openapi.json")) {
+            if (in == null) {
+                text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page\n", false);
+                return;
+            }
+            send(ctx, req, response(HttpResponseStatus.OK, new String(in.readAllBytes(), StandardCharsets.UTF_8),
+                    Replies.JSON));
+        }
+    }
+
     /** {@code /view/<camera>}: the live view page of a camera that exists. */
     void view(ChannelHandlerContext ctx, FullHttpRequest req, String id) throws IOException {
         if (camera(id) == null) {

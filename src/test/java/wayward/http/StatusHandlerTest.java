@@ -78,6 +78,9 @@ class StatusHandlerTest {
         r = answer(ch, get("/view.js"));
         assertEquals(200, r.status().code());
         assertTrue(r.headers().get(HttpHeaderNames.CONTENT_TYPE).startsWith("text/javascript"));
+        r = answer(ch, get("/openapi.json")); // the description holds no site data
+        assertEquals(200, r.status().code());
+        assertTrue(r.headers().get(HttpHeaderNames.CONTENT_TYPE).startsWith("application/json"));
         FullHttpRequest withHeader = get("/api/evidence");
         withHeader.headers().set(HttpHeaderNames.AUTHORIZATION, "Bearer yard-token");
         assertEquals(200, answer(ch, withHeader).status().code());
