@@ -97,6 +97,13 @@ class StatusServerIT {
             String body = text(metrics);
             assertTrue(body.contains("wayward_zone_events_total{camera=\"yard-mast-2\",zone=\"lane-2-out\"} 1\n"), body);
             assertTrue(body.contains("wayward_camera_frames_analysed_total{camera=\"yard-mast-2\"} "), body);
+            // the shared vocabulary: watching / lost, moving and against share, evidence; frames, not pictures
+            assertTrue(body.contains("wayward_camera_watching{camera=\"yard-mast-2\"} 1\n"), body);
+            assertTrue(body.contains("wayward_zone_moving_share{camera=\"yard-mast-2\",zone=\"lane-2-out\"} "), body);
+            assertTrue(body.contains("wayward_zone_against_share{camera=\"yard-mast-2\",zone=\"lane-2-out\"} "), body);
+            assertTrue(body.contains("wayward_evidence_failed_total{file=\"clip\"} 0\n"), body);
+            assertTrue(!body.contains("wayward_camera_analysis_fps{camera=\"yard-mast-2\"} NaN"), body);
+            assertTrue(!body.contains("Pictures") && !body.contains("pictures"), body);
 
             String cameras = text(get(port, "/api/cameras", TOKEN));
             assertTrue(cameras.startsWith("{\"cameras\":[{\"id\":\"yard-mast-2\""), cameras);
