@@ -45,7 +45,10 @@ final class Views {
         return null;
     }
 
-    /** {@code /health} (always 200 while the process answers) and {@code /health/ready} (503 with a camera lost). */
+    /**
+     * {@code /health} (always 200 while the process answers) and {@code /health/ready} (503 while the service is
+     * still starting, a camera is lost or a delivery has stopped).
+     */
     void health(ChannelHandlerContext ctx, FullHttpRequest req, boolean readiness) {
         List<String> lost = new ArrayList<>();
         for (CameraStatus p : service.cameraStatus()) {
@@ -59,7 +62,7 @@ final class Views {
                 stopped.add(c.destination().name());
             }
         }
-        boolean ready = lost.isEmpty() && stopped.isEmpty();
+        boolean ready = !service.starting() && lost.isEmpty() && stopped.isEmpty();
         String body = EventJson.object(g -> {
             g.writeBooleanField("alive", true);
             g.writeBooleanField("ready", ready);

@@ -70,6 +70,8 @@ public final class Service implements StatusSource {
     private wayward.clip.EvidenceWriter evidenceWriter;
     private java.util.concurrent.ScheduledExecutorService retention;
     private volatile boolean stopped;
+    /** Set once {@link #start} has started every camera; the status server, bound before, reads it. */
+    private volatile boolean started;
 
     /** Before {@link #start}: every camera measures the CPU time of its stages from that stream time on (bench). */
     public void measureStages(double fromSeconds) {
@@ -181,6 +183,7 @@ public final class Service implements StatusSource {
         Thread watcher = new Thread(this::watch, "service-watch");
         watcher.setDaemon(true);
         watcher.start();
+        started = true;
     }
 
     private CameraPipeline pipeline(CameraConfig c, wayward.flow.FlowConfig flow) {
@@ -347,6 +350,11 @@ public final class Service implements StatusSource {
     @Override
     public wayward.delivery.RecentEvents recentEvents() {
         return recent;
+    }
+
+    @Override
+    public boolean starting() {
+        return !started;
     }
 
     @Override
