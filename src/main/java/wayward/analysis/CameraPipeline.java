@@ -128,6 +128,7 @@ public final class CameraPipeline implements CameraStatus {
     }
 
     public void start() {
+        load.started(System.nanoTime());
         analysisThread.start();
         captureThread.start();
     }
@@ -164,10 +165,10 @@ public final class CameraPipeline implements CameraStatus {
         load.check(seconds, analysedFrames, droppedFrames());
     }
 
-    /** Frames analysed per second over the last load check (NaN before the first). */
+    /** Frames analysed per second over the last load check (before the first: since the start; never NaN). */
     @Override
     public double analysisFps() {
-        return load.fps();
+        return load.fps(analysedFrames, System.nanoTime());
     }
 
     /** Pictures decoded by the capture thread. */

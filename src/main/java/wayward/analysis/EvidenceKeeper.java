@@ -14,9 +14,10 @@ import wayward.image.GrayFrame;
 
 /**
  * One camera's evidence: names each event's clip, snapshot and sidecar
- * ({@code clips/<camera>/<time>-<zone>-<id8>.mp4|.jpg|.json} under the data folder), asks the capture thread's
+ * ({@code evidence/<camera>/<time>-<zone>-<id8>.mp4|.jpg|.json} under the data folder), asks the capture thread's
  * recorder for the clip at a start and ends it at the end, draws the snapshot of the starting frame, and writes
- * the sidecar (both phases' records) at the end. Analysis thread only, except the recorder, which capture feeds.
+ * the sidecar at the end: one JSON document {@code {"start": record, "end": record}} holding both phases' records
+ * as the event log has them. Analysis thread only, except the recorder, which capture feeds.
  */
 final class EvidenceKeeper {
     private static final DateTimeFormatter FILE_TIME =
@@ -54,7 +55,7 @@ final class EvidenceKeeper {
             return e;
         }
         if (e.phase() == Event.Phase.START) {
-            String base = "clips/" + camera.id() + "/" + FILE_TIME.format(e.at()) + "-" + zone.id() + "-"
+            String base = wayward.clip.EvidenceFolder.NAME + "/" + camera.id() + "/" + FILE_TIME.format(e.at()) + "-" + zone.id() + "-"
                     + e.id().substring(0, 8);
             String[] paths = {base + ".mp4", base + ".jpg", base + ".json"};
             open.put(e.id(), paths);
@@ -74,7 +75,7 @@ final class EvidenceKeeper {
         }
         recorder.finish(e.id(), e.streamSeconds());
         Event named = e.withEvidence(paths[0], paths[1]);
-        evidence.writer().sidecar(startJson.remove(e.id()) + "\n" + EventJson.toJson(named) + "\n", resolve(paths[2]));
+        evidence.writer().sidecar(sidecar(startJson.remove(e.id()), EventJson.toJson(named)), resolve(paths[2]));
         return named;
     }
 
@@ -85,6 +86,11 @@ final class EvidenceKeeper {
     static Snapshot.Caption caption(Event e, double allowedHeadingDeg) {
         return new Snapshot.Caption(e.camera(), e.zone(), e.kind().jsonName(), e.at(), e.headingDeg(),
                 allowedHeadingDeg, e.speed());
+    }
+
+    /** The sidecar's text: one JSON document holding the two records (each already JSON text), one line. */
+    static String sidecar(String startRecord, String endRecord) {
+        return "{\"start\":" + startRecord + ",\"end\":" + endRecord + "}\n";
     }
 
     /** Waits for the clip writers to write their trailers (shutdown). */

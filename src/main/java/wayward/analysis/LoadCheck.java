@@ -18,15 +18,35 @@ final class LoadCheck {
     private long dropped;
     private boolean behind;
     private volatile double fps = Double.NaN;
+    /** When the camera started (System.nanoTime), MIN_VALUE before; set on start, read by any thread. */
+    private volatile long startedNanos = Long.MIN_VALUE;
 
     LoadCheck(String camera, double targetFps) {
         this.camera = camera;
         this.targetFps = targetFps;
     }
 
-    /** Frames analysed per second over the last check (NaN before the first). */
-    double fps() {
-        return fps;
+    /** The camera starts now (the watcher's first check follows about 30 s later). */
+    void started(long nanoTime) {
+        startedNanos = nanoTime;
+    }
+
+    /**
+     * Frames analysed per second over the last check; before the first check, over the time since the start
+     * ({@code analysedNow} frames in {@code nowNanos - start}); 0 before the start. Never NaN: a gauge that is NaN
+     * or absent for its first 30 s breaks sums and averages over cameras and alert rules on a low rate, and the
+     * Prometheus instrumentation practice is to export a series from the start rather than leave it missing.
+     */
+    double fps(long analysedNow, long nowNanos) {
+        double checked = fps;
+        if (!Double.isNaN(checked)) {
+            return checked;
+        }
+        long since = startedNanos;
+        if (since == Long.MIN_VALUE || nowNanos - since <= 0) {
+            return 0;
+        }
+        return analysedNow / ((nowNanos - since) / 1e9);
     }
 
     /** One check, {@code seconds} after the last, with the counts of analysed and dropped frames so far. */

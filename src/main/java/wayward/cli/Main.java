@@ -80,6 +80,10 @@ public final class Main {
             return command.run(Options.parse(command, args, 1, out, err), out, err);
         } catch (CommandExit e) {
             return e.code;
+        } catch (wayward.service.Lifecycle.StartFailed e) {
+            // one line naming what failed and why, e.g. "status server: 127.0.0.1:7431: address already in use …"
+            err.println("wayward " + name + ": " + e.getMessage());
+            return FAILED;
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
             err.println("wayward " + name + ": interrupted");

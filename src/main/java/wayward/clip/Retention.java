@@ -31,14 +31,14 @@ public final class Retention {
     private Retention() {
     }
 
-    public static Result sweep(Path clipsDir, Duration maxAge, long maxBytes, Instant now) throws IOException {
-        if (!Files.isDirectory(clipsDir)) {
+    public static Result sweep(Path evidenceDir, Duration maxAge, long maxBytes, Instant now) throws IOException {
+        if (!Files.isDirectory(evidenceDir)) {
             return new Result(0, 0, 0);
         }
         record Group(String key, List<Path> files, Instant newest, long bytes) {
         }
         Map<String, List<Path>> byEvent = new LinkedHashMap<>();
-        try (Stream<Path> s = Files.walk(clipsDir)) {
+        try (Stream<Path> s = Files.walk(evidenceDir)) {
             s.filter(Files::isRegularFile).filter(p -> !p.getFileName().toString().endsWith(".part")).forEach(p -> {
                 String name = p.toString();
                 int dot = name.lastIndexOf('.');

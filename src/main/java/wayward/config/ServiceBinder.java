@@ -57,7 +57,7 @@ final class ServiceBinder {
 
     /** {@code http} ("host:port" or "off") and {@code token_file} of [service]; null when off. */
     private static HttpConfig http(TableReader s, Path base) {
-        String expected = "\"host:port\" such as \"127.0.0.1:8786\", or \"off\"";
+        String expected = "\"host:port\" such as \"127.0.0.1:7431\", or \"off\"";
         String address = s.string("http", HttpConfig.DEFAULT_ADDRESS, expected);
         String tokenFile = s.string("token_file", null, "a file holding the bearer token for the status server");
         byte[] token = tokenFile == null ? null
@@ -81,7 +81,7 @@ final class ServiceBinder {
         }
         HttpConfig c = new HttpConfig(host, port, tokenFile, token, maxConnections);
         if (!c.loopback() && tokenFile == null) {
-            s.error("http", address, "a loopback address such as 127.0.0.1:8786, or token_file set as well "
+            s.error("http", address, "a loopback address such as 127.0.0.1:7431, or token_file set as well "
                     + "(anything but /health needs the token when the server is reachable from elsewhere)");
         }
         return c;
@@ -145,7 +145,7 @@ final class ServiceBinder {
         if (out != null && !out.loopback() && out.tokenFile() == null) {
             // the same rule as for [service] http, however the address is set
             errors.atTop("environment WAYWARD_HTTP: " + TomlText.render(value)
-                    + " (expected a loopback address such as 127.0.0.1:8786, or [service] token_file set as"
+                    + " (expected a loopback address such as 127.0.0.1:7431, or [service] token_file set as"
                     + " well: anything but /health needs the token when the server is reachable from elsewhere)");
         }
         return out;

@@ -14,7 +14,7 @@ import wayward.http.HttpConfig;
  * config file's folder.
  *
  * @param file     the config file as the user named it (for messages)
- * @param dataDir  folder for the event log, the outbox and the clips
+ * @param dataDir  folder for the event log, the outbox and the evidence
  * @param flow     flow estimator settings shared by all cameras
  * @param cameras  at least one camera
  * @param webhooks zero or more webhook destinations

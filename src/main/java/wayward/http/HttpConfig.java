@@ -20,7 +20,7 @@ public record HttpConfig(String host, int port, String tokenFile, byte[] token, 
     public static final int IDLE_SECONDS = 60;
     /** The status server's address when {@code [service] http} is not given: loopback only. */
     public static final String DEFAULT_HOST = "127.0.0.1";
-    public static final int DEFAULT_PORT = 8786;
+    public static final int DEFAULT_PORT = 7431;
     public static final String DEFAULT_ADDRESS = DEFAULT_HOST + ":" + DEFAULT_PORT;
 
     /** True when the address is a loopback address, where a token is optional. */

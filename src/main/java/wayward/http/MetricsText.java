@@ -5,6 +5,7 @@ import java.lang.management.MemoryMXBean;
 import java.util.List;
 import java.util.Locale;
 import wayward.clip.ClipWriter;
+import wayward.clip.EvidenceWriter;
 import wayward.analysis.ZoneConfig;
 import wayward.delivery.Courier;
 import wayward.delivery.EventBus;
@@ -90,33 +91,37 @@ final class MetricsText {
     }
 
     private void cameras(List<CameraStatus> ps) {
-        perCamera(ps, "wayward_camera_up", "gauge", "1 while the camera delivers pictures, else 0.",
-                p -> p.delivering() ? 1 : 0);
-        perCamera(ps, "wayward_camera_frames_in_total", "counter", "Pictures decoded from the camera.",
+        perCamera(ps, "wayward_camera_watching", "gauge", "1 while the camera is watching (frames arrive), 0 while "
+                + "it is lost.", p -> p.delivering() ? 1 : 0);
+        perCamera(ps, "wayward_camera_frames_in_total", "counter", "Frames decoded from the camera.",
                 CameraStatus::framesIn);
-        perCamera(ps, "wayward_camera_frames_analysed_total", "counter", "Pictures the flow estimator took.",
+        perCamera(ps, "wayward_camera_frames_analysed_total", "counter", "Frames the flow estimator took.",
                 CameraStatus::analysedFrames);
         perCamera(ps, "wayward_camera_frames_dropped_total", "counter",
-                "Pictures replaced by a newer one before analysis took them.", CameraStatus::droppedFrames);
+                "Frames replaced by a newer one before analysis took them.", CameraStatus::droppedFrames);
         perCamera(ps, "wayward_camera_decode_errors_total", "counter", "Packets the decoder refused.",
                 CameraStatus::decodeErrors);
         perCamera(ps, "wayward_camera_reconnects_total", "counter", "Reconnect attempts of the source.",
                 CameraStatus::reconnects);
         perCamera(ps, "wayward_camera_analysis_seconds_total", "counter",
                 "Wall time spent in flow, zone meters and rules.", CameraStatus::analysisSeconds);
-        perCamera(ps, "wayward_camera_stream_seconds", "gauge", "Stream time of the newest analysed picture.",
+        perCamera(ps, "wayward_camera_stream_seconds", "gauge", "Stream time of the newest analysed frame.",
                 CameraStatus::streamSeconds);
         perCamera(ps, "wayward_camera_analysis_fps", "gauge",
-                "Frames analysed per second over the last 30 s (under overload, lower than configured).",
+                "Frames analysed per second over the last 30 s, or since the start during the first 30 s (under "
+                        + "overload, lower than configured).",
                 CameraStatus::analysisFps);
-        perZone(ps, "wayward_zone_coverage", "gauge", "Share of the zone's pixels moving, newest reading (0..1).",
-                CameraStatus::zoneCoverage);
-        perZone(ps, "wayward_zone_against", "gauge",
+        perZone(ps, "wayward_zone_moving_share", "gauge",
+                "Share of the zone's pixels moving, newest reading (0..1).", CameraStatus::zoneCoverage);
+        perZone(ps, "wayward_zone_against_share", "gauge",
                 "Share of the zone's pixels moving against its heading, newest reading (0..1).",
                 CameraStatus::zoneAgainst);
         perZone(ps, "wayward_zone_events_total", "counter", "Events started in the zone.", CameraStatus::zoneEvents);
-        family("wayward_clips_failed_total", "counter", "Evidence clips that could not be written.");
-        sample("wayward_clips_failed_total", (double) ClipWriter.failedClips());
+        family("wayward_evidence_failed_total", "counter",
+                "Evidence files that could not be written, by file: the clip, the snapshot, the JSON sidecar.");
+        sample("wayward_evidence_failed_total", (double) ClipWriter.failedClips(), "file", "clip");
+        sample("wayward_evidence_failed_total", (double) EvidenceWriter.failedSnapshots(), "file", "snapshot");
+        sample("wayward_evidence_failed_total", (double) EvidenceWriter.failedSidecars(), "file", "sidecar");
     }
 
     private interface CourierValue {

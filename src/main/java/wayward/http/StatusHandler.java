@@ -24,12 +24,12 @@ import wayward.secret.LogText;
 
 /**
  * Routes one connection's requests (GET and HEAD only) to their responders; every refusal is a short plain-text
- * 4xx naming the reason. Open to all: {@code /health}, {@code /health/ready} and {@code /view.js} (the live
- * page's script, no site data). With a bearer token set, everything else needs it: {@code /} (the index page),
- * {@code /view/<camera>} (live view page), {@code /live/<camera>.jpg} and {@code /live/<camera>.mjpeg}
- * ({@link LiveStream}), {@code /api/measure} (a drawn zone on the live flow), {@code /metrics},
- * {@code /api/cameras}, {@code /api/events?limit=N} ({@link Views}), {@code /api/clips} and
- * {@code /clips/<path>} ({@link ClipFiles}).
+ * 4xx naming the reason. Open to all: {@code /health}, {@code /health/ready}, {@code /view.js} (the live page's
+ * script, no site data) and {@code /openapi.json} (the description of the JSON answers, no site data). With a
+ * bearer token set, everything else needs it: {@code /} (the camera list), {@code /view/<camera>} (live view
+ * page), {@code /live/<camera>.jpg} and {@code /live/<camera>.mjpeg} ({@link LiveStream}), {@code /api/measure}
+ * (a drawn zone on the live flow), {@code /metrics}, {@code /api/cameras}, {@code /api/events?limit=N}
+ * ({@link Views}), {@code /api/evidence} and {@code /evidence/<path>} ({@link EvidenceFiles}).
  */
 final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
     private static final Logger LOG = LoggerFactory.getLogger(StatusHandler.class);
@@ -42,16 +42,16 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
 
     private final Shared shared;
     private final Views views;
-    private final ClipFiles clips;
+    private final EvidenceFiles evidence;
 
     StatusHandler(Shared shared) {
-        this(shared, new ClipFiles(() -> shared.service().clipsDir()));
+        this(shared, new EvidenceFiles(() -> shared.service().evidenceDir()));
     }
 
-    StatusHandler(Shared shared, ClipFiles clips) {
+    StatusHandler(Shared shared, EvidenceFiles evidence) {
         this.shared = shared;
         this.views = new Views(shared.service());
-        this.clips = clips;
+        this.evidence = evidence;
     }
 
     @Override
@@ -94,6 +94,10 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                 Views.page(ctx, req, "view.js");
                 return;
             }
+            if (path.equals("/openapi.json")) {
+                Views.openapi(ctx, req);
+                return;
+            }
             if (!authorised(req)) {
                 FullHttpResponse r = response(HttpResponseStatus.UNAUTHORIZED,
                         "a bearer token is required (Authorization: Bearer …)\n", "text/plain");
@@ -117,7 +121,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
             case "/metrics" -> views.metrics(ctx, req);
             case "/api/cameras" -> views.cameras(ctx, req);
             case "/api/events" -> views.events(ctx, req, q);
-            case "/api/clips" -> clips.list(ctx, req, q);
+            case "/api/evidence" -> evidence.list(ctx, req, q);
             default -> {
                 if (path.startsWith("/view/")) {
                     views.view(ctx, req, path.substring("/view/".length()));
@@ -125,8 +129,8 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                     views.picture(ctx, req, path.substring(6, path.length() - 4));
                 } else if (path.startsWith("/live/") && path.endsWith(".mjpeg")) {
                     LiveStream.start(ctx, req, views.camera(path.substring(6, path.length() - 6)));
-                } else if (path.startsWith("/clips/")) {
-                    clips.serve(ctx, req, path.substring("/clips/".length()));
+                } else if (path.startsWith("/evidence/")) {
+                    evidence.serve(ctx, req, path.substring("/evidence/".length()));
                 } else {
                     text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page: " + LogText.clean(path) + "\n", false);
                 }

@@ -43,7 +43,10 @@ public final class StatusServer implements AutoCloseable {
         this.channel = channel;
     }
 
-    /** Binds and serves; throws with a plain reason when the address cannot be used. */
+    /**
+     * Binds and serves; when the address cannot be used, throws an IOException whose message is one line naming
+     * the address and the reason, e.g. {@code 127.0.0.1:7431: address already in use}.
+     */
     public static StatusServer start(HttpConfig config, StatusSource service) throws IOException {
         return start(config, service, HttpConfig.HEADER_SECONDS);
     }
@@ -83,13 +86,25 @@ public final class StatusServer implements AutoCloseable {
             Thread.currentThread().interrupt();
             group.shutdownGracefully(0, 1, TimeUnit.SECONDS);
             workers.shutdownGracefully(0, 1, TimeUnit.SECONDS);
-            throw new IOException("interrupted while binding " + config.host() + ":" + config.port());
-        } catch (RuntimeException e) {
+            throw new IOException(config.host() + ":" + config.port() + ": interrupted while binding");
+        } catch (Exception e) {
+            // Netty's sync() rethrows the bind's own exception, a checked java.net.BindException among them
             group.shutdownGracefully(0, 1, TimeUnit.SECONDS);
             workers.shutdownGracefully(0, 1, TimeUnit.SECONDS);
-            throw new IOException("cannot listen on " + config.host() + ":" + config.port() + " (" + e.getMessage()
-                    + "); set [service] http to another address or \"off\"", e);
+            throw new IOException(config.host() + ":" + config.port() + ": " + reason(e), e);
         }
+    }
+
+    /** The plain reason of a failed bind, e.g. "address already in use" (the JDK's text, lower-cased first). */
+    static String reason(Throwable e) {
+        String m = e.getMessage();
+        if (m == null || m.isBlank()) {
+            return e.getClass().getSimpleName();
+        }
+        m = m.strip();
+        int nl = m.indexOf('\n');
+        m = nl < 0 ? m : m.substring(0, nl).strip();
+        return Character.toLowerCase(m.charAt(0)) + m.substring(1);
     }
 
     public int port() {

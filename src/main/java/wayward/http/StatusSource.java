@@ -18,6 +18,13 @@ public interface StatusSource {
 
     RecentEvents recentEvents();
 
-    /** Where evidence clips are kept (may change with a reload). */
-    Path clipsDir();
+    /**
+     * True while the service has not yet started its cameras (the status server is bound first): not ready then.
+     */
+    default boolean starting() {
+        return false;
+    }
+
+    /** The evidence folder: clips, snapshots and their JSON (may change with a reload). */
+    Path evidenceDir();
 }

@@ -45,12 +45,15 @@ final class Views {
         return null;
     }
 
-    /** {@code /health} (always 200 while the process answers) and {@code /health/ready} (503 with a camera down). */
+    /**
+     * {@code /health} (always 200 while the process answers) and {@code /health/ready} (503 while the service is
+     * still starting, a camera is lost or a delivery has stopped).
+     */
     void health(ChannelHandlerContext ctx, FullHttpRequest req, boolean readiness) {
-        List<String> down = new ArrayList<>();
+        List<String> lost = new ArrayList<>();
         for (CameraStatus p : service.cameraStatus()) {
             if (!p.delivering()) {
-                down.add(p.id());
+                lost.add(p.id());
             }
         }
         List<String> stopped = new ArrayList<>();
@@ -59,12 +62,12 @@ final class Views {
                 stopped.add(c.destination().name());
             }
         }
-        boolean ready = down.isEmpty() && stopped.isEmpty();
+        boolean ready = !service.starting() && lost.isEmpty() && stopped.isEmpty();
         String body = EventJson.object(g -> {
             g.writeBooleanField("alive", true);
             g.writeBooleanField("ready", ready);
-            g.writeArrayFieldStart("cameras_down");
-            for (String d : down) {
+            g.writeArrayFieldStart("cameras_lost");
+            for (String d : lost) {
                 g.writeString(d);
             }
             g.writeEndArray();
@@ -92,6 +95,11 @@ final class Views {
         }
     }
 
+    /** A camera's health in the one pair of words used everywhere (events, MQTT, pages): watching or lost. */
+    static String state(CameraStatus p) {
+        return p.delivering() ? "watching" : "lost";
+    }
+
     /** {@code /api/cameras}: each camera's source (masked), counters and zones with their latest readings. */
     void cameras(ChannelHandlerContext ctx, FullHttpRequest req) {
         Replies.json(ctx, req, HttpResponseStatus.OK, EventJson.object(this::writeCameras));
@@ -103,7 +111,7 @@ final class Views {
             g.writeStartObject();
             g.writeStringField("id", p.id());
             g.writeStringField("source", Urls.mask(p.config().source()));
-            g.writeBooleanField("delivering", p.delivering());
+            g.writeStringField("state", state(p));
             g.writeNumberField("frames_in", p.framesIn());
             g.writeNumberField("frames_analysed", p.analysedFrames());
             g.writeNumberField("frames_dropped", p.droppedFrames());
@@ -132,8 +140,8 @@ final class Views {
                         : p.zoneLearning(z) ? "learning" : "learned");
                 g.writeNumberField("onset_level", zc.rule().onsetLevel());
                 g.writeNumberField("release_level", zc.rule().releaseLevel());
-                number(g, "coverage", p.zoneCoverage(z));
-                number(g, "against", p.zoneAgainst(z));
+                number(g, "moving_share", p.zoneCoverage(z));
+                number(g, "against_share", p.zoneAgainst(z));
                 g.writeNumberField("events", p.zoneEvents(z));
                 g.writeEndObject();
             }
@@ -170,6 +178,18 @@ final class Views {
         }
     }
 
+    /** {@code /openapi.json}: the OpenAPI 3.1 description of the JSON answers, from the jar (no site data). */
+    static void openapi(ChannelHandlerContext ctx, FullHttpRequest req) throws IOException {
+        try (java.io.InputStream in = Views.class.getResourceAsStream("/openapi.json")) {
+            if (in == null) {
+                text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page\n", false);
+                return;
+            }
+            send(ctx, req, response(HttpResponseStatus.OK, new String(in.readAllBytes(), StandardCharsets.UTF_8),
+                    Replies.JSON));
+        }
+    }
+
     /** {@code /view/<camera>}: the live view page of a camera that exists. */
     void view(ChannelHandlerContext ctx, FullHttpRequest req, String id) throws IOException {
         if (camera(id) == null) {
@@ -203,7 +223,7 @@ final class Views {
         send(ctx, req, r);
     }
 
-    /** {@code /api/measure}: coverage and against share of a drawn zone on the camera's latest flow. */
+    /** {@code /api/measure}: moving and against share of a drawn zone on the camera's latest flow. */
     void measure(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q) {
         CameraStatus p = camera(Replies.first(q, "camera", ""));
         if (p == null) {
@@ -221,8 +241,8 @@ final class Views {
         wayward.zone.ZoneReading r = p.live().measure(m.xs(), m.ys(), m.headingDeg(), m.toleranceDeg(), ZoneConfig.DEFAULT_MIN_SPEED,
                 ZoneConfig.DEFAULT_MIN_CONFIDENCE, p.config().removeCameraMotion());
         String body = EventJson.object(g -> {
-            number(g, "coverage", r == null ? Double.NaN : r.coverage);
-            number(g, "against", r == null ? Double.NaN : r.against);
+            number(g, "moving_share", r == null ? Double.NaN : r.coverage);
+            number(g, "against_share", r == null ? Double.NaN : r.against);
         });
         Replies.json(ctx, req, HttpResponseStatus.OK, body);
     }

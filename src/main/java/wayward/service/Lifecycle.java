@@ -14,7 +14,8 @@ import wayward.secret.LogText;
 /**
  * Runs a service until its cameras end or a signal stops it: a shutdown hook for SIGTERM and Ctrl-C, SIGHUP to
  * read the config again (a bad file is refused and the running config stays), systemd's notify protocol, and
- * the status server's lifetime (started after the cameras, closed last, so health and metrics answer while the
+ * the status server's lifetime (bound before anything else starts, so that an address in use fails the start
+ * before a camera, the event log or the outbox is touched; closed last, so health and metrics answer while the
  * rest shuts down).
  */
 public final class Lifecycle {
@@ -26,6 +27,15 @@ public final class Lifecycle {
         AutoCloseable start(HttpConfig config, Service service) throws IOException;
     }
 
+    /** The service could not start; the message is one line for the operator (the cli prints it and exits). */
+    public static final class StartFailed extends Exception {
+        private static final long serialVersionUID = 1L;
+
+        StartFailed(String message, Throwable cause) {
+            super(message, cause);
+        }
+    }
+
     private Lifecycle() {
     }
 
@@ -33,6 +43,8 @@ public final class Lifecycle {
      * Starts the service and returns when it has ended and stopped.
      *
      * @param reloadFrom the config file SIGHUP reads again; null: no reload
+     * @throws StartFailed the status server cannot listen on its address (unless {@code http = "off"}): nothing
+     *                     has started
      */
     public static void serve(Service s, Path reloadFrom, StatusServerStarter statusServer) throws Exception {
         AutoCloseable[] server = new AutoCloseable[1];
@@ -54,17 +66,25 @@ public final class Lifecycle {
                 }
             }
         };
-        Thread hook = new Thread(stopAll, "shutdown");
-        Runtime.getRuntime().addShutdownHook(hook);
-        s.start();
         if (s.config().http() != null) {
             try {
                 synchronized (server) {
                     server[0] = statusServer.start(s.config().http(), s);
                 }
             } catch (IOException e) {
-                LOG.error("status server: {}", e.getMessage());
+                // a site relies on health and metrics: running on without them would hide every later problem
+                throw new StartFailed("status server: " + e.getMessage()
+                        + " (set [service] http to another address, or to \"off\")", e);
             }
+        }
+        Thread hook = new Thread(stopAll, "shutdown");
+        Runtime.getRuntime().addShutdownHook(hook);
+        try {
+            s.start();
+        } catch (IOException | RuntimeException e) {
+            stopAll.run();
+            Runtime.getRuntime().removeShutdownHook(hook);
+            throw e;
         }
         notify[0] = SystemdNotify.fromEnvironment(s);
         if (reloadFrom != null) {

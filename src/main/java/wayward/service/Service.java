@@ -70,6 +70,8 @@ public final class Service implements StatusSource {
     private wayward.clip.EvidenceWriter evidenceWriter;
     private java.util.concurrent.ScheduledExecutorService retention;
     private volatile boolean stopped;
+    /** Set once {@link #start} has started every camera; the status server, bound before, reads it. */
+    private volatile boolean started;
 
     /** Before {@link #start}: every camera measures the CPU time of its stages from that stream time on (bench). */
     public void measureStages(double fromSeconds) {
@@ -88,7 +90,7 @@ public final class Service implements StatusSource {
     /** Retention sweep of the evidence folder (the retention thread). */
     private void sweep() {
         try {
-            wayward.clip.Retention.sweep(config.dataDir().resolve("clips"),
+            wayward.clip.Retention.sweep(evidenceDir(),
                     java.time.Duration.ofMinutes((long) (config.clips().keepDays() * 24 * 60)),
                     (long) (config.clips().keepGigabytes() * 1e9), java.time.Instant.now());
         } catch (IOException | RuntimeException e) {
@@ -120,6 +122,8 @@ public final class Service implements StatusSource {
                         config.shard().instances(), cameras.size(), config.cameras().size(), ids);
             }
             leftOpen = EventLog.leftOpen(config.dataDir().resolve("events.jsonl"));
+            // a data folder of an older version keeps its evidence in clips/: move it before retention looks
+            wayward.clip.EvidenceFolder.upgrade(config.dataDir());
             EventLog log = new EventLog(config.dataDir());
             bus.add(log, QUEUE_CAPACITY);
             LOG.info("events are written to {}", log.file());
@@ -160,7 +164,7 @@ public final class Service implements StatusSource {
             evidenceWriter = new wayward.clip.EvidenceWriter();
             evidence = new CameraPipeline.Evidence(config.dataDir(), config.clips(), evidenceWriter);
             LOG.info("evidence clips and snapshots go to {} (kept {} days, at most {} GB)",
-                    config.dataDir().resolve("clips"), config.clips().keepDays(), config.clips().keepGigabytes());
+                    evidenceDir(), config.clips().keepDays(), config.clips().keepGigabytes());
             retention = java.util.concurrent.Executors.newSingleThreadScheduledExecutor(r -> {
                 Thread t = new Thread(r, "retention");
                 t.setDaemon(true);
@@ -179,6 +183,7 @@ public final class Service implements StatusSource {
         Thread watcher = new Thread(this::watch, "service-watch");
         watcher.setDaemon(true);
         watcher.start();
+        started = true;
     }
 
     private CameraPipeline pipeline(CameraConfig c, wayward.flow.FlowConfig flow) {
@@ -348,8 +353,13 @@ public final class Service implements StatusSource {
     }
 
     @Override
-    public java.nio.file.Path clipsDir() {
-        return config().dataDir().resolve("clips");
+    public boolean starting() {
+        return !started;
+    }
+
+    @Override
+    public java.nio.file.Path evidenceDir() {
+        return wayward.clip.EvidenceFolder.of(config().dataDir());
     }
 
     /** Orderly shutdown, each step time-limited. Idempotent; any thread. */

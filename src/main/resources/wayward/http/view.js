@@ -1,5 +1,5 @@
 // The live view: the camera's analysis picture, a zone drawn with the mouse, its heading, a live chart of
-// its coverage and against share, and the TOML snippet for it. Plain script, no build step.
+// its moving share and against share, and the TOML snippet for it. Plain script, no build step.
 "use strict";
 const camera = decodeURIComponent(location.pathname.split("/")[2] || "");
 const token = new URLSearchParams(location.search).get("access_token");
@@ -163,14 +163,14 @@ function render() {
 requestAnimationFrame(render);
 
 async function poll() {
-  const sample = { coverage: null, against: null, other: null, onset: null };
+  const sample = { moving_share: null, against_share: null, other: null, onset: null };
   try {
     if (closed) {
       const poly = points.map(p => p[0].toFixed(4) + "," + p[1].toFixed(4)).join(";");
       const url = "/api/measure?camera=" + encodeURIComponent(camera) + "&polygon=" + encodeURIComponent(poly)
         + (heading !== null ? "&heading=" + heading : "");
       const m = await (await fetch(withAuth(url))).json();
-      sample.coverage = m.coverage; sample.against = m.against;
+      sample.moving_share = m.moving_share; sample.against_share = m.against_share;
     }
     const cams = await (await fetch(withAuth("/api/cameras"))).json();
     const cam = cams.cameras.find(c => c.id === camera);
@@ -182,7 +182,7 @@ async function poll() {
         }
       }
       const z = cam.zones.find(z => z.id === existing.value);
-      if (z) { sample.other = z.against; sample.onset = z.onset_level; }
+      if (z) { sample.other = z.against_share; sample.onset = z.onset_level; }
     }
   } catch (e) {
     // the service restarts or the network hiccups: keep polling
@@ -198,7 +198,7 @@ function plot() {
   g.clearRect(0, 0, w, h);
   g.strokeStyle = "#ccc"; g.lineWidth = 1; g.strokeRect(0.5, 0.5, w - 1, h - 1);
   let top = 0.05;
-  for (const s of series) for (const k of ["coverage", "against", "other", "onset"]) if (s[k] > top) top = s[k];
+  for (const s of series) for (const k of ["moving_share", "against_share", "other", "onset"]) if (s[k] > top) top = s[k];
   top *= 1.1;
   g.fillStyle = "#666"; g.font = "11px sans-serif"; g.fillText(top.toFixed(3), 4, 12); g.fillText("0", 4, h - 4);
   const line = (key, colour, dash) => {
@@ -211,8 +211,8 @@ function plot() {
     });
     g.stroke(); g.setLineDash([]);
   };
-  line("coverage", "#2a6fd6", []);
-  line("against", "#d62a2a", []);
+  line("moving_share", "#2a6fd6", []);
+  line("against_share", "#d62a2a", []);
   line("other", "#888", []);
   line("onset", "#888", [4, 4]);
 }

@@ -48,6 +48,9 @@ class ArchiveIT {
             }
         }
         assertTrue(named >= 2, "jar and logging config named: " + named);
+        // the status server's description ships beside the README that links it
+        assertTrue(Files.readString(home.resolve("doc/openapi.json")).contains("\"openapi\": \"3.1.0\""),
+                "doc/openapi.json in the archive");
         // systemd-analyze verify (Debian's systemd) on the unit as shipped
         Process v = new ProcessBuilder("systemd-analyze", "verify", home.resolve("systemd/wayward.service").toString())
                 .redirectErrorStream(true).start();

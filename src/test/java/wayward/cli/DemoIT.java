@@ -19,8 +19,10 @@ class DemoIT {
     @Timeout(value = 180, unit = TimeUnit.SECONDS)
     void demoPrintsOneWrongWayEventForTheTruckAndWritesTheEventLog() throws Exception {
         Path dir = ProcessRunner.projectDir();
+        // WAYWARD_HTTP: a free port instead of the default 7431, which another run on the same machine may hold
+        // (a status server that cannot bind fails the start)
         ProcessRunner.Result r = ProcessRunner.run(List.of("java", "-jar", ProcessRunner.jar().toString(),
-                "demo", "--loops", "1"), dir, 150);
+                "demo", "--loops", "1"), dir, 150, Map.of("WAYWARD_HTTP", "127.0.0.1:0"));
         assertEquals(0, r.exitCode(), r.stderr());
         List<String> lines = r.stdout().lines().filter(l -> !l.isBlank()).toList();
         assertEquals(2, lines.size(), "one start and one end:\n" + r.stdout());

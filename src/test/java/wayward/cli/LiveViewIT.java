@@ -158,6 +158,10 @@ class LiveViewIT {
             assertTrue(ws.find(), list + Files.readString(dir.resolve("chromium.log")));
             Cdp cdp = Cdp.connect(ws.group(1));
             cdp.call("Page.enable", "{}");
+            // the camera list: one camera with one zone, in the singular, and no "lost" for a camera that is watching
+            cdp.call("Page.navigate", "{\"url\":\"http://127.0.0.1:" + port + "/?access_token=" + TOKEN + "\"}");
+            await(cdp, "(document.getElementById('cameras') || {textContent: ''}).textContent.replace(/\\u2014/g, '-')",
+                    Pattern.compile("yard-mast-2 - 1 zone"), 30);
             cdp.call("Page.navigate", "{\"url\":\"http://127.0.0.1:" + port + "/view/yard-mast-2?access_token=" + TOKEN + "\"}");
             // the live picture arrived (the MJPEG stream's first frame gives the image its size)
             await(cdp, "(document.getElementById('picture') || {naturalWidth: 0}).naturalWidth", Pattern.compile("[1-9]\\d*"), 60);
@@ -199,7 +203,7 @@ class LiveViewIT {
                     "polygon = [[0.20, 0.90], [0.80, 0.90], [0.60, 0.20], [0.40, 0.20]]", "heading_deg = 45", ""),
                     snippet);
             // the chart gets measurements of the drawn zone from /api/measure
-            await(cdp, "series.filter(s => s.coverage !== null).length >= 3", Pattern.compile("true"), 20);
+            await(cdp, "series.filter(s => s.moving_share !== null).length >= 3", Pattern.compile("true"), 20);
 
             // a configured zone, moved: its first corner dragged from (0.31, 0.98) to (0.25, 0.95)
             await(cdp, "document.getElementById('existing').options.length", Pattern.compile("2"), 20);

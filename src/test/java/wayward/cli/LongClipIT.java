@@ -25,7 +25,7 @@ class LongClipIT {
                 "--config", config.toString()), dir, 150);
         assertEquals(0, r.exitCode(), r.stderr());
         List<Path> parts;
-        try (Stream<Path> s = Files.list(dir.resolve("data/clips/yard-mast-2"))) {
+        try (Stream<Path> s = Files.list(dir.resolve("data/evidence/yard-mast-2"))) {
             parts = s.filter(p -> p.toString().endsWith(".mp4")).sorted().toList();
         }
         // the uncut clip runs from the keyframe at or before start − 3 s pre-roll (keyframes every 2 s in the demo

@@ -24,10 +24,18 @@ final class ProcessRunner {
     }
 
     static Result run(List<String> command, Path workDir, long timeoutSeconds) throws IOException, InterruptedException {
+        return run(command, workDir, timeoutSeconds, java.util.Map.of());
+    }
+
+    /** As {@link #run(List, Path, long)} with these variables added to the environment. */
+    static Result run(List<String> command, Path workDir, long timeoutSeconds, java.util.Map<String, String> env)
+            throws IOException, InterruptedException {
         Path out = Files.createTempFile("wayward-out", ".txt");
         Path err = Files.createTempFile("wayward-err", ".txt");
-        Process p = new ProcessBuilder(command).directory(workDir.toFile())
-                .redirectOutput(out.toFile()).redirectError(err.toFile()).start();
+        ProcessBuilder pb = new ProcessBuilder(command).directory(workDir.toFile())
+                .redirectOutput(out.toFile()).redirectError(err.toFile());
+        pb.environment().putAll(env);
+        Process p = pb.start();
         if (!p.waitFor(timeoutSeconds, TimeUnit.SECONDS)) {
             p.destroyForcibly();
             throw new AssertionError(command + " did not finish within " + timeoutSeconds + " s; stderr:\n"

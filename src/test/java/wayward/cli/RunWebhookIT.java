@@ -73,7 +73,16 @@ class RunWebhookIT {
         }
         assertTrue(legend > 200, "the colour wheel in the caption band: " + legend + " coloured samples");
         Path sidecar = data.resolve(((String) end.get("clip")).replace(".mp4", ".json"));
-        assertEquals(log, Files.readAllLines(sidecar, StandardCharsets.UTF_8), "the sidecar holds the event record");
+        // one JSON document (RFC 8259 text, read whole by Jackson with trailing content refused) holding both
+        // records as the event log has them
+        com.fasterxml.jackson.databind.ObjectMapper json = new com.fasterxml.jackson.databind.ObjectMapper()
+                .enable(com.fasterxml.jackson.databind.DeserializationFeature.FAIL_ON_TRAILING_TOKENS);
+        com.fasterxml.jackson.databind.JsonNode doc = json.readTree(Files.readString(sidecar, StandardCharsets.UTF_8));
+        List<String> names = new java.util.ArrayList<>();
+        doc.fieldNames().forEachRemaining(names::add);
+        assertEquals(List.of("start", "end"), names);
+        assertEquals(json.readTree(log.get(0)), doc.get("start"), "the sidecar holds the start record");
+        assertEquals(json.readTree(log.get(1)), doc.get("end"), "the sidecar holds the end record");
     }
 
     @Test

@@ -97,6 +97,13 @@ class StatusServerIT {
             String body = text(metrics);
             assertTrue(body.contains("wayward_zone_events_total{camera=\"yard-mast-2\",zone=\"lane-2-out\"} 1\n"), body);
             assertTrue(body.contains("wayward_camera_frames_analysed_total{camera=\"yard-mast-2\"} "), body);
+            // the shared vocabulary: watching / lost, moving and against share, evidence; frames, not pictures
+            assertTrue(body.contains("wayward_camera_watching{camera=\"yard-mast-2\"} 1\n"), body);
+            assertTrue(body.contains("wayward_zone_moving_share{camera=\"yard-mast-2\",zone=\"lane-2-out\"} "), body);
+            assertTrue(body.contains("wayward_zone_against_share{camera=\"yard-mast-2\",zone=\"lane-2-out\"} "), body);
+            assertTrue(body.contains("wayward_evidence_failed_total{file=\"clip\"} 0\n"), body);
+            assertTrue(!body.contains("wayward_camera_analysis_fps{camera=\"yard-mast-2\"} NaN"), body);
+            assertTrue(!body.contains("Pictures") && !body.contains("pictures"), body);
 
             String cameras = text(get(port, "/api/cameras", TOKEN));
             assertTrue(cameras.startsWith("{\"cameras\":[{\"id\":\"yard-mast-2\""), cameras);
@@ -109,8 +116,8 @@ class StatusServerIT {
             String clip = null;
             long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(30);
             while (clip == null && System.nanoTime() < deadline) {
-                String list = text(get(port, "/api/clips", TOKEN));
-                java.util.regex.Matcher found = java.util.regex.Pattern.compile("\"url\":\"(/clips/[^\"]+\\.mp4)\"")
+                String list = text(get(port, "/api/evidence", TOKEN));
+                java.util.regex.Matcher found = java.util.regex.Pattern.compile("\"url\":\"(/evidence/[^\"]+\\.mp4)\"")
                         .matcher(list);
                 if (found.find()) {
                     clip = found.group(1);
@@ -130,9 +137,9 @@ class StatusServerIT {
             assertArrayEquals(Arrays.copyOfRange(whole, whole.length - 10, whole.length), tail.body());
             assertEquals(416, get(port, clip, TOKEN, "Range", "bytes=" + whole.length + "-").statusCode());
 
-            // nothing outside the clips folder, however the path is spelled
-            for (String attempt : new String[] {"/clips/../site.toml", "/clips/%2e%2e/%2e%2e/secret.txt",
-                    "/clips/..%2f..%2fsecret.txt", "/clips/%2fetc%2fpasswd", "/clips/x%00.mp4", "/site.toml"}) {
+            // nothing outside the evidence folder, however the path is spelled
+            for (String attempt : new String[] {"/evidence/../site.toml", "/evidence/%2e%2e/%2e%2e/secret.txt",
+                    "/evidence/..%2f..%2fsecret.txt", "/evidence/%2fetc%2fpasswd", "/evidence/x%00.mp4", "/site.toml"}) {
                 String status = raw(port, "GET " + attempt + " HTTP/1.1\r\nHost: x\r\nAuthorization: Bearer "
                         + TOKEN + "\r\nConnection: close\r\n\r\n");
                 assertTrue(status.startsWith("HTTP/1.1 404") || status.startsWith("HTTP/1.1 400"),

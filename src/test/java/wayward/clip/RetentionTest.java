@@ -27,11 +27,11 @@ class RetentionTest {
     }
 
     @Test
-    void deletesEventsOlderThanTheAgeLimitWithAllTheirFiles(@TempDir Path clips) throws Exception {
-        Path cam = clips.resolve("gate");
+    void deletesEventsOlderThanTheAgeLimitWithAllTheirFiles(@TempDir Path evidence) throws Exception {
+        Path cam = evidence.resolve("gate");
         event(cam, "old", 1000, 40);
         event(cam, "recent", 1000, 2);
-        Retention.Result r = Retention.sweep(clips, Duration.ofDays(30), Long.MAX_VALUE, NOW);
+        Retention.Result r = Retention.sweep(evidence, Duration.ofDays(30), Long.MAX_VALUE, NOW);
         assertEquals(1, r.eventsDeleted());
         assertEquals(1000, r.bytesDeleted());
         assertFalse(Files.exists(cam.resolve("old.mp4")));
@@ -40,27 +40,27 @@ class RetentionTest {
     }
 
     @Test
-    void keepsTheFolderWithinTheSizeOldestFirst(@TempDir Path clips) throws Exception {
-        event(clips.resolve("a"), "e1", 1000, 5);
-        event(clips.resolve("b"), "e2", 1000, 4);
-        event(clips.resolve("a"), "e3", 1000, 3);
-        event(clips.resolve("b"), "e4", 1000, 1);
-        Retention.Result r = Retention.sweep(clips, Duration.ofDays(30), 2500, NOW);
+    void keepsTheFolderWithinTheSizeOldestFirst(@TempDir Path evidence) throws Exception {
+        event(evidence.resolve("a"), "e1", 1000, 5);
+        event(evidence.resolve("b"), "e2", 1000, 4);
+        event(evidence.resolve("a"), "e3", 1000, 3);
+        event(evidence.resolve("b"), "e4", 1000, 1);
+        Retention.Result r = Retention.sweep(evidence, Duration.ofDays(30), 2500, NOW);
         assertEquals(2, r.eventsDeleted(), "4000 bytes down to at most 2500: the two oldest go");
         assertEquals(2000, r.bytesKept());
-        assertFalse(Files.exists(clips.resolve("a/e1.mp4")));
-        assertFalse(Files.exists(clips.resolve("b/e2.mp4")));
-        assertTrue(Files.exists(clips.resolve("a/e3.mp4")));
-        assertTrue(Files.exists(clips.resolve("b/e4.mp4")));
+        assertFalse(Files.exists(evidence.resolve("a/e1.mp4")));
+        assertFalse(Files.exists(evidence.resolve("b/e2.mp4")));
+        assertTrue(Files.exists(evidence.resolve("a/e3.mp4")));
+        assertTrue(Files.exists(evidence.resolve("b/e4.mp4")));
     }
 
     @Test
-    void leavesFilesBeingWrittenAlone(@TempDir Path clips) throws Exception {
-        Files.createDirectories(clips.resolve("gate"));
-        Path part = clips.resolve("gate/x.mp4.part");
+    void leavesFilesBeingWrittenAlone(@TempDir Path evidence) throws Exception {
+        Files.createDirectories(evidence.resolve("gate"));
+        Path part = evidence.resolve("gate/x.mp4.part");
         Files.write(part, new byte[5000]);
         Files.setLastModifiedTime(part, FileTime.from(NOW.minus(Duration.ofDays(90))));
-        Retention.sweep(clips, Duration.ofDays(30), 10, NOW);
+        Retention.sweep(evidence, Duration.ofDays(30), 10, NOW);
         assertTrue(Files.exists(part));
     }
 }

@@ -55,7 +55,7 @@ class ConfigLoaderTest {
         "mqtt-url-not-mqtt.toml | 11:1: mqtt.url: \"http://broker.yard.example:1883\" (expected mqtt://host[:port] or mqtts://host[:port] (user name and password go in username and password_file))",
         "mqtt-client-id-too-long.toml | 12:1: mqtt.client_id: \"wayward-north-yard-gate-house-1\" (expected 1 to 23 letters, digits or '-' (what every MQTT 3.1.1 broker accepts))",
         "webhook-own-header.toml | 12:1: webhook[0].headers: \"Content-Type\" (expected a header wayward does not set itself)",
-        "http-open-without-token.toml | 2:1: service.http: \"0.0.0.0:8786\" (expected a loopback address such as 127.0.0.1:8786, or token_file set as well (anything but /health needs the token when the server is reachable from elsewhere))",
+        "http-open-without-token.toml | 2:1: service.http: \"0.0.0.0:7431\" (expected a loopback address such as 127.0.0.1:7431, or token_file set as well (anything but /health needs the token when the server is reachable from elsewhere))",
         "learn-with-heading.toml | 9:3: camera[0].zone[0].learn_heading_seconds: 60 (expected no learning when heading_deg is set (leave out one of them))",
         "webhook-ca-without-https.toml | 12:1: webhook[0].ca_file: \"yard-ca.pem\" (expected only with an https:// or mqtts:// url)",
     })
@@ -179,7 +179,7 @@ class ConfigLoaderTest {
         assertEquals("yard/north", c.mqtt().topicPrefix());
         assertEquals("wayward-north-1", c.mqtt().clientId());
         assertEquals(256L << 20, c.outboxMaxBytes());
-        assertEquals(8786, c.http().port());
+        assertEquals(7431, c.http().port());
         assertEquals(Path.of("/var/lib/wayward"), c.dataDir());
     }
 
@@ -225,13 +225,13 @@ class ConfigLoaderTest {
         assertEquals(null, ConfigLoader.load(f, new Environment(null, null, "off")).http());
         // reachable from elsewhere without a token: refused, as it is when the file says so
         ConfigException e = assertThrows(ConfigException.class,
-                () -> ConfigLoader.load(f, new Environment(null, null, "0.0.0.0:8786")));
+                () -> ConfigLoader.load(f, new Environment(null, null, "0.0.0.0:7431")));
         assertEquals(1, e.errors().size(), e.errors().toString());
-        assertTrue(e.errors().get(0).startsWith(f + ":1:1: environment WAYWARD_HTTP: \"0.0.0.0:8786\" (expected a "
+        assertTrue(e.errors().get(0).startsWith(f + ":1:1: environment WAYWARD_HTTP: \"0.0.0.0:7431\" (expected a "
                 + "loopback address"), e.errors().get(0));
         Files.writeString(dir.resolve("token"), "yard-token\n");
         Files.writeString(f, "[service]\ntoken_file = \"token\"\n" + Files.readString(f));
-        assertEquals("0.0.0.0", ConfigLoader.load(f, new Environment(null, null, "0.0.0.0:8786")).http().host());
+        assertEquals("0.0.0.0", ConfigLoader.load(f, new Environment(null, null, "0.0.0.0:7431")).http().host());
     }
 
     @Test

@@ -36,7 +36,7 @@ final class EmptySite implements StatusSource {
     }
 
     @Override
-    public Path clipsDir() {
-        return Path.of("no-clips");
+    public Path evidenceDir() {
+        return Path.of("no-evidence");
     }
 }

@@ -25,7 +25,7 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
 /**
- * The router and the clip responder on an in-memory channel (Netty's EmbeddedChannel): no service behind it, so
+ * The router and the evidence responder on an in-memory channel (Netty's EmbeddedChannel): no service behind it, so
  * only routes that need none are asked. Status codes and headers as RFC 9110 and RFC 6750 give them.
  */
 class StatusHandlerTest {
@@ -34,11 +34,11 @@ class StatusHandlerTest {
     @TempDir
     Path root;
 
-    private Path clips;
+    private Path evidence;
 
     private EmbeddedChannel channel(byte[] token) throws IOException {
-        clips = Files.createDirectories(root.resolve("clips"));
-        return new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(null, token), new ClipFiles(() -> clips)));
+        evidence = Files.createDirectories(root.resolve("evidence"));
+        return new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(null, token), new EvidenceFiles(() -> evidence)));
     }
 
     private static FullHttpRequest get(String uri) {
@@ -72,18 +72,21 @@ class StatusHandlerTest {
     @Test
     void aTokenIsNeededBeyondHealthAndTheScriptAsHeaderOrQueryParameter() throws IOException {
         EmbeddedChannel ch = channel(TOKEN);
-        FullHttpResponse r = answer(ch, get("/api/clips"));
+        FullHttpResponse r = answer(ch, get("/api/evidence"));
         assertEquals(401, r.status().code());
         assertEquals("Bearer realm=\"wayward\"", r.headers().get(HttpHeaderNames.WWW_AUTHENTICATE)); // RFC 6750 §3
         r = answer(ch, get("/view.js"));
         assertEquals(200, r.status().code());
         assertTrue(r.headers().get(HttpHeaderNames.CONTENT_TYPE).startsWith("text/javascript"));
-        FullHttpRequest withHeader = get("/api/clips");
+        r = answer(ch, get("/openapi.json")); // the description holds no site data
+        assertEquals(200, r.status().code());
+        assertTrue(r.headers().get(HttpHeaderNames.CONTENT_TYPE).startsWith("application/json"));
+        FullHttpRequest withHeader = get("/api/evidence");
         withHeader.headers().set(HttpHeaderNames.AUTHORIZATION, "Bearer yard-token");
         assertEquals(200, answer(ch, withHeader).status().code());
-        assertEquals(200, answer(ch, get("/api/clips?access_token=yard-token")).status().code()); // RFC 6750 §2.3
-        assertEquals(401, answer(ch, get("/api/clips?access_token=yard-tokem")).status().code());
-        FullHttpRequest wrong = get("/api/clips");
+        assertEquals(200, answer(ch, get("/api/evidence?access_token=yard-token")).status().code()); // RFC 6750 §2.3
+        assertEquals(401, answer(ch, get("/api/evidence?access_token=yard-tokem")).status().code());
+        FullHttpRequest wrong = get("/api/evidence");
         wrong.headers().set(HttpHeaderNames.AUTHORIZATION, "Basic eWFyZC10b2tlbg==");
         assertEquals(401, answer(ch, wrong).status().code());
     }
@@ -103,22 +106,22 @@ class StatusHandlerTest {
     }
 
     @Test
-    void clipsAreServedWholeOrByOneRangeAndNothingOutsideTheirFolder() throws IOException {
+    void evidenceFilesAreServedWholeOrByOneRangeAndNothingOutsideTheirFolder() throws IOException {
         EmbeddedChannel ch = channel(null);
         byte[] data = new byte[1000];
         for (int i = 0; i < data.length; i++) {
             data[i] = (byte) i;
         }
-        Files.createDirectories(clips.resolve("dock"));
-        Files.write(clips.resolve("dock/e1.mp4"), data);
-        Files.writeString(clips.getParent().resolve("secret.json"), "{}");
-        Files.writeString(clips.resolve("notes.txt"), "not evidence");
+        Files.createDirectories(evidence.resolve("dock"));
+        Files.write(evidence.resolve("dock/e1.mp4"), data);
+        Files.writeString(evidence.getParent().resolve("secret.json"), "{}");
+        Files.writeString(evidence.resolve("notes.txt"), "not evidence");
 
-        FullHttpResponse list = answer(ch, get("/api/clips"));
-        assertTrue(body(list).contains("\"url\":\"/clips/dock/e1.mp4\",\"bytes\":1000"), body(list));
+        FullHttpResponse list = answer(ch, get("/api/evidence"));
+        assertTrue(body(list).contains("\"url\":\"/evidence/dock/e1.mp4\",\"bytes\":1000"), body(list));
         assertFalse(body(list).contains("notes.txt"), body(list));
 
-        FullHttpRequest ranged = get("/clips/dock/e1.mp4");
+        FullHttpRequest ranged = get("/evidence/dock/e1.mp4");
         ranged.headers().set(HttpHeaderNames.RANGE, "bytes=100-103");
         ch.writeInbound(ranged);
         HttpResponse head = ch.readOutbound();
@@ -134,26 +137,26 @@ class StatusHandlerTest {
         HttpContent last = ch.readOutbound();
         last.release();
 
-        FullHttpRequest unsatisfiable = get("/clips/dock/e1.mp4");
+        FullHttpRequest unsatisfiable = get("/evidence/dock/e1.mp4");
         unsatisfiable.headers().set(HttpHeaderNames.RANGE, "bytes=2000-");
         FullHttpResponse r = answer(ch, unsatisfiable);
         assertEquals(416, r.status().code());
         assertEquals("bytes */1000", r.headers().get(HttpHeaderNames.CONTENT_RANGE));
 
-        for (String outside : new String[] {"/clips/../secret.json", "/clips/%2e%2e/secret.json",
-                "/clips/notes.txt", "/clips/dock/missing.mp4", "/clips/%2Fetc%2Fpasswd"}) {
+        for (String outside : new String[] {"/evidence/../secret.json", "/evidence/%2e%2e/secret.json",
+                "/evidence/notes.txt", "/evidence/dock/missing.mp4", "/evidence/%2Fetc%2Fpasswd"}) {
             assertEquals(404, answer(ch, get(outside)).status().code(), outside);
         }
-        assertEquals(400, answer(ch, get("/clips/%zz.mp4")).status().code());
+        assertEquals(400, answer(ch, get("/evidence/%zz.mp4")).status().code());
     }
 
     @Test
     void aSymbolicLinkOutOfTheFolderIsNotFollowed() throws IOException {
         EmbeddedChannel ch = channel(null);
-        Path outside = clips.getParent().resolve("elsewhere.mp4");
+        Path outside = evidence.getParent().resolve("elsewhere.mp4");
         Files.write(outside, new byte[] {1, 2, 3});
-        Files.createSymbolicLink(clips.resolve("link.mp4"), outside);
-        assertEquals(404, answer(ch, get("/clips/link.mp4")).status().code());
+        Files.createSymbolicLink(evidence.resolve("link.mp4"), outside);
+        assertEquals(404, answer(ch, get("/evidence/link.mp4")).status().code());
     }
 
     @Test
@@ -163,7 +166,7 @@ class StatusHandlerTest {
             // RFC 3986 §2.1: "%" must be followed by two hex digits; RFC 9110 §15.5.1: 400 for a malformed request
             FullHttpResponse r = answer(ch, get("/api/events?access_token=yard-token&limit=%zz"));
             assertEquals(400, r.status().code());
-            assertEquals(400, answer(ch, get("/clips/lane%2?access_token=yard-token")).status().code());
+            assertEquals(400, answer(ch, get("/evidence/lane%2?access_token=yard-token")).status().code());
             assertEquals(400, answer(ch, get("/api/measure%?access_token=yard-token")).status().code());
             assertTrue(log.lines().stream().noneMatch(l -> l.startsWith("ERROR") || l.contains("yard-token")),
                     String.valueOf(log.lines()));
@@ -171,19 +174,19 @@ class StatusHandlerTest {
     }
 
     @Test
-    void theClipListComesInPagesWithItsTotal() throws IOException {
+    void theEvidenceListComesInPagesWithItsTotal() throws IOException {
         EmbeddedChannel ch = channel(null);
         for (int i = 0; i < 250; i++) {
-            Files.writeString(clips.resolve(String.format(java.util.Locale.ROOT, "c%03d.json", i)), "{}");
+            Files.writeString(evidence.resolve(String.format(java.util.Locale.ROOT, "c%03d.json", i)), "{}");
         }
-        String first = body(answer(ch, get("/api/clips")));
-        assertTrue(first.startsWith("{\"total\":250,\"offset\":0,\"clips\":[{\"path\":\"clips/c000.json\""), first);
-        assertEquals(ClipFiles.DEFAULT_PAGE, first.split("\"path\"").length - 1);
-        String last = body(answer(ch, get("/api/clips?offset=240&limit=50")));
+        String first = body(answer(ch, get("/api/evidence")));
+        assertTrue(first.startsWith("{\"total\":250,\"offset\":0,\"files\":[{\"path\":\"evidence/c000.json\""), first);
+        assertEquals(EvidenceFiles.DEFAULT_PAGE, first.split("\"path\"").length - 1);
+        String last = body(answer(ch, get("/api/evidence?offset=240&limit=50")));
         assertEquals(10, last.split("\"path\"").length - 1);
-        assertTrue(last.contains("clips/c249.json") && !last.contains("clips/c239.json"), last);
-        assertEquals(400, answer(ch, get("/api/clips?limit=0")).status().code());
-        assertEquals(400, answer(ch, get("/api/clips?offset=-1")).status().code());
-        assertEquals("{\"total\":250,\"offset\":999,\"clips\":[]}", body(answer(ch, get("/api/clips?offset=999"))).strip());
+        assertTrue(last.contains("evidence/c249.json") && !last.contains("evidence/c239.json"), last);
+        assertEquals(400, answer(ch, get("/api/evidence?limit=0")).status().code());
+        assertEquals(400, answer(ch, get("/api/evidence?offset=-1")).status().code());
+        assertEquals("{\"total\":250,\"offset\":999,\"files\":[]}", body(answer(ch, get("/api/evidence?offset=999"))).strip());
     }
 }

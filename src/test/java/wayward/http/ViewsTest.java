@@ -22,8 +22,12 @@ class ViewsTest {
     private final StatusSource site = new EmptySite(recent);
 
     private FullHttpResponse get(String uri) {
+        return get(site, uri);
+    }
+
+    private static FullHttpResponse get(StatusSource site, String uri) {
         EmbeddedChannel ch = new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(site, null),
-                new ClipFiles(site::clipsDir)));
+                new EvidenceFiles(site::evidenceDir)));
         ch.writeInbound(new DefaultFullHttpRequest(HttpVersion.HTTP_1_1, HttpMethod.GET, uri));
         return ch.readOutbound();
     }
@@ -36,7 +40,47 @@ class ViewsTest {
     void healthSaysReadyWithNothingDownOrStopped() {
         FullHttpResponse r = get("/health/ready");
         assertEquals(200, r.status().code());
-        assertEquals("{\"alive\":true,\"ready\":true,\"cameras_down\":[],\"delivery_stopped\":[]}", body(r));
+        assertEquals("{\"alive\":true,\"ready\":true,\"cameras_lost\":[],\"delivery_stopped\":[]}", body(r));
+    }
+
+    @Test
+    void notReadyWhileTheServiceIsStillStartingItsCameras() {
+        // the status server is bound before the cameras start: liveness yes, readiness not yet
+        StatusSource starting = new StatusSource() {
+            @Override
+            public java.util.List<wayward.analysis.CameraStatus> cameraStatus() {
+                return site.cameraStatus();
+            }
+
+            @Override
+            public wayward.delivery.EventBus bus() {
+                return site.bus();
+            }
+
+            @Override
+            public wayward.delivery.Outbox outbox() {
+                return site.outbox();
+            }
+
+            @Override
+            public RecentEvents recentEvents() {
+                return site.recentEvents();
+            }
+
+            @Override
+            public boolean starting() {
+                return true;
+            }
+
+            @Override
+            public java.nio.file.Path evidenceDir() {
+                return site.evidenceDir();
+            }
+        };
+        FullHttpResponse ready = get(starting, "/health/ready");
+        assertEquals(503, ready.status().code());
+        assertEquals("{\"alive\":true,\"ready\":false,\"cameras_lost\":[],\"delivery_stopped\":[]}", body(ready));
+        assertEquals(200, get(starting, "/health").status().code());
     }
 
     @Test

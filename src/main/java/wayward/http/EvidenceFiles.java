@@ -31,22 +31,23 @@ import java.util.List;
 import java.util.Locale;
 import java.util.function.Supplier;
 import java.util.stream.Stream;
+import wayward.clip.EvidenceFolder;
 import wayward.event.EventJson;
 
 /**
- * The evidence below the clips folder: {@code /api/clips} lists it, {@code /clips/<path>} serves one clip,
- * snapshot or sidecar (single byte ranges), never anything outside the folder (no {@code ..}, no symbolic link
+ * The evidence below the evidence folder: {@code /api/evidence} lists it, {@code /evidence/<path>} serves one
+ * clip, snapshot or sidecar (single byte ranges), never anything outside the folder (no {@code ..}, no symbolic link
  * out, only .mp4, .jpg and .json).
  */
-final class ClipFiles {
-    /** Clips listed in one answer of /api/clips by default, and at most (?limit=). */
+final class EvidenceFiles {
+    /** Files listed in one answer of /api/evidence by default, and at most (?limit=). */
     static final int DEFAULT_PAGE = 100;
     static final int MAX_PAGE = 1000;
 
     private final Supplier<Path> folder;
 
-    /** @param folder the clips folder (read at each request: a reload may move it) */
-    ClipFiles(Supplier<Path> folder) {
+    /** @param folder the evidence folder (read at each request: a reload may move it) */
+    EvidenceFiles(Supplier<Path> folder) {
         this.folder = folder;
     }
 
@@ -54,7 +55,10 @@ final class ClipFiles {
         return folder.get().toAbsolutePath().normalize();
     }
 
-    /** {@code /api/clips}: every servable file, sorted, with its URL, size and modification time. */
+    /**
+     * {@code /api/evidence?offset=M&limit=N}: the total of servable files and one page of them, sorted, each with
+     * its path (relative to the data folder, as event records name it), URL, size and modification time.
+     */
     void list(ChannelHandlerContext ctx, FullHttpRequest req, QueryStringDecoder q) throws IOException {
         Integer limit = Replies.whole(ctx, req, q, "limit", DEFAULT_PAGE, 1, MAX_PAGE);
         Integer offset = limit == null ? null : Replies.whole(ctx, req, q, "offset", 0, 0, Integer.MAX_VALUE);
@@ -74,12 +78,12 @@ final class ClipFiles {
         String body = EventJson.object(g -> {
             g.writeNumberField("total", all.size());
             g.writeNumberField("offset", offset);
-            g.writeArrayFieldStart("clips");
+            g.writeArrayFieldStart("files");
             for (Path p : page) {
                 g.writeStartObject();
                 String rel = dir.relativize(p).toString().replace('\\', '/');
-                g.writeStringField("path", "clips/" + rel);
-                g.writeStringField("url", "/clips/" + rel);
+                g.writeStringField("path", EvidenceFolder.NAME + "/" + rel);
+                g.writeStringField("url", "/" + EvidenceFolder.NAME + "/" + rel);
                 g.writeNumberField("bytes", Files.size(p));
                 g.writeStringField("modified",
                         DateTimeFormatter.ISO_INSTANT.format(Files.getLastModifiedTime(p).toInstant()));
@@ -100,7 +104,7 @@ final class ClipFiles {
         return n.endsWith(".mp4") ? "video/mp4" : n.endsWith(".jpg") ? "image/jpeg" : "application/json";
     }
 
-    /** {@code /clips/<raw>}: one file, whole or one byte range. */
+    /** {@code /evidence/<raw>}: one file, whole or one byte range. */
     void serve(ChannelHandlerContext ctx, FullHttpRequest req, String raw) throws IOException {
         String rel;
         try {
@@ -110,18 +114,18 @@ final class ClipFiles {
             return;
         }
         if (rel.isEmpty() || rel.contains("\0") || rel.contains("\\") || rel.startsWith("/") || rel.contains("..")) {
-            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such clip\n", false);
+            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such evidence file\n", false);
             return;
         }
         Path dir = dir();
         Path file = dir.resolve(rel).normalize();
         if (!file.startsWith(dir) || !servable(file)) {
-            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such clip\n", false);
+            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such evidence file\n", false);
             return;
         }
         if (!Files.isRegularFile(file, LinkOption.NOFOLLOW_LINKS)
                 || !file.toRealPath().startsWith(dir.toRealPath())) {
-            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such clip\n", false);
+            text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such evidence file\n", false);
             return;
         }
         long size = Files.size(file);
