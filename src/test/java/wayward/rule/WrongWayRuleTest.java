@@ -63,7 +63,7 @@ class WrongWayRuleTest {
         assertEquals(12, start.mover().widthPx());
         assertEquals(20, start.mover().heightPx());
         assertEquals(15, start.mover().travelPx(), 1e-9);
-        assertEquals(180, start.headingDeg(), 1e-9); // moving down the picture
+        assertEquals(180, start.bearingDeg(), 1e-9); // moving down the picture
         double[] path = start.mover().path();
         assertEquals(0.5, path[0], 1e-9); // x 160 of 320
         assertEquals(40.0 / 180, path[1], 1e-6); // where it was first seen
