@@ -77,6 +77,15 @@ public final class SchemaCheck {
         assertValid(schema, payload);
     }
 
+    /** {@link #assertMqttPayload} on a line as {@code mosquitto_sub -v} prints it: topic, one space, payload. */
+    public static void assertMqttLine(String prefix, String line) {
+        int sp = line.indexOf(' ');
+        if (sp < 0) {
+            throw new AssertionError("not \"topic payload\": " + line);
+        }
+        assertMqttPayload(prefix, line.substring(0, sp), line.substring(sp + 1));
+    }
+
     private static Schema load(String file) {
         try (InputStream in = SchemaCheck.class.getResourceAsStream("/schema/" + file)) {
             if (in == null) {
