@@ -8,7 +8,9 @@ import java.util.List;
 import java.util.concurrent.atomic.AtomicLong;
 import org.junit.jupiter.api.Test;
 import wayward.event.Event;
+import wayward.event.EventJson;
 import wayward.event.EventKind;
+import wayward.testing.SchemaCheck;
 import wayward.testing.SteppingClock;
 
 /** An outage measured while NTP steps the wall clock: fake wall and monotonic clocks, no waiting. */
@@ -30,6 +32,7 @@ class HealthEventsTest {
             assertEquals(List.of(Event.Phase.START, Event.Phase.END), events.stream().map(Event::phase).toList());
             assertEquals(12.5, events.get(1).durationSeconds(), 1e-9, "step " + stepSeconds + " s");
             assertEquals(events.get(0).id(), events.get(1).id());
+            events.forEach(e -> SchemaCheck.assertEventRecord(EventJson.toJson(e)));
         }
     }
 }

@@ -12,6 +12,7 @@ import wayward.event.Event;
 import wayward.event.EventKind;
 import wayward.flow.FlowField;
 import wayward.image.GrayFrame;
+import wayward.testing.SchemaCheck;
 
 /**
  * The moved-camera check against pictures shifted by a known whole number of pixels (the truth is the shift
@@ -187,6 +188,7 @@ class TamperWatchTest {
             assertTrue(diff < 1e-6, "shift " + s[0] + "," + s[1] + ": bearing " + e.bearingDeg() + ", want " + want);
             // the shifts are whole 2×2 blocks, so the registration finds their length exactly
             assertEquals(Math.hypot(s[0], s[1]), e.shiftPx(), 1e-9, "shift " + s[0] + "," + s[1]);
+            SchemaCheck.assertEventRecord(wayward.event.EventJson.toJson(e));
         }
     }
 
