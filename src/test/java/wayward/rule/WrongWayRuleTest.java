@@ -13,6 +13,7 @@ import java.util.List;
 import org.junit.jupiter.api.Test;
 import wayward.event.Event;
 import wayward.flow.FlowField;
+import wayward.testing.SchemaCheck;
 import wayward.zone.MoverSettings;
 import wayward.zone.MoverTracker;
 import wayward.zone.Movers;
@@ -36,8 +37,10 @@ class WrongWayRuleTest {
         return rule.update(m, 0.01);
     }
 
+    /** Keeps a phase the rule decided, held to the shipped event schema on the way. */
     private static void collect(List<Event> out, Event e) {
         if (e != null) {
+            SchemaCheck.assertEventRecord(wayward.event.EventJson.toJson(e));
             out.add(e);
         }
     }

@@ -12,6 +12,7 @@ import java.util.List;
 import org.junit.jupiter.api.Test;
 import wayward.event.Event;
 import wayward.event.EventKind;
+import wayward.testing.SchemaCheck;
 import wayward.zone.ZoneReading;
 
 class ZoneRuleTest {
@@ -105,6 +106,7 @@ class ZoneRuleTest {
         assertNotNull(e);
         assertEquals(EventKind.MOTION, e.kind());
         assertEquals(90, e.bearingDeg(), 1e-9);
+        SchemaCheck.assertEventRecord(wayward.event.EventJson.toJson(e));
     }
 
     @Test
