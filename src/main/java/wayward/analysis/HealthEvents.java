@@ -12,7 +12,8 @@ import wayward.event.Event;
 import wayward.event.EventKind;
 
 /**
- * Turns a source's health into camera_lost / camera_back events (capture thread; never blocks). The outage's
+ * Turns a source's health into camera_lost events (capture thread; never blocks): the start when the camera is
+ * lost, the end (same kind, same id) when it delivers pictures again and is watched once more. The outage's
  * length is measured on the monotonic clock: a wall clock stepped by NTP meanwhile changes {@code at}, never the
  * duration.
  */
@@ -52,8 +53,8 @@ final class HealthEvents implements VideoSource.Health {
     public void back(double streamSeconds) {
         Instant now = clock.instant();
         double outage = Math.round((nanos.getAsLong() - lostNanos) / 1e6) / 1000.0;
-        LOG.info("camera {}: back after {} s", camera, outage);
-        events.accept(new Event(outageId, camera, null, EventKind.CAMERA_BACK, Event.Phase.END, streamSeconds, now,
+        LOG.info("camera {}: watching again after {} s lost", camera, outage);
+        events.accept(new Event(outageId, camera, null, EventKind.CAMERA_LOST, Event.Phase.END, streamSeconds, now,
                 Double.NaN, Double.NaN, Double.NaN, outage));
     }
 }

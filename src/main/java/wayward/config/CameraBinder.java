@@ -9,6 +9,7 @@ import java.util.Set;
 import java.util.function.Function;
 import wayward.capture.SourceInput;
 import wayward.capture.Sources;
+import wayward.delivery.MqttTopics;
 import wayward.rule.MoverRuleSettings;
 import wayward.rule.RuleSettings;
 import wayward.secret.Urls;
@@ -34,6 +35,12 @@ final class CameraBinder {
 
     private static CameraConfig camera(TableReader s, Path base) {
         String id = s.requiredId("id");
+        if (id != null && MqttTopics.RESERVED_CAMERA_IDS.contains(id)) {
+            s.error("id", id, "an id other than " + String.join(", ", MqttTopics.RESERVED_CAMERA_IDS.stream().sorted()
+                    .toList()) + ": MQTT topics use it as a fixed level (<prefix>/" + MqttTopics.STATUS_LEVEL
+                    + "/<client id>)");
+            id = null;
+        }
         String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");
         boolean loop = s.bool("loop", false);
         if (source != null && Sources.isDevice(source)) {

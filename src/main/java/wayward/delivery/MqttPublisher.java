@@ -58,6 +58,8 @@ public final class MqttPublisher implements Destination {
     private final List<String> zones;
     private final long runStartSeq;
     private final String statusTopic;
+    /** Open camera conditions; confined to the courier thread that calls {@link #send}. */
+    private final CameraStates cameraStates = new CameraStates();
 
     // confined to the event loop thread
     private final MqttInFlight inFlight = new MqttInFlight();
@@ -113,7 +115,7 @@ public final class MqttPublisher implements Destination {
     public CompletableFuture<Result> send(long seq, Event e) {
         byte[] body = EventJson.toJson(e).getBytes(StandardCharsets.UTF_8);
         String stateTopic = MqttTopics.stateTopic(config.topicPrefix(), e.camera(), e.zone());
-        byte[] state = MqttTopics.statePayload(e);
+        byte[] state = e.zone() != null ? MqttTopics.zoneStatePayload(e) : cameraStates.apply(seq, e);
         CompletableFuture<Result> done = new CompletableFuture<>();
         loop.execute(() -> {
             if (e.zone() != null && seq >= runStartSeq) {

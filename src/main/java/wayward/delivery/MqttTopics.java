@@ -3,17 +3,25 @@ package wayward.delivery;
 import java.nio.charset.StandardCharsets;
 import java.time.Instant;
 import java.time.format.DateTimeFormatter;
+import java.util.Collection;
+import java.util.Set;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.event.EventKind;
 
 /**
- * The topics below the configured prefix and the JSON state each retained one carries: {@code
- * <camera>/<zone>/event} and retained {@code <camera>/<zone>/state} ({@code alert} or {@code clear});
- * {@code <camera>/event} and retained {@code <camera>/state} (camera health: {@code lost}, a tamper kind,
- * {@code watching}); retained {@code status/<client id>} ({@code online}; the will sets {@code offline}).
+ * The topics below the configured prefix and the JSON each carries: {@code <camera>/<zone>/event} (the event
+ * record) and retained {@code <camera>/<zone>/state} ({@code alert} or {@code clear}); {@code <camera>/event}
+ * (the record) and retained {@code <camera>/state} ({@code watching} or {@code lost}, with the tamper conditions
+ * open); retained {@code status/<client id>} ({@code online}; the will sets {@code offline}). The payloads are
+ * fixed by the files in {@code schema/} (README, "MQTT").
  */
-final class MqttTopics {
+public final class MqttTopics {
+    /** The level under the prefix that holds the service status; no camera may have it as its id. */
+    public static final String STATUS_LEVEL = "status";
+    /** Camera ids that would make a camera's topics collide with a fixed topic. */
+    public static final Set<String> RESERVED_CAMERA_IDS = Set.of(STATUS_LEVEL);
+
     private MqttTopics() {
     }
 
@@ -28,23 +36,39 @@ final class MqttTopics {
     }
 
     static String statusTopic(String prefix, String clientId) {
-        return prefix + "/status/" + clientId;
+        return prefix + "/" + STATUS_LEVEL + "/" + clientId;
     }
 
-    /** The retained state a phase sets: alert/clear for zones, lost/watching for cameras. */
-    static byte[] statePayload(Event e) {
-        String state;
-        if (e.zone() != null) {
-            state = e.phase() == Event.Phase.START ? "alert" : "clear";
-        } else {
-            // camera_lost → lost; a tamper kind → its name (view_blocked, camera_moved, …); any end → watching
-            state = e.phase() == Event.Phase.END || e.kind() == EventKind.CAMERA_BACK ? "watching"
-                    : e.kind() == EventKind.CAMERA_LOST ? "lost" : e.kind().jsonName();
+    /** The retained state a zone's phase sets: alert at its start, clear at its end. */
+    static byte[] zoneStatePayload(Event e) {
+        if (e.zone() == null) {
+            throw new IllegalArgumentException("event " + e.id() + ": no zone (expected a zone's phase)");
         }
+        String state = e.phase() == Event.Phase.START ? "alert" : "clear";
         return json(g -> {
             g.writeStringField("state", state);
             g.writeStringField("event", e.id());
             g.writeStringField("kind", e.kind().jsonName());
+            g.writeStringField("at", DateTimeFormatter.ISO_INSTANT.format(e.at()));
+        });
+    }
+
+    /**
+     * The retained state of a camera after phase {@code e}: {@code lost} while it delivers no pictures, else
+     * {@code watching}; {@code conditions} lists the tamper conditions open, in the order of {@link EventKind}
+     * (empty when none is); {@code event}, {@code kind}, {@code phase} and {@code at} name the phase that set it.
+     */
+    static byte[] cameraStatePayload(Event e, boolean lost, Collection<EventKind> conditions) {
+        return json(g -> {
+            g.writeStringField("state", lost ? "lost" : "watching");
+            g.writeArrayFieldStart("conditions");
+            for (EventKind k : conditions) {
+                g.writeString(k.jsonName());
+            }
+            g.writeEndArray();
+            g.writeStringField("event", e.id());
+            g.writeStringField("kind", e.kind().jsonName());
+            g.writeStringField("phase", e.phase().jsonName());
             g.writeStringField("at", DateTimeFormatter.ISO_INSTANT.format(e.at()));
         });
     }

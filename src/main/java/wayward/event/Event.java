@@ -4,7 +4,12 @@ import java.time.Instant;
 
 /**
  * One phase of an event: the record that goes to the event log, standard output, webhooks and MQTT. Immutable.
- * Measured values are NaN where they do not apply (camera health events; the duration of a start).
+ * Measured values are NaN where they do not apply (camera health events; the duration of a start). The measured
+ * values keep one meaning each in JSON by taking their name from the kind ({@link EventJson}): {@code wrong_way}
+ * writes them as {@code against_share}, {@code against_speed_px_s}, {@code against_bearing_deg} (the samples moving
+ * against the heading); {@code motion} as {@code moving_share}, {@code moving_speed_px_s},
+ * {@code moving_bearing_deg} (the samples moving at all); {@code camera_moved} as {@code shift_bearing_deg} and
+ * {@code shift_px}; other kinds carry none of them.
  *
  * @param id              unique per event, shared by its start and end
  * @param camera          camera id from the config
@@ -12,10 +17,12 @@ import java.time.Instant;
  * @param phase           {@code start} or {@code end}
  * @param streamSeconds   seconds since the stream's first frame when this phase was decided
  * @param at              wall-clock time (UTC) when this phase was decided
- * @param headingDeg      measured bearing of the motion, degrees clockwise from image-up
- * @param speed           measured mean speed, analysis pixels per second
- * @param coverage        share of the zone's pixels taking part (mean over the hold time for a start, peak
- *                        over the event for an end)
+ * @param bearingDeg      measured bearing of the motion (camera_moved: of the picture's shift), degrees clockwise
+ *                        from image-up; never the zone's permitted heading
+ * @param speedPxPerSecond measured mean speed of the samples taking part, analysis pixels per second
+ * @param share           share of the zone's samples taking part, 0..1 (wrong_way: moving against the heading,
+ *                        motion: moving at all; mean over the hold time for a start, peak over the event for an end)
+ * @param shiftPx         camera_moved: length of the picture's shift, analysis pixels
  * @param durationSeconds stream seconds from start to end (end phase only)
  * @param clip            evidence clip, relative to the data folder, or null (it is complete once the post-roll
  *                        after the end has passed)
@@ -26,8 +33,8 @@ import java.time.Instant;
  *                        event was open; null otherwise
  */
 public record Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
-        Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
-        String snapshot, Mover mover, String endedBy) {
+        Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx, double durationSeconds,
+        String clip, String snapshot, Mover mover, String endedBy) {
     /** {@link #endedBy} of an event closed at a start because the service had stopped while it was open. */
     public static final String SERVICE_STOPPED = "service_stopped";
 
@@ -84,36 +91,37 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
 
     /** An event phase as the rules decide it. */
     public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
-            Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
+            Instant at, double bearingDeg, double speedPxPerSecond, double share, double durationSeconds, String clip,
             String snapshot, Mover mover) {
-        this(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage, durationSeconds, clip,
-                snapshot, mover, null);
+        this(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share, Double.NaN,
+                durationSeconds, clip, snapshot, mover, null);
     }
 
     /** The end phase of this started event, closed at {@code now} because the service stopped while it was open. */
     public Event closedAtRestart(Instant now) {
         return new Event(id, camera, zone, kind, Phase.END, Double.NaN, now, Double.NaN, Double.NaN, Double.NaN,
-                Double.NaN, null, null, null, SERVICE_STOPPED);
+                Double.NaN, Double.NaN, null, null, null, SERVICE_STOPPED);
     }
 
     /** An event phase with evidence files and no mover. */
     public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
-            Instant at, double headingDeg, double speed, double coverage, double durationSeconds, String clip,
+            Instant at, double bearingDeg, double speedPxPerSecond, double share, double durationSeconds, String clip,
             String snapshot) {
-        this(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage, durationSeconds, clip,
-                snapshot, null);
+        this(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share, durationSeconds,
+                clip, snapshot, null);
     }
 
     /** An event phase without evidence files. */
     public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
-            Instant at, double headingDeg, double speed, double coverage, double durationSeconds) {
-        this(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage, durationSeconds, null, null);
+            Instant at, double bearingDeg, double speedPxPerSecond, double share, double durationSeconds) {
+        this(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share, durationSeconds,
+                null, null);
     }
 
     /** The same phase naming its evidence files. */
     public Event withEvidence(String clipPath, String snapshotPath) {
-        return new Event(id, camera, zone, kind, phase, streamSeconds, at, headingDeg, speed, coverage,
-                durationSeconds, clipPath, snapshotPath, mover, endedBy);
+        return new Event(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share,
+                shiftPx, durationSeconds, clipPath, snapshotPath, mover, endedBy);
     }
 
     /** Start or end of an event. */
@@ -135,5 +143,23 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
         if (id == null || camera == null || kind == null || phase == null || at == null) {
             throw new IllegalArgumentException("event: id, camera, kind, phase and at are required");
         }
+        // each measured value has a JSON name only for the kinds it means something for (EventJson)
+        boolean zoneKind = kind == EventKind.WRONG_WAY || kind == EventKind.MOTION;
+        if (!zoneKind && (present(speedPxPerSecond) || present(share))) {
+            throw new IllegalArgumentException("event " + kind.jsonName() + ": speed and share (expected only for "
+                    + "wrong_way and motion)");
+        }
+        if (!zoneKind && kind != EventKind.CAMERA_MOVED && present(bearingDeg)) {
+            throw new IllegalArgumentException("event " + kind.jsonName() + ": bearing " + bearingDeg
+                    + " (expected only for wrong_way, motion and camera_moved)");
+        }
+        if (kind != EventKind.CAMERA_MOVED && present(shiftPx)) {
+            throw new IllegalArgumentException("event " + kind.jsonName() + ": shift " + shiftPx
+                    + " px (expected only for camera_moved)");
+        }
+    }
+
+    private static boolean present(double v) {
+        return !Double.isNaN(v);
     }
 }

@@ -12,9 +12,17 @@ import java.time.format.DateTimeFormatter;
 
 /**
  * The JSON form of an event phase: one object on one line (JSON Lines). Field names are the contract of the
- * event record; values that do not apply (NaN) are left out. Thread-safe; allocates per call (events are rare).
+ * event record, fixed by {@code schema/event.schema.json}; values that do not apply (NaN) are left out. The
+ * measured values take their names from the kind (see {@link Event}). Thread-safe; allocates per call (events
+ * are rare).
  */
 public final class EventJson {
+    /**
+     * The record's {@code schema} field: the version of its shape. New fields keep it; a change of a field's name,
+     * type or meaning bumps it (README, "Event record").
+     */
+    public static final int SCHEMA_VERSION = 1;
+
     private static final JsonFactory JSON = new JsonFactory();
 
     private EventJson() {
@@ -24,6 +32,7 @@ public final class EventJson {
         StringWriter out = new StringWriter(256);
         try (JsonGenerator g = JSON.createGenerator(out)) {
             g.writeStartObject();
+            g.writeNumberField("schema", SCHEMA_VERSION);
             g.writeStringField("id", e.id());
             g.writeStringField("camera", e.camera());
             if (e.zone() != null) {
@@ -33,9 +42,15 @@ public final class EventJson {
             g.writeStringField("phase", e.phase().jsonName());
             number(g, "stream_s", e.streamSeconds(), 1000);
             g.writeStringField("at", DateTimeFormatter.ISO_INSTANT.format(e.at()));
-            number(g, "heading_deg", e.headingDeg(), 10);
-            number(g, "speed", e.speed(), 100);
-            number(g, "coverage", e.coverage(), 10000);
+            String measured = measuredPrefix(e.kind());
+            if (measured != null) {
+                number(g, measured + "_share", e.share(), 10000);
+                number(g, measured + "_speed_px_s", e.speedPxPerSecond(), 100);
+                bearing(g, measured + "_bearing_deg", e.bearingDeg());
+            } else if (e.kind() == EventKind.CAMERA_MOVED) {
+                bearing(g, "shift_bearing_deg", e.bearingDeg());
+                number(g, "shift_px", e.shiftPx(), 10);
+            }
             number(g, "duration_s", e.durationSeconds(), 1000);
             Event.Mover m = e.mover();
             if (m != null) {
@@ -70,18 +85,36 @@ public final class EventJson {
         return out.toString();
     }
 
+    /** The name part of a zone kind's measured values: what the samples counted do. Null for other kinds. */
+    private static String measuredPrefix(EventKind kind) {
+        return switch (kind) {
+            case WRONG_WAY -> "against";
+            case MOTION -> "moving";
+            default -> null;
+        };
+    }
+
     /**
      * Reads back an event phase written by {@link #toJson} (the outbox keeps phases in that form). Unknown
-     * fields are ignored, so records written by a newer version still read.
+     * fields are ignored, so records written by a newer version of the same schema still read; a record of a
+     * newer schema version is refused. Records written before the {@code schema} field existed still read, as
+     * their meaning: {@code heading_deg}, {@code speed} and {@code coverage} become the kind's bearing, speed and
+     * share (camera_moved: {@code heading_deg} is the shift's bearing), and kind {@code camera_back} is the end of
+     * {@code camera_lost}.
      *
      * @throws IllegalArgumentException when the bytes are not such an object
      */
     public static Event parse(byte[] json) {
         String id = null, camera = null, zone = null, clip = null, snapshot = null, at = null, endedBy = null;
-        EventKind kind = null;
+        String kindName = null;
         Event.Phase phase = null;
-        double stream = Double.NaN, heading = Double.NaN, speed = Double.NaN, coverage = Double.NaN;
-        double duration = Double.NaN;
+        double stream = Double.NaN, duration = Double.NaN;
+        // written by this version, by the prefix of their meaning
+        double againstShare = Double.NaN, againstSpeed = Double.NaN, againstBearing = Double.NaN;
+        double movingShare = Double.NaN, movingSpeed = Double.NaN, movingBearing = Double.NaN;
+        double shiftBearing = Double.NaN, shiftPx = Double.NaN;
+        // written before the schema field: one name for whatever the kind measured
+        double oldHeading = Double.NaN, oldSpeed = Double.NaN, oldCoverage = Double.NaN;
         int moverWidth = -1, moverHeight = -1, moverSamples = -1;
         double moverSpeed = Double.NaN, moverTravel = Double.NaN;
         double[] moverPath = null;
@@ -93,16 +126,30 @@ public final class EventJson {
                 String name = p.currentName();
                 JsonToken t = p.nextToken();
                 switch (name) {
+                    case "schema" -> {
+                        if (!t.isNumeric() || p.getDoubleValue() > SCHEMA_VERSION) {
+                            throw new IllegalArgumentException("schema " + p.getText() + " (expected up to "
+                                    + SCHEMA_VERSION + "; written by a newer version)");
+                        }
+                    }
                     case "id" -> id = p.getText();
                     case "camera" -> camera = p.getText();
                     case "zone" -> zone = p.getText();
-                    case "kind" -> kind = kindOf(p.getText());
+                    case "kind" -> kindName = p.getText();
                     case "phase" -> phase = phaseOf(p.getText());
                     case "stream_s" -> stream = p.getDoubleValue();
                     case "at" -> at = p.getText();
-                    case "heading_deg" -> heading = p.getDoubleValue();
-                    case "speed" -> speed = p.getDoubleValue();
-                    case "coverage" -> coverage = p.getDoubleValue();
+                    case "against_share" -> againstShare = p.getDoubleValue();
+                    case "against_speed_px_s" -> againstSpeed = p.getDoubleValue();
+                    case "against_bearing_deg" -> againstBearing = p.getDoubleValue();
+                    case "moving_share" -> movingShare = p.getDoubleValue();
+                    case "moving_speed_px_s" -> movingSpeed = p.getDoubleValue();
+                    case "moving_bearing_deg" -> movingBearing = p.getDoubleValue();
+                    case "shift_bearing_deg" -> shiftBearing = p.getDoubleValue();
+                    case "shift_px" -> shiftPx = p.getDoubleValue();
+                    case "heading_deg" -> oldHeading = p.getDoubleValue();
+                    case "speed" -> oldSpeed = p.getDoubleValue();
+                    case "coverage" -> oldCoverage = p.getDoubleValue();
                     case "duration_s" -> duration = p.getDoubleValue();
                     case "clip" -> clip = p.getText();
                     case "snapshot" -> snapshot = p.getText();
@@ -126,10 +173,41 @@ public final class EventJson {
         if (at == null) {
             throw new IllegalArgumentException("no \"at\" field");
         }
+        if (kindName == null) {
+            throw new IllegalArgumentException("no \"kind\" field");
+        }
+        EventKind kind = OLD_CAMERA_BACK.equals(kindName) ? EventKind.CAMERA_LOST : kindOf(kindName);
+        double bearing = Double.NaN, speed = Double.NaN, share = Double.NaN;
+        switch (kind) {
+            case WRONG_WAY -> {
+                bearing = againstBearing;
+                speed = againstSpeed;
+                share = againstShare;
+            }
+            case MOTION -> {
+                bearing = movingBearing;
+                speed = movingSpeed;
+                share = movingShare;
+            }
+            case CAMERA_MOVED -> bearing = shiftBearing;
+            default -> {
+                // camera health and the other tamper kinds measure nothing
+            }
+        }
+        if (kind == EventKind.WRONG_WAY || kind == EventKind.MOTION) {
+            bearing = Double.isNaN(bearing) ? oldHeading : bearing;
+            speed = Double.isNaN(speed) ? oldSpeed : speed;
+            share = Double.isNaN(share) ? oldCoverage : share;
+        } else if (kind == EventKind.CAMERA_MOVED) {
+            bearing = Double.isNaN(bearing) ? oldHeading : bearing;
+        }
+        if (kind != EventKind.CAMERA_MOVED) {
+            shiftPx = Double.NaN;
+        }
         try {
             Event.Mover mover = moverPath == null ? null
                     : new Event.Mover(moverWidth, moverHeight, moverSamples, moverPath, moverSpeed, moverTravel);
-            return new Event(id, camera, zone, kind, phase, stream, Instant.parse(at), heading, speed, coverage,
+            return new Event(id, camera, zone, kind, phase, stream, Instant.parse(at), bearing, speed, share, shiftPx,
                     duration, clip, snapshot, mover, endedBy);
         } catch (java.time.format.DateTimeParseException e) {
             throw new IllegalArgumentException("\"at\" is not an ISO-8601 instant: " + at);
@@ -159,6 +237,9 @@ public final class EventJson {
         }
         return out;
     }
+
+    /** The kind an earlier version gave the end of {@code camera_lost}. */
+    private static final String OLD_CAMERA_BACK = "camera_back";
 
     private static EventKind kindOf(String name) {
         for (EventKind k : EventKind.values()) {
@@ -194,6 +275,14 @@ public final class EventJson {
             throw new UncheckedIOException(ex);
         }
         return out.toString();
+    }
+
+    /** Writes a bearing rounded to 0.1°, from 0 up to, not including, 360 (359.96 is 0.0), or nothing for NaN. */
+    private static void bearing(JsonGenerator g, String name, double deg) throws IOException {
+        if (!Double.isNaN(deg) && !Double.isInfinite(deg)) {
+            double r = Math.round(deg * 10) / 10.0 % 360;
+            g.writeNumberField(name, r < 0 ? r + 360 : r);
+        }
     }
 
     /** Writes a number rounded to 1/scale, or nothing for NaN. */

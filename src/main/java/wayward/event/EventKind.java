@@ -6,10 +6,12 @@ public enum EventKind {
     WRONG_WAY("wrong_way"),
     /** Any movement, for zones without a heading. */
     MOTION("motion"),
-    /** The camera stopped delivering frames. */
+    /**
+     * The camera stopped delivering pictures (start) and delivers them again (end, same id): the camera is lost,
+     * then watching again. Records of earlier versions named the end {@code camera_back}; {@link EventJson#parse}
+     * still reads them.
+     */
     CAMERA_LOST("camera_lost"),
-    /** The camera delivers frames again. */
-    CAMERA_BACK("camera_back"),
     /** The view is blocked: the picture lost its large-scale structure (lens covered, sprayed, turned away). */
     VIEW_BLOCKED("view_blocked"),
     /** The picture lost its fine detail while its large-scale structure stayed: out of focus, fogged lens. */

@@ -24,8 +24,8 @@ import wayward.image.GrayFrame;
  *     one, so on such a camera this check stays silent rather than cry wolf;</li>
  * <li>{@code camera_moved}: every 0.5 s the picture is registered on a reference (whole 2×2 blocks, ±12 px,
  *     brightness means removed); a best shift of 3 analysis pixels or more that lasts 1.5 s is a moved camera
- *     (shake stays under it, a knock stays); the reference then follows. Its heading is the bearing of the
- *     picture's content shift.</li>
+ *     (shake stays under it, a knock stays); the reference then follows. The start carries the bearing of the
+ *     picture's content shift and its length in analysis pixels.</li>
  * </ul>
  * Baselines are running means over about 30 s, updated only while nothing is wrong, after a 2 s warm-up.
  * Each condition gives a start and, once it is gone for 2 s, an end with the same id.
@@ -93,7 +93,7 @@ public final class TamperWatch {
         }
 
         /** Feeds whether the condition holds now (and, for an end, whether it is clearly gone). */
-        void update(boolean holds, boolean gone, double t, double headingDeg) {
+        void update(boolean holds, boolean gone, double t, double bearingDeg, double shiftPx) {
             if (id == null) {
                 if (!holds) {
                     since = Double.NaN;
@@ -106,8 +106,8 @@ public final class TamperWatch {
                     id = UUID.randomUUID().toString();
                     startedAt = t;
                     goneSince = Double.NaN;
-                    out.add(new Event(id, camera, null, kind, Event.Phase.START, t, clock.instant(), headingDeg,
-                            Double.NaN, Double.NaN, Double.NaN));
+                    out.add(new Event(id, camera, null, kind, Event.Phase.START, t, clock.instant(), bearingDeg,
+                            Double.NaN, Double.NaN, shiftPx, Double.NaN, null, null, null, null));
                 }
                 return;
             }
@@ -183,7 +183,7 @@ public final class TamperWatch {
         boolean flat = !Double.isNaN(baseSpread) && spread < 0.5 * baseSpread;
         // the running share takes about 1 s to pass 0.6 after a freeze, so 2 s more make FROZEN_SECONDS
         frozen.update(noisyCamera && mostlyStill && !flat && !blocked.active()
-                && t - stillSince + 1e-9 >= FROZEN_SECONDS - 1, stillness < 0.3, t, Double.NaN);
+                && t - stillSince + 1e-9 >= FROZEN_SECONDS - 1, stillness < 0.3, t, Double.NaN, Double.NaN);
         if (reference == null) {
             reference = blocks.clone(); // once per size
         } else if (!flat && t - lastRegistration + 1e-9 >= 0.5) {
@@ -201,8 +201,9 @@ public final class TamperWatch {
                 movedSince = t;
             }
             boolean wasMoved = moved.active();
+            // a block is 2×2 analysis pixels
             moved.update(shifted && t - movedSince + 1e-9 >= MOVED_HOLD, !shifted, t,
-                    wayward.zone.ZoneMeter.bearingDeg(-shiftX, -shiftY));
+                    wayward.zone.ZoneMeter.bearingDeg(-shiftX, -shiftY), 2 * Math.hypot(shiftX, shiftY));
             if (!wasMoved && moved.active()) {
                 System.arraycopy(blocks, 0, reference, 0, blocks.length); // the new position is the new reference
                 movedSince = Double.NaN;
@@ -217,10 +218,11 @@ public final class TamperWatch {
             baseStill = Double.isNaN(baseStill) ? (still ? 1 : 0) : baseStill + ((still ? 1 : 0) - baseStill) / n;
             return;
         }
-        blocked.update(spread < BLOCKED_SHARE * baseSpread, spread > BLOCKED_BACK * baseSpread, t, Double.NaN);
+        blocked.update(spread < BLOCKED_SHARE * baseSpread, spread > BLOCKED_BACK * baseSpread, t, Double.NaN,
+                Double.NaN);
         boolean focusBad = !blocked.active() && spread >= BLOCKED_SHARE * baseSpread && ratio < FOCUS_SHARE * baseRatio
                 && detail < FOCUS_SHARE * baseDetail;
-        focus.update(focusBad, ratio > FOCUS_BACK * baseRatio, t, Double.NaN);
+        focus.update(focusBad, ratio > FOCUS_BACK * baseRatio, t, Double.NaN, Double.NaN);
         boolean normal = !blocked.active() && !focus.active() && Double.isNaN(blocked.since)
                 && Double.isNaN(focus.since) && spread >= 0.5 * baseSpread;
         if (normal) {

@@ -8,7 +8,9 @@ import java.util.List;
 import java.util.concurrent.atomic.AtomicLong;
 import org.junit.jupiter.api.Test;
 import wayward.event.Event;
+import wayward.event.EventJson;
 import wayward.event.EventKind;
+import wayward.testing.SchemaCheck;
 import wayward.testing.SteppingClock;
 
 /** An outage measured while NTP steps the wall clock: fake wall and monotonic clocks, no waiting. */
@@ -25,9 +27,12 @@ class HealthEventsTest {
             clock.step(stepSeconds); // NTP steps the wall clock during the outage
             mono.addAndGet(12_500_000_000L); // 12.5 s pass
             h.back(22.5);
-            assertEquals(List.of(EventKind.CAMERA_LOST, EventKind.CAMERA_BACK), events.stream().map(Event::kind).toList());
+            // one kind for both phases: the end says the camera is watched again
+            assertEquals(List.of(EventKind.CAMERA_LOST, EventKind.CAMERA_LOST), events.stream().map(Event::kind).toList());
+            assertEquals(List.of(Event.Phase.START, Event.Phase.END), events.stream().map(Event::phase).toList());
             assertEquals(12.5, events.get(1).durationSeconds(), 1e-9, "step " + stepSeconds + " s");
             assertEquals(events.get(0).id(), events.get(1).id());
+            events.forEach(e -> SchemaCheck.assertEventRecord(EventJson.toJson(e)));
         }
     }
 }

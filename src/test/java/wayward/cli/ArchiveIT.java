@@ -13,11 +13,13 @@ import java.util.stream.Stream;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
+import wayward.testing.SchemaCheck;
 
 /**
  * The installable archive made by {@code mvn package}, unpacked with tar as the README says: the launcher
  * runs, the example config checks, the unit names files the archive holds and passes
- * {@code systemd-analyze verify}, and the service logging config writes its file.
+ * {@code systemd-analyze verify}, the service logging config writes its file, and the schema files ship (the demo's
+ * records fit them).
  */
 class ArchiveIT {
     @Test
@@ -70,5 +72,27 @@ class ArchiveIT {
         assertEquals(0, replay.exitValue(), Files.readString(dir.resolve("replay.out")));
         String logged = Files.readString(logs.resolve("wayward.log"));
         assertTrue(logged.contains("analysing at"), logged);
+
+        // the schemas the README links ship in the archive, the same bytes as in the jar, and the demo's records
+        // fit the shipped event schema
+        for (String schema : List.of(SchemaCheck.EVENT, SchemaCheck.CAMERA_STATE, SchemaCheck.ZONE_STATE,
+                SchemaCheck.STATUS)) {
+            Path shipped = home.resolve("schema/" + schema);
+            assertTrue(Files.isRegularFile(shipped), "the archive carries schema/" + schema);
+            try (java.util.zip.ZipFile jar = new java.util.zip.ZipFile(home.resolve("lib/wayward.jar").toFile())) {
+                java.util.zip.ZipEntry entry = jar.getEntry("schema/" + schema);
+                assertTrue(entry != null, "the jar carries schema/" + schema);
+                assertTrue(java.util.Arrays.equals(Files.readAllBytes(shipped),
+                        jar.getInputStream(entry).readAllBytes()), schema + ": archive and jar differ");
+            }
+        }
+        int records = 0;
+        for (String line : Files.readAllLines(dir.resolve("replay.out"))) {
+            if (line.startsWith("{")) {
+                SchemaCheck.assertEventRecord(line);
+                records++;
+            }
+        }
+        assertTrue(records >= 2, "the demo's wrong-way start and end: " + records);
     }
 }

@@ -16,6 +16,7 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
 import wayward.delivery.Mosquitto;
+import wayward.testing.SchemaCheck;
 
 /**
  * The service ({@code run}, packaged jar) publishing to a real Mosquitto broker (Debian), watched by
@@ -120,6 +121,7 @@ class MqttServiceIT {
         long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(20);
         while (System.nanoTime() < deadline) {
             List<String> s = broker.retained("yard/status/+");
+            s.forEach(l -> SchemaCheck.assertMqttLine("yard", l));
             if (s.size() == 1 && s.get(0).startsWith("yard/status/wayward-it ") && s.get(0).contains(state)) {
                 return true;
             }
@@ -137,6 +139,7 @@ class MqttServiceIT {
         for (String line : Files.readAllLines(file, StandardCharsets.UTF_8)) {
             int sp = line.indexOf(' ');
             if (sp > 0 && line.endsWith("}")) {
+                SchemaCheck.assertMqttLine("yard", line);
                 Map<String, Object> e = ReplayEndToEndTest.parse(line.substring(sp + 1));
                 out.add(e.get("id") + " " + e.get("phase"));
             }

@@ -24,10 +24,12 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.ValueSource;
 import wayward.scene.Scene;
 import wayward.scene.SceneGenerator;
+import wayward.testing.SchemaCheck;
 
 /**
  * The whole path on rendered scenarios: scene generator → MP4 → replay → JSON lines, held against the scene's
- * exact ground truth (which movers go against which zone's heading, and when their centre enters the zone).
+ * exact ground truth (which movers go against which zone's heading, and when their centre enters the zone); every
+ * record written is held to the shipped event schema.
  */
 class ReplayEndToEndTest {
     /** Issue requirement: the start comes within 1.0 s of the mover's entry into the zone. */
@@ -52,6 +54,7 @@ class ReplayEndToEndTest {
         List<Map<String, Object>> events = new ArrayList<>();
         for (String line : out.toString(StandardCharsets.UTF_8).split("\n")) {
             if (!line.isBlank()) {
+                SchemaCheck.assertEventRecord(line); // every record replay writes fits the shipped schema
                 events.add(parse(line));
             }
         }
@@ -83,13 +86,13 @@ class ReplayEndToEndTest {
                 double delay = start - entries.get(i);
                 assertTrue(delay >= -0.5 && delay <= MAX_ONSET_SECONDS, String.format(Locale.ROOT,
                         "%s: start at %.3f s, mover entered at %.3f s (delay %.3f s)", name, start, entries.get(i), delay));
-                double heading = (Double) starts.get(i).get("heading_deg");
-                assertTrue(zone.isAgainst(heading), "measured heading " + heading + " is against " + zone.headingDeg());
+                double bearing = (Double) starts.get(i).get("against_bearing_deg");
+                assertTrue(zone.isAgainst(bearing), "measured bearing " + bearing + " is against " + zone.headingDeg());
             }
         }
     }
 
-    private static String configFor(Scene scene, Path video) {
+    static String configFor(Scene scene, Path video) {
         StringBuilder b = new StringBuilder();
         b.append("[[camera]]\nid = \"scene\"\nsource = ").append(quote(video.toString())).append('\n');
         for (Scene.Zone z : scene.zones()) {

@@ -18,8 +18,8 @@ import org.junit.jupiter.api.io.TempDir;
 /**
  * The service on a real RTSP server on loopback — GStreamer's RTSP server (Debian's gir1.2-gst-rtsp-server-1.0
  * through python3-gi) serving the demo clip — that is killed mid-stream and restarted, twice: each time a
- * camera_lost, then a camera_back, then analysis goes on (the wrong-way truck is seen again), and the
- * service's thread count does not grow.
+ * camera_lost start, then its end (the camera watched again), then analysis goes on (the wrong-way truck is seen
+ * again), and the service's thread count does not grow.
  */
 class RtspReconnectIT {
     private Process server;
@@ -74,7 +74,7 @@ class RtspReconnectIT {
                 server = startServer(port);
                 // up to 120 s: on a loaded 2-core machine the restarted GStreamer server and the capture's backoff
                 // (1, 2, 4 … s) once took longer than 60 s in a full CI run; the event itself is still required
-                int backAt = YardSite.awaitEvent(log, "camera_back", "end", cycle, 120);
+                int backAt = YardSite.awaitEvent(log, "camera_lost", "end", cycle, 120);
                 assertTrue(backAt > lostAt);
                 assertEquals(YardSite.events(log).get(lostAt).get("id"), YardSite.events(log).get(backAt).get("id"), "one outage, one id");
                 int wrongWay = YardSite.awaitEvent(log, "wrong_way", "start", cycle + 1, 60);

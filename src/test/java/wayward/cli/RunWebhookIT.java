@@ -16,6 +16,7 @@ import java.util.concurrent.atomic.AtomicInteger;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
+import wayward.testing.SchemaCheck;
 
 /**
  * The service ({@code run}) on the packaged jar with a file camera and a webhook receiver on loopback (the
@@ -108,6 +109,7 @@ class RunWebhookIT {
                     "run", "--config", config.toString()), dir, 150);
             assertEquals(0, r.exitCode(), r.stderr());
             assertEquals(2, bodies.size(), "start and end delivered; stderr:\n" + r.stderr());
+            bodies.forEach(SchemaCheck::assertEventRecord); // webhook bodies are the record of the shipped schema
             Map<String, Object> start = ReplayEndToEndTest.parse(bodies.get(0));
             Map<String, Object> end = ReplayEndToEndTest.parse(bodies.get(1));
             assertEquals("start", start.get("phase"));

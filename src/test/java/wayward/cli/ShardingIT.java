@@ -19,6 +19,7 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
 import wayward.delivery.Mosquitto;
+import wayward.testing.SchemaCheck;
 
 /**
  * Three instances of the service on loopback share one config of 9 file cameras and one Mosquitto broker
@@ -92,6 +93,11 @@ class ShardingIT {
                     TimeUnit.MILLISECONDS.sleep(200); // polling the subscriber's file, not a synchronisation sleep
                 }
                 assertEquals(new TreeSet<>(cameras), started, "events of all 9 cameras at the one broker");
+                for (String line : Files.readAllLines(got)) {
+                    if (line.startsWith("yard/")) {
+                        SchemaCheck.assertMqttLine("yard", line);
+                    }
+                }
                 Map<String, Set<String>> watched = new java.util.HashMap<>();
                 Set<String> union = new HashSet<>();
                 int total = 0;
@@ -110,6 +116,7 @@ class ShardingIT {
                 assertEquals(new TreeSet<>(cameras), new TreeSet<>(union), "every camera watched: " + watched);
                 List<String> status = broker.retained("yard/status/+");
                 assertEquals(3, status.size(), "a status topic per instance: " + status);
+                status.forEach(l -> SchemaCheck.assertMqttLine("yard", l));
 
                 // "south" leaves the list: the others keep what they had and take over only its cameras
                 String rest = "north,gate";

@@ -8,6 +8,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.TimeUnit;
+import wayward.testing.SchemaCheck;
 
 /**
  * The integration tests' site: the demo lane (same zone as conf/demo.toml) watched from any source, data under
@@ -50,12 +51,13 @@ final class YardSite {
                 .redirectOutput(dir.resolve("service.log").toFile()).start();
     }
 
-    /** Event phases in the log so far. */
+    /** Event phases in the log so far, each line held to the shipped event schema. */
     static List<Map<String, Object>> events(Path log) throws IOException {
         List<Map<String, Object>> out = new ArrayList<>();
         if (Files.exists(log)) {
             for (String line : Files.readAllLines(log, StandardCharsets.UTF_8)) {
                 if (line.endsWith("}")) {
+                    SchemaCheck.assertEventRecord(line); // every record the service logs fits the shipped schema
                     out.add(ReplayEndToEndTest.parse(line));
                 }
             }

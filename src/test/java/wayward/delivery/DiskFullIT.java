@@ -17,6 +17,7 @@ import org.junit.jupiter.api.io.TempDir;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.event.EventKind;
+import wayward.testing.SchemaCheck;
 
 /**
  * A disk that really fills: a 256 KiB tmpfs (Linux; mounting needs root: run with sudo, as .ci/run is) holding the outbox
@@ -109,6 +110,7 @@ class DiskFullIT {
             List<Integer> read = new ArrayList<>();
             Outbox.Reader r = o.reader(1);
             for (Outbox.Entry e; (e = r.next(0, TimeUnit.MILLISECONDS)) != null; ) {
+                SchemaCheck.assertEventRecord(new String(e.payload(), StandardCharsets.UTF_8));
                 read.add((int) EventJson.parse(e.payload()).streamSeconds());
             }
             r.close();
@@ -116,6 +118,7 @@ class DiskFullIT {
         }
         List<Integer> logged = new ArrayList<>();
         for (String line : Files.readAllLines(log.file(), StandardCharsets.UTF_8)) {
+            SchemaCheck.assertEventRecord(line);
             logged.add((int) EventJson.parse(line.getBytes(StandardCharsets.UTF_8)).streamSeconds()); // whole lines
         }
         assertEquals(accepted, logged, "the event log holds every phase once, the held one written when space came");

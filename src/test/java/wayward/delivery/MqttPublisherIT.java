@@ -23,6 +23,7 @@ import org.junit.jupiter.api.io.TempDir;
 import wayward.event.Event;
 import wayward.event.EventJson;
 import wayward.event.EventKind;
+import wayward.testing.SchemaCheck;
 
 /**
  * MQTT delivery against a real broker: Debian's Mosquitto 2.0 on loopback, checked with its own command-line
@@ -62,6 +63,12 @@ class MqttPublisherIT {
                 phase == Event.Phase.END ? 2.5 : Double.NaN);
     }
 
+    private static Event camera(String id, EventKind kind, Event.Phase phase, double t) {
+        return new Event(id, "yard-mast-2", null, kind, phase, t,
+                Instant.parse("2026-12-02T10:00:00Z").plusMillis((long) (t * 1000)), Double.NaN, Double.NaN,
+                Double.NaN, phase == Event.Phase.END ? 3 : Double.NaN);
+    }
+
     /** A bus with an outbox and one MQTT destination (short backoffs for the test). */
     private EventBus bus(String outbox, MqttConfig config, List<String> zones) throws IOException {
         EventBus bus = new EventBus();
@@ -95,9 +102,19 @@ class MqttPublisherIT {
         while (System.nanoTime() < deadline) {
             lines = Files.exists(file) ? Files.readAllLines(file) : List.of();
             if (done.test(lines)) {
-                return lines;
+                return checked(lines);
             }
             Thread.sleep(50);
+        }
+        return checked(lines);
+    }
+
+    /** Every message line seen is held to the schema of its topic (src/main/resources/schema). */
+    private static List<String> checked(List<String> lines) {
+        for (String l : lines) {
+            if (l.startsWith("yard/")) {
+                SchemaCheck.assertMqttLine("yard", l);
+            }
         }
         return lines;
     }
@@ -106,14 +123,18 @@ class MqttPublisherIT {
     void phasesArriveOnTheirTopicsAndStateAndStatusAreRetained() throws Exception {
         Mosquitto m = broker("b");
         Path events = subscribe(m, "yard/+/+/event");
+        Path cameraEvents = subscribe(m, "yard/+/event");
         EventBus bus = bus("outbox", config(m, "wayward-test-1"),
                 List.of("yard-mast-2/lane-2-out", "yard-mast-2/lane-1-in", "yard-mast-2/staff-door"));
         Event aStart = phase("a1", "lane-2-out", Event.Phase.START, 12.3);
         Event aEnd = phase("a1", "lane-2-out", Event.Phase.END, 14.8);
         Event bStart = phase("b1", "lane-1-in", Event.Phase.START, 13.0);
-        Event lost = new Event("o1", "yard-mast-2", null, EventKind.CAMERA_LOST, Event.Phase.START, 20,
-                Instant.parse("2026-12-02T10:00:20Z"), Double.NaN, Double.NaN, Double.NaN, Double.NaN);
-        for (Event e : List.of(aStart, bStart, aEnd, lost)) {
+        Event lost = camera("o1", EventKind.CAMERA_LOST, Event.Phase.START, 20);
+        // two tamper conditions overlap; the end of one leaves the other in the retained camera state
+        Event focus = camera("f1", EventKind.FOCUS_LOST, Event.Phase.START, 21);
+        Event blocked = camera("v1", EventKind.VIEW_BLOCKED, Event.Phase.START, 22);
+        Event unblocked = camera("v1", EventKind.VIEW_BLOCKED, Event.Phase.END, 25);
+        for (Event e : List.of(aStart, bStart, aEnd, lost, focus, blocked, unblocked)) {
             bus.publish(e);
         }
         List<String> got = awaitLines(events, l -> l.size() >= 3, 20);
@@ -121,8 +142,12 @@ class MqttPublisherIT {
                 "yard/yard-mast-2/lane-2-out/event " + EventJson.toJson(aStart),
                 "yard/yard-mast-2/lane-1-in/event " + EventJson.toJson(bStart),
                 "yard/yard-mast-2/lane-2-out/event " + EventJson.toJson(aEnd)), got);
+        assertEquals(List.of(lost, focus, blocked, unblocked).stream()
+                .map(e -> "yard/yard-mast-2/event " + EventJson.toJson(e)).toList(),
+                awaitLines(cameraEvents, l -> l.size() >= 4, 20));
 
-        List<String> retained = awaitRetained(m, "yard/#", l -> l.size() >= 5, 20);
+        List<String> retained = checked(awaitRetained(m, "yard/#",
+                l -> l.size() >= 5 && l.stream().anyMatch(x -> x.contains("\"event\":\"v1\"")), 20));
         Map<String, String> byTopic = new LinkedHashMap<>();
         for (String l : retained) {
             byTopic.put(l.substring(0, l.indexOf(' ')), l.substring(l.indexOf(' ') + 1));
@@ -134,13 +159,14 @@ class MqttPublisherIT {
         assertTrue(byTopic.get("yard/yard-mast-2/lane-2-out/state").contains("\"state\":\"clear\",\"event\":\"a1\""));
         assertTrue(byTopic.get("yard/yard-mast-2/staff-door/state").contains("\"state\":\"clear\""),
                 "a zone without events is cleared once the backlog is out");
-        assertTrue(byTopic.get("yard/yard-mast-2/state").contains("\"state\":\"lost\""));
+        assertTrue(byTopic.get("yard/yard-mast-2/state").startsWith("{\"state\":\"lost\",\"conditions\":[\"focus_lost\"],"
+                + "\"event\":\"v1\",\"kind\":\"view_blocked\",\"phase\":\"end\""), byTopic.get("yard/yard-mast-2/state"));
         assertTrue(byTopic.get("yard/status/wayward-test-1").contains("\"state\":\"online\""));
         assertTrue(retained.stream().noneMatch(l -> l.contains("/event ")), "event phases are not retained");
 
         bus.close(5000); // a clean stop publishes the offline status itself
         buses.remove(bus);
-        List<String> after = m.retained("yard/status/+");
+        List<String> after = checked(m.retained("yard/status/+"));
         assertEquals(1, after.size(), after.toString());
         assertTrue(after.get(0).contains("\"state\":\"offline\""), after.toString());
     }
@@ -256,7 +282,7 @@ class MqttPublisherIT {
         bus("outbox-1", tls, List.of()).publish(phase("t1", "lane-2-out", Event.Phase.START, 1));
         List<String> got = awaitLines(events, l -> !l.isEmpty(), 20);
         assertEquals(1, got.size(), got + "\n" + m.log());
-        assertTrue(got.get(0).startsWith("yard/yard-mast-2/lane-2-out/event {\"id\":\"t1\""), got.get(0));
+        assertTrue(got.get(0).startsWith("yard/yard-mast-2/lane-2-out/event {\"schema\":1,\"id\":\"t1\""), got.get(0));
 
         try (LogCapture log = new LogCapture(MqttPublisher.class)) {
             MqttConfig untrusted = new MqttConfig("mqtts://localhost:" + m.port(), "yard", "wayward-test-5", null,

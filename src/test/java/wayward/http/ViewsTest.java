@@ -90,7 +90,7 @@ class ViewsTest {
                     i, Instant.parse("2026-12-03T08:00:00Z"), 180, 45, 0.04, Double.NaN));
         }
         String two = body(get("/api/events?limit=2"));
-        assertTrue(two.startsWith("{\"events\":[{\"id\":\"id-1\"") && two.contains("\"id\":\"id-2\"")
+        assertTrue(two.startsWith("{\"events\":[{\"schema\":1,\"id\":\"id-1\"") && two.contains("\"id\":\"id-2\"")
                 && !two.contains("id-0"), two);
         assertEquals(400, get("/api/events?limit=0").status().code());
         assertEquals(400, get("/api/events?limit=ten").status().code());

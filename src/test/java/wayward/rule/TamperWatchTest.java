@@ -12,6 +12,7 @@ import wayward.event.Event;
 import wayward.event.EventKind;
 import wayward.flow.FlowField;
 import wayward.image.GrayFrame;
+import wayward.testing.SchemaCheck;
 
 /**
  * The moved-camera check against pictures shifted by a known whole number of pixels (the truth is the shift
@@ -183,8 +184,11 @@ class TamperWatchTest {
             // held 1.5 s from the first registration after the jump at 4.0 s
             assertTrue(e.streamSeconds() >= 5.5 && e.streamSeconds() <= 6.5, "start at " + e.streamSeconds());
             double want = wayward.zone.ZoneMeter.bearingDeg(s[0], s[1]);
-            double diff = Math.abs(((e.headingDeg() - want) % 360 + 540) % 360 - 180);
-            assertTrue(diff < 1e-6, "shift " + s[0] + "," + s[1] + ": heading " + e.headingDeg() + ", want " + want);
+            double diff = Math.abs(((e.bearingDeg() - want) % 360 + 540) % 360 - 180);
+            assertTrue(diff < 1e-6, "shift " + s[0] + "," + s[1] + ": bearing " + e.bearingDeg() + ", want " + want);
+            // the shifts are whole 2×2 blocks, so the registration finds their length exactly
+            assertEquals(Math.hypot(s[0], s[1]), e.shiftPx(), 1e-9, "shift " + s[0] + "," + s[1]);
+            SchemaCheck.assertEventRecord(wayward.event.EventJson.toJson(e));
         }
     }
 

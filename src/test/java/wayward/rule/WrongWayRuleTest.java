@@ -13,6 +13,7 @@ import java.util.List;
 import org.junit.jupiter.api.Test;
 import wayward.event.Event;
 import wayward.flow.FlowField;
+import wayward.testing.SchemaCheck;
 import wayward.zone.MoverSettings;
 import wayward.zone.MoverTracker;
 import wayward.zone.Movers;
@@ -36,8 +37,10 @@ class WrongWayRuleTest {
         return rule.update(m, 0.01);
     }
 
+    /** Keeps a phase the rule decided, held to the shipped event schema on the way. */
     private static void collect(List<Event> out, Event e) {
         if (e != null) {
+            SchemaCheck.assertEventRecord(wayward.event.EventJson.toJson(e));
             out.add(e);
         }
     }
@@ -63,7 +66,7 @@ class WrongWayRuleTest {
         assertEquals(12, start.mover().widthPx());
         assertEquals(20, start.mover().heightPx());
         assertEquals(15, start.mover().travelPx(), 1e-9);
-        assertEquals(180, start.headingDeg(), 1e-9); // moving down the picture
+        assertEquals(180, start.bearingDeg(), 1e-9); // moving down the picture
         double[] path = start.mover().path();
         assertEquals(0.5, path[0], 1e-9); // x 160 of 320
         assertEquals(40.0 / 180, path[1], 1e-6); // where it was first seen

@@ -12,6 +12,7 @@ import java.util.List;
 import org.junit.jupiter.api.Test;
 import wayward.event.Event;
 import wayward.event.EventKind;
+import wayward.testing.SchemaCheck;
 import wayward.zone.ZoneReading;
 
 class ZoneRuleTest {
@@ -46,8 +47,8 @@ class ZoneRuleTest {
         assertEquals(Event.Phase.START, start.phase());
         assertEquals(EventKind.WRONG_WAY, start.kind());
         assertEquals(1.5, start.streamSeconds(), 1e-9, "onset at 1.0 s + hold 0.5 s");
-        assertEquals(180, start.headingDeg(), 1e-9);
-        assertEquals(0.10, start.coverage(), 1e-9);
+        assertEquals(180, start.bearingDeg(), 1e-9);
+        assertEquals(0.10, start.share(), 1e-9);
         assertEquals(Event.Phase.END, end.phase());
         assertEquals(start.id(), end.id());
         assertEquals(3.9, end.streamSeconds(), 1e-9, "last present 2.9 s + clear 1.0 s");
@@ -104,7 +105,8 @@ class ZoneRuleTest {
         }
         assertNotNull(e);
         assertEquals(EventKind.MOTION, e.kind());
-        assertEquals(90, e.headingDeg(), 1e-9);
+        assertEquals(90, e.bearingDeg(), 1e-9);
+        SchemaCheck.assertEventRecord(wayward.event.EventJson.toJson(e));
     }
 
     @Test

@@ -31,6 +31,7 @@ import wayward.cli.Main;
 import wayward.event.Event;
 import wayward.rule.RuleSettings;
 import wayward.rule.ZoneRule;
+import wayward.testing.SchemaCheck;
 import wayward.zone.ZoneMask;
 import wayward.zone.ZoneMeter;
 import wayward.zone.ZoneReading;
@@ -170,6 +171,9 @@ public final class DetectionSuite {
         }
         List<Detection> found = new ArrayList<>();
         for (String line : out.toString(StandardCharsets.UTF_8).split("\n")) {
+            if (!line.isBlank()) {
+                SchemaCheck.assertEventRecord(line); // every record of the suite fits the shipped schema
+            }
             if (!line.contains("\"phase\":\"start\"")) {
                 continue;
             }
