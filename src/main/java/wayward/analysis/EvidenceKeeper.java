@@ -84,8 +84,8 @@ final class EvidenceKeeper {
      * speed for the picture.
      */
     static Snapshot.Caption caption(Event e, double allowedHeadingDeg) {
-        return new Snapshot.Caption(e.camera(), e.zone(), e.kind().jsonName(), e.at(), e.headingDeg(),
-                allowedHeadingDeg, e.speed());
+        return new Snapshot.Caption(e.camera(), e.zone(), e.kind().jsonName(), e.at(), e.bearingDeg(),
+                allowedHeadingDeg, e.speedPxPerSecond());
     }
 
     /** The sidecar's text: one JSON document holding the two records (each already JSON text), one line. */

@@ -72,7 +72,7 @@ class OpenApiTest {
         openapi = JSON.readTree(text);
         assertTrue(openapi.get("openapi").asString().startsWith("3.1."), "an OpenAPI 3.1 document");
         // the event records of /api/events refer to the event record's own schema by its $id
-        String event = resource("/wayward/event/event.schema.json");
+        String event = resource("/schema/event.schema.json");
         String eventId = JSON.readTree(event).get("$id").asString();
         schemas = SchemaRegistry.withDefaultDialect(SpecificationVersion.DRAFT_2020_12,
                 b -> b.schemas(Map.of(BASE, text, eventId, event)));
