@@ -189,8 +189,8 @@ public final class CameraPipeline implements CameraStatus {
 
     /** True while the source delivers pictures (false before the first and during an outage). */
     @Override
-    public boolean delivering() {
-        return source.delivering();
+    public boolean watching() {
+        return source.watching();
     }
 
     /** Wall time spent in flow, zone meters and rules so far, seconds. */
@@ -249,14 +249,14 @@ public final class CameraPipeline implements CameraStatus {
 
     /** The zone's latest coverage (share of its pixels moving), 0..1; NaN before the first reading. */
     @Override
-    public double zoneCoverage(int zone) {
-        return zoneFigures.coverage(zone);
+    public double zoneMovingShare(int zone) {
+        return zoneFigures.movingShare(zone);
     }
 
     /** The zone's latest share of pixels moving against its heading, 0..1; NaN before the first reading. */
     @Override
-    public double zoneAgainst(int zone) {
-        return zoneFigures.against(zone);
+    public double zoneAgainstShare(int zone) {
+        return zoneFigures.againstShare(zone);
     }
 
     /** Events started in the zone so far. */
@@ -403,7 +403,7 @@ public final class CameraPipeline implements CameraStatus {
             }
             gate = new StillGate(xs, ys);
         }
-        LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {} zones", camera.id(), w, h,
-                flow.levelCount(), channels.size());
+        LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {}", camera.id(), w, h, flow.levelCount(),
+                channels.size() == 1 ? "1 zone" : channels.size() + " zones");
     }
 }

@@ -11,7 +11,7 @@ public interface CameraStatus {
     CameraConfig config();
 
     /** Frames are coming and being analysed (the camera is not lost). */
-    boolean delivering();
+    boolean watching();
 
     long framesIn();
 
@@ -38,11 +38,11 @@ public interface CameraStatus {
 
     boolean zoneLearning(int zone);
 
-    /** The zone's latest coverage (share of its pixels moving), 0..1; NaN before the first reading. */
-    double zoneCoverage(int zone);
+    /** The zone's latest moving share (share of its pixels moving), 0..1; NaN before the first reading. */
+    double zoneMovingShare(int zone);
 
     /** The zone's latest share of pixels moving against its heading, 0..1; NaN before the first reading. */
-    double zoneAgainst(int zone);
+    double zoneAgainstShare(int zone);
 
     /** Events started in the zone so far. */
     long zoneEvents(int zone);

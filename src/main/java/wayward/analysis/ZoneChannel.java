@@ -112,7 +112,7 @@ final class ZoneChannel {
         Event e;
         if (moverRule != null) {
             tracker.update(field, dt, t, movers);
-            e = moverRule.update(movers, reading.against);
+            e = moverRule.update(movers, reading.againstShare);
             read = movers;
             state = moverRule.stateName();
         } else {

@@ -124,8 +124,8 @@ public final class VideoSource implements Runnable {
         return reconnects;
     }
 
-    /** True while frames arrive: connected once and not lost since. Any thread. */
-    public boolean delivering() {
+    /** True while frames arrive (the camera is watching, not lost): connected once and not lost since. Any thread. */
+    public boolean watching() {
         return connectedOnce && !lost;
     }
 

@@ -92,7 +92,7 @@ final class MetricsText {
 
     private void cameras(List<CameraStatus> ps) {
         perCamera(ps, "wayward_camera_watching", "gauge", "1 while the camera is watching (frames arrive), 0 while "
-                + "it is lost.", p -> p.delivering() ? 1 : 0);
+                + "it is lost.", p -> p.watching() ? 1 : 0);
         perCamera(ps, "wayward_camera_frames_in_total", "counter", "Frames decoded from the camera.",
                 CameraStatus::framesIn);
         perCamera(ps, "wayward_camera_frames_analysed_total", "counter", "Frames the flow estimator took.",
@@ -112,10 +112,10 @@ final class MetricsText {
                         + "overload, lower than configured).",
                 CameraStatus::analysisFps);
         perZone(ps, "wayward_zone_moving_share", "gauge",
-                "Share of the zone's pixels moving, newest reading (0..1).", CameraStatus::zoneCoverage);
+                "Share of the zone's pixels moving, newest reading (0..1).", CameraStatus::zoneMovingShare);
         perZone(ps, "wayward_zone_against_share", "gauge",
                 "Share of the zone's pixels moving against its heading, newest reading (0..1).",
-                CameraStatus::zoneAgainst);
+                CameraStatus::zoneAgainstShare);
         perZone(ps, "wayward_zone_events_total", "counter", "Events started in the zone.", CameraStatus::zoneEvents);
         family("wayward_evidence_failed_total", "counter",
                 "Evidence files that could not be written, by file: the clip, the snapshot, the JSON sidecar.");

@@ -52,7 +52,7 @@ final class Views {
     void health(ChannelHandlerContext ctx, FullHttpRequest req, boolean readiness) {
         List<String> lost = new ArrayList<>();
         for (CameraStatus p : service.cameraStatus()) {
-            if (!p.delivering()) {
+            if (!p.watching()) {
                 lost.add(p.id());
             }
         }
@@ -97,7 +97,7 @@ final class Views {
 
     /** A camera's health in the one pair of words used everywhere (events, MQTT, pages): watching or lost. */
     static String state(CameraStatus p) {
-        return p.delivering() ? "watching" : "lost";
+        return p.watching() ? "watching" : "lost";
     }
 
     /** {@code /api/cameras}: each camera's source (masked), counters and zones with their latest readings. */
@@ -140,8 +140,8 @@ final class Views {
                         : p.zoneLearning(z) ? "learning" : "learned");
                 g.writeNumberField("onset_level", zc.rule().onsetLevel());
                 g.writeNumberField("release_level", zc.rule().releaseLevel());
-                number(g, "moving_share", p.zoneCoverage(z));
-                number(g, "against_share", p.zoneAgainst(z));
+                number(g, "moving_share", p.zoneMovingShare(z));
+                number(g, "against_share", p.zoneAgainstShare(z));
                 g.writeNumberField("events", p.zoneEvents(z));
                 g.writeEndObject();
             }
@@ -241,8 +241,8 @@ final class Views {
         wayward.zone.ZoneReading r = p.live().measure(m.xs(), m.ys(), m.headingDeg(), m.toleranceDeg(), ZoneConfig.DEFAULT_MIN_SPEED,
                 ZoneConfig.DEFAULT_MIN_CONFIDENCE, p.config().removeCameraMotion());
         String body = EventJson.object(g -> {
-            number(g, "moving_share", r == null ? Double.NaN : r.coverage);
-            number(g, "against_share", r == null ? Double.NaN : r.against);
+            number(g, "moving_share", r == null ? Double.NaN : r.movingShare);
+            number(g, "against_share", r == null ? Double.NaN : r.againstShare);
         });
         Replies.json(ctx, req, HttpResponseStatus.OK, body);
     }

@@ -90,12 +90,12 @@ public final class ReplayReport implements ReadingListener, EventSink {
         int count = movers == null ? 0 : movers.count();
         double largest = movers == null ? 0 : movers.largestTravelPx();
         // full precision: the what-if run must see exactly what the rule saw
-        s.csv.append(r.streamSeconds).append(',').append(r.coverage).append(',').append(r.against).append(',')
-                .append(r.speed).append(',').append(r.headingDeg).append(',').append(r.againstSpeed).append(',')
-                .append(r.againstHeadingDeg).append(',').append(count).append(',').append(largest).append(',')
+        s.csv.append(r.streamSeconds).append(',').append(r.movingShare).append(',').append(r.againstShare).append(',')
+                .append(r.movingSpeedPxPerSecond).append(',').append(r.movingBearingDeg).append(',').append(r.againstSpeedPxPerSecond).append(',')
+                .append(r.againstBearingDeg).append(',').append(count).append(',').append(largest).append(',')
                 .append(ruleState).append('\n');
-        s.moving.add(r.streamSeconds, r.coverage);
-        s.against.add(r.streamSeconds, r.against);
+        s.moving.add(r.streamSeconds, r.movingShare);
+        s.against.add(r.streamSeconds, r.againstShare);
         if (movers != null) {
             s.travel.add(r.streamSeconds, largest);
             s.picture = " image=" + movers.imageWidth + "x" + movers.imageHeight + " stride=" + movers.stride;

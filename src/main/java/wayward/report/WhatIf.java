@@ -214,12 +214,12 @@ public final class WhatIf {
 
     private static void fill(ZoneReading reading, double[] row) {
         reading.streamSeconds = row[0];
-        reading.coverage = row[1];
-        reading.against = row[2];
-        reading.speed = row[3];
-        reading.headingDeg = row[4];
-        reading.againstSpeed = row[5];
-        reading.againstHeadingDeg = row[6];
+        reading.movingShare = row[1];
+        reading.againstShare = row[2];
+        reading.movingSpeedPxPerSecond = row[3];
+        reading.movingBearingDeg = row[4];
+        reading.againstSpeedPxPerSecond = row[5];
+        reading.againstBearingDeg = row[6];
     }
 
     /** Prints the events as JSON lines. */

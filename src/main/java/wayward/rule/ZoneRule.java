@@ -80,7 +80,7 @@ public final class ZoneRule {
     public Event update(ZoneReading r) {
         final double t = r.streamSeconds;
         final boolean wrongWay = kind == EventKind.WRONG_WAY;
-        final double signal = wrongWay ? r.against : r.coverage;
+        final double signal = wrongWay ? r.againstShare : r.movingShare;
         if (state == State.RESTING && t + EPSILON_SECONDS >= restUntil) {
             state = State.IDLE;
         }
@@ -101,8 +101,8 @@ public final class ZoneRule {
                     state = State.IDLE;
                     return null;
                 }
-                if (wrongWay && !Double.isNaN(r.againstSpeed)) {
-                    travel += r.againstSpeed * (t - lastT); // px/s × s: how far the movement against carried
+                if (wrongWay && !Double.isNaN(r.againstSpeedPxPerSecond)) {
+                    travel += r.againstSpeedPxPerSecond * (t - lastT); // px/s × s: how far the movement against carried
                 }
                 lastT = t;
                 accumulate(r, signal, wrongWay);
@@ -167,8 +167,8 @@ public final class ZoneRule {
     }
 
     private void accumulate(ZoneReading r, double signal, boolean wrongWay) {
-        double heading = wrongWay ? r.againstHeadingDeg : r.headingDeg;
-        double speed = wrongWay ? r.againstSpeed : r.speed;
+        double heading = wrongWay ? r.againstBearingDeg : r.movingBearingDeg;
+        double speed = wrongWay ? r.againstSpeedPxPerSecond : r.movingSpeedPxPerSecond;
         samples++;
         sumCoverage += signal;
         peakCoverage = Math.max(peakCoverage, signal);

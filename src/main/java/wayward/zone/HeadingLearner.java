@@ -23,7 +23,7 @@ public final class HeadingLearner {
 
     /** Adds one frame pair's reading; {@code dt} stream seconds since the previous one. */
     public void add(ZoneReading r, double dt) {
-        if (r.coverage < MOVING_COVERAGE) {
+        if (r.movingShare < MOVING_COVERAGE) {
             return;
         }
         movingSeconds += dt;

@@ -123,13 +123,13 @@ public final class ZoneMeter {
         out.streamSeconds = streamSeconds;
         out.cameraU = flow.globalU;
         out.cameraV = flow.globalV;
-        out.coverage = moving / zonePixels;
-        out.against = against / zonePixels;
-        out.againstShare = moving > 0 ? (double) against / moving : 0;
-        out.speed = moving > 0 ? sumSpeed / moving / frameSeconds : 0;
-        out.headingDeg = moving > 0 ? bearingDeg(sumU, sumV) : Double.NaN;
-        out.againstSpeed = against > 0 ? againstSpeed / against / frameSeconds : 0;
-        out.againstHeadingDeg = against > 0 ? bearingDeg(againstU, againstV) : Double.NaN;
+        out.movingShare = moving / zonePixels;
+        out.againstShare = against / zonePixels;
+        out.againstOfMoving = moving > 0 ? (double) against / moving : 0;
+        out.movingSpeedPxPerSecond = moving > 0 ? sumSpeed / moving / frameSeconds : 0;
+        out.movingBearingDeg = moving > 0 ? bearingDeg(sumU, sumV) : Double.NaN;
+        out.againstSpeedPxPerSecond = against > 0 ? againstSpeed / against / frameSeconds : 0;
+        out.againstBearingDeg = against > 0 ? bearingDeg(againstU, againstV) : Double.NaN;
     }
 
     /** Histogram bin of a displacement's bearing; only moving pixels reach it. */

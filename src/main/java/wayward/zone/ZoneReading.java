@@ -12,19 +12,19 @@ public final class ZoneReading {
     /** Stream time of the later frame of the pair, seconds. */
     public double streamSeconds;
     /** Share of the zone's pixels that are confident and move faster than the zone's minimum speed (0..1). */
-    public double coverage;
+    public double movingShare;
     /** Share of the zone's pixels that move against the heading (0..1); 0 for a zone without heading. */
-    public double against;
-    /** Share of the moving pixels that move against the heading (0..1). */
     public double againstShare;
+    /** Share of the moving pixels that move against the heading (0..1). */
+    public double againstOfMoving;
     /** Mean speed of the moving pixels, px/s. */
-    public double speed;
+    public double movingSpeedPxPerSecond;
     /** Bearing of the mean motion vector of the moving pixels, degrees; NaN when nothing moves. */
-    public double headingDeg;
+    public double movingBearingDeg;
     /** Mean speed of the pixels moving against the heading, px/s. */
-    public double againstSpeed;
+    public double againstSpeedPxPerSecond;
     /** Bearing of the mean motion vector of the pixels moving against the heading; NaN when none. */
-    public double againstHeadingDeg;
+    public double againstBearingDeg;
     /** The picture's dominant motion (camera shake) in this frame pair, analysis pixels per frame pair. */
     public double cameraU;
     public double cameraV;
@@ -33,13 +33,13 @@ public final class ZoneReading {
 
     public void copyFrom(ZoneReading o) {
         streamSeconds = o.streamSeconds;
-        coverage = o.coverage;
-        against = o.against;
+        movingShare = o.movingShare;
         againstShare = o.againstShare;
-        speed = o.speed;
-        headingDeg = o.headingDeg;
-        againstSpeed = o.againstSpeed;
-        againstHeadingDeg = o.againstHeadingDeg;
+        againstOfMoving = o.againstOfMoving;
+        movingSpeedPxPerSecond = o.movingSpeedPxPerSecond;
+        movingBearingDeg = o.movingBearingDeg;
+        againstSpeedPxPerSecond = o.againstSpeedPxPerSecond;
+        againstBearingDeg = o.againstBearingDeg;
         cameraU = o.cameraU;
         cameraV = o.cameraV;
         System.arraycopy(o.directions, 0, directions, 0, DIRECTION_BINS);

@@ -54,8 +54,8 @@ class FlowRobustnessTest {
         byte[] a = t.render(W, H, still, 1, 0, 1.5, r);
         byte[] b = t.render(W, H, still, gain, offset, 1.5, r);
         ZoneReading reading = measureWholeFrame(a, b, false);
-        assertTrue(reading.coverage < ONSET_LEVEL, String.format(Locale.ROOT,
-                "phantom motion covers %.4f of the picture (zone onset level %.2f)", reading.coverage, ONSET_LEVEL));
+        assertTrue(reading.movingShare < ONSET_LEVEL, String.format(Locale.ROOT,
+                "phantom motion covers %.4f of the picture (zone onset level %.2f)", reading.movingShare, ONSET_LEVEL));
     }
 
     @Test
@@ -104,9 +104,9 @@ class FlowRobustnessTest {
         ZoneReading with = measureWholeFrame(a, b, true);
         ZoneReading without = measureWholeFrame(a, b, false);
         // the object is 64² px of 320×240 (5.3 %); without removal every confident sample moves
-        String both = String.format(Locale.ROOT, "coverage with removal %.4f, without %.4f", with.coverage, without.coverage);
-        assertTrue(with.coverage <= 64.0 * 64 / (W * H), both);
-        assertTrue(without.coverage > 2 * with.coverage, both);
+        String both = String.format(Locale.ROOT, "coverage with removal %.4f, without %.4f", with.movingShare, without.movingShare);
+        assertTrue(with.movingShare <= 64.0 * 64 / (W * H), both);
+        assertTrue(without.movingShare > 2 * with.movingShare, both);
     }
 
     /** Background moved by (bx, by); a square object of the given size with its corner at (ox, oy). */

@@ -108,7 +108,7 @@ class OpenApiTest {
         }
 
         @Override
-        public boolean delivering() {
+        public boolean watching() {
             return watching;
         }
 
@@ -163,12 +163,12 @@ class OpenApiTest {
         }
 
         @Override
-        public double zoneCoverage(int zone) {
+        public double zoneMovingShare(int zone) {
             return zone == 0 ? 0.0556 : Double.NaN; // the second zone has no reading yet: null
         }
 
         @Override
-        public double zoneAgainst(int zone) {
+        public double zoneAgainstShare(int zone) {
             return zone == 0 ? 0.0412 : Double.NaN;
         }
 

@@ -36,8 +36,8 @@ class ReportPlotTest {
         for (int k = 0; k <= 60; k++) {
             r.streamSeconds = k / 10.0;
             boolean overlap = r.streamSeconds >= 2 && r.streamSeconds <= 4;
-            r.coverage = overlap ? 0.5 : 0.2;
-            r.against = overlap ? 0.5 : 0;
+            r.movingShare = overlap ? 0.5 : 0.2;
+            r.againstShare = overlap ? 0.5 : 0;
             report.reading(camera, 0, r, null, "idle");
         }
         return report.chart(CAMERA, ZONE);

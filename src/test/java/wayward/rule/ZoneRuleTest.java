@@ -24,9 +24,9 @@ class ZoneRuleTest {
         ZoneReading r = new ZoneReading();
         for (int k = 0; t0 + k * 0.1 < t1 - 1e-9; k++) {
             r.streamSeconds = Math.round((t0 + k * 0.1) * 1000) / 1000.0;
-            r.against = level;
-            r.againstHeadingDeg = 180;
-            r.againstSpeed = 40;
+            r.againstShare = level;
+            r.againstBearingDeg = 180;
+            r.againstSpeedPxPerSecond = 40;
             Event e = rule.update(r);
             if (e != null) {
                 out.add(e);
@@ -95,9 +95,9 @@ class ZoneRuleTest {
     void zoneWithoutHeadingReportsMotionFromCoverage() {
         ZoneRule rule = new ZoneRule("cam", "door", false, SETTINGS, CLOCK);
         ZoneReading r = new ZoneReading();
-        r.coverage = 0.2;
-        r.headingDeg = 90;
-        r.speed = 10;
+        r.movingShare = 0.2;
+        r.movingBearingDeg = 90;
+        r.movingSpeedPxPerSecond = 10;
         Event e = null;
         for (int k = 0; k <= 5 && e == null; k++) {
             r.streamSeconds = k * 0.1;
@@ -125,9 +125,9 @@ class ZoneRuleTest {
         ZoneReading r = new ZoneReading();
         for (int k = 0; t0 + k * 0.1 < t1 - 1e-9; k++) {
             r.streamSeconds = Math.round((t0 + k * 0.1) * 1000) / 1000.0;
-            r.against = level;
-            r.againstHeadingDeg = 180;
-            r.againstSpeed = speed;
+            r.againstShare = level;
+            r.againstBearingDeg = 180;
+            r.againstSpeedPxPerSecond = speed;
             Event e = rule.update(r);
             if (e != null) {
                 out.add(e);

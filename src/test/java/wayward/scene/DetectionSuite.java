@@ -248,10 +248,10 @@ public final class DetectionSuite {
                         }
                     }
                     r.streamSeconds = t;
-                    r.coverage = m.size() == 0 ? 0 : (double) on / m.size();
-                    r.against = 0;
-                    r.speed = 0;
-                    r.headingDeg = Double.NaN;
+                    r.movingShare = m.size() == 0 ? 0 : (double) on / m.size();
+                    r.againstShare = 0;
+                    r.movingSpeedPxPerSecond = 0;
+                    r.movingBearingDeg = Double.NaN;
                     Event e = rules.get(z).update(r);
                     if (e != null && e.phase() == Event.Phase.START) {
                         found.add(new Detection(scene.zones().get(z).id(), t));
@@ -345,12 +345,12 @@ public final class DetectionSuite {
                                 }
                             }
                             r.streamSeconds = t;
-                            r.against = m.size() == 0 ? 0 : (double) against / m.size();
-                            r.coverage = r.against;
-                            r.speed = against == 0 ? 0 : Math.hypot(su, sv) / against;
-                            r.headingDeg = against == 0 ? Double.NaN : ZoneMeter.bearingDeg(su, sv);
-                            r.againstSpeed = r.speed;
-                            r.againstHeadingDeg = r.headingDeg;
+                            r.againstShare = m.size() == 0 ? 0 : (double) against / m.size();
+                            r.movingShare = r.againstShare;
+                            r.movingSpeedPxPerSecond = against == 0 ? 0 : Math.hypot(su, sv) / against;
+                            r.movingBearingDeg = against == 0 ? Double.NaN : ZoneMeter.bearingDeg(su, sv);
+                            r.againstSpeedPxPerSecond = r.movingSpeedPxPerSecond;
+                            r.againstBearingDeg = r.movingBearingDeg;
                             Event e = rules.get(z).update(r);
                             if (e != null && e.phase() == Event.Phase.START) {
                                 found.add(new Detection(zone.id(), t));

@@ -105,7 +105,7 @@ class RealFootageIT {
                 double t = index++ * dt;
                 if (flow.push(pixels, field)) {
                     meter.measure(field, dt, t, reading);
-                    ours.add(reading.against);
+                    ours.add(reading.againstShare);
                     try (Mat fb = new Mat()) {
                         // Farnebäck (2003) with the parameters of our flow reference table (0.5, 3, 15, 3, 5, 1.2)
                         opencv_video.calcOpticalFlowFarneback(previous, frame, fb, 0.5, 3, 15, 3, 5, 1.2, 0);
