@@ -1,6 +1,7 @@
 package wayward.analysis;
 
 import java.util.List;
+import wayward.flow.Quickselect;
 import wayward.image.GrayFrame;
 
 /**
@@ -212,7 +213,7 @@ final class StillGate {
         for (int i = 0; i < n; i++) {
             scratch[i] = current[i] - base[i];
         }
-        return select(scratch, n, n / 2);
+        return Quickselect.kth(scratch, n, n / 2);
     }
 
     /** Largest change of a block mean from base, the picture's brightness step taken off. */
@@ -223,39 +224,5 @@ final class StillGate {
             most = Math.max(most, Math.abs(current[i] - base[i] - step));
         }
         return most;
-    }
-
-    /** The k-th smallest of a[0..n) (Hoare's selection; reorders a). */
-    static float select(float[] a, int n, int k) {
-        int lo = 0;
-        int hi = n - 1;
-        while (lo < hi) {
-            final float pivot = a[(lo + hi) >>> 1];
-            int i = lo;
-            int j = hi;
-            while (i <= j) {
-                while (a[i] < pivot) {
-                    i++;
-                }
-                while (a[j] > pivot) {
-                    j--;
-                }
-                if (i <= j) {
-                    final float x = a[i];
-                    a[i] = a[j];
-                    a[j] = x;
-                    i++;
-                    j--;
-                }
-            }
-            if (k <= j) {
-                hi = j;
-            } else if (k >= i) {
-                lo = i;
-            } else {
-                return a[k];
-            }
-        }
-        return a[k];
     }
 }

@@ -49,38 +49,8 @@ final class GlobalMotion {
         return true;
     }
 
-    /** Median of a[0..n) by quickselect (Hoare 1961); reorders a. */
+    /** Median of a[0..n) by quickselect; reorders a. */
     static float median(float[] a, int n) {
-        int k = n / 2;
-        int lo = 0;
-        int hi = n - 1;
-        while (lo < hi) {
-            float pivot = a[(lo + hi) >>> 1];
-            int i = lo;
-            int j = hi;
-            while (i <= j) {
-                while (a[i] < pivot) {
-                    i++;
-                }
-                while (a[j] > pivot) {
-                    j--;
-                }
-                if (i <= j) {
-                    float t = a[i];
-                    a[i] = a[j];
-                    a[j] = t;
-                    i++;
-                    j--;
-                }
-            }
-            if (k <= j) {
-                hi = j;
-            } else if (k >= i) {
-                lo = i;
-            } else {
-                break;
-            }
-        }
-        return a[k];
+        return Quickselect.kth(a, n, n / 2);
     }
 }

@@ -4,7 +4,6 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import java.util.Arrays;
 import java.util.List;
 import java.util.Random;
 import org.junit.jupiter.api.Test;
@@ -104,21 +103,5 @@ class StillGateTest {
         t += DT;
         // a gain step of 4 % shifts every block by 3–5 grey levels: the median step is taken off
         assertFalse(g.changed(frame(r, 1, -50, -50, 1.04), t));
-    }
-
-    @Test
-    void selectFindsTheKthSmallestAsSortingDoes() {
-        Random r = new Random(5);
-        for (int trial = 0; trial < 200; trial++) {
-            int n = 1 + r.nextInt(300);
-            float[] a = new float[n];
-            for (int i = 0; i < n; i++) {
-                a[i] = r.nextInt(20) - 10 + (r.nextBoolean() ? 0.5f : 0f); // many ties
-            }
-            float[] sorted = a.clone();
-            Arrays.sort(sorted);
-            int k = r.nextInt(n);
-            assertEquals(sorted[k], StillGate.select(a.clone(), n, k), "n " + n + " k " + k);
-        }
     }
 }

@@ -7,17 +7,28 @@ import wayward.delivery.EventBus;
 import wayward.delivery.Outbox;
 import wayward.delivery.RecentEvents;
 
-/** A running service as the status server sees it, with no cameras, no outbox and the recent events given. */
+/**
+ * A running service as the status server sees it: the cameras, recent events and evidence folder given, no
+ * outbox; with no cameras by default.
+ */
 final class EmptySite implements StatusSource {
+    private final List<CameraStatus> cameras;
     private final RecentEvents recent;
+    private final Path evidence;
 
     EmptySite(RecentEvents recent) {
+        this(List.of(), recent, Path.of("no-evidence"));
+    }
+
+    EmptySite(List<CameraStatus> cameras, RecentEvents recent, Path evidence) {
+        this.cameras = cameras;
         this.recent = recent;
+        this.evidence = evidence;
     }
 
     @Override
     public List<CameraStatus> cameraStatus() {
-        return List.of();
+        return cameras;
     }
 
     @Override
@@ -37,6 +48,6 @@ final class EmptySite implements StatusSource {
 
     @Override
     public Path evidenceDir() {
-        return Path.of("no-evidence");
+        return evidence;
     }
 }

@@ -36,8 +36,6 @@ import wayward.analysis.CameraConfig;
 import wayward.analysis.CameraStatus;
 import wayward.analysis.LiveView;
 import wayward.config.ConfigLoader;
-import wayward.delivery.EventBus;
-import wayward.delivery.Outbox;
 import wayward.delivery.RecentEvents;
 import wayward.event.EventJson;
 
@@ -183,39 +181,14 @@ class OpenApiTest {
         }
     }
 
-    private static final class Site implements StatusSource {
-        final List<CameraStatus> cameras;
-        final RecentEvents recent = new RecentEvents(10);
-        final Path evidence;
-
+    /** The test site: a status source over its cameras, recent events (filled by the test) and evidence. */
+    private record Site(List<CameraStatus> cameras, RecentEvents recent, StatusSource source) {
         Site(List<CameraStatus> cameras, Path evidence) {
-            this.cameras = cameras;
-            this.evidence = evidence;
+            this(cameras, new RecentEvents(10), evidence);
         }
 
-        @Override
-        public List<CameraStatus> cameraStatus() {
-            return cameras;
-        }
-
-        @Override
-        public EventBus bus() {
-            return new EventBus();
-        }
-
-        @Override
-        public Outbox outbox() {
-            return null;
-        }
-
-        @Override
-        public RecentEvents recentEvents() {
-            return recent;
-        }
-
-        @Override
-        public Path evidenceDir() {
-            return evidence;
+        private Site(List<CameraStatus> cameras, RecentEvents recent, Path evidence) {
+            this(cameras, recent, new EmptySite(cameras, recent, evidence));
         }
     }
 
@@ -294,7 +267,7 @@ class OpenApiTest {
         assertEquals(documented, new TreeSet<>(requests.keySet()), "every documented path is checked live");
 
         HttpClient client = HttpClient.newHttpClient();
-        try (StatusServer server = StatusServer.start(new HttpConfig("127.0.0.1", 0, null, null, 10), site)) {
+        try (StatusServer server = StatusServer.start(new HttpConfig("127.0.0.1", 0, null, null, 10), site.source())) {
             Map<String, Answer> answers = new LinkedHashMap<>();
             for (Map.Entry<String, String> r : requests.entrySet()) {
                 Answer a = get(client, server.port(), r.getValue());
