@@ -169,17 +169,27 @@ class WrongWayRuleTest {
 
     /** As above, the tracker having found still ground {@code stillAhead} px ahead of the one behind. */
     private static List<Event> twoBehind(double gapPx, int w, int h, int samples2, double vx2, double stillAhead) {
+        return behind(gapPx, w, h, w, h, samples2, vx2, stillAhead);
+    }
+
+    /**
+     * A body w1 × h1 of 60 samples driving down the picture at 30 px/s and, gapPx behind it box to box, one of
+     * w2 × h2 with samples2 (its velocity read vx2 px/s sideways), the tracker having found still ground
+     * stillAhead px ahead of the one behind; the event starts.
+     */
+    private static List<Event> behind(double gapPx, int w1, int h1, int w2, int h2, int samples2, double vx2,
+            double stillAhead) {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
         Movers m = new Movers(8);
         List<Event> out = new ArrayList<>();
         for (int n = 0; n <= 30; n++) {
             double t = n * DT;
             double y1 = 100 + 3 * n;
-            double y2 = y1 - h - gapPx; // box to box: gapPx of still ground between them
+            double y2 = y1 - (h1 + h2) / 2.0 - gapPx; // box to box: gapPx of still ground between them
             m.begin(t, 320, 180, 4);
-            m.put(1, true, t, 3 * n, 60, 60, w, h, 160, y1, 0, 30, 30);
-            int behind = m.put(2, true, t, 3 * n, samples2, samples2, w, h, 160, y2, vx2, 30, Math.hypot(vx2, 30));
-            m.stillAheadPx(behind, stillAhead);
+            m.put(1, true, t, 3 * n, 60, 60, w1, h1, 160, y1, 0, 30, 30);
+            int second = m.put(2, true, t, 3 * n, samples2, samples2, w2, h2, 160, y2, vx2, 30, Math.hypot(vx2, 30));
+            m.stillAheadPx(second, stillAhead);
             m.end();
             collect(out, rule.update(m, 0.01));
         }
@@ -194,22 +204,9 @@ class WrongWayRuleTest {
         assertEquals(1, twoBehind(8, 36, 36, 60, 0).size());
     }
 
-    /** A 36 × 36 px body of 60 samples and, {@code gapPx} behind it (box to box), a rim {@code rimW} × 6 px of 10. */
+    /** A body of 60 samples and, {@code gapPx} behind it (box to box), a rim {@code rimW} × 6 px of 10. */
     private static List<Event> rimBehindBody(double gapPx, int bodyW, int bodyH, int rimW) {
-        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
-        Movers m = new Movers(8);
-        List<Event> out = new ArrayList<>();
-        for (int n = 0; n <= 30; n++) {
-            double t = n * DT;
-            double y1 = 100 + 3 * n;
-            double y2 = y1 - bodyH / 2.0 - gapPx - 3; // the rim's centre: half its 6 px behind the gap
-            m.begin(t, 320, 180, 4);
-            m.put(1, true, t, 3 * n, 60, 60, bodyW, bodyH, 160, y1, 0, 30, 30);
-            m.put(2, true, t, 3 * n, 10, 10, rimW, 6, 160, y2, 0, 30, 30);
-            m.end();
-            collect(out, rule.update(m, 0.01));
-        }
-        return out.stream().filter(e -> e.phase() == Event.Phase.START).toList();
+        return behind(gapPx, bodyW, bodyH, rimW, 6, 10, 0, Double.POSITIVE_INFINITY);
     }
 
     @Test
