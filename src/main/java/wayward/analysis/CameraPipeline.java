@@ -52,7 +52,7 @@ public final class CameraPipeline implements CameraStatus {
     // analysis-thread state
     private FlowEstimator flow;
     /** Skips the flow of frames in which nothing changed around the zones; null when the config turns it off. */
-    private StillGate gate;
+    private volatile StillGate gate;
     private FlowField field;
     private final ZoneReading reading = new ZoneReading();
 
@@ -158,6 +158,12 @@ public final class CameraPipeline implements CameraStatus {
     @Override
     public long analysedFrames() {
         return analysedFrames;
+    }
+
+    @Override
+    public long stillFrames() {
+        StillGate g = gate;
+        return g == null ? 0 : g.stillFrames();
     }
 
     /** Every 30 s (service watcher): the analysis rate actually reached; logs when analysis falls behind. */

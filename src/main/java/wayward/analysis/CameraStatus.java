@@ -17,7 +17,10 @@ public interface CameraStatus {
 
     long analysedFrames();
 
-    /** Pictures replaced by a newer one before analysis took them. */
+    /** Analysed frames whose flow was skipped because nothing changed around the zones ({@code [flow] skip_still}). */
+    long stillFrames();
+
+    /** Frames replaced by a newer one before analysis took them. */
     long droppedFrames();
 
     long decodeErrors();

@@ -65,7 +65,8 @@ final class StillGate {
     private double noisePrevious;
     private double noiseReference;
     private int warmFrames;
-    private long stillFrames;
+    /** Written by the analysis thread only, read by any (status, metrics). */
+    private volatile long stillFrames;
 
     /**
      * A gate over the given zones' polygons (picture fractions; corners of all zones, x and y apart). Polygons

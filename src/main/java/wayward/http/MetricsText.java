@@ -97,6 +97,8 @@ final class MetricsText {
                 CameraStatus::framesIn);
         perCamera(ps, "wayward_camera_frames_analysed_total", "counter", "Frames the flow estimator took.",
                 CameraStatus::analysedFrames);
+        perCamera(ps, "wayward_camera_frames_still_total", "counter",
+                "Analysed frames whose flow was skipped: nothing changed around the zones.", CameraStatus::stillFrames);
         perCamera(ps, "wayward_camera_frames_dropped_total", "counter",
                 "Frames replaced by a newer one before analysis took them.", CameraStatus::droppedFrames);
         perCamera(ps, "wayward_camera_decode_errors_total", "counter", "Packets the decoder refused.",

@@ -104,6 +104,10 @@ class StatusServerIT {
             assertTrue(body.contains("wayward_evidence_failed_total{file=\"clip\"} 0\n"), body);
             assertTrue(!body.contains("wayward_camera_analysis_fps{camera=\"yard-mast-2\"} NaN"), body);
             assertTrue(!body.contains("Pictures") && !body.contains("pictures"), body);
+            // frames whose flow the still-frame gate skipped: a counter of its own, never more than were analysed
+            double still = sampleOf(body, "wayward_camera_frames_still_total{camera=\"yard-mast-2\"}");
+            double analysed = sampleOf(body, "wayward_camera_frames_analysed_total{camera=\"yard-mast-2\"}");
+            assertTrue(still >= 0 && still <= analysed, still + " still of " + analysed + " analysed");
 
             String cameras = text(get(port, "/api/cameras", TOKEN));
             assertTrue(cameras.startsWith("{\"cameras\":[{\"id\":\"yard-mast-2\""), cameras);
@@ -175,5 +179,15 @@ class StatusServerIT {
 
     private static int freePort() throws Exception {
         return Mosquitto.freePort(); // below the ephemeral range, as for the broker
+    }
+
+    /** The value of one sample line ("name{labels} value") of a Prometheus text answer; fails when it is missing. */
+    private static double sampleOf(String body, String series) {
+        for (String line : body.split("\n")) {
+            if (line.startsWith(series + " ")) {
+                return Double.parseDouble(line.substring(series.length() + 1).trim());
+            }
+        }
+        throw new AssertionError(series + " missing in\n" + body);
     }
 }

@@ -121,6 +121,11 @@ class OpenApiTest {
         }
 
         @Override
+        public long stillFrames() {
+            return 640;
+        }
+
+        @Override
         public long droppedFrames() {
             return 3;
         }
