@@ -88,9 +88,26 @@ public final class Main {
             Thread.currentThread().interrupt();
             err.println("wayward " + name + ": interrupted");
             return FAILED;
+        } catch (java.io.IOException e) {
+            // a disk or file fault at start (data folder, outbox, evidence folder): one line naming the file
+            err.println("wayward " + name + ": " + describe(e));
+            return FAILED;
         } catch (Exception e) {
             err.println("wayward " + name + ": " + e);
             return FAILED;
         }
+    }
+
+    /**
+     * An I/O fault in one line: its message, and what kind of fault when the message is only a file's name (the
+     * JDK's file-system faults say "access denied" or "no such file" by their class alone).
+     */
+    static String describe(java.io.IOException e) {
+        if (e instanceof java.nio.file.FileSystemException f && f.getReason() == null) {
+            String kind = f.getClass().getSimpleName().replace("Exception", "")
+                    .replaceAll("([a-z])([A-Z])", "$1 $2").toLowerCase(java.util.Locale.ROOT);
+            return f.getMessage() + " (" + kind + ")";
+        }
+        return e.getMessage() != null ? e.getMessage() : e.toString();
     }
 }

@@ -74,4 +74,15 @@ class MainTest {
         assertEquals(66, run("replay", "--config", "conf/demo.toml", "--input", "no-such.mp4"));
         assertEquals("wayward replay: --input no-such.mp4: file not found\n", stderr());
     }
+
+    @Test
+    void anIoFaultAtStartIsOneLineNamingTheFileAndTheKindOfFault() {
+        // the JDK's file-system faults carry only the file when their class says what happened
+        assertEquals("/srv/data/outbox (access denied)",
+                Main.describe(new java.nio.file.AccessDeniedException("/srv/data/outbox")));
+        assertEquals("/srv/data (no such file)", Main.describe(new java.nio.file.NoSuchFileException("/srv/data")));
+        assertEquals("/srv/data: Read-only file system",
+                Main.describe(new java.nio.file.FileSystemException("/srv/data", null, "Read-only file system")));
+        assertEquals("cannot rename a to b", Main.describe(new java.io.IOException("cannot rename a to b")));
+    }
 }
