@@ -52,7 +52,9 @@ public final class CameraPipeline implements CameraStatus {
     // analysis-thread state
     private FlowEstimator flow;
     /** Skips the flow of frames in which nothing changed around the zones; null when the config turns it off. */
-    private volatile StillGate gate;
+    private StillGate gate;
+    /** Analysed frames whose flow the gate skipped, over every resolution the stream had (a counter). */
+    private volatile long stillFrames;
     private FlowField field;
     private final ZoneReading reading = new ZoneReading();
 
@@ -162,8 +164,7 @@ public final class CameraPipeline implements CameraStatus {
 
     @Override
     public long stillFrames() {
-        StillGate g = gate;
-        return g == null ? 0 : g.stillFrames();
+        return stillFrames;
     }
 
     /** Every 30 s (service watcher): the analysis rate actually reached; logs when analysis falls behind. */
@@ -315,6 +316,7 @@ public final class CameraPipeline implements CameraStatus {
                     estimated = flow.push(f.pixels, field);
                 } else {
                     flow.pushStill(f.pixels, field); // the gate passes only after frames it has primed on
+                    stillFrames++;
                     estimated = true;
                 }
                 long c1 = stages.flowDone(c0);
@@ -359,7 +361,7 @@ public final class CameraPipeline implements CameraStatus {
         } finally {
             if (gate != null) {
                 LOG.info("camera {}: flow skipped on {} of {} analysed frames (nothing changed around the zones;"
-                        + " block noise {} grey levels)", camera.id(), gate.stillFrames(), analysedFrames,
+                        + " block noise {} grey levels)", camera.id(), stillFrames, analysedFrames,
                         String.format(java.util.Locale.ROOT, "%.2f", gate.noise()));
             }
             if (flow != null) {
@@ -407,7 +409,7 @@ public final class CameraPipeline implements CameraStatus {
                 xs.add(c.zone().xs());
                 ys.add(c.zone().ys());
             }
-            gate = new StillGate(xs, ys);
+            gate = new StillGate(xs, ys, w, h);
         }
         LOG.info("camera {}: analysing at {}x{}, {} pyramid levels, {}", camera.id(), w, h, flow.levelCount(),
                 channels.size() == 1 ? "1 zone" : channels.size() + " zones");

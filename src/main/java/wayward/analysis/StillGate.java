@@ -20,8 +20,8 @@ import wayward.image.GrayFrame;
  * After a change the flow keeps running for {@value #KEEP_SECONDS} s, so the movers' tracks end as they would with
  * the flow on. The first {@value #WARM_UP_SECONDS} s run the flow and learn the noise.
  *
- * <p>One instance per camera, called by the analysis thread; buffers sized once per resolution, nothing allocated
- * per frame.
+ * <p>One instance per camera and resolution, called by the analysis thread; buffers sized in the constructor,
+ * nothing allocated per frame.
  */
 final class StillGate {
     /** Side of the blocks whose means are compared, analysis pixels. */
@@ -46,18 +46,15 @@ final class StillGate {
     /** Weight of one still frame's largest change in the learned one. */
     private static final double NOISE_RATE = 0.05;
 
-    private final double[] xs;
-    private final double[] ys;
-    private int width = -1;
-    private int height = -1;
-    private int x0;
-    private int y0;
-    private int columns;
-    private int rows;
-    private float[] current;
-    private float[] previous;
-    private float[] reference;
-    private float[] scratch;
+    private final int width;
+    private final int x0;
+    private final int y0;
+    private final int columns;
+    private final int rows;
+    private final float[] current;
+    private final float[] previous;
+    private final float[] reference;
+    private final float[] scratch;
     private boolean primed;
     private double firstSeconds;
     private double referenceSeconds;
@@ -65,18 +62,16 @@ final class StillGate {
     private double noisePrevious;
     private double noiseReference;
     private int warmFrames;
-    /** Written by the analysis thread only, read by any (status, metrics). */
-    private volatile long stillFrames;
 
     /**
-     * A gate over the given zones' polygons (picture fractions; corners of all zones, x and y apart). Polygons
-     * are read once; the arrays are not kept.
+     * A gate for w × h frames over the given zones' polygons (picture fractions; each zone's corners, x and y
+     * apart; none: the whole picture). Polygons are read once; the arrays are not kept.
      */
-    StillGate(List<double[]> zoneXs, List<double[]> zoneYs) {
-        double minX = 1;
-        double maxX = 0;
-        double minY = 1;
-        double maxY = 0;
+    StillGate(List<double[]> zoneXs, List<double[]> zoneYs, int w, int h) {
+        double minX = zoneXs.isEmpty() ? 0 : 1;
+        double maxX = zoneXs.isEmpty() ? 1 : 0;
+        double minY = minX;
+        double maxY = maxX;
         for (int z = 0; z < zoneXs.size(); z++) {
             for (double x : zoneXs.get(z)) {
                 minX = Math.min(minX, x);
@@ -87,14 +82,21 @@ final class StillGate {
                 maxY = Math.max(maxY, y);
             }
         }
-        if (zoneXs.isEmpty()) {
-            minX = 0;
-            maxX = 1;
-            minY = 0;
-            maxY = 1;
-        }
-        xs = new double[] {minX, maxX};
-        ys = new double[] {minY, maxY};
+        width = w;
+        int left = Math.max(0, (int) Math.floor(minX * w) - MARGIN_PX);
+        int right = Math.min(w, (int) Math.ceil(maxX * w) + MARGIN_PX);
+        int top = Math.max(0, (int) Math.floor(minY * h) - MARGIN_PX);
+        int bottom = Math.min(h, (int) Math.ceil(maxY * h) + MARGIN_PX);
+        // whole blocks inside the picture
+        columns = Math.min(Math.max(1, (right - left) / BLOCK), Math.max(1, w / BLOCK));
+        rows = Math.min(Math.max(1, (bottom - top) / BLOCK), Math.max(1, h / BLOCK));
+        x0 = Math.max(0, Math.min(left, w - columns * BLOCK));
+        y0 = Math.max(0, Math.min(top, h - rows * BLOCK));
+        int n = columns * rows;
+        current = new float[n];
+        previous = new float[n];
+        reference = new float[n];
+        scratch = new float[n];
     }
 
     /**
@@ -102,9 +104,6 @@ final class StillGate {
      * zones changed beyond the noise, and for {@link #KEEP_SECONDS} after.
      */
     boolean changed(GrayFrame f, double t) {
-        if (f.width != width || f.height != height) {
-            size(f.width, f.height);
-        }
         blockMeans(f.pixels);
         final int n = current.length;
         if (!primed) {
@@ -139,21 +138,12 @@ final class StillGate {
             System.arraycopy(current, 0, reference, 0, n);
             referenceSeconds = t;
         }
-        final boolean run = t - changedSeconds <= KEEP_SECONDS + 1e-6;
-        if (!run) {
-            stillFrames++;
-        }
-        return run;
+        return t - changedSeconds <= KEEP_SECONDS + 1e-6;
     }
 
     /** The change of a block mean that counts, given the learned largest change of still frames. */
     private static double limit(double noise) {
         return NOISE_FACTOR * Math.min(noise, MAX_NOISE) + MIN_CHANGE;
-    }
-
-    /** Frames judged still so far (their flow was skipped). */
-    long stillFrames() {
-        return stillFrames;
     }
 
     /** The learned largest change of a block mean between still frames, grey levels (0 before a frame pair). */
@@ -163,28 +153,6 @@ final class StillGate {
 
     /** Starts over (after a gap in the stream): the next frame primes the gate again. */
     void reset() {
-        primed = false;
-    }
-
-    private void size(int w, int h) {
-        width = w;
-        height = h;
-        int left = Math.max(0, (int) Math.floor(xs[0] * w) - MARGIN_PX);
-        int right = Math.min(w, (int) Math.ceil(xs[1] * w) + MARGIN_PX);
-        int top = Math.max(0, (int) Math.floor(ys[0] * h) - MARGIN_PX);
-        int bottom = Math.min(h, (int) Math.ceil(ys[1] * h) + MARGIN_PX);
-        columns = Math.max(1, (right - left) / BLOCK);
-        rows = Math.max(1, (bottom - top) / BLOCK);
-        // whole blocks inside the picture
-        columns = Math.min(columns, w / BLOCK);
-        rows = Math.min(rows, h / BLOCK);
-        x0 = Math.min(left, w - columns * BLOCK);
-        y0 = Math.min(top, h - rows * BLOCK);
-        int n = columns * rows;
-        current = new float[n];
-        previous = new float[n];
-        reference = new float[n];
-        scratch = new float[n];
         primed = false;
     }
 

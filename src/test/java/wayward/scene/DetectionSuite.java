@@ -140,7 +140,6 @@ public final class DetectionSuite {
      */
     static String config(Scene scene, Path video) {
         StringBuilder toml = new StringBuilder("[service]\ndata_dir = \"data\"\nhttp = \"off\"\n");
-        // -Dsuite.flow="key = value" sets a [flow] key for a side-by-side run (e.g. skip_still = false)
         String flow = System.getProperty("suite.flow");
         if (flow != null) {
             toml.append("[flow]\n").append(flow).append('\n');
