@@ -56,8 +56,6 @@ public final class CameraPipeline implements CameraStatus {
     /** Analysed frames whose flow the gate skipped, over every resolution the stream had (a counter). */
     private volatile long stillFrames;
     private FlowField field;
-    /** The analysed frame before the current one, analysis size; the mover trackers' light test reads it. */
-    private byte[] previousPixels;
     private final ZoneReading reading = new ZoneReading();
 
     /** Evidence settings of a pipeline: where clips go and who writes snapshots; null for none. */
@@ -326,14 +324,13 @@ public final class CameraPipeline implements CameraStatus {
                 lastStreamSeconds = t;
                 analysedFrames++;
                 if (!estimated || dt <= 0 || dt > MAX_GAP_SECONDS) {
-                    System.arraycopy(f.pixels, 0, previousPixels, 0, previousPixels.length);
                     analysisNanos += System.nanoTime() - began;
                     continue;
                 }
                 live.offer(f, field, dt);
                 for (int z = 0; z < channels.size(); z++) {
                     ZoneChannel c = channels.get(z);
-                    Event e = c.update(field, previousPixels, f.pixels, dt, t, reading, learnedDir);
+                    Event e = c.update(field, dt, t, reading, learnedDir);
                     zoneFigures.read(z, reading);
                     if (readings != null) {
                         readings.reading(camera, z, reading, c.movers(), c.state());
@@ -351,7 +348,6 @@ public final class CameraPipeline implements CameraStatus {
                         emit(e);
                     }
                 }
-                System.arraycopy(f.pixels, 0, previousPixels, 0, previousPixels.length);
                 analysisNanos += System.nanoTime() - began;
                 stages.zonesDone(c1);
                 if (frames != null) {
@@ -403,7 +399,6 @@ public final class CameraPipeline implements CameraStatus {
         }
         flow = FlowEstimator.create(w, h, flowConfig.toSettings());
         field = flow.newField();
-        previousPixels = new byte[w * h];
         for (ZoneChannel c : channels) {
             c.setUp(field);
         }

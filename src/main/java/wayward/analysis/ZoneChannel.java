@@ -99,12 +99,9 @@ final class ZoneChannel {
      * One analysed frame: fills {@code reading}, runs the rule (or the learner) and returns the event phase it
      * decided, or null.
      *
-     * @param first      the flow's earlier frame (analysis size, grey levels row-major); read, not kept
-     * @param second     the flow's later frame
      * @param learnedDir where a learned heading is kept; null: in memory only
      */
-    Event update(FlowField field, byte[] first, byte[] second, double dt, double t, ZoneReading reading,
-            Path learnedDir) {
+    Event update(FlowField field, double dt, double t, ZoneReading reading, Path learnedDir) {
         meter.measure(field, dt, t, reading);
         read = null;
         if (learner != null) {
@@ -114,7 +111,7 @@ final class ZoneChannel {
         }
         Event e;
         if (moverRule != null) {
-            tracker.update(field, first, second, dt, t, movers);
+            tracker.update(field, dt, t, movers);
             e = moverRule.update(movers, reading.againstShare);
             read = movers;
             state = moverRule.stateName();

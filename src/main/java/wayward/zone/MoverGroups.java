@@ -344,11 +344,6 @@ final class MoverGroups {
         vv[g] = (a * b2[g] - b * b1[g]) / det;
     }
 
-    /** The group of sample k in the last field, or -1 (not moving, or not grouped). */
-    int labelOf(int k) {
-        return label[k];
-    }
-
     /** True when the sample nearest to the point (analysis pixels) is one of the zone's. */
     boolean centreInZone(double x, double y) {
         int k = sampleAt(x, y);

@@ -52,7 +52,6 @@ public final class MoverTracker {
     /** How far ahead of a track's centroid still ground is looked for, analysis pixels. */
     static final double LOOK_AHEAD_PX = 160;
 
-    private static final boolean DEBUG = Boolean.getBoolean("wayward.debugLight");
     private final ZoneMask mask;
     private final MoverSettings settings;
     private final int gridWidth;
@@ -69,13 +68,6 @@ public final class MoverTracker {
     private final int[] gTrack;
     private final Tracks tr;
     private final Jumps jumps;
-    private final Relighting light;
-    private final boolean removeCameraMotion;
-    /** The frames of the field being followed (null: not given, no light test). */
-    private byte[] firstFrame;
-    private byte[] secondFrame;
-    private float camU;
-    private float camV;
     private final Nearest near = new Nearest();
     private long untracked;
 
@@ -112,8 +104,6 @@ public final class MoverTracker {
         int t = capacity(gr.zoneSamples());
         tr = new Tracks(t);
         jumps = new Jumps(gr, tr, gTrack, settings);
-        light = new Relighting(gr, imageWidth, imageHeight);
-        this.removeCameraMotion = removeCameraMotion;
     }
 
     /** Tracks followed at once at most for a zone of {@code samples} samples. */
@@ -149,27 +139,6 @@ public final class MoverTracker {
      * @param out          a table from {@link #newMovers}; refilled
      */
     public void update(FlowField flow, double frameSeconds, double streamSeconds, Movers out) {
-        update(flow, null, null, frameSeconds, streamSeconds, out);
-    }
-
-    /**
-     * As {@link #update(FlowField, double, double, Movers)}, with the two frames the flow was estimated from, so
-     * that a group whose change is light over ground that stays put ({@link Relighting}: a beam sweeping over the
-     * ground) adds no travel to its track.
-     *
-     * @param first  the flow's earlier frame, the layout's image size, grey levels row-major; read, not kept past
-     *               the call; null: no light test (then second must be null too)
-     * @param second the flow's later frame, same layout
-     */
-    public void update(FlowField flow, byte[] first, byte[] second, double frameSeconds, double streamSeconds,
-            Movers out) {
-        if ((first == null) != (second == null)) {
-            throw new IllegalArgumentException("first, second: one null (expected both or neither)");
-        }
-        if (first != null && (first.length != imageWidth * imageHeight || second.length != first.length)) {
-            throw new IllegalArgumentException("first, second: " + first.length + ", " + second.length
-                    + " pixels (expected " + imageWidth * imageHeight + ")");
-        }
         if (flow.width != gridWidth || flow.height != gridHeight || flow.stride != stride) {
             throw new IllegalArgumentException("flow: " + flow.width + "x" + flow.height + " every " + flow.stride
                     + " px (expected " + gridWidth + "x" + gridHeight + " every " + stride + " px)");
@@ -181,13 +150,7 @@ public final class MoverTracker {
             throw new IllegalArgumentException("out: capacity " + out.capacity() + " (expected " + tr.capacity() + ")");
         }
         gr.find(flow, frameSeconds);
-        firstFrame = first;
-        secondFrame = second;
-        camU = removeCameraMotion ? flow.globalU : 0f;
-        camV = removeCameraMotion ? flow.globalV : 0f;
         follow(frameSeconds, streamSeconds);
-        firstFrame = null;
-        secondFrame = null;
         out.begin(streamSeconds, imageWidth, imageHeight, stride);
         for (int t = 0; t < tr.capacity(); t++) {
             if (!tr.live[t]) {
@@ -343,18 +306,7 @@ public final class MoverTracker {
             final boolean jumping = tr.jumped[k]; // see Jumps
             final boolean flowFailed = jumping || flowFailed(k, g, cx, cy, dt, t);
             final boolean inZone = gr.centreInZone(cx, cy);
-            final boolean lit = hasHeading && inZone && firstFrame != null && !jumping
-                    && light.isLight(g, firstFrame, secondFrame, camU, camV);
-            if (DEBUG && hasHeading && inZone && firstFrame != null && gr.count[g] >= MIN_STEADY_SAMPLES) {
-                light.isLight(g, firstFrame, secondFrame, camU, camV);
-                final double width = light.edgeWidth(g, secondFrame);
-                System.err.printf(java.util.Locale.ROOT, "LIGHT t=%.2f track=%d n=%d at=%.0f,%.0f v=%.1f,%.1f still=%.2f moved=%.2f width=%.1f travel=%.0f%n",
-                        t, tr.id[k], gr.count[g], cx, cy, vu, vv, light.stillCorrelation, light.movedCorrelation, width, tr.travel[k]);
-            }
-            if (lit) {
-                // light over ground that stays put: no travel, and the next step starts afresh
-                tr.entryX[k] = Double.NaN;
-            } else if (hasHeading && inZone && jumping) {
+            if (hasHeading && inZone && jumping) {
                 // a run's travel counts once it has enough jumps alike: then all of it from where it began
                 final boolean first = tr.jumps[k] == Jumps.JUMPS_ALIKE;
                 if (tr.jumps[k] >= Jumps.JUMPS_ALIKE && (first || !Double.isNaN(tr.entryX[k]))) {
