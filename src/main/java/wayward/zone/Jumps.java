@@ -32,9 +32,13 @@ final class Jumps {
 
     /**
      * Follows small movers out of the flow's reach by their jumps. A mover crossing tens of pixels between analysed
-     * frames reads nonsense flow, so its group turns up far from the prediction made from that flow. Groups no
+     * frames reads nonsense flow, so its group turns up far from the prediction made from that flow. Jumps are
+     * timed by where the mover was, not when it was seen: a group shows the mover at the earlier frame of its
+     * flow ({@link Tracks#placedAt}), and analysed frames picked at 10 a second from 15 are 1/15 and 2/15 s apart
+     * in turn, so timing a jump by the later frames would read a steady mover's jumps at twice and half its
+     * speed in turn, at the very edges of the run's speed test. Groups no
      * track claimed pair with tracks no group claimed when the track can have jumped there ({@code jumpsTo}), at
-     * most {@link #MAX_JUMP_PX_PER_SECOND} × the time since it was seen (plus the gate and half the larger box)
+     * most {@link #MAX_JUMP_PX_PER_SECOND} × the time between the two places (plus the gate and half the larger box)
      * away, within {@link MoverSettings#lostSeconds}; nearest first. A track already jumping that was paired where
      * its run predicts goes on jumping while its group moves far and its flow cannot follow ({@code jumpGoesOn}).
      * The tracker counts a run's travel only once it has {@link #JUMPS_ALIKE} jumps alike, so one chance pairing of
@@ -54,10 +58,11 @@ final class Jumps {
                 if (!tr.live[k] || tr.group[k] >= 0 || Double.isNaN(tr.seenAt[k])) {
                     continue;
                 }
-                final double since = t - tr.seenAt[k];
-                if (!(since > 0 && since <= lost)) {
+                if (!(t - tr.seenAt[k] > 0 && t - tr.seenAt[k] <= lost)) {
                     continue;
                 }
+                // seconds between the places of the two sightings (see Tracks.placedAt)
+                final double since = t - dt - tr.placedAt[k];
                 for (int g = 0; g < gr.groups; g++) {
                     if (gTrack[g] >= 0) {
                         continue;
@@ -85,7 +90,7 @@ final class Jumps {
             if (tr.jumped[k] && tr.jumps[k] == 0) {
                 tr.jumpX[k] = tr.x[k];
                 tr.jumpY[k] = tr.y[k];
-                tr.jumpT[k] = tr.seenAt[k];
+                tr.jumpT[k] = tr.placedAt[k];
             }
             tr.jumps[k] = tr.jumped[k] ? tr.jumps[k] + 1 : 0;
         }
@@ -96,11 +101,11 @@ final class Jumps {
      * group's flow reads less than half the run's speed along it.
      */
     private boolean jumpGoesOn(int k, int g, double dt, double t) {
-        final double since = t - tr.seenAt[k];
+        final double since = t - dt - tr.placedAt[k];
         if (!(since > 0) || !jumpsTo(k, g, since)) {
             return false;
         }
-        final double run = t - tr.jumpT[k];
+        final double run = t - dt - tr.jumpT[k];
         final double rvx = (gr.sumX[g] / gr.count[g] - tr.jumpX[k]) / run;
         final double rvy = (gr.sumY[g] / gr.count[g] - tr.jumpY[k]) / run;
         final double speed = Math.hypot(rvx, rvy);
@@ -133,7 +138,7 @@ final class Jumps {
         final double rx = tr.x[k] - tr.jumpX[k];
         final double ry = tr.y[k] - tr.jumpY[k];
         final double run = Math.hypot(rx, ry);
-        final double runSpeed = run / (tr.seenAt[k] - tr.jumpT[k]);
+        final double runSpeed = run / (tr.placedAt[k] - tr.jumpT[k]);
         final double stepSpeed = step / since;
         // one jump's speed scatters (centroids of fragments a fifteenth of a second apart); a longer run's does not
         return run > 0 && rx * sx + ry * sy >= cosGroup * run * step

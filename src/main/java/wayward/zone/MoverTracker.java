@@ -349,7 +349,7 @@ public final class MoverTracker {
             if (jumping) {
                 // the run's mean velocity: single steps between noisy centroids a fifteenth of a second apart
                 // scatter too much to predict with
-                final double run = t - tr.jumpT[k];
+                final double run = t - dt - tr.jumpT[k];
                 fvx = (cx - tr.jumpX[k]) / run;
                 fvy = (cy - tr.jumpY[k]) / run;
                 tr.predVx[k] = fvx;
@@ -375,6 +375,7 @@ public final class MoverTracker {
             tr.vx[k] = fvx;
             tr.vy[k] = fvy;
             tr.seenAt[k] = t;
+            tr.placedAt[k] = t - dt;
             tr.samples[k] = gr.count[g];
             tr.peak[k] = Math.max(tr.peak[k], gr.count[g]);
             tr.w[k] = (gr.maxI[g] - gr.minI[g] + 1) * stride;

@@ -11,6 +11,11 @@ final class Tracks {
     final double[] born;
     /** Stream seconds when last seen (NaN: not yet). */
     final double[] seenAt;
+    /**
+     * Stream seconds its centroid stands for: the earlier frame of the flow it was last seen in (the flow's field
+     * lies on the earlier frame, so the moving samples are where the mover was then); NaN: not yet.
+     */
+    final double[] placedAt;
     /** Centroid when last seen, analysis pixels. */
     final double[] x;
     final double[] y;
@@ -49,6 +54,7 @@ final class Tracks {
         live = new boolean[capacity];
         born = new double[capacity];
         seenAt = new double[capacity];
+        placedAt = new double[capacity];
         x = new double[capacity];
         y = new double[capacity];
         vx = new double[capacity];
@@ -86,6 +92,7 @@ final class Tracks {
                 id[k] = nextId++;
                 born[k] = t;
                 seenAt[k] = Double.NaN;
+                placedAt[k] = Double.NaN;
                 travel[k] = 0;
                 flowTravel[k] = 0;
                 centroidTravel[k] = 0;
