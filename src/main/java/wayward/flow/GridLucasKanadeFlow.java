@@ -561,7 +561,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     }
                 }
                 final int g = j * gw + i;
-                solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l, EVERY_PIXEL);
+                solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l, null);
                 final float plainResidual = gridResidual[l][g];
                 if (plainResidual > ADAPT_RESIDUAL) {
                     // two motions in the window: solve it from its centre's side, keep that if it fits far better
@@ -662,7 +662,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float v = gv[g];
         final float c = gc[g];
         final float res = gridResidual[l][g];
-        solvePoint(i0, i1, w, h, cx, cy, bx, by, band, gu, gv, gc, g, l, EVERY_PIXEL);
+        solvePoint(i0, i1, w, h, cx, cy, bx, by, band, gu, gv, gc, g, l, null);
         if (gridResidual[l][g] >= res) {
             gu[g] = u;
             gv[g] = v;
@@ -743,6 +743,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float maxX = w - 1;
         final float maxY = h - 1;
         final float[] wt = band.wt;
+        // null: every pixel weighs the same (the plain solve; its loops carry no weights, see ADAPT_RESIDUAL)
+        final boolean weighed = like != null;
         final float centreValue = i0[clamp(cy, h) * w + clamp(cx, w)];
         float sw = 0f;
         float sx = 0f;
@@ -786,7 +788,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     final int q = p + shift;
                     final float d = w00 * i1[q] + w01 * i1[q + 1] + w10 * i1[q + w] + w11 * i1[q + w + 1] - tv;
                     final float dc = tv - centreValue;
-                    final float o = like[(int) (dc < 0f ? -dc : dc)];
+                    final float o = like == null ? 1f : like[(int) (dc < 0f ? -dc : dc)];
                     if (keep) {
                         t[k] = tv;
                         gx[k] = ix;
@@ -819,7 +821,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     final float iy = 0.5f * (i0[p + w] - i0[p - w]);
                     final float tv = i0[p];
                     final float dc = tv - centreValue;
-                    final float o = like[(int) (dc < 0f ? -dc : dc)];
+                    final float o = like == null ? 1f : like[(int) (dc < 0f ? -dc : dc)];
                     t[k] = tv;
                     gx[k] = ix;
                     gy[k] = iy;
@@ -846,7 +848,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     final float iy = 0.5f * (i0[down + x] - i0[up + x]);
                     final float tv = i0[row + x];
                     final float dc = tv - centreValue;
-                    final float o = like[(int) (dc < 0f ? -dc : dc)];
+                    final float o = like == null ? 1f : like[(int) (dc < 0f ? -dc : dc)];
                     t[k] = tv;
                     gx[k] = ix;
                     gy[k] = iy;
@@ -919,7 +921,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                             final int p1 = p0 + w;
                             final float warped = w00 * i1[p0] + w01 * i1[p0 + 1] + w10 * i1[p1] + w11 * i1[p1 + 1];
                             final float d = warped - t[k];
-                            final float od = wt[k] * d;
+                            final float od = weighed ? wt[k] * d : d;
                             sd += od;
                             sxd += gx[k] * od;
                             sdd += od * d;
@@ -934,7 +936,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                                 final int x1 = clamp(ix + dx + 1, w);
                                 final float warped = w00 * i1[y0 + x0] + w01 * i1[y0 + x1] + w10 * i1[y1 + x0] + w11 * i1[y1 + x1];
                                 final float d = warped - t[k];
-                                final float od = wt[k] * d;
+                                final float od = weighed ? wt[k] * d : d;
                                 sd += od;
                                 sxd += gx[k] * od;
                                 sdd += od * d;
@@ -990,11 +992,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     static final float WINDOW_BRIGHTNESS = 24f;
     /** 1 / (1 + (Δ / {@link #WINDOW_BRIGHTNESS})²) for each whole grey level Δ of 0 to 255. */
     private static final float[] WINDOW_LIKE = new float[256];
-    /** Every window pixel weighs the same: the plain solve. */
-    private static final float[] EVERY_PIXEL = new float[256];
 
     static {
-        java.util.Arrays.fill(EVERY_PIXEL, 1f);
         for (int d = 0; d < WINDOW_LIKE.length; d++) {
             final float x = d / WINDOW_BRIGHTNESS;
             WINDOW_LIKE[d] = 1f / (1f + x * x);
