@@ -10,8 +10,30 @@ public interface CameraStatus {
 
     CameraConfig config();
 
+    /**
+     * A two-stream camera's main stream ({@code source}), which is only demuxed: its picture size from the codec
+     * parameters, packets read, pictures decoded (always 0), reconnects, and whether packets arrive.
+     */
+    record MainStream(int width, int height, long packets, long decodedFrames, long reconnects, boolean watching) {
+    }
+
     /** Frames are coming and being analysed (the camera is not lost). */
     boolean watching();
+
+    /** Width of the analysed stream's decoded pictures, pixels; 0 before the first. */
+    default int width() {
+        return 0;
+    }
+
+    /** Height of the analysed stream's decoded pictures, pixels; 0 before the first. */
+    default int height() {
+        return 0;
+    }
+
+    /** The main stream of a camera with {@code analysis_source}; null for a camera with one stream. */
+    default MainStream mainStream() {
+        return null;
+    }
 
     long framesIn();
 

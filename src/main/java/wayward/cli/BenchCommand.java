@@ -106,7 +106,7 @@ final class BenchCommand extends Command {
             out.printf(java.util.Locale.ROOT, "%s | %d | %d | %.3f | %.3f | %.3f | %.3f | %.1f | %.2f%n", p.id(),
                     m.decodedFrames(), m.analysedFrames(), m.decodeNanos() / 1e6 / decoded,
                     m.shrinkNanos() / 1e6 / analysed, m.flowNanos() / 1e6 / analysed, m.zonesNanos() / 1e6 / analysed,
-                    m.totalNanos() / 1e6 / Math.max(1e-3, m.streamSeconds()),
+                    m.nanosPerVideoSecond() / 1e6,
                     m.decodeNanos() == 0 ? Double.NaN : m.totalNanos() / m.decodeNanos());
         }
         return Main.OK;
