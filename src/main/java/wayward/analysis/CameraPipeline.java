@@ -248,10 +248,16 @@ public final class CameraPipeline implements CameraStatus {
 
     /** The main stream of a two-stream camera, or null. */
     @Override
-    public MainStream mainStream() {
+    public StreamState mainStream() {
         MainStreamReader m = mainReader;
-        return m == null ? null : new MainStream(m.width(), m.height(), m.packetsIn(), m.framesDecoded(),
-                m.reconnects(), m.watching());
+        return m == null ? null : new StreamState("source", camera.source(), false, m.width(), m.height(),
+                m.framesDecoded(), m.packetsIn(), m.reconnects(), m.watching());
+    }
+
+    /** A two-stream camera's main stream's time on the analysis axis minus its own, seconds; NaN otherwise. */
+    @Override
+    public double mainShiftSeconds() {
+        return mainReader == null ? Double.NaN : mainReader.shiftSeconds();
     }
 
     /** Wall time spent in flow, zone meters and rules so far, seconds. */

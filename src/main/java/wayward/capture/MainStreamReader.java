@@ -54,6 +54,8 @@ public final class MainStreamReader implements Runnable {
     private volatile long demuxCpuNanos;
     private volatile long packetsMeasured;
     private volatile double secondsMeasured;
+    /** The newest packet's time on the analysis axis minus its own main stream time, seconds (NaN before). */
+    private volatile double shiftSeconds = Double.NaN;
 
     // capture thread only
     /** Main stream seconds at the start of this pass (continued across passes and reconnects). */
@@ -116,6 +118,15 @@ public final class MainStreamReader implements Runnable {
     /** The main stream's picture height, pixels; 0 before it opened. Any thread. */
     public int height() {
         return height;
+    }
+
+    /**
+     * The newest packet's time on the analysis stream's axis minus its own stream time, seconds; NaN before the
+     * first placed packet or without clips. For two files of one recording started together it should be 0: the
+     * difference is the mapping's error. Any thread.
+     */
+    public double shiftSeconds() {
+        return shiftSeconds;
     }
 
     /** Before {@link #run}: count the demux CPU from main stream time {@code fromSeconds} on (bench). */
@@ -286,6 +297,7 @@ public final class MainStreamReader implements Runnable {
                         }
                         double onAnalysis = link.mainToAnalysis(now, seconds);
                         if (!Double.isNaN(onAnalysis)) {
+                            shiftSeconds = onAnalysis - seconds;
                             clips.onPacket(pkt, onAnalysis);
                         }
                     }
