@@ -121,13 +121,13 @@ final class CameraBinder {
             }
             return a;
         }
+        if (source != null && Urls.isUrl(source)) {
+            s.error("analysis_source", a, "a URL like source (both streams of a camera are files, or both URLs)");
+            return null;
+        }
         Path p = base.resolve(a).normalize();
         if (!Files.isRegularFile(p)) {
             s.error("analysis_source", a, "a video file that exists (looked for " + p + ") or a URL");
-            return null;
-        }
-        if (source != null && Urls.isUrl(source)) {
-            s.error("analysis_source", a, "a URL like source (both streams of a camera are files, or both URLs)");
             return null;
         }
         if (p.toString().equals(source)) {
