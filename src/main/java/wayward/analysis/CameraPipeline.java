@@ -101,7 +101,7 @@ public final class CameraPipeline implements CameraStatus {
             this.mainThread = new Thread(() -> {
                 MDC.put("camera", camera.id());
                 mainReader.run();
-            }, "capture-" + camera.id() + "-source");
+            }, "demux-" + camera.id());
         } else {
             this.mainReader = null;
             this.mainThread = null;

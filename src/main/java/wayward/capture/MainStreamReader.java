@@ -25,7 +25,7 @@ import wayward.secret.Urls;
  * grabber's own, opened by {@code start}, is kept to one thread and never fed). Reconnects on its own with the
  * same backoff as {@link VideoSource}, and reports its health apart from the analysis stream's.
  *
- * <p>Runs on the camera's second capture thread ({@link #run()}, named {@code capture-<camera>-source});
+ * <p>Runs on the camera's second capture thread ({@link #run()}, named {@code demux-<camera>});
  * {@link #stop()} and the getters from any thread. It never waits for analysis, the network (beyond FFmpeg's
  * socket timeout) or the disk.
  */
