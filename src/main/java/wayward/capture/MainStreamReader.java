@@ -30,6 +30,8 @@ import wayward.secret.Urls;
  * socket timeout) or the disk.
  */
 public final class MainStreamReader implements Runnable {
+    /** A pair of files: how often the main file looks whether its analysis file has begun, milliseconds. */
+    private static final long WAIT_FOR_ANALYSIS_MILLIS = 5;
     /** No packet for this long while connected counts as a stall: the connection is dropped. */
     private static final long STALL_NANOS = 10_000_000_000L;
 
@@ -236,7 +238,6 @@ public final class MainStreamReader implements Runnable {
             }
             boolean keySeen = false;
             double first = Double.NaN;
-            long wallStartNanos = 0;
             boolean paced = options.realtime() && !url;
             lastPacketNanos = System.nanoTime();
             while (!stopping) {
@@ -266,14 +267,20 @@ public final class MainStreamReader implements Runnable {
                         continue; // an untimed packet cannot be placed on the analysis axis
                     }
                     if (Double.isNaN(first)) {
-                        first = ts * timeBase;
-                        wallStartNanos = now;
+                        first = pts * timeBase; // the first keyframe's presentation: time 0, as in StreamClock
                     }
                     double seconds = pts * timeBase - first + passOffsetSeconds;
                     if (paced) {
-                        // a file played as a camera: deliver no faster than its own decoding timestamps
-                        long due = wallStartNanos + (long) ((ts * timeBase - first) * 1e9);
-                        long wait = due - System.nanoTime();
+                        // a file played as a camera, in step with its analysis file (StreamLink): a packet is due
+                        // when the analysis stream reaches its decoding time (before its presentation)
+                        double dueSeconds = ts * timeBase - first + passOffsetSeconds;
+                        long due;
+                        while ((due = link.analysisNanosAt(dueSeconds)) == Long.MIN_VALUE && !stopping
+                                && !link.analysisHasEnded()) {
+                            Thread.sleep(WAIT_FOR_ANALYSIS_MILLIS); // the analysis file is still opening
+                        }
+                        // (an analysis file that has ended for good paces nothing more: the rest goes at once)
+                        long wait = due == Long.MIN_VALUE ? 0 : due - System.nanoTime();
                         if (wait > 1_000_000) {
                             Thread.sleep(wait / 1_000_000, (int) (wait % 1_000_000));
                         }
@@ -289,15 +296,21 @@ public final class MainStreamReader implements Runnable {
                     }
                     if (clips != null) {
                         long pass = link.analysisPass();
-                        if (pass != seenAnalysisPass) {
+                        if (url && pass != seenAnalysisPass) {
                             // the analysis stream reopened and its time axis was spliced: what the ring holds was
                             // placed on the old axis, so the ring starts again (clips open now are ended)
                             seenAnalysisPass = pass;
                             clips.onStream(stream.codecpar(), tb, 1.0 / frameSeconds);
                         }
+                        // the arrival-based placement; for a pair of files it measures how well they keep step
                         double onAnalysis = link.mainToAnalysis(now, seconds);
                         if (!Double.isNaN(onAnalysis)) {
                             shiftSeconds = onAnalysis - seconds;
+                        }
+                        if (!url) {
+                            onAnalysis = seconds; // files cut together: one time axis (StreamLink)
+                        }
+                        if (!Double.isNaN(onAnalysis)) {
                             clips.onPacket(pkt, onAnalysis);
                         }
                     }

@@ -11,9 +11,14 @@ package wayward.capture;
  * {@code 2 × }{@value #WINDOW_SECONDS} seconds stands for the stream's offset. Network and buffering delays only
  * ever add to an arrival, so the smallest offset is the one least delayed (the minimum filter of network clock
  * synchronisation, as NTP uses it); windowing lets it follow a slow drift of the camera's clock against ours.
- * A main packet's time on the analysis axis is then {@code mainSeconds + mainOffset − analysisOffset}. A file
- * played as a camera is paced to the wall clock, so the same holds for it. The offsets are started afresh at
- * every (re)connect of their stream (its time origin changes).
+ * A main packet's time on the analysis axis is then {@code mainSeconds + mainOffset − analysisOffset}. The
+ * offsets are started afresh at every (re)connect of their stream (its time origin changes).
+ *
+ * <p>A pair of files is different: they are recordings cut together, so the main file's own timestamps are the
+ * analysis file's (both continued alike across loops), and the main file is paced to the analysis stream's
+ * clock ({@link #analysisNanosAt}) rather than to its own start, so both play in step even when one took longer
+ * to open. Each opens on its own, so paced to its own start a pair would drift apart by the difference of
+ * their opening times (up to a second was seen with 16 cameras on a busy machine).
  *
  * <p>Threads: the analysis stream's capture thread calls {@link #analysisOpened} and {@link #analysisFrame};
  * the main stream's capture thread calls the rest. The analysis side publishes its offset and pass through
@@ -27,6 +32,8 @@ public final class StreamLink {
     /** Analysis side: offset in seconds (NaN before its first picture of a pass) and pass count. */
     private volatile double analysisOffsetSeconds = Double.NaN;
     private volatile long analysisPass;
+    /** The analysis stream's reading has ended for good (its file's end, or the camera stopping). */
+    private volatile boolean analysisEnded;
     // analysis capture thread only
     private final MinWindow analysis = new MinWindow();
     // main capture thread only
@@ -47,9 +54,29 @@ public final class StreamLink {
         analysisOffsetSeconds = analysis.add(nanos, nanos / 1e9 - streamSeconds);
     }
 
+    /** Analysis capture thread: its reading has ended for good. */
+    void analysisEnded() {
+        analysisEnded = true;
+    }
+
+    /** Any thread: true once the analysis stream's reading has ended for good. */
+    boolean analysisHasEnded() {
+        return analysisEnded;
+    }
+
     /** Any thread: how many times the analysis stream was opened; a change means its time axis was spliced. */
     long analysisPass() {
         return analysisPass;
+    }
+
+    /**
+     * Any thread: the monotonic time, nanoseconds, at which the analysis stream delivers (delivered) stream time
+     * {@code streamSeconds} in its current pass, by its offset; {@link Long#MIN_VALUE} before its first picture of
+     * the pass. A pair of files played as a camera paces its main stream by it, so both play in step.
+     */
+    long analysisNanosAt(double streamSeconds) {
+        double offset = analysisOffsetSeconds;
+        return Double.isNaN(offset) ? Long.MIN_VALUE : (long) ((offset + streamSeconds) * 1e9);
     }
 
     /** Main capture thread: the main stream was (re)opened; its own time origin changed. */

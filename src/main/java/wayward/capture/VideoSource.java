@@ -222,6 +222,10 @@ public final class VideoSource implements Runnable {
             if (clips != null) {
                 clips.close();
             }
+            StreamLink l = link;
+            if (l != null) {
+                l.analysisEnded();
+            }
             slot.close();
             runner = null;
         }
