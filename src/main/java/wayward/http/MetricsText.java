@@ -118,7 +118,7 @@ final class MetricsText {
                 CameraStatus::decodeErrors);
         perCamera(ps, "wayward_camera_reconnects_total", "counter", "Reconnect attempts of the source.",
                 CameraStatus::reconnects);
-        perStream(ps, "wayward_stream_watching", "gauge", "1 while the stream delivers (pictures, or packets for a "
+        perStream(ps, "wayward_stream_watching", "gauge", "1 while the stream delivers (frames, or packets for a "
                 + "main stream only demuxed for clips), 0 while it is lost; stream is the config key it comes from.",
                 s -> s.watching() ? 1 : 0);
         perStream(ps, "wayward_stream_width_pixels", "gauge", "The stream's picture width (0 before it is known).",
@@ -126,7 +126,7 @@ final class MetricsText {
         perStream(ps, "wayward_stream_height_pixels", "gauge", "The stream's picture height (0 before it is known).",
                 CameraStatus.StreamState::height);
         perStream(ps, "wayward_stream_frames_decoded_total", "counter",
-                "Pictures decoded from the stream (0 for a main stream only demuxed for clips).",
+                "Frames decoded from the stream (0 for a main stream only demuxed for clips).",
                 CameraStatus.StreamState::frames);
         family("wayward_stream_packets_in_total", "counter",
                 "Video packets read from a main stream that is only demuxed (cameras with analysis_source).");

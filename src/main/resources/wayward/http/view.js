@@ -177,7 +177,7 @@ async function poll() {
     if (cam) {
       // each stream: its config key, size, what it is used for, counters and health
       document.getElementById("streams").textContent = cam.streams.map(st => st.stream + " "
-        + (st.width ? st.width + "×" + st.height : "size not known yet") + " ("
+        + (st.width ? st.width + "x" + st.height : "size not known yet") + " ("
         + (st.decoded ? "analysed, " + st.frames_in + " frames" : "clips only, " + st.packets_in + " packets")
         + ", " + st.reconnects + " reconnects, " + st.state + ")").join(" · ");
       if (zones.length !== cam.zones.length) {
