@@ -91,7 +91,9 @@ public final class CameraPipeline implements CameraStatus {
                 camera.analysisWidth(), camera.analysisFps(), maxLoops, camera.input()), slot,
                 new HealthEvents(camera.id(), camera.twoStreams() ? Event.ANALYSIS_SOURCE : null, events, clock),
                 this.evidence.recorder());
-        if (camera.twoStreams()) {
+        // the main stream is read only for clips (and, in bench, to measure its demux): with [clips] off it is
+        // not opened at all
+        if (camera.twoStreams() && (this.evidence.mainRecorder() != null || lossless)) {
             StreamLink link = new StreamLink();
             source.linkTo(link);
             this.mainReader = new MainStreamReader(camera.id(), new SourceOptions(camera.source(), camera.loop(),
