@@ -29,7 +29,8 @@ import org.junit.jupiter.api.io.TempDir;
  * analysis stream and the same clip scaled to 1280×720 by Debian's ffmpeg (libx264, a keyframe every 2 s, no
  * B-frames) as the main stream. Checked against ffprobe/ffmpeg (the clip's size and its frames against the main
  * file's own), the event schema, and the status API's counters; then the main stream unreachable (RTSP to a closed
- * loopback port) while GStreamer's RTSP server (Debian's gir1.2-gst-rtsp-server-1.0) serves the analysis stream.
+ * loopback port) while GStreamer's RTSP server (Debian's gir1.2-gst-rtsp-server-1.0) serves the analysis stream,
+ * and a main stream whose server appears later: it comes back on its own and clips are full size again.
  */
 class TwoStreamsIT {
     private static final ObjectMapper JSON = new ObjectMapper();
@@ -139,17 +140,82 @@ class TwoStreamsIT {
                 + expectedLast);
     }
 
+    private static Process serve(int port, Path clip) throws IOException {
+        Process server = new ProcessBuilder("/usr/bin/python3",
+                ProcessRunner.projectDir().resolve("src/test/resources/rtsp/serve-clip.py").toString(),
+                Integer.toString(port), clip.toString()).redirectErrorStream(true).start();
+        BufferedReader r = new BufferedReader(new InputStreamReader(server.getInputStream(), StandardCharsets.UTF_8));
+        String line = r.readLine(); // blocks until the server says it listens (or dies)
+        assertTrue(line != null && line.startsWith("serving"), "RTSP server did not start: " + line);
+        return server;
+    }
+
+    @Test
+    @Timeout(value = 300, unit = TimeUnit.SECONDS)
+    void theMainStreamComesBackOnItsOwnAndClipsAreFullSizeAgain(@TempDir Path dir) throws Exception {
+        Path main = dir.resolve("main.mp4");
+        YardSite.command("ffmpeg", "-v", "error", "-i", YardSite.clip().toString(), "-vf", "scale=1280:720", "-c:v",
+                "libx264", "-preset", "veryfast", "-bf", "0", "-g", "30", "-pix_fmt", "yuv420p", main.toString());
+        int subPort = freePort();
+        int mainPort = freePort();
+        Process sub = serve(subPort, YardSite.clip());
+        Process mainServer = null;
+        Path log = dir.resolve("data/events.jsonl");
+        Process service = YardSite.startService(dir, config(dir, "rtsp://127.0.0.1:" + mainPort + "/clip",
+                "rtsp://127.0.0.1:" + subPort + "/clip", "off"));
+        Map<String, Object> lost;
+        Map<String, Object> back;
+        Map<String, Object> wrongWay = null;
+        try {
+            // the main stream's server is not there yet: it is lost, the analysis stream is watched
+            lost = YardSite.awaitRecord(log, "camera_lost", "start", 1, 60);
+            mainServer = serve(mainPort, main);
+            back = YardSite.awaitRecord(log, "camera_lost", "end", 1, 90);
+            // the demo lane loops every 26 s on the analysis server: wrong-way starts keep coming; take the first
+            // that started after the main stream was back
+            for (int n = 1; n <= 4 && wrongWay == null; n++) {
+                Map<String, Object> e = YardSite.awaitRecord(log, "wrong_way", "start", n, 90);
+                if (java.time.Instant.parse((String) e.get("at")).isAfter(java.time.Instant.parse((String) back.get("at"))
+                        .plusSeconds(5))) {
+                    wrongWay = e;
+                }
+            }
+            assertTrue(wrongWay != null, "a wrong-way start after the main stream came back");
+            YardSite.awaitEvent(log, "wrong_way", "end", YardSite.events(log).stream().filter(e ->
+                    "wrong_way".equals(e.get("kind")) && "start".equals(e.get("phase"))).toList().size(), 60);
+        } catch (AssertionError e) {
+            System.out.println(Files.readString(dir.resolve("service.log")));
+            throw e;
+        } finally {
+            service.destroy(); // SIGTERM: clips end with their trailer
+            if (!service.waitFor(30, TimeUnit.SECONDS)) {
+                service.destroyForcibly();
+            }
+            sub.destroyForcibly();
+            if (mainServer != null) {
+                mainServer.destroyForcibly();
+            }
+        }
+        assertEquals("source", lost.get("stream"));
+        assertEquals("source", back.get("stream"));
+        assertEquals(lost.get("id"), back.get("id"), "one outage, one id");
+        assertEquals("source", wrongWay.get("evidence_stream"));
+        Path clip = dir.resolve("data").resolve((String) wrongWay.get("clip"));
+        // full size again, starting at a keyframe, a clean decode (ffprobe and ffmpeg, Debian)
+        assertEquals("1280,720", YardSite.command("ffprobe", "-v", "error", "-select_streams", "v:0", "-show_entries",
+                "stream=width,height", "-of", "csv=p=0", clip.toString()));
+        String first = YardSite.command("ffprobe", "-v", "error", "-select_streams", "v:0", "-read_intervals", "%+#1",
+                "-show_entries", "packet=pts_time,flags", "-of", "csv=p=0", clip.toString());
+        assertTrue(first.startsWith("0.000000,K"), clip + ": " + first);
+        assertEquals("", YardSite.command("ffmpeg", "-v", "error", "-i", clip.toString(), "-f", "null", "-"));
+    }
+
     @Test
     @Timeout(value = 300, unit = TimeUnit.SECONDS)
     void alertsWithClipsFromTheAnalysisStreamWhileTheMainStreamIsDown(@TempDir Path dir) throws Exception {
         int rtsp = freePort();
         int closed = freePort(); // nothing listens there: connection refused
-        Process server = new ProcessBuilder("/usr/bin/python3",
-                ProcessRunner.projectDir().resolve("src/test/resources/rtsp/serve-clip.py").toString(),
-                Integer.toString(rtsp), YardSite.clip().toString()).redirectErrorStream(true).start();
-        BufferedReader r = new BufferedReader(new InputStreamReader(server.getInputStream(), StandardCharsets.UTF_8));
-        String line = r.readLine();
-        assertTrue(line != null && line.startsWith("serving"), "RTSP server did not start: " + line);
+        Process server = serve(rtsp, YardSite.clip());
         Path log = dir.resolve("data/events.jsonl");
         Process service = YardSite.startService(dir, config(dir, "rtsp://127.0.0.1:" + closed + "/main",
                 "rtsp://127.0.0.1:" + rtsp + "/clip", "off"));
