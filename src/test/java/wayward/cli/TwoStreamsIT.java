@@ -113,6 +113,12 @@ class TwoStreamsIT {
         assertTrue(streams.get(1).get("frames_in").asLong() > 100, streams.toString());
         assertTrue(metrics.contains("wayward_stream_frames_decoded_total{camera=\"yard-mast-2\",stream=\"source\"} 0\n"),
                 metrics);
+        assertTrue(metrics.contains("wayward_stream_width_pixels{camera=\"yard-mast-2\",stream=\"analysis_source\"} 640\n"),
+                metrics);
+        // promtool (Prometheus, Debian) parses the exposition format and lints the per-stream families
+        Path m = dir.resolve("metrics.txt");
+        Files.writeString(m, metrics);
+        assertEquals("", YardSite.command("sh", "-c", "promtool check metrics < " + m), "promtool found nothing to say");
 
         List<Map<String, Object>> events = YardSite.events(log); // each held to the event schema
         Map<String, Object> start = events.stream().filter(e -> "wrong_way".equals(e.get("kind"))
