@@ -172,7 +172,7 @@ public final class MainStreamReader implements Runnable {
                     break;
                 }
                 boolean gotPackets = packetsIn > before;
-                passOffsetSeconds = lastSeconds + frameSeconds;
+                passOffsetSeconds = lastSeconds < 0 ? 0 : lastSeconds + frameSeconds; // continued, as StreamClock
                 if (!url) {
                     if (failure != null) {
                         LOG.error("camera {}: cannot read source {}: {}", cameraId, shown, failure);
