@@ -8,6 +8,8 @@ import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import org.slf4j.MDC;
 import wayward.capture.FrameSlot;
+import wayward.capture.MainStreamReader;
+import wayward.capture.StreamLink;
 import wayward.capture.SourceOptions;
 import wayward.capture.VideoSource;
 import wayward.flow.FlowConfig;
@@ -32,6 +34,9 @@ public final class CameraPipeline implements CameraStatus {
     private final Consumer<Event> events;
     private final FrameSlot slot;
     private final VideoSource source;
+    /** A two-stream camera's main stream ({@code source}), only demuxed; null for one stream. */
+    private final MainStreamReader mainReader;
+    private final Thread mainThread;
     private final Thread captureThread;
     private final Thread analysisThread;
     private final EvidenceKeeper evidence;
@@ -81,9 +86,28 @@ public final class CameraPipeline implements CameraStatus {
         this.events = events;
         this.slot = new FrameSlot(lossless);
         this.evidence = new EvidenceKeeper(camera, evidence);
-        this.source = new VideoSource(camera.id(), new SourceOptions(camera.source(), camera.loop(), realtime,
+        // with two streams the analysis decodes only analysis_source, and source is only demuxed for clips
+        this.source = new VideoSource(camera.id(), new SourceOptions(camera.analysedSource(), camera.loop(), realtime,
                 camera.analysisWidth(), camera.analysisFps(), maxLoops, camera.input()), slot,
-                new HealthEvents(camera.id(), events, clock), this.evidence.recorder());
+                new HealthEvents(camera.id(), camera.twoStreams() ? Event.ANALYSIS_SOURCE : null, events, clock),
+                this.evidence.recorder());
+        // the main stream is read only for clips (and, in bench, to measure its demux): with [clips] off it is
+        // not opened at all
+        if (camera.twoStreams() && (this.evidence.mainRecorder() != null || lossless)) {
+            StreamLink link = new StreamLink();
+            source.linkTo(link);
+            this.mainReader = new MainStreamReader(camera.id(), new SourceOptions(camera.source(), camera.loop(),
+                    realtime, camera.analysisWidth(), camera.analysisFps(), maxLoops, camera.input()),
+                    new HealthEvents(camera.id(), Event.SOURCE, events, clock), this.evidence.mainRecorder(), link);
+            this.evidence.mainUp(mainReader::watching);
+            this.mainThread = new Thread(() -> {
+                MDC.put("camera", camera.id());
+                mainReader.run();
+            }, "demux-" + camera.id());
+        } else {
+            this.mainReader = null;
+            this.mainThread = null;
+        }
         this.captureThread = new Thread(() -> {
             MDC.put("camera", camera.id());
             source.run();
@@ -112,11 +136,16 @@ public final class CameraPipeline implements CameraStatus {
     public void measureStages(double fromSeconds) {
         stages.startAt(fromSeconds);
         source.meter().startAt(fromSeconds);
+        if (mainReader != null) {
+            mainReader.measureFrom(fromSeconds);
+        }
     }
 
     /** What was measured since counting began (all 0 before). */
     public StageFigures stageFigures() {
-        return stages.figures(source.meter(), analysedFrames, lastStreamSeconds);
+        StageFigures f = stages.figures(source.meter(), analysedFrames, lastStreamSeconds);
+        return mainReader == null ? f : f.withMainDemux((double) mainReader.demuxCpuNanos(), mainReader.packetsMeasured(),
+                mainReader.secondsMeasured());
     }
 
     /** Before {@link #start}: every analysed frame also goes to {@code l}. */
@@ -133,11 +162,17 @@ public final class CameraPipeline implements CameraStatus {
         load.started(System.nanoTime());
         analysisThread.start();
         captureThread.start();
+        if (mainThread != null) {
+            mainThread.start();
+        }
     }
 
-    /** Stops capture; analysis finishes what is in the slot and closes open events. */
+    /** Stops capture (both streams); analysis finishes what is in the slot and closes open events. */
     public void stop() {
         source.stop();
+        if (mainReader != null) {
+            mainReader.stop();
+        }
     }
 
     /** Waits for both threads; true when they ended within the time. */
@@ -145,11 +180,14 @@ public final class CameraPipeline implements CameraStatus {
         long deadline = System.currentTimeMillis() + timeoutMillis;
         captureThread.join(Math.max(1, deadline - System.currentTimeMillis()));
         analysisThread.join(Math.max(1, deadline - System.currentTimeMillis()));
-        return !captureThread.isAlive() && !analysisThread.isAlive();
+        if (mainThread != null) {
+            mainThread.join(Math.max(1, deadline - System.currentTimeMillis()));
+        }
+        return !captureThread.isAlive() && !analysisThread.isAlive() && (mainThread == null || !mainThread.isAlive());
     }
 
     public boolean running() {
-        return captureThread.isAlive() || analysisThread.isAlive();
+        return captureThread.isAlive() || analysisThread.isAlive() || (mainThread != null && mainThread.isAlive());
     }
 
     /** For a file source that gave no frame at all: why; otherwise null. */
@@ -194,10 +232,34 @@ public final class CameraPipeline implements CameraStatus {
         return source.reconnects();
     }
 
-    /** True while the source delivers pictures (false before the first and during an outage). */
+    /** True while the (analysis) source delivers pictures (false before the first and during an outage). */
     @Override
     public boolean watching() {
         return source.watching();
+    }
+
+    @Override
+    public int width() {
+        return source.width();
+    }
+
+    @Override
+    public int height() {
+        return source.height();
+    }
+
+    /** The main stream of a two-stream camera, or null. */
+    @Override
+    public StreamState mainStream() {
+        MainStreamReader m = mainReader;
+        return m == null ? null : new StreamState("source", camera.source(), false, m.width(), m.height(),
+                m.framesDecoded(), m.packetsIn(), m.reconnects(), m.watching());
+    }
+
+    /** A two-stream camera's main stream's time on the analysis axis minus its own, seconds; NaN otherwise. */
+    @Override
+    public double mainShiftSeconds() {
+        return mainReader == null ? Double.NaN : mainReader.shiftSeconds();
     }
 
     /** Wall time spent in flow, zone meters and rules so far, seconds. */

@@ -10,6 +10,58 @@ public interface CameraStatus {
 
     CameraConfig config();
 
+    /**
+     * One stream of a camera as the status shows it.
+     *
+     * @param key        the config key it comes from: {@code "source"} or {@code "analysis_source"}
+     * @param address    its file or URL
+     * @param decoded    true for the stream the analysis decodes; false for a main stream only demuxed for clips
+     * @param width      its picture width, pixels (0 before known)
+     * @param height     its picture height, pixels (0 before known)
+     * @param frames     pictures decoded from it (0 for a stream only demuxed)
+     * @param packets    video packets read from it (only counted for a stream only demuxed; −1 otherwise)
+     * @param reconnects reconnect attempts
+     * @param watching   pictures (or packets) arrive
+     */
+    record StreamState(String key, String address, boolean decoded, int width, int height, long frames,
+            long packets, long reconnects, boolean watching) {
+    }
+
+    /** Width of the analysed stream's decoded pictures, pixels; 0 before the first. */
+    default int width() {
+        return 0;
+    }
+
+    /** Height of the analysed stream's decoded pictures, pixels; 0 before the first. */
+    default int height() {
+        return 0;
+    }
+
+    /**
+     * The camera's streams: for one stream, {@code source}, decoded; with {@code analysis_source}, the main stream
+     * (only demuxed) first, then the analysis stream.
+     */
+    default java.util.List<StreamState> streams() {
+        CameraConfig c = config();
+        StreamState analysed = new StreamState(c.twoStreams() ? "analysis_source" : "source", c.analysedSource(),
+                true, width(), height(), framesIn(), -1, reconnects(), watching());
+        StreamState main = mainStream();
+        return main == null ? java.util.List.of(analysed) : java.util.List.of(main, analysed);
+    }
+
+    /**
+     * A two-stream camera: its main stream's packet times on the analysis stream's axis minus their own, seconds
+     * (the time mapping of {@code wayward.capture.StreamLink}); NaN for one stream or before it is known.
+     */
+    default double mainShiftSeconds() {
+        return Double.NaN;
+    }
+
+    /** The main stream of a camera with {@code analysis_source}; null for a camera with one stream. */
+    default StreamState mainStream() {
+        return null;
+    }
+
     /** Frames are coming and being analysed (the camera is not lost). */
     boolean watching();
 

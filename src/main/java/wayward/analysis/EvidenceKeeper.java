@@ -17,7 +17,13 @@ import wayward.image.GrayFrame;
  * ({@code evidence/<camera>/<time>-<zone>-<id8>.mp4|.jpg|.json} under the data folder), asks the capture thread's
  * recorder for the clip at a start and ends it at the end, draws the snapshot of the starting frame, and writes
  * the sidecar at the end: one JSON document {@code {"start": record, "end": record}} holding both phases' records
- * as the event log has them. Analysis thread only, except the recorder, which capture feeds.
+ * as the event log has them. Analysis thread only, except the recorders, which capture feeds.
+ *
+ * <p>A camera with two streams has two recorders: the main stream's (full size, fed by its own capture thread
+ * with packets already on the analysis stream's time axis) and a small one of the analysis stream. An event's clip
+ * comes from the main stream while it delivers; when it is down at the event's start, from the analysis stream,
+ * and the event names which ({@link Event#stream}, JSON {@code evidence_stream}). The snapshot is always drawn on
+ * the analysis picture (the frame that decided), scaled up by the snapshot drawing as for one stream.
  */
 final class EvidenceKeeper {
     private static final DateTimeFormatter FILE_TIME =
@@ -26,8 +32,14 @@ final class EvidenceKeeper {
     private final CameraConfig camera;
     private final CameraPipeline.Evidence evidence;
     private final ClipRecorder recorder;
+    /** The main stream's recorder of a two-stream camera, else null. */
+    private final ClipRecorder mainRecorder;
+    /** True while the main stream delivers (two streams); set once before capture starts. */
+    private java.util.function.BooleanSupplier mainUp = () -> false;
     /** Open events' evidence paths (relative to the data folder), by event id. */
     private final Map<String, String[]> open = new HashMap<>();
+    /** Open events' recorder (two streams: the stream their clip is copied from), by event id. */
+    private final Map<String, ClipRecorder> openRecorder = new HashMap<>();
     private final Map<String, String> startJson = new HashMap<>();
 
     /** @param evidence where it goes; null or clips disabled: events pass unnamed */
@@ -36,11 +48,23 @@ final class EvidenceKeeper {
         this.evidence = evidence != null && evidence.clips().enabled() ? evidence : null;
         this.recorder = this.evidence == null ? null : new ClipRecorder(camera.id(),
                 evidence.clips().preRollSeconds(), evidence.clips().postRollSeconds(), evidence.clips().maxSeconds());
+        this.mainRecorder = this.evidence == null || !camera.twoStreams() ? null : new ClipRecorder(camera.id(),
+                evidence.clips().preRollSeconds(), evidence.clips().postRollSeconds(), evidence.clips().maxSeconds());
     }
 
-    /** The clip recorder the capture thread feeds with packets; null without evidence. */
+    /** The clip recorder the (analysis) capture thread feeds with packets; null without evidence. */
     ClipRecorder recorder() {
         return recorder;
+    }
+
+    /** The main stream's clip recorder (two streams); null with one stream or without evidence. */
+    ClipRecorder mainRecorder() {
+        return mainRecorder;
+    }
+
+    /** Before capture starts (two streams): tells whether the main stream delivers now. */
+    void mainUp(java.util.function.BooleanSupplier up) {
+        this.mainUp = up;
     }
 
     /**
@@ -59,7 +83,15 @@ final class EvidenceKeeper {
                     + e.id().substring(0, 8);
             String[] paths = {base + ".mp4", base + ".jpg", base + ".json"};
             open.put(e.id(), paths);
-            recorder.start(e.id(), e.streamSeconds(), resolve(paths[0]));
+            ClipRecorder from = recorder;
+            if (mainRecorder != null) {
+                // the full-size main stream while it delivers and its ring holds a keyframe; else the small one
+                boolean main = mainUp.getAsBoolean() && mainRecorder.hasKeyframe();
+                from = main ? mainRecorder : recorder;
+                e = e.withStream(main ? Event.SOURCE : Event.ANALYSIS_SOURCE);
+            }
+            openRecorder.put(e.id(), from);
+            from.start(e.id(), e.streamSeconds(), resolve(paths[0]));
             if (frame != null) {
                 double minStep = zone.minSpeedPxPerSecond() / camera.analysisFps();
                 evidence.writer().snapshot(Snapshot.draw(frame, field, zone.xs(), zone.ys(), minStep,
@@ -73,7 +105,11 @@ final class EvidenceKeeper {
         if (paths == null) {
             return e;
         }
-        recorder.finish(e.id(), e.streamSeconds());
+        ClipRecorder from = openRecorder.remove(e.id());
+        from.finish(e.id(), e.streamSeconds());
+        if (mainRecorder != null) {
+            e = e.withStream(from == mainRecorder ? Event.SOURCE : Event.ANALYSIS_SOURCE);
+        }
         Event named = e.withEvidence(paths[0], paths[1]);
         evidence.writer().sidecar(sidecar(startJson.remove(e.id()), EventJson.toJson(named)), resolve(paths[2]));
         return named;
@@ -95,8 +131,12 @@ final class EvidenceKeeper {
 
     /** Waits for the clip writers to write their trailers (shutdown). */
     void awaitClips(long timeoutMillis) throws InterruptedException {
+        long deadline = System.currentTimeMillis() + timeoutMillis;
         if (recorder != null) {
             recorder.awaitWriters(timeoutMillis);
+        }
+        if (mainRecorder != null) {
+            mainRecorder.awaitWriters(Math.max(1, deadline - System.currentTimeMillis()));
         }
     }
 

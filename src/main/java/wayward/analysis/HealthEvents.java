@@ -21,6 +21,8 @@ final class HealthEvents implements VideoSource.Health {
     private static final Logger LOG = LoggerFactory.getLogger(CameraPipeline.class);
 
     private final String camera;
+    /** Which of a two-stream camera's streams this watches ({@link Event#SOURCE}, {@link Event#ANALYSIS_SOURCE}), or null. */
+    private final String stream;
     private final Consumer<Event> events;
     private final Clock clock;
     private final LongSupplier nanos;
@@ -28,12 +30,26 @@ final class HealthEvents implements VideoSource.Health {
     private long lostNanos;
 
     HealthEvents(String camera, Consumer<Event> events, Clock clock) {
-        this(camera, events, clock, System::nanoTime);
+        this(camera, null, events, clock, System::nanoTime);
+    }
+
+    /** @param stream which stream of a two-stream camera ({@link Event#SOURCE} or {@link Event#ANALYSIS_SOURCE}) */
+    HealthEvents(String camera, String stream, Consumer<Event> events, Clock clock) {
+        this(camera, stream, events, clock, System::nanoTime);
     }
 
     /** @param nanos a monotonic clock, nanoseconds (System::nanoTime; tests give their own) */
     HealthEvents(String camera, Consumer<Event> events, Clock clock, LongSupplier nanos) {
+        this(camera, null, events, clock, nanos);
+    }
+
+    /**
+     * @param stream which stream of a two-stream camera, null for a camera with one
+     * @param nanos  a monotonic clock, nanoseconds (System::nanoTime; tests give their own)
+     */
+    HealthEvents(String camera, String stream, Consumer<Event> events, Clock clock, LongSupplier nanos) {
         this.camera = camera;
+        this.stream = stream;
         this.events = events;
         this.clock = clock;
         this.nanos = nanos;
@@ -44,17 +60,17 @@ final class HealthEvents implements VideoSource.Health {
         outageId = UUID.randomUUID().toString();
         lostNanos = nanos.getAsLong();
         Instant lostAt = clock.instant();
-        LOG.warn("camera {}: lost ({})", camera, reason);
+        LOG.warn("camera {}: {}lost ({})", camera, stream == null ? "" : stream + " ", reason);
         events.accept(new Event(outageId, camera, null, EventKind.CAMERA_LOST, Event.Phase.START, streamSeconds,
-                lostAt, Double.NaN, Double.NaN, Double.NaN, Double.NaN));
+                lostAt, Double.NaN, Double.NaN, Double.NaN, Double.NaN).withStream(stream));
     }
 
     @Override
     public void back(double streamSeconds) {
         Instant now = clock.instant();
         double outage = Math.round((nanos.getAsLong() - lostNanos) / 1e6) / 1000.0;
-        LOG.info("camera {}: watching again after {} s lost", camera, outage);
+        LOG.info("camera {}: {}watching again after {} s lost", camera, stream == null ? "" : stream + " ", outage);
         events.accept(new Event(outageId, camera, null, EventKind.CAMERA_LOST, Event.Phase.END, streamSeconds, now,
-                Double.NaN, Double.NaN, Double.NaN, outage));
+                Double.NaN, Double.NaN, Double.NaN, outage).withStream(stream));
     }
 }

@@ -45,6 +45,9 @@ public final class ClipRecorder {
     private final AtomicInteger open = new AtomicInteger();
     private final List<Thread> writers = new ArrayList<>();
 
+    /** The ring starts at a keyframe: true while it holds one (written by the capture thread, read by analysis). */
+    private volatile boolean keyframeHeld;
+
     // capture thread only
     private final ArrayDeque<Entry> ring = new ArrayDeque<>();
     private final List<Job> jobs = new ArrayList<>();
@@ -86,6 +89,11 @@ public final class ClipRecorder {
         this.preRollSeconds = preRollSeconds;
         this.postRollSeconds = postRollSeconds;
         this.maxSeconds = maxSeconds;
+    }
+
+    /** True while the pre-roll ring holds a keyframe, so a clip can begin. Any thread. */
+    public boolean hasKeyframe() {
+        return keyframeHeld;
     }
 
     /** Analysis thread: begin a clip for an event that started at {@code triggerSeconds} (stream time). */
@@ -130,6 +138,7 @@ public final class ClipRecorder {
             clone.dts(ts);
         }
         ring.addLast(new Entry(clone, seconds, key));
+        keyframeHeld = true;
         trim(seconds);
         // existing clips first, so a clip begun by this packet does not get it twice
         List<Job> continued = null;
@@ -316,6 +325,7 @@ public final class ClipRecorder {
     }
 
     private void clearRing() {
+        keyframeHeld = false;
         Entry e;
         while ((e = ring.pollFirst()) != null) {
             av_packet_free(e.packet());

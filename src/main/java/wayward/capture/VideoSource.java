@@ -73,6 +73,11 @@ public final class VideoSource implements Runnable {
     private volatile String fileFailure;
     private final boolean live;
     private volatile Thread runner;
+    /** A two-stream camera's time link, fed with this (analysis) stream's pictures; null for one stream. */
+    private volatile StreamLink link;
+    /** The decoded pictures' size, pixels (0 before the first). */
+    private volatile int width;
+    private volatile int height;
 
     // stream-time bookkeeping, capture thread only
     private final StreamClock clock;
@@ -99,6 +104,24 @@ public final class VideoSource implements Runnable {
         this.options = options;
         this.slot = slot;
         this.health = health;
+    }
+
+    /**
+     * Before {@link #run}: this is a two-stream camera's analysis stream; its pictures' times feed {@code l} so
+     * that the main stream's packets can be put on this stream's time axis.
+     */
+    public void linkTo(StreamLink l) {
+        this.link = l;
+    }
+
+    /** Width of the decoded pictures, pixels; 0 before the first. Any thread. */
+    public int width() {
+        return width;
+    }
+
+    /** Height of the decoded pictures, pixels; 0 before the first. Any thread. */
+    public int height() {
+        return height;
     }
 
     /** Asks the capture loop to end; it closes the slot on its way out. Any thread. */
@@ -199,6 +222,10 @@ public final class VideoSource implements Runnable {
             if (clips != null) {
                 clips.close();
             }
+            StreamLink l = link;
+            if (l != null) {
+                l.analysisEnded();
+            }
             slot.close();
             runner = null;
         }
@@ -219,6 +246,10 @@ public final class VideoSource implements Runnable {
             final int videoIndex = input.streamIndex;
             final double timeBase = input.timeBase;
             clock.opened(input.untimed, input.nominalFrameSeconds);
+            StreamLink l = link;
+            if (l != null) {
+                l.analysisOpened();
+            }
             if (clips != null) {
                 if (input.raw()) {
                     LOG.info("camera {}: raw video; clips are encoded with libopenh264 (device_format = \"mjpeg\""
@@ -323,6 +354,10 @@ public final class VideoSource implements Runnable {
             // a file played as a camera; a live source is paced by the camera itself
             pace(t);
         }
+        StreamLink l = link;
+        if (l != null) {
+            l.analysisFrame(System.nanoTime(), t);
+        }
         double interval = 1.0 / options.analysisFps();
         if (t + 1e-6 < nextDue) {
             return;
@@ -330,6 +365,10 @@ public final class VideoSource implements Runnable {
         nextDue = Math.max(nextDue + interval, t + interval * 0.5);
         int w = f.width();
         int h = f.height();
+        if (w != width || h != height) {
+            width = w;
+            height = h;
+        }
         if (w < 2 || h < 2) {
             decodeErrors++;
             return;

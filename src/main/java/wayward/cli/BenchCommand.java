@@ -15,8 +15,8 @@ import wayward.analysis.StageFigures;
 /** CPU cost per camera and stage on a recorded file, to size a server. */
 final class BenchCommand extends Command {
     BenchCommand() {
-        super("bench", Set.of("--input", "--cameras", "--config"), String.join("\n",
-                "usage: java -jar wayward.jar bench --input VIDEO [--cameras N] [--config FILE]",
+        super("bench", Set.of("--input", "--analysis-input", "--cameras", "--config"), String.join("\n",
+                "usage: java -jar wayward.jar bench --input VIDEO [--analysis-input VIDEO] [--cameras N] [--config FILE]",
                 "",
                 "Runs N cameras (default 1) on the same file at full speed, every frame decoded and analysed at the",
                 "analysis rate, and prints per camera the CPU time of each stage (decode; luma and downscale; flow;",
@@ -24,7 +24,11 @@ final class BenchCommand extends Command {
                 "H.264's deblocking filter; `ffmpeg -threads 1 -benchmark -i VIDEO -f null -` shows a full decode).",
                 "The first 5 s of stream are JIT warm-up and not counted. With --config, the first camera's zones",
                 "and settings are used; without, one zone over the middle of the picture with the default",
-                "settings. CPU times are the threads' own (ThreadMXBean)."));
+                "settings. CPU times are the threads' own (ThreadMXBean).",
+                "",
+                "With --analysis-input (a camera's smaller sub-stream of the same scene), the analysis decodes that",
+                "file and --input is only demuxed, as a camera with analysis_source runs; the table then shows the",
+                "main stream's demux cost too, and CPU per video second includes it."));
     }
 
     @Override
@@ -34,6 +38,12 @@ final class BenchCommand extends Command {
             err.println("wayward bench: --input " + input + ": file not found");
             return Main.NO_INPUT;
         }
+        String analysisInput = o.has("--analysis-input") ? o.get("--analysis-input") : null;
+        if (analysisInput != null && !Files.isRegularFile(Path.of(analysisInput))) {
+            err.println("wayward bench: --analysis-input " + analysisInput + ": file not found");
+            return Main.NO_INPUT;
+        }
+        String analysisVideo = analysisInput == null ? null : Path.of(analysisInput).toAbsolutePath().toString();
         int n = 1;
         if (o.has("--cameras")) {
             try {
@@ -64,9 +74,10 @@ final class BenchCommand extends Command {
         CameraConfig first = c.cameras().get(0);
         List<CameraConfig> copies = new ArrayList<>();
         for (int i = 1; i <= n; i++) {
-            CameraConfig copy = first.withSource(video, false);
+            CameraConfig copy = first.withSources(video, analysisVideo, false);
             copies.add(new CameraConfig(first.id() + "-" + i, copy.source(), false, copy.analysisWidth(),
-                    copy.analysisFps(), copy.removeCameraMotion(), copy.input(), copy.zones(), copy.tamperAlerts()));
+                    copy.analysisFps(), copy.removeCameraMotion(), copy.input(), copy.zones(), copy.tamperAlerts(),
+                    copy.analysisSource()));
         }
         Service s = new Service(c, copies, Service.Mode.REPLAY, new PrintStream(java.io.OutputStream.nullOutputStream()), 0);
         // the first seconds of stream are JIT warm-up: each camera counts only from there on
@@ -94,20 +105,24 @@ final class BenchCommand extends Command {
                     + " s are warm-up; give a recording of at least 15 s)");
             return Main.NO_INPUT;
         }
-        out.printf(java.util.Locale.ROOT, "bench: %s, %d camera%s, %d cores, %.1f s wall; after the first %.0f s of "
-                + "stream (warm-up)%n", input, n, n == 1 ? "" : "s", Runtime.getRuntime().availableProcessors(),
-                wallSeconds, warmup);
+        out.printf(java.util.Locale.ROOT, "bench: %s%s, %d camera%s, %d cores, %.1f s wall; after the first %.0f s of "
+                + "stream (warm-up)%n", input, analysisInput == null ? "" : " (only demuxed), analysis on " + analysisInput,
+                n, n == 1 ? "" : "s", Runtime.getRuntime().availableProcessors(), wallSeconds, warmup);
         out.println("camera | frames decoded | analysed | decode ms/frame | luma+downscale ms/analysed | flow ms/analysed"
-                + " | zones+rules ms/analysed | CPU ms per video second | × decode");
+                + " | zones+rules ms/analysed" + (analysisInput == null ? "" : " | main packets | main demux ms/packet")
+                + " | CPU ms per video second | × decode");
         for (var p : s.pipelines()) {
             StageFigures m = p.stageFigures();
             double decoded = Math.max(1, m.decodedFrames());
             double analysed = Math.max(1, m.analysedFrames());
-            out.printf(java.util.Locale.ROOT, "%s | %d | %d | %.3f | %.3f | %.3f | %.3f | %.1f | %.2f%n", p.id(),
+            String main = analysisInput == null ? "" : String.format(java.util.Locale.ROOT, " | %d | %.4f",
+                    m.mainPackets(), m.mainDemuxNanos() / 1e6 / Math.max(1, m.mainPackets()));
+            out.printf(java.util.Locale.ROOT, "%s | %d | %d | %.3f | %.3f | %.3f | %.3f%s | %.1f | %.2f%n", p.id(),
                     m.decodedFrames(), m.analysedFrames(), m.decodeNanos() / 1e6 / decoded,
                     m.shrinkNanos() / 1e6 / analysed, m.flowNanos() / 1e6 / analysed, m.zonesNanos() / 1e6 / analysed,
-                    m.totalNanos() / 1e6 / Math.max(1e-3, m.streamSeconds()),
-                    m.decodeNanos() == 0 ? Double.NaN : m.totalNanos() / m.decodeNanos());
+                    main,
+                    m.nanosPerVideoSecond() / 1e6,
+                    m.decodeNanos() == 0 ? Double.NaN : m.nanosPerVideoSecond() * m.streamSeconds() / m.decodeNanos());
         }
         return Main.OK;
     }

@@ -31,6 +31,13 @@ final class CheckCommand extends Command {
                     + " watches: " + String.join(", ", wayward.service.Shards.mine(ids, c.shard().instance(),
                     c.shard().instances())));
         }
+        // which stream of a two-stream camera does what
+        for (CameraConfig cam : c.cameras()) {
+            if (cam.twoStreams()) {
+                out.println("# camera " + cam.id() + ": analysis decodes analysis_source; source is only demuxed, for "
+                        + "the pre-roll ring and full-size clips (from analysis_source while source is down)");
+            }
+        }
         // what zones that learn their heading have learned so far (data_dir/learned)
         for (CameraConfig cam : c.cameras()) {
             for (wayward.analysis.ZoneConfig z : cam.zones()) {

@@ -45,7 +45,7 @@ final class DemoCommand extends Command {
         SiteConfig c = o.config(fallback, err);
         List<CameraConfig> looped = new ArrayList<>();
         for (CameraConfig cam : c.cameras()) {
-            looped.add(cam.withSource(cam.source(), !cam.isUrl()));
+            looped.add(cam.withSources(cam.source(), cam.analysisSource(), !cam.isUrl()));
         }
         err.println("wayward demo: playing the demo scene as a camera; events follow as JSON lines"
                 + (loops == 0 ? " (Ctrl-C to stop)" : ""));

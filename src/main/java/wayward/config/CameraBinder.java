@@ -62,6 +62,7 @@ final class CameraBinder {
                     + String.format(java.util.Locale.ROOT, "%02X", (int) c) + " (the characters / ? # in a password"
                     + " must be percent-encoded; FFmpeg reads a raw one as the end of the address)");
         }
+        String analysisSource = analysisSource(s, base, source);
         int width = s.integer("analysis_width", CameraConfig.DEFAULT_ANALYSIS_WIDTH, 32, 1920);
         if (width % 2 != 0) {
             s.error("analysis_width", width, "an even number from 32 to 1920");
@@ -80,7 +81,60 @@ final class CameraBinder {
         if (id == null || source == null) {
             return null;
         }
-        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones, tamperAlerts);
+        return new CameraConfig(id, source, loop, width, fps, removeCameraMotion, input, zones, tamperAlerts,
+                analysisSource);
+    }
+
+    /**
+     * The optional second stream the analysis decodes ({@code analysis_source}): of the same kind as the source
+     * (both files or both URLs; a webcam has one stream), another stream than it, a file that exists. Null when
+     * absent or wrong (reported).
+     *
+     * @param source the camera's source as bound (a file already resolved), or null when it was wrong
+     */
+    private static String analysisSource(TableReader s, Path base, String source) {
+        String expected = "the camera's smaller stream: a video file path or a URL such as rtsp://host/stream2";
+        String a = s.string("analysis_source", null, expected);
+        if (a == null) {
+            return null;
+        }
+        if (Sources.isDevice(a) || (source != null && Sources.isDevice(source))) {
+            s.error("analysis_source", a, "no analysis_source for a webcam (/dev/videoN sends one stream)");
+            return null;
+        }
+        if (Urls.isUrl(a)) {
+            if (Urls.reservedInPassword(a) != 0) {
+                char c = Urls.reservedInPassword(a);
+                s.error("analysis_source", Urls.mask(a), "a password with '" + c + "' written as %"
+                        + String.format(java.util.Locale.ROOT, "%02X", (int) c) + " (the characters / ? # in a "
+                        + "password must be percent-encoded; FFmpeg reads a raw one as the end of the address)");
+                return null;
+            }
+            if (source != null && !Urls.isUrl(source)) {
+                s.error("analysis_source", Urls.mask(a), "a video file like source (both streams of a camera are "
+                        + "files, or both URLs)");
+                return null;
+            }
+            if (a.equals(source)) {
+                s.error("analysis_source", Urls.mask(a), "a stream other than source (the camera's sub-stream)");
+                return null;
+            }
+            return a;
+        }
+        if (source != null && Urls.isUrl(source)) {
+            s.error("analysis_source", a, "a URL like source (both streams of a camera are files, or both URLs)");
+            return null;
+        }
+        Path p = base.resolve(a).normalize();
+        if (!Files.isRegularFile(p)) {
+            s.error("analysis_source", a, "a video file that exists (looked for " + p + ") or a URL");
+            return null;
+        }
+        if (p.toString().equals(source)) {
+            s.error("analysis_source", a, "a stream other than source (the camera's sub-stream)");
+            return null;
+        }
+        return p.toString();
     }
 
     /**

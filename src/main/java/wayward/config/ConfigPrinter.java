@@ -114,6 +114,10 @@ public final class ConfigPrinter {
         b.append("\n[[camera]]\n");
         b.append("id = ").append(quote(cam.id())).append('\n');
         b.append("source = ").append(quote(masked ? Urls.mask(cam.source()) : cam.source())).append('\n');
+        if (cam.analysisSource() != null) {
+            b.append("analysis_source = ").append(quote(masked ? Urls.mask(cam.analysisSource())
+                    : cam.analysisSource())).append('\n');
+        }
         b.append("loop = ").append(cam.loop()).append('\n');
         b.append("analysis_width = ").append(cam.analysisWidth()).append('\n');
         b.append("analysis_fps = ").append(num(cam.analysisFps())).append('\n');

@@ -9,11 +9,15 @@ import wayward.event.EventKind;
 /**
  * What is open for each camera, from its health and tamper phases in outbox order, so that the retained camera
  * state shows every open condition: the end of one tamper condition leaves the others listed, and the end of a
- * lost camera leaves the conditions that were open before. One caller thread (the courier's); allocates per phase.
+ * lost camera leaves the conditions that were open before. A two-stream camera whose main stream
+ * ({@code source}) is lost still watches (its analysis stream delivers): the state says so apart. One caller thread (the courier's); allocates per phase.
  */
 final class CameraStates {
     private static final class Open {
+        /** The open camera_lost of the camera's one stream, or of its analysis stream (two streams). */
         String lostEvent;
+        /** The open camera_lost of a two-stream camera's main stream ({@code source}): clips degrade, analysis goes on. */
+        String sourceLostEvent;
         final EnumMap<EventKind, String> conditions = new EnumMap<>(EventKind.class);
         long lastSeq = Long.MIN_VALUE;
     }
@@ -33,7 +37,13 @@ final class CameraStates {
         if (seq > open.lastSeq) {
             open.lastSeq = seq;
             boolean start = e.phase() == Event.Phase.START;
-            if (e.kind() == EventKind.CAMERA_LOST) {
+            if (e.kind() == EventKind.CAMERA_LOST && Event.SOURCE.equals(e.stream())) {
+                if (start) {
+                    open.sourceLostEvent = e.id();
+                } else if (e.id().equals(open.sourceLostEvent)) {
+                    open.sourceLostEvent = null;
+                }
+            } else if (e.kind() == EventKind.CAMERA_LOST) {
                 if (start) {
                     open.lostEvent = e.id();
                 } else if (e.id().equals(open.lostEvent)) {
@@ -45,6 +55,7 @@ final class CameraStates {
                 open.conditions.remove(e.kind());
             }
         }
-        return MqttTopics.cameraStatePayload(e, open.lostEvent != null, open.conditions.keySet());
+        return MqttTopics.cameraStatePayload(e, open.lostEvent != null, open.sourceLostEvent != null,
+                open.conditions.keySet());
     }
 }

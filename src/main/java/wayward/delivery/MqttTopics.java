@@ -59,8 +59,20 @@ public final class MqttTopics {
      * (empty when none is); {@code event}, {@code kind}, {@code phase} and {@code at} name the phase that set it.
      */
     static byte[] cameraStatePayload(Event e, boolean lost, Collection<EventKind> conditions) {
+        return cameraStatePayload(e, lost, false, conditions);
+    }
+
+    /**
+     * @param lost       the analysis stream (or the camera's one stream) is lost
+     * @param sourceLost a two-stream camera's main stream ({@code source}) is lost: written as
+     *                   {@code "source_lost": true}, left out otherwise
+     */
+    static byte[] cameraStatePayload(Event e, boolean lost, boolean sourceLost, Collection<EventKind> conditions) {
         return json(g -> {
             g.writeStringField("state", lost ? "lost" : "watching");
+            if (sourceLost) {
+                g.writeBooleanField("source_lost", true);
+            }
             g.writeArrayFieldStart("conditions");
             for (EventKind k : conditions) {
                 g.writeString(k.jsonName());

@@ -31,10 +31,18 @@ import java.time.Instant;
  * @param endedBy         for an end phase not decided by the rules, why it ended: {@link #SERVICE_STOPPED} for an
  *                        event the service closed at its next start because it had stopped (or crashed) while the
  *                        event was open; null otherwise
+ * @param stream          for a camera with two streams ({@code analysis_source} set), which one, named by its
+ *                        config key ({@link #SOURCE} or {@link #ANALYSIS_SOURCE}): for {@code camera_lost} the stream
+ *                        that dropped (JSON {@code stream}), for zone events the stream the clip was copied from
+ *                        (JSON {@code evidence_stream}); null for a camera with one stream
  */
 public record Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
         Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx, double durationSeconds,
-        String clip, String snapshot, Mover mover, String endedBy) {
+        String clip, String snapshot, Mover mover, String endedBy, String stream) {
+    /** {@link #stream}: the camera's main stream, config key {@code source}. */
+    public static final String SOURCE = "source";
+    /** {@link #stream}: the camera's analysis stream, config key {@code analysis_source}. */
+    public static final String ANALYSIS_SOURCE = "analysis_source";
     /** {@link #endedBy} of an event closed at a start because the service had stopped while it was open. */
     public static final String SERVICE_STOPPED = "service_stopped";
 
@@ -89,6 +97,14 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
         }
     }
 
+    /** An event phase of a camera with one stream. */
+    public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
+            Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx,
+            double durationSeconds, String clip, String snapshot, Mover mover, String endedBy) {
+        this(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share, shiftPx,
+                durationSeconds, clip, snapshot, mover, endedBy, null);
+    }
+
     /** An event phase as the rules decide it. */
     public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
             Instant at, double bearingDeg, double speedPxPerSecond, double share, double durationSeconds, String clip,
@@ -100,7 +116,7 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
     /** The end phase of this started event, closed at {@code now} because the service stopped while it was open. */
     public Event closedAtRestart(Instant now) {
         return new Event(id, camera, zone, kind, Phase.END, Double.NaN, now, Double.NaN, Double.NaN, Double.NaN,
-                Double.NaN, Double.NaN, null, null, null, SERVICE_STOPPED);
+                Double.NaN, Double.NaN, null, null, null, SERVICE_STOPPED, stream);
     }
 
     /** An event phase with evidence files and no mover. */
@@ -121,7 +137,13 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
     /** The same phase naming its evidence files. */
     public Event withEvidence(String clipPath, String snapshotPath) {
         return new Event(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share,
-                shiftPx, durationSeconds, clipPath, snapshotPath, mover, endedBy);
+                shiftPx, durationSeconds, clipPath, snapshotPath, mover, endedBy, stream);
+    }
+
+    /** The same phase naming the stream ({@link #SOURCE} or {@link #ANALYSIS_SOURCE}; null for none). */
+    public Event withStream(String streamKey) {
+        return new Event(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share,
+                shiftPx, durationSeconds, clip, snapshot, mover, endedBy, streamKey);
     }
 
     /** Start or end of an event. */
@@ -152,6 +174,10 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
         if (!zoneKind && kind != EventKind.CAMERA_MOVED && present(bearingDeg)) {
             throw new IllegalArgumentException("event " + kind.jsonName() + ": bearing " + bearingDeg
                     + " (expected only for wrong_way, motion and camera_moved)");
+        }
+        if (stream != null && !stream.equals(SOURCE) && !stream.equals(ANALYSIS_SOURCE)) {
+            throw new IllegalArgumentException("event stream: " + stream + " (expected " + SOURCE + " or "
+                    + ANALYSIS_SOURCE + ")");
         }
         if (kind != EventKind.CAMERA_MOVED && present(shiftPx)) {
             throw new IllegalArgumentException("event " + kind.jsonName() + ": shift " + shiftPx

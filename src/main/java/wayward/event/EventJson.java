@@ -78,6 +78,10 @@ public final class EventJson {
             if (e.endedBy() != null) {
                 g.writeStringField("ended_by", e.endedBy());
             }
+            if (e.stream() != null) {
+                // one name, one meaning: the stream that dropped, or the stream the evidence came from
+                g.writeStringField(e.kind() == EventKind.CAMERA_LOST ? "stream" : "evidence_stream", e.stream());
+            }
             g.writeEndObject();
         } catch (IOException ex) {
             throw new UncheckedIOException(ex);
@@ -106,6 +110,7 @@ public final class EventJson {
      */
     public static Event parse(byte[] json) {
         String id = null, camera = null, zone = null, clip = null, snapshot = null, at = null, endedBy = null;
+        String streamKey = null;
         String kindName = null;
         Event.Phase phase = null;
         double stream = Double.NaN, duration = Double.NaN;
@@ -154,6 +159,7 @@ public final class EventJson {
                     case "clip" -> clip = p.getText();
                     case "snapshot" -> snapshot = p.getText();
                     case "ended_by" -> endedBy = p.getText();
+                    case "stream", "evidence_stream" -> streamKey = p.getText();
                     case "mover_width_px" -> moverWidth = p.getIntValue();
                     case "mover_height_px" -> moverHeight = p.getIntValue();
                     case "mover_samples" -> moverSamples = p.getIntValue();
@@ -208,7 +214,7 @@ public final class EventJson {
             Event.Mover mover = moverPath == null ? null
                     : new Event.Mover(moverWidth, moverHeight, moverSamples, moverPath, moverSpeed, moverTravel);
             return new Event(id, camera, zone, kind, phase, stream, Instant.parse(at), bearing, speed, share, shiftPx,
-                    duration, clip, snapshot, mover, endedBy);
+                    duration, clip, snapshot, mover, endedBy, streamKey);
         } catch (java.time.format.DateTimeParseException e) {
             throw new IllegalArgumentException("\"at\" is not an ISO-8601 instant: " + at);
         }

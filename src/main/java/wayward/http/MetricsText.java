@@ -76,6 +76,19 @@ final class MetricsText {
         }
     }
 
+    private interface StreamValue {
+        double of(CameraStatus.StreamState s);
+    }
+
+    private void perStream(List<CameraStatus> ps, String name, String type, String help, StreamValue v) {
+        family(name, type, help);
+        for (CameraStatus p : ps) {
+            for (CameraStatus.StreamState st : p.streams()) {
+                sample(name, v.of(st), "camera", p.id(), "stream", st.key());
+            }
+        }
+    }
+
     private interface ZoneValue {
         double of(CameraStatus p, int zone);
     }
@@ -105,6 +118,36 @@ final class MetricsText {
                 CameraStatus::decodeErrors);
         perCamera(ps, "wayward_camera_reconnects_total", "counter", "Reconnect attempts of the source.",
                 CameraStatus::reconnects);
+        perStream(ps, "wayward_stream_watching", "gauge", "1 while the stream delivers (frames, or packets for a "
+                + "main stream only demuxed for clips), 0 while it is lost; stream is the config key it comes from.",
+                s -> s.watching() ? 1 : 0);
+        perStream(ps, "wayward_stream_width_pixels", "gauge", "The stream's picture width (0 before it is known).",
+                CameraStatus.StreamState::width);
+        perStream(ps, "wayward_stream_height_pixels", "gauge", "The stream's picture height (0 before it is known).",
+                CameraStatus.StreamState::height);
+        perStream(ps, "wayward_stream_frames_decoded_total", "counter",
+                "Frames decoded from the stream (0 for a main stream only demuxed for clips).",
+                CameraStatus.StreamState::frames);
+        family("wayward_stream_packets_in_total", "counter",
+                "Video packets read from a main stream that is only demuxed (cameras with analysis_source).");
+        for (CameraStatus p : ps) {
+            for (CameraStatus.StreamState st : p.streams()) {
+                if (st.packets() >= 0) {
+                    sample("wayward_stream_packets_in_total", (double) st.packets(), "camera", p.id(), "stream",
+                            st.key());
+                }
+            }
+        }
+        perStream(ps, "wayward_stream_reconnects_total", "counter", "Reconnect attempts of the stream.",
+                CameraStatus.StreamState::reconnects);
+        family("wayward_stream_time_shift_seconds", "gauge", "Cameras with analysis_source: the newest main-stream "
+                + "packet's time on the analysis stream's time axis minus its own stream time (where clips are cut).");
+        for (CameraStatus p : ps) {
+            if (p.config().twoStreams() && !Double.isNaN(p.mainShiftSeconds())) {
+                sample("wayward_stream_time_shift_seconds", p.mainShiftSeconds(), "camera", p.id(), "stream",
+                        "source");
+            }
+        }
         perCamera(ps, "wayward_camera_analysis_seconds_total", "counter",
                 "Wall time spent in flow, zone meters and rules.", CameraStatus::analysisSeconds);
         perCamera(ps, "wayward_camera_stream_seconds", "gauge", "Stream time of the newest analysed frame.",

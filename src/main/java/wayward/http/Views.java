@@ -118,6 +118,28 @@ final class Views {
             g.writeNumberField("decode_errors", p.decodeErrors());
             g.writeNumberField("reconnects", p.reconnects());
             number(g, "stream_s", p.streamSeconds());
+            g.writeArrayFieldStart("streams");
+            for (CameraStatus.StreamState st : p.streams()) {
+                g.writeStartObject();
+                g.writeStringField("stream", st.key());
+                g.writeStringField("address", Urls.mask(st.address()));
+                g.writeBooleanField("decoded", st.decoded());
+                if (st.width() > 0) {
+                    g.writeNumberField("width", st.width());
+                    g.writeNumberField("height", st.height());
+                } else {
+                    g.writeNullField("width");
+                    g.writeNullField("height");
+                }
+                g.writeNumberField("frames_in", st.frames());
+                if (st.packets() >= 0) {
+                    g.writeNumberField("packets_in", st.packets());
+                }
+                g.writeNumberField("reconnects", st.reconnects());
+                g.writeStringField("state", st.watching() ? "watching" : "lost");
+                g.writeEndObject();
+            }
+            g.writeEndArray();
             g.writeArrayFieldStart("zones");
             List<ZoneConfig> zones = p.config().zones();
             for (int z = 0; z < zones.size(); z++) {

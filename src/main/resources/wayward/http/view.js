@@ -175,6 +175,11 @@ async function poll() {
     const cams = await (await fetch(withAuth("/api/cameras"))).json();
     const cam = cams.cameras.find(c => c.id === camera);
     if (cam) {
+      // each stream: its config key, size, what it is used for, counters and health
+      document.getElementById("streams").textContent = cam.streams.map(st => st.stream + " "
+        + (st.width ? st.width + "x" + st.height : "size not known yet") + " ("
+        + (st.decoded ? "analysed, " + st.frames_in + " frames" : "clips only, " + st.packets_in + " packets")
+        + ", " + st.reconnects + " reconnects, " + st.state + ")").join(" · ");
       if (zones.length !== cam.zones.length) {
         zones = cam.zones;
         for (const z of zones) {

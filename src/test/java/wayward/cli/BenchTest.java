@@ -41,4 +41,32 @@ class BenchTest {
                 new PrintStream(new ByteArrayOutputStream()), new PrintStream(new ByteArrayOutputStream())),
                 "--cameras 0 is a usage error");
     }
+
+    @Test
+    @Timeout(value = 120, unit = TimeUnit.SECONDS)
+    void withAnAnalysisInputTheMainInputIsOnlyDemuxed(@org.junit.jupiter.api.io.TempDir java.nio.file.Path dir)
+            throws Exception {
+        // the demo clip scaled to 1280x720 by Debian's ffmpeg: the same 390 frames, so the same 26 s
+        java.nio.file.Path main = dir.resolve("main.mp4");
+        YardSite.command("ffmpeg", "-v", "error", "-i", "test-streams/yard-lane.mp4", "-vf", "scale=1280:720", "-c:v",
+                "libx264", "-preset", "ultrafast", "-bf", "0", "-g", "30", main.toString());
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        int rc = Main.execute(new String[] {"bench", "--input", main.toString(), "--analysis-input",
+            "test-streams/yard-lane.mp4"}, new PrintStream(out, true, StandardCharsets.UTF_8),
+                new PrintStream(new ByteArrayOutputStream()));
+        assertEquals(0, rc);
+        List<String> lines = List.of(out.toString(StandardCharsets.UTF_8).split("\n"));
+        assertEquals(3, lines.size(), lines.toString());
+        assertTrue(lines.get(1).contains("| main packets | main demux ms/packet |"), lines.get(1));
+        String[] f = lines.get(2).split(" \\| ");
+        // the analysis decoded the 640x360 clip (every frame after the warm-up), the main file's packets after
+        // the warm-up were read, not decoded (ffprobe: 390 packets, 15 per second, so 315 after 5 s)
+        assertEquals(315, Integer.parseInt(f[1]), 1, lines.get(2));
+        assertEquals(210, Integer.parseInt(f[2]), 1, lines.get(2));
+        assertEquals(315, Integer.parseInt(f[7]), 1, lines.get(2));
+        assertTrue(Double.parseDouble(f[8]) > 0, lines.get(2));
+        assertEquals(66, Main.execute(new String[] {"bench", "--input", main.toString(), "--analysis-input",
+            dir.resolve("missing.mp4").toString()}, new PrintStream(new ByteArrayOutputStream()),
+                new PrintStream(new ByteArrayOutputStream())), "a missing --analysis-input is a missing input");
+    }
 }

@@ -158,10 +158,11 @@ class LiveViewIT {
             assertTrue(ws.find(), list + Files.readString(dir.resolve("chromium.log")));
             Cdp cdp = Cdp.connect(ws.group(1));
             cdp.call("Page.enable", "{}");
-            // the camera list: one camera with one zone, in the singular, and no "lost" for a camera that is watching
+            // the camera list: one camera with one zone, in the singular, its one stream's size (the demo clip is
+            // 640x360, ffprobe) and no "lost" for a camera that is watching
             cdp.call("Page.navigate", "{\"url\":\"http://127.0.0.1:" + port + "/?access_token=" + TOKEN + "\"}");
             await(cdp, "(document.getElementById('cameras') || {textContent: ''}).textContent.replace(/\\u2014/g, '-')",
-                    Pattern.compile("yard-mast-2 - 1 zone"), 30);
+                    Pattern.compile("yard-mast-2 - 1 zone - 640x360 analysed"), 30);
             cdp.call("Page.navigate", "{\"url\":\"http://127.0.0.1:" + port + "/view/yard-mast-2?access_token=" + TOKEN + "\"}");
             // the live picture arrived (the MJPEG stream's first frame gives the image its size)
             await(cdp, "(document.getElementById('picture') || {naturalWidth: 0}).naturalWidth", Pattern.compile("[1-9]\\d*"), 60);

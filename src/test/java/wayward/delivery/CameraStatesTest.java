@@ -54,6 +54,24 @@ class CameraStatesTest {
     }
 
     @Test
+    void aTwoStreamCameraWhoseMainStreamIsDownStillWatches() throws IOException {
+        Event mainLost = phase("s", EventKind.CAMERA_LOST, Event.Phase.START).withStream(Event.SOURCE);
+        String text = new String(states.apply(seq++, mainLost), StandardCharsets.UTF_8);
+        SchemaCheck.assertValid(SchemaCheck.CAMERA_STATE, text);
+        assertEquals("watching", JSON.readTree(text).get("state").asText());
+        assertEquals(true, JSON.readTree(text).get("source_lost").asBoolean(), text);
+        Event analysisLost = phase("a", EventKind.CAMERA_LOST, Event.Phase.START).withStream(Event.ANALYSIS_SOURCE);
+        assertEquals("lost []", read(states.apply(seq++, analysisLost)));
+        assertEquals("lost []", read(states.apply(seq++, phase("s", EventKind.CAMERA_LOST, Event.Phase.END)
+                .withStream(Event.SOURCE))));
+        text = new String(states.apply(seq++, phase("a", EventKind.CAMERA_LOST, Event.Phase.END)
+                .withStream(Event.ANALYSIS_SOURCE)), StandardCharsets.UTF_8);
+        SchemaCheck.assertValid(SchemaCheck.CAMERA_STATE, text);
+        assertEquals("watching", JSON.readTree(text).get("state").asText());
+        assertEquals(null, JSON.readTree(text).get("source_lost"), text);
+    }
+
+    @Test
     void aRetryOrAnEndOfAnUnknownStartChangesNothing() throws IOException {
         Event start = phase("f", EventKind.FOCUS_LOST, Event.Phase.START);
         Event end = phase("f", EventKind.FOCUS_LOST, Event.Phase.END);

@@ -87,4 +87,30 @@ class EventSchemaTest {
                         44.31, 177));
         assertEquals(e, EventJson.parse(EventJson.toJson(e).getBytes(StandardCharsets.UTF_8)));
     }
+
+    @Test
+    void aTwoStreamCameraNamesTheStreamUnderOneNamePerKind() {
+        Event wrongWay = new Event("4f1c", "yard-mast-2", "lane-2-out", EventKind.WRONG_WAY, Event.Phase.START, 12.133,
+                AT, 180.5, 30.06, 0.0904, Double.NaN, "evidence/a.mp4", "evidence/a.jpg").withStream(Event.SOURCE);
+        String json = EventJson.toJson(wrongWay);
+        assertTrue(json.contains("\"evidence_stream\":\"source\""), json);
+        assertValid(wrongWay);
+        assertValid(wrongWay.withStream(Event.ANALYSIS_SOURCE));
+        assertEquals(wrongWay, EventJson.parse(json.getBytes(StandardCharsets.UTF_8)));
+        Event lost = new Event("77aa", "yard-mast-2", null, EventKind.CAMERA_LOST, Event.Phase.START, 3.2, AT,
+                Double.NaN, Double.NaN, Double.NaN, Double.NaN).withStream(Event.SOURCE);
+        String lostJson = EventJson.toJson(lost);
+        assertTrue(lostJson.contains("\"stream\":\"source\""), lostJson);
+        assertValid(lost);
+        assertEquals(lost, EventJson.parse(lostJson.getBytes(StandardCharsets.UTF_8)));
+        // one name, one meaning: a zone event never says "stream", a camera event never "evidence_stream", and only
+        // the two config keys are stream names
+        assertFalse(SchemaCheck.problems(SchemaCheck.EVENT, json.replace("evidence_stream", "stream")).isEmpty());
+        assertFalse(SchemaCheck.problems(SchemaCheck.EVENT, lostJson.replace("\"stream\"", "\"evidence_stream\""))
+                .isEmpty());
+        assertFalse(SchemaCheck.problems(SchemaCheck.EVENT, lostJson.replace("\"source\"", "\"main\"")).isEmpty());
+        String blocked = EventJson.toJson(new Event("88bb", "yard-mast-2", null, EventKind.VIEW_BLOCKED,
+                Event.Phase.START, 3.2, AT, Double.NaN, Double.NaN, Double.NaN, Double.NaN));
+        assertFalse(SchemaCheck.problems(SchemaCheck.EVENT, blocked.replace("}", ",\"stream\":\"source\"}")).isEmpty());
+    }
 }
