@@ -5,6 +5,7 @@ import java.time.ZoneOffset;
 import java.time.format.DateTimeFormatter;
 import java.util.HashMap;
 import java.util.Map;
+import java.util.function.BooleanSupplier;
 import wayward.capture.ClipRecorder;
 import wayward.clip.Snapshot;
 import wayward.event.Event;
@@ -35,7 +36,7 @@ final class EvidenceKeeper {
     /** The main stream's recorder of a two-stream camera, else null. */
     private final ClipRecorder mainRecorder;
     /** True while the main stream delivers (two streams); set once before capture starts. */
-    private java.util.function.BooleanSupplier mainUp = () -> false;
+    private BooleanSupplier mainUp = () -> false;
     /** Open events' evidence paths (relative to the data folder), by event id. */
     private final Map<String, String[]> open = new HashMap<>();
     /** Open events' recorder (two streams: the stream their clip is copied from), by event id. */
@@ -63,7 +64,7 @@ final class EvidenceKeeper {
     }
 
     /** Before capture starts (two streams): tells whether the main stream delivers now. */
-    void mainUp(java.util.function.BooleanSupplier up) {
+    void mainUp(BooleanSupplier up) {
         this.mainUp = up;
     }
 
