@@ -75,6 +75,14 @@ class TwoStreamsIT {
         return out;
     }
 
+    /** SIGTERM, so open clips end with their trailer; killed if it has not ended within 30 s. */
+    private static void stop(Process service) throws InterruptedException {
+        service.destroy();
+        if (!service.waitFor(30, TimeUnit.SECONDS)) {
+            service.destroyForcibly();
+        }
+    }
+
     @Test
     @Timeout(value = 300, unit = TimeUnit.SECONDS)
     void analysesTheSubStreamAndCopiesFullSizeClipsFromTheMainStream(@TempDir Path dir) throws Exception {
@@ -99,8 +107,7 @@ class TwoStreamsIT {
             System.out.println(Files.readString(dir.resolve("service.log")));
             throw e;
         } finally {
-            service.destroy();
-            service.waitFor(30, TimeUnit.SECONDS);
+            stop(service);
         }
         assertEquals("source", streams.get(0).get("stream").asText());
         assertEquals(false, streams.get(0).get("decoded").asBoolean());
@@ -193,10 +200,7 @@ class TwoStreamsIT {
             System.out.println(Files.readString(dir.resolve("service.log")));
             throw e;
         } finally {
-            service.destroy(); // SIGTERM: clips end with their trailer
-            if (!service.waitFor(30, TimeUnit.SECONDS)) {
-                service.destroyForcibly();
-            }
+            stop(service);
             sub.destroyForcibly();
             if (mainServer != null) {
                 mainServer.destroyForcibly();
@@ -235,10 +239,7 @@ class TwoStreamsIT {
             System.out.println(Files.readString(dir.resolve("service.log")));
             throw e;
         } finally {
-            service.destroy(); // SIGTERM: clips end with their trailer
-            if (!service.waitFor(30, TimeUnit.SECONDS)) {
-                service.destroyForcibly();
-            }
+            stop(service);
             server.destroyForcibly();
         }
         assertEquals("source", lost.get("stream"), "the main stream dropped, not the analysed one");
