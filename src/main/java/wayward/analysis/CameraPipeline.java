@@ -392,7 +392,7 @@ public final class CameraPipeline implements CameraStatus {
                 live.offer(f, field, dt);
                 for (int z = 0; z < channels.size(); z++) {
                     ZoneChannel c = channels.get(z);
-                    Event e = c.update(field, dt, t, reading, learnedDir);
+                    Event e = c.update(field, f.pixels, dt, t, reading, learnedDir);
                     zoneFigures.read(z, reading);
                     if (readings != null) {
                         readings.reading(camera, z, reading, c.movers(), c.state());

@@ -99,9 +99,10 @@ final class ZoneChannel {
      * One analysed frame: fills {@code reading}, runs the rule (or the learner) and returns the event phase it
      * decided, or null.
      *
+     * @param pixels     the frame the flow ended on (grey, the flow's picture size)
      * @param learnedDir where a learned heading is kept; null: in memory only
      */
-    Event update(FlowField field, double dt, double t, ZoneReading reading, Path learnedDir) {
+    Event update(FlowField field, byte[] pixels, double dt, double t, ZoneReading reading, Path learnedDir) {
         meter.measure(field, dt, t, reading);
         read = null;
         if (learner != null) {
@@ -111,7 +112,7 @@ final class ZoneChannel {
         }
         Event e;
         if (moverRule != null) {
-            tracker.update(field, dt, t, movers);
+            tracker.update(field, pixels, dt, t, movers);
             e = moverRule.update(movers, reading.againstShare);
             read = movers;
             state = moverRule.stateName();

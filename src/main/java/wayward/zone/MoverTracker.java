@@ -68,6 +68,8 @@ public final class MoverTracker {
     private final int[] gTrack;
     private final Tracks tr;
     private final Jumps jumps;
+    /** Small movers hopping beyond the flow's reach, found in the picture; null: no heading. */
+    private final Hops hops;
     private final Nearest near = new Nearest();
     private long untracked;
 
@@ -104,6 +106,7 @@ public final class MoverTracker {
         int t = capacity(gr.zoneSamples());
         tr = new Tracks(t);
         jumps = new Jumps(gr, tr, gTrack, settings);
+        hops = hasHeading ? new Hops(mask, imageWidth, imageHeight, stride, againstX, againstY) : null;
     }
 
     /** Tracks followed at once at most for a zone of {@code samples} samples. */
@@ -113,7 +116,7 @@ public final class MoverTracker {
 
     /** A table the size of this tracker's track capacity, for {@link #update}. */
     public Movers newMovers() {
-        return new Movers(tr.capacity());
+        return new Movers(tr.capacity() + Hops.OUT);
     }
 
     public ZoneMask mask() {
@@ -129,6 +132,9 @@ public final class MoverTracker {
     public void reset() {
         Arrays.fill(tr.live, false);
         gr.reset();
+        if (hops != null) {
+            hops.reset();
+        }
     }
 
     /**
@@ -139,6 +145,16 @@ public final class MoverTracker {
      * @param out          a table from {@link #newMovers}; refilled
      */
     public void update(FlowField flow, double frameSeconds, double streamSeconds, Movers out) {
+        update(flow, null, frameSeconds, streamSeconds, out);
+    }
+
+    /**
+     * As {@link #update(FlowField, double, double, Movers)}, and also follows small movers hopping beyond the
+     * flow's reach in the picture ({@link Hops}).
+     *
+     * @param pixels the later frame of the flow, grey, the flow's picture size; null: flow only
+     */
+    public void update(FlowField flow, byte[] pixels, double frameSeconds, double streamSeconds, Movers out) {
         if (flow.width != gridWidth || flow.height != gridHeight || flow.stride != stride) {
             throw new IllegalArgumentException("flow: " + flow.width + "x" + flow.height + " every " + flow.stride
                     + " px (expected " + gridWidth + "x" + gridHeight + " every " + stride + " px)");
@@ -146,10 +162,14 @@ public final class MoverTracker {
         if (!(frameSeconds > 0)) {
             throw new IllegalArgumentException("frameSeconds: " + frameSeconds + " (expected more than 0)");
         }
-        if (out.capacity() != tr.capacity()) {
-            throw new IllegalArgumentException("out: capacity " + out.capacity() + " (expected " + tr.capacity() + ")");
+        if (out.capacity() != tr.capacity() + Hops.OUT) {
+            throw new IllegalArgumentException("out: capacity " + out.capacity() + " (expected "
+                    + (tr.capacity() + Hops.OUT) + ")");
         }
         gr.find(flow, frameSeconds);
+        if (hops != null && pixels != null) {
+            hops.update(pixels, streamSeconds);
+        }
         follow(frameSeconds, streamSeconds);
         out.begin(streamSeconds, imageWidth, imageHeight, stride);
         for (int t = 0; t < tr.capacity(); t++) {
@@ -163,6 +183,9 @@ public final class MoverTracker {
             if (seen && slot >= 0) {
                 out.stillAheadPx(slot, stillAhead(t));
             }
+        }
+        if (hops != null && pixels != null) {
+            hops.write(out);
         }
         out.end();
     }

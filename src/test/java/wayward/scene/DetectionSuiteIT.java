@@ -86,11 +86,12 @@ class DetectionSuiteIT {
     /**
      * The held-out half, which no default was chosen on, against both references on the same videos: wayward
      * catches more wrong-way passages than OpenCV DIS-MEDIUM with our share rule and than MOG2 motion detection,
-     * and at least 0.85 of them; no more scenes without a wrong-way passage raise a false alert than with the
-     * DIS-MEDIUM reference; every tampering raises its own kind within 5 s. Issue 16's own targets (recall ≥ 0.98,
-     * no false alert in any scene without a passage, onset ≤ hold + 0.5 s) are NOT met yet (measured 2026-12-03:
-     * recall 16/18, s47 glare raises two false alerts, crawls start up to 4 s late); the message lists every
-     * scene that misses them, and DEVELOPERS.md ("Movers") records the figures.
+     * and at least 0.98 of them (issue 16's recall target, met since small hopping movers are followed by their
+     * footprints: 18/18); no more scenes without a wrong-way passage raise a false alert than with the DIS-MEDIUM
+     * reference; every tampering raises its own kind within 5 s. Issue 16's other targets (no false alert in any
+     * scene without a passage, onset ≤ hold + 0.5 s) are NOT met yet (measured 2026-12-03: s47 glare raises two
+     * false alerts, s37's crawl starts 4.4 s late); the message lists every scene that misses them, and
+     * DEVELOPERS.md ("Movers") records the figures.
      */
     @Test
     void heldOutHalfCatchesMoreThanBothReferencesWithNoMoreFalseAlertScenes() {
@@ -133,7 +134,7 @@ class DetectionSuiteIT {
                 + " without a passage that alert: %d (reference %d)%nshort of issue 16's targets:%n%s%n%s", caught,
                 passages, disCaught, mogCaught, falseScenes, disFalseScenes, String.join("\n", misses), table);
         assertTrue(caught > disCaught && caught > mogCaught, message);
-        assertTrue((double) caught / passages >= 0.85, message);
+        assertTrue((double) caught / passages >= 0.98, message);
         assertTrue(falseScenes <= disFalseScenes, message);
     }
 }
