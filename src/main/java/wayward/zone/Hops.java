@@ -115,6 +115,8 @@ final class Hops {
     private final int[] w = new int[CHAINS];
     private final int[] h = new int[CHAINS];
     private final boolean[] extended = new boolean[CHAINS];
+    private static final int COST_COLUMNS = MAX_FOOTPRINTS + 1;
+    private final double[] costs = new double[CHAINS * COST_COLUMNS];
     private long nextId = ID_BASE;
 
     /**
@@ -304,22 +306,26 @@ final class Hops {
     /** Pairs chains with this frame's footprints (nearest to the prediction first) and starts new chains. */
     private void follow(double time) {
         Arrays.fill(fTaken, 0, footprints, false);
+        // each pairing's cost once (the picture test is the dear part), then nearest first
+        for (int c = 0; c < CHAINS; c++) {
+            for (int f = 0; f < footprints; f++) {
+                costs[c * COST_COLUMNS + f] = live[c] && time > t[c] ? cost(c, f, time) : Double.MAX_VALUE;
+            }
+        }
         while (true) {
             int bestC = -1;
             int bestF = -1;
             double best = Double.MAX_VALUE;
             for (int c = 0; c < CHAINS; c++) {
-                if (!live[c] || extended[c] || !(time > t[c])) {
+                if (extended[c]) {
                     continue;
                 }
                 for (int f = 0; f < footprints; f++) {
-                    if (!fTaken[f]) {
-                        double cost = cost(c, f, time);
-                        if (cost < best) {
-                            best = cost;
-                            bestC = c;
-                            bestF = f;
-                        }
+                    double cost = costs[c * COST_COLUMNS + f];
+                    if (!fTaken[f] && cost < best) {
+                        best = cost;
+                        bestC = c;
+                        bestF = f;
                     }
                 }
             }
@@ -370,17 +376,16 @@ final class Hops {
                 || step > Jumps.MAX_JUMP_PX_PER_SECOND * since + PREDICT_PX) {
             return Double.MAX_VALUE;
         }
-        if (!sameBody(f, dx, dy)) {
-            return Double.MAX_VALUE;
+        double off = step;
+        if (steps[c] > 0) {
+            double px = x[c] + vx[c] * since;
+            double py = y[c] + vy[c] * since;
+            off = Math.hypot(fx[f] - px, fy[f] - py);
+            if (off > Math.max(PREDICT_PX, PREDICT_SHARE * Math.hypot(vx[c], vy[c]) * since)) {
+                return Double.MAX_VALUE;
+            }
         }
-        if (steps[c] == 0) {
-            return step;
-        }
-        double px = x[c] + vx[c] * since;
-        double py = y[c] + vy[c] * since;
-        double off = Math.hypot(fx[f] - px, fy[f] - py);
-        double reach = Math.max(PREDICT_PX, PREDICT_SHARE * Math.hypot(vx[c], vy[c]) * since);
-        return off <= reach ? off : Double.MAX_VALUE;
+        return sameBody(f, dx, dy) ? off : Double.MAX_VALUE;
     }
 
     /**
