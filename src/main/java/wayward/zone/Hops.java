@@ -59,8 +59,6 @@ final class Hops {
     static final int SHIFT_SEARCH_PX = 3;
     /** Steps alike before a chain is a mover. */
     static final int STEPS = 4;
-    /** Ids of hop movers start here, apart from the flow's tracks. */
-    static final long ID_BASE = 1L << 40;
 
     private final ZoneMask mask;
     private final int imageWidth;
@@ -117,7 +115,8 @@ final class Hops {
     private final boolean[] extended = new boolean[CHAINS];
     private static final int COST_COLUMNS = MAX_FOOTPRINTS + 1;
     private final double[] costs = new double[CHAINS * COST_COLUMNS];
-    private long nextId = ID_BASE;
+    /** Hop movers count down from −1, apart from the flow's tracks (1 up) and from 0 (none). */
+    private long nextId = -1;
 
     /**
      * @param mask the zone's samples on a grid of {@code stride}
@@ -345,7 +344,7 @@ final class Hops {
             }
             live[c] = true;
             extended[c] = true;
-            id[c] = nextId++;
+            id[c] = nextId--;
             steps[c] = 0;
             x[c] = fx[f];
             y[c] = fy[f];
