@@ -81,6 +81,9 @@ final class Hops {
     private final boolean[] marked;
     private final int[] stack;
     private double floorBefore;
+    /** This frame's change floor, and the frame after the middle one (only during {@link #update}). */
+    private double floor;
+    private byte[] next;
     /** Frames seen since the last reset: 0 none, 1 one (no difference), 2 or more. */
     private int primed;
     private double tPrevious;
@@ -180,7 +183,9 @@ final class Hops {
         now = swap;
         double floorNow = primed > 0 ? differences(pixels) : 0;
         if (primed == 2) {
-            footprints(Math.max(floorBefore, floorNow));
+            floor = Math.max(floorBefore, floorNow);
+            next = pixels;
+            footprints(floor);
             // a chain not extended on the frame before the middle one cannot be compared with it: it ends
             for (int c = 0; c < CHAINS; c++) {
                 if (live[c] && t[c] != tOlder) {
@@ -191,6 +196,7 @@ final class Hops {
             if (footprints <= MAX_FOOTPRINTS) {
                 follow(tPrevious);
             }
+            next = null;
         } else {
             primed++;
         }
@@ -405,9 +411,14 @@ final class Hops {
         return moved <= SAME_BODY * still;
     }
 
-    /** Sum of absolute differences between footprint f in the middle frame and the frame before, moved by (sx, sy). */
+    /**
+     * Sum of absolute differences between footprint f's own pixels in the middle frame and the frame before, moved
+     * by (sx, sy). Its own pixels: those of its cells that differ by more than the change floor from both the frame
+     * before and the frame after (the ground inside its cells is left out: moved, it would not match).
+     */
     private int difference(int f, int sx, int sy) {
         final int height = previous.length / imageWidth;
+        final int limit = (int) floor;
         int sum = 0;
         for (int i = fStart[f]; i < fStart[f] + fn[f]; i++) {
             int k = cellList[i];
@@ -416,8 +427,13 @@ final class Hops {
             for (int yy = cy; yy < cy + stride; yy++) {
                 int oy = Math.min(height - 1, Math.max(0, yy - sy));
                 for (int xx = cx; xx < cx + stride; xx++) {
+                    int p = yy * imageWidth + xx;
+                    int a = previous[p] & 0xff;
+                    if (Math.abs(a - (older[p] & 0xff)) <= limit || Math.abs(a - (next[p] & 0xff)) <= limit) {
+                        continue;
+                    }
                     int ox = Math.min(imageWidth - 1, Math.max(0, xx - sx));
-                    sum += Math.abs((previous[yy * imageWidth + xx] & 0xff) - (older[oy * imageWidth + ox] & 0xff));
+                    sum += Math.abs(a - (older[oy * imageWidth + ox] & 0xff));
                 }
             }
         }
