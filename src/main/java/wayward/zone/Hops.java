@@ -470,7 +470,7 @@ final class Hops {
         return -1;
     }
 
-    /** Writes the chains with {@link Jumps#JUMPS_ALIKE} steps or more into {@code out} (between begin and end). */
+    /** Writes the chains with {@link #STEPS} steps or more into {@code out} (between begin and end). */
     void write(Movers out) {
         int written = 0;
         for (int c = 0; c < CHAINS && written < OUT; c++) {

@@ -3,7 +3,9 @@ package wayward.zone;
 /**
  * Follows small movers out of the flow's reach by their jumps, for {@link MoverTracker}. A mover crossing tens of
  * pixels between analysed frames reads nonsense flow, so its group turns up far from the prediction made from that
- * flow; here such a group pairs with the track it can have come from, and a run of jumps alike becomes travel.
+ * flow; here such a group pairs with the track it can have come from, so the track goes on. A run of jumps adds no
+ * travel: groups of chance clusters of noise pair as well as a small mover's do (their sample counts scatter alike);
+ * a small mover that hops is followed in the picture instead ({@link Hops}).
  */
 final class Jumps {
     /**
@@ -11,8 +13,6 @@ final class Jumps {
      * analysis pixels per second: one and a half times a 320-pixel picture's width a second.
      */
     static final double MAX_JUMP_PX_PER_SECOND = 480;
-    /** Jumps alike in a row before a run of jumps counts as travel. */
-    static final int JUMPS_ALIKE = 3;
 
     private final MoverGroups gr;
     private final Tracks tr;
@@ -41,8 +41,6 @@ final class Jumps {
      * most {@link #MAX_JUMP_PX_PER_SECOND} × the time between the two places (plus the gate and half the larger box)
      * away, within {@link MoverSettings#lostSeconds}; nearest first. A track already jumping that was paired where
      * its run predicts goes on jumping while its group moves far and its flow cannot follow ({@code jumpGoesOn}).
-     * The tracker counts a run's travel only once it has {@link #JUMPS_ALIKE} jumps alike, so one chance pairing of
-     * two noise clusters or of two movers counts nothing.
      */
     void pair(double dt, double t) {
         final int nt = tr.capacity();

@@ -330,15 +330,11 @@ public final class MoverTracker {
             final boolean flowFailed = jumping || flowFailed(k, g, cx, cy, dt, t);
             final boolean inZone = gr.centreInZone(cx, cy);
             if (hasHeading && inZone && jumping) {
-                // a run's travel counts once it has enough jumps alike: then all of it from where it began
-                final boolean first = tr.jumps[k] == Jumps.JUMPS_ALIKE;
-                if (tr.jumps[k] >= Jumps.JUMPS_ALIKE && (first || !Double.isNaN(tr.entryX[k]))) {
-                    tr.centroidTravel[k] += headed(cx - (first ? tr.jumpX[k] : tr.entryX[k]),
-                            cy - (first ? tr.jumpY[k] : tr.entryY[k]));
-                }
+                // a run of jumps is followed (the track goes on) but adds no travel: groups of chance clusters of
+                // noise pair as well as a small mover's do; a small mover that hops is followed in the picture
+                // instead (Hops), where its footprint is its own
                 tr.entryX[k] = cx;
                 tr.entryY[k] = cy;
-                tr.travel[k] = Math.max(tr.flowTravel[k], tr.centroidTravel[k]);
             } else if (hasHeading && inZone) {
                 final double along = vu * againstX + vv * againstY;
                 // against adds, with subtracts (a sway back and forth cancels), crossing adds nothing
