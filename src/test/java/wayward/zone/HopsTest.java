@@ -208,6 +208,44 @@ class HopsTest {
     }
 
     @Test
+    void allocatesNothingPerFrame() {
+        Hops h = hops();
+        Random noise = new Random(10);
+        // a hopping square and a blinking lamp: footprints, chains, the picture test and the written mover all run
+        byte[][] frames = new byte[40][];
+        for (int n = 0; n < frames.length; n++) {
+            frames[n] = frame(noise, 3);
+            put(frames[n], 152, 4 + 28 * (n % 6), 12);
+            if (n % 2 == 0) {
+                put(frames[n], 40, 40, 12);
+            }
+        }
+        Movers m = table();
+        for (int n = 0; n < 40; n++) {
+            h.update(frames[n], n * DT);
+            m.begin(n * DT, W, H, STRIDE);
+            h.write(m);
+            m.end();
+        }
+        com.sun.management.ThreadMXBean mx =
+                (com.sun.management.ThreadMXBean) java.lang.management.ManagementFactory.getThreadMXBean();
+        long id = Thread.currentThread().getId();
+        long before = mx.getThreadAllocatedBytes(id);
+        int written = 0;
+        for (int n = 40; n < 240; n++) {
+            h.update(frames[n % 40], n * DT);
+            m.begin(n * DT, W, H, STRIDE);
+            h.write(m);
+            m.end();
+            written += m.count();
+        }
+        long perFrame = (mx.getThreadAllocatedBytes(id) - before) / 200;
+        assertTrue(written > 0, "the square was followed as a mover at times");
+        // a few bytes may be charged to the bean call itself; a frame-sized buffer would be 57 600 bytes
+        assertTrue(perFrame < 64, "allocated " + perFrame + " bytes per frame");
+    }
+
+    @Test
     void aFrameOfAnotherSizeIsRefused() {
         Hops h = hops();
         IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
