@@ -702,6 +702,16 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             final int[] offsets = windowOffset[l];
             final int centre = cy * w + cx;
             final int at = iy * w + ix;
+            if (ax == 0f && ay == 0f) {
+                // a whole-pixel shift (the still start, every shift of the search): the bilinear weights are 1, 0,
+                // 0, 0 and the blend is the pixel itself, bit for bit
+                for (int k = 0; k < windowPixels; k++) {
+                    final float d = i1[at + offsets[k]] - i0[centre + offsets[k]];
+                    sd += d;
+                    sdd += d * d;
+                }
+                return sdd - sd * sd / windowPixels;
+            }
             for (int k = 0; k < windowPixels; k++) {
                 final int p = centre + offsets[k];
                 final int q = at + offsets[k];
@@ -780,6 +790,39 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 final boolean keep = !finest || finestIterations > 1;
                 final int[] offsets = windowOffset[l];
                 final int centre = cy * w + cx;
+                if (!keep && !weighed) {
+                    // the full-size level's plain single step (most points of a frame): nothing kept, no weights,
+                    // and the gradients' factor 1/2 taken out of the loop. Halving is exact in floating point, so
+                    // every sum below is exactly twice (or four times) the sum of halved terms, and scaling it
+                    // afterwards gives the same bits as the general loop.
+                    for (k = 0; k < n; k++) {
+                        final int p = centre + offsets[k];
+                        final float ix = i0[p + 1] - i0[p - 1];
+                        final float iy = i0[p + w] - i0[p - w];
+                        final float tv = i0[p];
+                        final int q = p + shift;
+                        final float d = w00 * i1[q] + w01 * i1[q + 1] + w10 * i1[q + w] + w11 * i1[q + w + 1] - tv;
+                        st += tv;
+                        sx += ix;
+                        sy += iy;
+                        sxx += ix * ix;
+                        sxy += ix * iy;
+                        syy += iy * iy;
+                        sd += d;
+                        sxd += ix * d;
+                        sdd += d * d;
+                        syd += iy * d;
+                    }
+                    sw = n;
+                    sm = st;
+                    sx *= 0.5f;
+                    sy *= 0.5f;
+                    sxx *= 0.25f;
+                    sxy *= 0.25f;
+                    syy *= 0.25f;
+                    sxd *= 0.5f;
+                    syd *= 0.5f;
+                } else {
                 for (k = 0; k < n; k++) {
                     final int p = centre + offsets[k];
                     final float ix = 0.5f * (i0[p + 1] - i0[p - 1]);
@@ -810,6 +853,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     sxd += oix * d;
                     sdd += od * d;
                     syd += oiy * d;
+                }
                 }
                 firstResidualsDone = true;
             } else {
