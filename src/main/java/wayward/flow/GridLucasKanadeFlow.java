@@ -122,6 +122,13 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         /** Each window pixel's weight: how alike its brightness is to the window's centre. */
         final float[] wt;
 
+        /** The starts a point at a motion boundary compares ({@link #startCosts}): motion and window cost. */
+        final float[] startU = new float[START_CANDIDATES];
+        final float[] startV = new float[START_CANDIDATES];
+        final float[] startCost = new float[START_CANDIDATES];
+        final int[] startAt = new int[START_CANDIDATES];
+        final float[] startWeights = new float[4 * START_CANDIDATES];
+
         Band(int n) {
             t = new float[n];
             gx = new float[n];
@@ -538,7 +545,19 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         hiV = Math.max(hiV, cv[o]);
                     }
                     if ((hiU - loU) * scaleX + (hiV - loV) * scaleY > START_SPREAD) {
-                        float best = windowCost(l, i0, i1, w, h, cx, cy, u0, v0);
+                        // the blend first, then the four neighbours' own motions; costs are compared in that order
+                        final float[] su = band.startU;
+                        final float[] sv = band.startV;
+                        su[0] = u0;
+                        sv[0] = v0;
+                        for (int q = 0; q < 4; q++) {
+                            final int o = ((q & 2) == 0 ? r0 : r1) + ((q & 1) == 0 ? c0 : c1);
+                            su[q + 1] = scaleX * cu[o];
+                            sv[q + 1] = scaleY * cv[o];
+                        }
+                        startCosts(l, i0, i1, w, h, cx, cy, band);
+                        final float[] cost = band.startCost;
+                        float best = cost[0];
                         // and the still ground's own motion: a fixed camera sees mostly still ground, which the
                         // coarse level may have dragged along with a mover next to it
                         final float still = windowCost(l, i0, i1, w, h, cx, cy, 0f, 0f);
@@ -547,15 +566,11 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                             u0 = 0f;
                             v0 = 0f;
                         }
-                        for (int q = 0; q < 4; q++) {
-                            final int o = ((q & 2) == 0 ? r0 : r1) + ((q & 1) == 0 ? c0 : c1);
-                            final float cu0 = scaleX * cu[o];
-                            final float cv0 = scaleY * cv[o];
-                            final float cost = windowCost(l, i0, i1, w, h, cx, cy, cu0, cv0);
-                            if (cost < best) {
-                                best = cost;
-                                u0 = cu0;
-                                v0 = cv0;
+                        for (int q = 1; q < START_CANDIDATES; q++) {
+                            if (cost[q] < best) {
+                                best = cost[q];
+                                u0 = su[q];
+                                v0 = sv[q];
                             }
                         }
                     }
@@ -675,6 +690,115 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     // 1 px: below it, the coarse neighbours' differences on a noisy texture moving as one trigger the comparison
     // at most points (FlowBenchmark: 3.9 ms instead of 1.9 ms per 320×240 frame) for no gain on small movers
     static final float START_SPREAD = 1.0f;
+
+    /** Starts compared at a motion boundary: the coarse neighbours' blend and each of the four neighbours. */
+    static final int START_CANDIDATES = 5;
+
+    /**
+     * {@link #windowCost} of each of the band's {@link #START_CANDIDATES} starts into {@code band.startCost}. Where
+     * all five windows lie inside the picture, one pass over the window works out all five costs: the template
+     * pixel is read once, and five independent sums keep the processor busy where one would wait on its own last
+     * addition. Each cost is summed in the same order and by the same formula as {@link #windowCost}: the same
+     * bits.
+     */
+    private void startCosts(int l, float[] i0, float[] i1, int w, int h, int cx, int cy, Band band) {
+        final int r = radius;
+        final float[] su = band.startU;
+        final float[] sv = band.startV;
+        final float[] cost = band.startCost;
+        boolean inside = cx - r >= 0 && cy - r >= 0 && cx + r < w && cy + r < h;
+        // each start's whole-pixel corner and its bilinear weights, as windowCost works them out
+        final int[] at = band.startAt;
+        final float[] wts = band.startWeights;
+        for (int c = 0; c < START_CANDIDATES && inside; c++) {
+            float fx = cx + su[c];
+            float fy = cy + sv[c];
+            fx = fx < 0f ? 0f : (fx > w - 1 ? w - 1 : fx);
+            fy = fy < 0f ? 0f : (fy > h - 1 ? h - 1 : fy);
+            final int ix = (int) fx;
+            final int iy = (int) fy;
+            final float ax = fx - ix;
+            final float ay = fy - iy;
+            wts[4 * c] = (1f - ax) * (1f - ay);
+            wts[4 * c + 1] = ax * (1f - ay);
+            wts[4 * c + 2] = (1f - ax) * ay;
+            wts[4 * c + 3] = ax * ay;
+            at[c] = iy * w + ix;
+            inside = ix - r >= 0 && iy - r >= 0 && ix + r + 1 < w && iy + r + 1 < h;
+        }
+        if (!inside) {
+            for (int c = 0; c < START_CANDIDATES; c++) {
+                cost[c] = windowCost(l, i0, i1, w, h, cx, cy, su[c], sv[c]);
+            }
+            return;
+        }
+        final float a00 = wts[0];
+        final float a01 = wts[1];
+        final float a10 = wts[2];
+        final float a11 = wts[3];
+        final float b00 = wts[4];
+        final float b01 = wts[5];
+        final float b10 = wts[6];
+        final float b11 = wts[7];
+        final float c00 = wts[8];
+        final float c01 = wts[9];
+        final float c10 = wts[10];
+        final float c11 = wts[11];
+        final float d00 = wts[12];
+        final float d01 = wts[13];
+        final float d10 = wts[14];
+        final float d11 = wts[15];
+        final float e00 = wts[16];
+        final float e01 = wts[17];
+        final float e10 = wts[18];
+        final float e11 = wts[19];
+        final int atA = at[0];
+        final int atB = at[1];
+        final int atC = at[2];
+        final int atD = at[3];
+        final int atE = at[4];
+        float sa = 0f;
+        float saa = 0f;
+        float sb = 0f;
+        float sbb = 0f;
+        float sc = 0f;
+        float scc = 0f;
+        float sd = 0f;
+        float sdd = 0f;
+        float se = 0f;
+        float see = 0f;
+        final int[] offsets = windowOffset[l];
+        final int centre = cy * w + cx;
+        for (int k = 0; k < windowPixels; k++) {
+            final int o = offsets[k];
+            final float t = i0[centre + o];
+            int q = atA + o;
+            final float da = a00 * i1[q] + a01 * i1[q + 1] + a10 * i1[q + w] + a11 * i1[q + w + 1] - t;
+            q = atB + o;
+            final float db = b00 * i1[q] + b01 * i1[q + 1] + b10 * i1[q + w] + b11 * i1[q + w + 1] - t;
+            q = atC + o;
+            final float dc = c00 * i1[q] + c01 * i1[q + 1] + c10 * i1[q + w] + c11 * i1[q + w + 1] - t;
+            q = atD + o;
+            final float dd = d00 * i1[q] + d01 * i1[q + 1] + d10 * i1[q + w] + d11 * i1[q + w + 1] - t;
+            q = atE + o;
+            final float de = e00 * i1[q] + e01 * i1[q + 1] + e10 * i1[q + w] + e11 * i1[q + w + 1] - t;
+            sa += da;
+            saa += da * da;
+            sb += db;
+            sbb += db * db;
+            sc += dc;
+            scc += dc * dc;
+            sd += dd;
+            sdd += dd * dd;
+            se += de;
+            see += de * de;
+        }
+        cost[0] = saa - sa * sa / windowPixels;
+        cost[1] = sbb - sb * sb / windowPixels;
+        cost[2] = scc - sc * sc / windowPixels;
+        cost[3] = sdd - sd * sd / windowPixels;
+        cost[4] = see - se * se / windowPixels;
+    }
 
     /**
      * Sum of squared mean-free differences between the window around (cx, cy) in the earlier frame and the later
