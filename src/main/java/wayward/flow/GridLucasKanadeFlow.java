@@ -476,8 +476,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 int h = levelHeight[0];
                 int y0 = h * b / count;
                 int y1 = h * (b + 1) / count;
-                Pyramids.convertRows(pendingFrame, pendingPyramid[0], levelWidth[0], y0, y1);
-                Pyramids.smoothRows(pendingPyramid[0], levelWidth[0], pyramidScratch, levelWidth[1], y0, y1);
+                Pyramids.convertSmoothRows(pendingFrame, pendingPyramid[0], levelWidth[0], pyramidScratch,
+                        levelWidth[1], y0, y1);
                 break;
             }
             case PYRAMID_COLUMNS: {

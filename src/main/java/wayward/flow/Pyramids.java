@@ -26,12 +26,42 @@ final class Pyramids {
      * {@code scratch} holds at least (level-0 height) × (level-1 width) floats.
      */
     static void buildSmooth(byte[] frame, float[][] pyramid, int[] widths, int[] heights, float[] scratch) {
-        final float[] base = pyramid[0];
-        for (int i = 0; i < base.length; i++) {
-            base[i] = frame[i] & 0xff;
+        if (pyramid.length == 1) {
+            convertRows(frame, pyramid[0], widths[0], 0, heights[0]);
+            return;
         }
-        for (int l = 1; l < pyramid.length; l++) {
+        convertSmoothRows(frame, pyramid[0], widths[0], scratch, widths[1], 0, heights[0]);
+        smoothColumns(scratch, heights[0], pyramid[1], widths[1], 0, heights[1]);
+        for (int l = 2; l < pyramid.length; l++) {
             halveSmooth(pyramid[l - 1], widths[l - 1], heights[l - 1], pyramid[l], widths[l], heights[l], scratch);
+        }
+    }
+
+    /**
+     * {@link #convertRows} and {@link #smoothRows} of level 0 in one pass over the frame's rows [y0, y1). The row
+     * filter sums whole grey levels, exactly in integers as in floats (at most 8 × 255), so the result is the same
+     * bit for bit as converting first and filtering the floats.
+     */
+    static void convertSmoothRows(byte[] frame, float[] base, int fw, float[] tmp, int w, int y0, int y1) {
+        final int lastX = fw - 1;
+        // coarse columns whose four taps lie inside the row: 2x − 1 ≥ 0 and 2x + 2 ≤ lastX
+        final int inner = Math.max(1, Math.min(w, (lastX - 2) / 2 + 1));
+        for (int y = y0; y < y1; y++) {
+            final int row = y * fw;
+            for (int i = row; i < row + fw; i++) {
+                base[i] = frame[i] & 0xff;
+            }
+            final int out = y * w;
+            smoothColumnAt(base, row, lastX, tmp, out, 0);
+            for (int x = 1; x < inner; x++) {
+                final int c = row + 2 * x;
+                final int sum = (frame[c - 1] & 0xff) + 3 * ((frame[c] & 0xff) + (frame[c + 1] & 0xff))
+                        + (frame[c + 2] & 0xff);
+                tmp[out + x] = 0.125f * sum;
+            }
+            for (int x = inner; x < w; x++) {
+                smoothColumnAt(base, row, lastX, tmp, out, x);
+            }
         }
     }
 
@@ -50,16 +80,28 @@ final class Pyramids {
     /** Horizontal half of {@link #halveSmooth} for fine rows [y0, y1): [1 3 3 1]/8 around each coarse column. */
     static void smoothRows(float[] fine, int fw, float[] tmp, int w, int y0, int y1) {
         final int lastX = fw - 1;
+        // coarse columns whose four taps lie inside the row (no clamps): 2x − 1 ≥ 0 and 2x + 2 ≤ lastX
+        final int inner = Math.max(1, Math.min(w, (lastX - 2) / 2 + 1));
         for (int y = y0; y < y1; y++) {
             final int row = y * fw;
             final int out = y * w;
-            for (int x = 0; x < w; x++) {
-                final int c = 2 * x;
-                final int a = c > 0 ? c - 1 : 0;
-                final int d = c + 2 <= lastX ? c + 2 : lastX;
-                tmp[out + x] = 0.125f * (fine[row + a] + 3f * (fine[row + c] + fine[row + c + 1]) + fine[row + d]);
+            smoothColumnAt(fine, row, lastX, tmp, out, 0);
+            for (int x = 1; x < inner; x++) {
+                final int c = row + 2 * x;
+                tmp[out + x] = 0.125f * (fine[c - 1] + 3f * (fine[c] + fine[c + 1]) + fine[c + 2]);
+            }
+            for (int x = inner; x < w; x++) {
+                smoothColumnAt(fine, row, lastX, tmp, out, x);
             }
         }
+    }
+
+    /** One coarse column x of {@link #smoothRows}, its taps clamped to the row. */
+    private static void smoothColumnAt(float[] fine, int row, int lastX, float[] tmp, int out, int x) {
+        final int c = 2 * x;
+        final int a = c > 0 ? c - 1 : 0;
+        final int d = c + 2 <= lastX ? c + 2 : lastX;
+        tmp[out + x] = 0.125f * (fine[row + a] + 3f * (fine[row + c] + fine[row + c + 1]) + fine[row + d]);
     }
 
     /** Vertical half of {@link #halveSmooth} for coarse rows [y0, y1). */
