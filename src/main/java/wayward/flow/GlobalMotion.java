@@ -16,9 +16,14 @@ final class GlobalMotion {
     static final float MIN_CONFIDENT_SHARE = 0.4f;
 
     private final float[] scratch;
+    private final float[] scratchV;
+    private final float[] inside;
+    private final float[] sample = new float[Quickselect.SAMPLE];
 
     GlobalMotion(int samples) {
         scratch = new float[samples];
+        scratchV = new float[samples];
+        inside = new float[samples];
     }
 
     /**
@@ -27,25 +32,26 @@ final class GlobalMotion {
      * @return true when enough samples voted for the median to be the camera's motion
      */
     boolean measure(FlowField field) {
+        // one pass without branching on the confidence (its pattern is noise to the branch predictor): every
+        // sample is copied, and the count moves on past the confident ones only
+        final float[] c = field.confidence;
+        final float[] u = field.u;
+        final float[] v = field.v;
+        final float[] su = scratch;
+        final float[] sv = scratchV;
         int n = 0;
-        for (int i = 0; i < field.confidence.length; i++) {
-            if (field.confidence[i] >= CONFIDENCE_FLOOR) {
-                scratch[n++] = field.u[i];
-            }
+        for (int i = 0; i < c.length; i++) {
+            su[n] = u[i];
+            sv[n] = v[i];
+            n += c[i] >= CONFIDENCE_FLOOR ? 1 : 0;
         }
-        if (n < 8 || n < MIN_CONFIDENT_SHARE * field.confidence.length) {
+        if (n < 8 || n < MIN_CONFIDENT_SHARE * c.length) {
             field.globalU = 0f;
             field.globalV = 0f;
             return false;
         }
-        field.globalU = median(scratch, n);
-        n = 0;
-        for (int i = 0; i < field.confidence.length; i++) {
-            if (field.confidence[i] >= CONFIDENCE_FLOOR) {
-                scratch[n++] = field.v[i];
-            }
-        }
-        field.globalV = median(scratch, n);
+        field.globalU = Quickselect.kth(su, n, n / 2, inside, sample);
+        field.globalV = Quickselect.kth(sv, n, n / 2, inside, sample);
         return true;
     }
 
