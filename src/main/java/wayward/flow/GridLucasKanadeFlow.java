@@ -96,6 +96,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private boolean globalMeasured;
     /** Residuals of the search level's textured points, for their median. */
     private final float[] searchScratch;
+    /** Scratch of the sampled median of {@link #searchScratch} (see {@link Quickselect#kth(float[], int, int, float[], float[])}). */
+    private final float[] searchInside;
+    private final float[] searchSample = new float[Quickselect.SAMPLE];
     private final GlobalMotion globalMotion;
     private final float[][] smoothU;
     private final float[][] smoothV;
@@ -218,6 +221,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         pixelKind = new byte[width * height];
         pixelSides = new byte[width * height];
         searchScratch = new float[gridU[Math.min(SEARCH_LEVEL, levelCount - 1)].length];
+        searchInside = new float[searchScratch.length];
         globalMotion = new GlobalMotion(gridU[0].length);
         smoothU = new float[levelCount][];
         smoothV = new float[levelCount][];
@@ -412,16 +416,15 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float[] conf = gridConfidence[0];
         final float[] res = gridResidual[0];
         for (int k = 0; k < frame.length; k++) {
-            // no structure: the fill did not keep its own motion, and its larger eigenvalue (trace − smaller) is low
-            if (!keeps(conf[k], res[k]) && a[k] + c[k] - conf[k] < STRUCTURE) {
-                frame[k] = FLAT;
-            } else {
-                final float du = u[k] - bu;
-                final float dv = v[k] - bv;
-                final boolean moves = du * du + dv * dv >= moving2;
-                frame[k] = moves ? MOVING : STILL;
-                movingPoints += moves ? 1 : 0;
-            }
+            // no structure: the fill did not keep its own motion, and its larger eigenvalue (trace − smaller) is low;
+            // worked out without branches (which points are flat is noise to the branch predictor)
+            final boolean kept = (conf[k] >= FILL_KEEP) & (res[k] <= FILL_RESIDUAL_KEEP);
+            final boolean flat = !kept & (a[k] + c[k] - conf[k] < STRUCTURE);
+            final float du = u[k] - bu;
+            final float dv = v[k] - bv;
+            final int moves = !flat & (du * du + dv * dv >= moving2) ? 1 : 0;
+            frame[k] = (byte) (flat ? FLAT : STILL + moves);
+            movingPoints += moves;
         }
         if (!measured && movingPoints > SETTLE_MOVERS_SHARE * frame.length) {
             return;
@@ -621,15 +624,17 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float[] gc = gridConfidence[l];
         final float[] scratch = searchScratch;
         int n = 0;
+        // without branching on texture (noise to the branch predictor): every residual is copied, the count
+        // moves on past the textured points' only
         for (int g = 0; g < res.length; g++) {
-            if (gc[g] >= FILL_KEEP) {
-                scratch[n++] = res[g];
-            }
+            scratch[n] = res[g];
+            n += gc[g] >= FILL_KEEP ? 1 : 0;
         }
         if (n == 0) {
             return;
         }
-        final float bar = Math.max(SEARCH_RESIDUAL, SEARCH_OVER_MEDIAN * GlobalMotion.median(scratch, n));
+        final float bar = Math.max(SEARCH_RESIDUAL,
+                SEARCH_OVER_MEDIAN * Quickselect.kth(scratch, n, n / 2, searchInside, searchSample));
         final int w = levelWidth[l];
         final int h = levelHeight[l];
         final int gw = gridWidth[l];
@@ -637,7 +642,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             final int cy = centre(l, j, h);
             for (int i = 0; i < gw; i++) {
                 final int g = j * gw + i;
-                if (gc[g] >= FILL_KEEP && res[g] > bar) {
+                // one branch, taken rarely (the texture test alone would be taken about every other point)
+                if ((gc[g] >= FILL_KEEP) & (res[g] > bar)) {
                     search(earlier[l], later[l], w, h, centre(l, i, w), cy, bands[0], gridU[l], gridV[l], gc, g, l);
                 }
             }
