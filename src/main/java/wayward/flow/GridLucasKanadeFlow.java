@@ -920,11 +920,11 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 final boolean keep = !finest || finestIterations > 1;
                 final int[] offsets = windowOffset[l];
                 final int centre = cy * w + cx;
-                if (!keep && !weighed) {
-                    // the full-size level's plain single step (most points of a frame): nothing kept, no weights,
-                    // and the gradients' factor 1/2 taken out of the loop. Halving is exact in floating point, so
-                    // every sum below is exactly twice (or four times) the sum of halved terms, and scaling it
-                    // afterwards gives the same bits as the general loop.
+                if (!weighed) {
+                    // the plain solve (the full-size level's single step: most points of a frame): no weights, and
+                    // the gradients' factor 1/2 taken out of the sums. Halving is exact in floating point, so every
+                    // sum below is exactly twice (or four times) the sum of halved terms, and scaling it afterwards
+                    // gives the same bits as the general loop.
                     for (k = 0; k < n; k++) {
                         final int p = centre + offsets[k];
                         final float ix = i0[p + 1] - i0[p - 1];
@@ -932,6 +932,12 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         final float tv = i0[p];
                         final int q = p + shift;
                         final float d = w00 * i1[q] + w01 * i1[q + 1] + w10 * i1[q + w] + w11 * i1[q + w + 1] - tv;
+                        if (keep) {
+                            // the further steps read the template (their sums carry no weights: wt is not read)
+                            t[k] = tv;
+                            gx[k] = 0.5f * ix;
+                            gy[k] = 0.5f * iy;
+                        }
                         st += tv;
                         sx += ix;
                         sy += iy;
