@@ -54,9 +54,4 @@ final class GlobalMotion {
         field.globalV = Quickselect.kth(sv, n, n / 2, inside, sample);
         return true;
     }
-
-    /** Median of a[0..n) by quickselect; reorders a. */
-    static float median(float[] a, int n) {
-        return Quickselect.kth(a, n, n / 2);
-    }
 }
