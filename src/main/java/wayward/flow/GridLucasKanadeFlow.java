@@ -959,37 +959,37 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     sxd *= 0.5f;
                     syd *= 0.5f;
                 } else {
-                for (k = 0; k < n; k++) {
-                    final int p = centre + offsets[k];
-                    final float ix = 0.5f * (i0[p + 1] - i0[p - 1]);
-                    final float iy = 0.5f * (i0[p + w] - i0[p - w]);
-                    final float tv = i0[p];
-                    final int q = p + shift;
-                    final float d = w00 * i1[q] + w01 * i1[q + 1] + w10 * i1[q + w] + w11 * i1[q + w + 1] - tv;
-                    final float dc = tv - centreValue;
-                    final float o = like == null ? 1f : like[(int) (dc < 0f ? -dc : dc)];
-                    if (keep) {
-                        t[k] = tv;
-                        gx[k] = ix;
-                        gy[k] = iy;
-                        wt[k] = o;
+                    for (k = 0; k < n; k++) {
+                        final int p = centre + offsets[k];
+                        final float ix = 0.5f * (i0[p + 1] - i0[p - 1]);
+                        final float iy = 0.5f * (i0[p + w] - i0[p - w]);
+                        final float tv = i0[p];
+                        final int q = p + shift;
+                        final float d = w00 * i1[q] + w01 * i1[q + 1] + w10 * i1[q + w] + w11 * i1[q + w + 1] - tv;
+                        final float dc = tv - centreValue;
+                        final float o = like == null ? 1f : like[(int) (dc < 0f ? -dc : dc)];
+                        if (keep) {
+                            t[k] = tv;
+                            gx[k] = ix;
+                            gy[k] = iy;
+                            wt[k] = o;
+                        }
+                        final float oix = o * ix;
+                        final float oiy = o * iy;
+                        final float od = o * d;
+                        sw += o;
+                        st += tv;
+                        sm += o * tv;
+                        sx += oix;
+                        sy += oiy;
+                        sxx += oix * ix;
+                        sxy += oix * iy;
+                        syy += oiy * iy;
+                        sd += od;
+                        sxd += oix * d;
+                        sdd += od * d;
+                        syd += oiy * d;
                     }
-                    final float oix = o * ix;
-                    final float oiy = o * iy;
-                    final float od = o * d;
-                    sw += o;
-                    st += tv;
-                    sm += o * tv;
-                    sx += oix;
-                    sy += oiy;
-                    sxx += oix * ix;
-                    sxy += oix * iy;
-                    syy += oiy * iy;
-                    sd += od;
-                    sxd += oix * d;
-                    sdd += od * d;
-                    syd += oiy * d;
-                }
                 }
                 firstResidualsDone = true;
             } else {
