@@ -374,9 +374,11 @@ public final class CameraPipeline implements CameraStatus {
                 stages.frame(t, previous, analysedFrames);
                 long c0 = stages.clock();
                 boolean estimated;
+                boolean still = false;
                 if (gate == null || gate.changed(f, t)) {
                     estimated = flow.push(f.pixels, field);
                 } else {
+                    still = true;
                     flow.pushStill(f.pixels, field); // the gate passes only after frames it has primed on
                     stillFrames++;
                     estimated = true;
@@ -392,7 +394,7 @@ public final class CameraPipeline implements CameraStatus {
                 live.offer(f, field, dt);
                 for (int z = 0; z < channels.size(); z++) {
                     ZoneChannel c = channels.get(z);
-                    Event e = c.update(field, f.pixels, dt, t, reading, learnedDir);
+                    Event e = c.update(field, f.pixels, still, dt, t, reading, learnedDir);
                     zoneFigures.read(z, reading);
                     if (readings != null) {
                         readings.reading(camera, z, reading, c.movers(), c.state());

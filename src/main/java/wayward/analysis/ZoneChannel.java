@@ -100,9 +100,10 @@ final class ZoneChannel {
      * decided, or null.
      *
      * @param pixels     the frame the flow ended on (grey, the flow's picture size)
+     * @param still      the still-frame gate found nothing changed around the zones in it
      * @param learnedDir where a learned heading is kept; null: in memory only
      */
-    Event update(FlowField field, byte[] pixels, double dt, double t, ZoneReading reading, Path learnedDir) {
+    Event update(FlowField field, byte[] pixels, boolean still, double dt, double t, ZoneReading reading, Path learnedDir) {
         meter.measure(field, dt, t, reading);
         read = null;
         if (learner != null) {
@@ -112,7 +113,7 @@ final class ZoneChannel {
         }
         Event e;
         if (moverRule != null) {
-            tracker.update(field, pixels, dt, t, movers);
+            tracker.update(field, pixels, still, dt, t, movers);
             e = moverRule.update(movers, reading.againstShare);
             read = movers;
             state = moverRule.stateName();

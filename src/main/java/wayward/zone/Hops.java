@@ -175,13 +175,28 @@ final class Hops {
      * Finds the footprints of the previous frame and extends the chains.
      */
     void update(byte[] pixels, double time) {
+        update(pixels, time, false);
+    }
+
+    /**
+     * As {@link #update(byte[], double)}; {@code still}: the frame is known to show no change around the zone (the
+     * still-frame gate said so), so its differences are taken as none without being worked out. No footprint can
+     * lie on a frame next to it, so every chain ends, as it would.
+     */
+    void update(byte[] pixels, double time, boolean still) {
         if (pixels.length != previous.length) {
             throw new IllegalArgumentException("pixels: " + pixels.length + " (expected " + previous.length + ")");
         }
         int[] swap = before;
         before = now;
         now = swap;
-        double floorNow = primed > 0 ? differences(pixels) : 0;
+        double floorNow;
+        if (still) {
+            Arrays.fill(now, 0);
+            floorNow = floorBefore;
+        } else {
+            floorNow = primed > 0 ? differences(pixels) : 0;
+        }
         if (primed == 2) {
             floor = Math.max(floorBefore, floorNow);
             next = pixels;

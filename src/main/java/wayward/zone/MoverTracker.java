@@ -155,6 +155,15 @@ public final class MoverTracker {
      * @param pixels the later frame of the flow, grey, the flow's picture size; null: flow only
      */
     public void update(FlowField flow, byte[] pixels, double frameSeconds, double streamSeconds, Movers out) {
+        update(flow, pixels, false, frameSeconds, streamSeconds, out);
+    }
+
+    /**
+     * As {@link #update(FlowField, byte[], double, double, Movers)}; {@code still}: the picture is known not to have
+     * changed around the zone (the still-frame gate), so the hops skip their differences.
+     */
+    public void update(FlowField flow, byte[] pixels, boolean still, double frameSeconds, double streamSeconds,
+            Movers out) {
         if (flow.width != gridWidth || flow.height != gridHeight || flow.stride != stride) {
             throw new IllegalArgumentException("flow: " + flow.width + "x" + flow.height + " every " + flow.stride
                     + " px (expected " + gridWidth + "x" + gridHeight + " every " + stride + " px)");
@@ -168,7 +177,7 @@ public final class MoverTracker {
         }
         gr.find(flow, frameSeconds);
         if (hops != null && pixels != null) {
-            hops.update(pixels, streamSeconds);
+            hops.update(pixels, streamSeconds, still);
         }
         follow(frameSeconds, streamSeconds);
         out.begin(streamSeconds, imageWidth, imageHeight, stride);

@@ -208,6 +208,32 @@ class HopsTest {
     }
 
     @Test
+    void framesTheGateCallsStillGiveTheSameMoversWithoutTheirDifferences() {
+        Hops worked = hops();
+        Hops skipped = hops();
+        Random noise = new Random(11);
+        // 12 frames of still, noisy ground (the gate would call them still), then a 12 px square hopping 20 px a
+        // frame; once with every difference worked out, once with the still frames' taken as none
+        for (int n = 0; n <= 20; n++) {
+            byte[] f = frame(noise, 3);
+            boolean still = n < 12;
+            if (!still) {
+                put(f, 152, 4 + 20 * (n - 12), 12);
+            }
+            worked.update(f, n * DT);
+            skipped.update(f, n * DT, still);
+            Movers a = write(worked, n * DT);
+            Movers b = write(skipped, n * DT);
+            assertEquals(a.count(), b.count(), "frame " + n);
+            assertEquals(a.largestTravelPx(), b.largestTravelPx(), 1e-9, "frame " + n);
+        }
+        // analytic: the square is in frames 12–20 (y 4 to 164), so footprints 12–19 (known at 13–20): seven steps
+        // of 20 px
+        Movers m = write(skipped, 20 * DT);
+        assertEquals(7 * 20, m.largestTravelPx(), 1e-6);
+    }
+
+    @Test
     void allocatesNothingPerFrame() {
         Hops h = hops();
         Random noise = new Random(10);
