@@ -172,16 +172,9 @@ final class Hops {
 
     /**
      * One analysed frame (grey, {@code imageWidth} × {@code imageHeight}, row-major) at stream second {@code time}.
-     * Finds the footprints of the previous frame and extends the chains.
-     */
-    void update(byte[] pixels, double time) {
-        update(pixels, time, false);
-    }
-
-    /**
-     * As {@link #update(byte[], double)}; {@code still}: the frame is known to show no change around the zone (the
-     * still-frame gate said so), so its differences are taken as none without being worked out. No footprint can
-     * lie on a frame next to it, so every chain ends, as it would.
+     * Finds the footprints of the previous frame and extends the chains. {@code still}: the frame is known to show no change around the zone (the still-frame gate said so), so its
+     * differences are taken as none without being worked out; no footprint can lie on a frame next to it, so every
+     * chain ends, as it would.
      */
     void update(byte[] pixels, double time, boolean still) {
         if (pixels.length != previous.length) {

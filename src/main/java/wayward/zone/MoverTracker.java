@@ -145,7 +145,7 @@ public final class MoverTracker {
      * @param out          a table from {@link #newMovers}; refilled
      */
     public void update(FlowField flow, double frameSeconds, double streamSeconds, Movers out) {
-        update(flow, null, frameSeconds, streamSeconds, out);
+        update(flow, null, false, frameSeconds, streamSeconds, out);
     }
 
     /**
@@ -153,14 +153,8 @@ public final class MoverTracker {
      * flow's reach in the picture ({@link Hops}).
      *
      * @param pixels the later frame of the flow, grey, the flow's picture size; null: flow only
-     */
-    public void update(FlowField flow, byte[] pixels, double frameSeconds, double streamSeconds, Movers out) {
-        update(flow, pixels, false, frameSeconds, streamSeconds, out);
-    }
-
-    /**
-     * As {@link #update(FlowField, byte[], double, double, Movers)}; {@code still}: the picture is known not to have
-     * changed around the zone (the still-frame gate), so the hops skip their differences.
+     * @param still  the still-frame gate found nothing changed around the zone in it (the hops skip their
+     *               differences)
      */
     public void update(FlowField flow, byte[] pixels, boolean still, double frameSeconds, double streamSeconds,
             Movers out) {

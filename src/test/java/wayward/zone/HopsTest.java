@@ -71,7 +71,7 @@ class HopsTest {
     static int framesWithAMover(Hops h, int last, java.util.function.IntFunction<byte[]> picture) {
         int with = 0;
         for (int n = 0; n <= last; n++) {
-            h.update(picture.apply(n), n * DT);
+            h.update(picture.apply(n), n * DT, false);
             with += write(h, n * DT).count() > 0 ? 1 : 0;
         }
         return with;
@@ -94,7 +94,7 @@ class HopsTest {
         for (int n = 0; n <= 6; n++) {
             byte[] f = frame(noise, 3);
             put(f, 152, 4 + 28 * n, 12);
-            h.update(f, n * DT);
+            h.update(f, n * DT, false);
             m = write(h, n * DT);
             if (n < 6) {
                 // analytic: footprints lie on the middle frame, so frame n gives frame n−1's; four steps need
@@ -129,7 +129,7 @@ class HopsTest {
             x[n] = Math.round(4 + 450 * t);
             byte[] f = frame(noise, 3);
             put(f, (int) x[n], 80, 10);
-            h.update(f, t);
+            h.update(f, t, false);
             m = write(h, t);
         }
         // analytic: chained from frame 1's footprint to frame 5's (the last middle frame); the cell grid places
@@ -200,7 +200,7 @@ class HopsTest {
             MoverTrackerTest.ground(field, null, 0);
             byte[] f = frame(noise, 3);
             put(f, 152, 4 + 28 * n, 12);
-            t.update(field, f, DT, n * DT, m);
+            t.update(field, f, false, DT, n * DT, m);
         }
         assertEquals(1, m.count());
         assertEquals(Hops.STEPS * 28, m.largestTravelPx(), 1e-6);
@@ -220,7 +220,7 @@ class HopsTest {
             if (!still) {
                 put(f, 152, 4 + 20 * (n - 12), 12);
             }
-            worked.update(f, n * DT);
+            worked.update(f, n * DT, false);
             skipped.update(f, n * DT, still);
             Movers a = write(worked, n * DT);
             Movers b = write(skipped, n * DT);
@@ -248,7 +248,7 @@ class HopsTest {
         }
         Movers m = table();
         for (int n = 0; n < 40; n++) {
-            h.update(frames[n], n * DT);
+            h.update(frames[n], n * DT, false);
             m.begin(n * DT, W, H, STRIDE);
             h.write(m);
             m.end();
@@ -259,7 +259,7 @@ class HopsTest {
         long before = mx.getThreadAllocatedBytes(id);
         int written = 0;
         for (int n = 40; n < 240; n++) {
-            h.update(frames[n % 40], n * DT);
+            h.update(frames[n % 40], n * DT, false);
             m.begin(n * DT, W, H, STRIDE);
             h.write(m);
             m.end();
@@ -275,7 +275,7 @@ class HopsTest {
     void aFrameOfAnotherSizeIsRefused() {
         Hops h = hops();
         IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
-                () -> h.update(new byte[10], 0));
+                () -> h.update(new byte[10], 0, false));
         assertTrue(e.getMessage().contains("pixels: 10"), e.getMessage());
     }
 
