@@ -49,6 +49,9 @@ final class CameraStates {
                 } else if (e.id().equals(open.lostEvent)) {
                     open.lostEvent = null;
                 }
+            } else if (e.kind() == EventKind.CAMERA_REASSIGNED) {
+                // which instance watches is no condition of the camera: the state stays as it was
+                open.lastSeq = seq;
             } else if (start) {
                 open.conditions.put(e.kind(), e.id());
             } else if (e.id().equals(open.conditions.get(e.kind()))) {

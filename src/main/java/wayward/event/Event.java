@@ -35,10 +35,12 @@ import java.time.Instant;
  *                        config key ({@link #SOURCE} or {@link #ANALYSIS_SOURCE}): for {@code camera_lost} the stream
  *                        that dropped (JSON {@code stream}), for zone events the stream the clip was copied from
  *                        (JSON {@code evidence_stream}); null for a camera with one stream
+ * @param handover        for {@code camera_reassigned}, which instance watched the camera and which watches it now;
+ *                        null for other kinds
  */
 public record Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
         Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx, double durationSeconds,
-        String clip, String snapshot, Mover mover, String endedBy, String stream) {
+        String clip, String snapshot, Mover mover, String endedBy, String stream, Handover handover) {
     /** {@link #stream}: the camera's main stream, config key {@code source}. */
     public static final String SOURCE = "source";
     /** {@link #stream}: the camera's analysis stream, config key {@code analysis_source}. */
@@ -97,6 +99,35 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
         }
     }
 
+    /**
+     * A camera moved between instances sharing one config ({@code camera_reassigned}).
+     *
+     * @param from   the instance that watched it
+     * @param to     the instance that watches it now
+     * @param reason why, in a few words (JSON {@code reason}), e.g. "south went offline"
+     */
+    public record Handover(String from, String to, String reason) {
+        public Handover {
+            if (from == null || to == null || reason == null) {
+                throw new IllegalArgumentException("handover: from, to and reason are required");
+            }
+        }
+    }
+
+    /** An event phase of a camera with one stream, or of one of its streams. */
+    public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
+            Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx,
+            double durationSeconds, String clip, String snapshot, Mover mover, String endedBy, String stream) {
+        this(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share, shiftPx,
+                durationSeconds, clip, snapshot, mover, endedBy, stream, null);
+    }
+
+    /** A phase of {@code camera_reassigned}: {@code camera} moved as {@code handover} says, at {@code at}. */
+    public static Event handover(String id, String camera, Phase phase, Instant at, Handover handover) {
+        return new Event(id, camera, null, EventKind.CAMERA_REASSIGNED, phase, 0, at, Double.NaN, Double.NaN,
+                Double.NaN, Double.NaN, phase == Phase.END ? 0 : Double.NaN, null, null, null, null, null, handover);
+    }
+
     /** An event phase of a camera with one stream. */
     public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
             Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx,
@@ -116,7 +147,7 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
     /** The end phase of this started event, closed at {@code now} because the service stopped while it was open. */
     public Event closedAtRestart(Instant now) {
         return new Event(id, camera, zone, kind, Phase.END, Double.NaN, now, Double.NaN, Double.NaN, Double.NaN,
-                Double.NaN, Double.NaN, null, null, null, SERVICE_STOPPED, stream);
+                Double.NaN, Double.NaN, null, null, null, SERVICE_STOPPED, stream, handover);
     }
 
     /** An event phase with evidence files and no mover. */
@@ -137,13 +168,13 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
     /** The same phase naming its evidence files. */
     public Event withEvidence(String clipPath, String snapshotPath) {
         return new Event(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share,
-                shiftPx, durationSeconds, clipPath, snapshotPath, mover, endedBy, stream);
+                shiftPx, durationSeconds, clipPath, snapshotPath, mover, endedBy, stream, handover);
     }
 
     /** The same phase naming the stream ({@link #SOURCE} or {@link #ANALYSIS_SOURCE}; null for none). */
     public Event withStream(String streamKey) {
         return new Event(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share,
-                shiftPx, durationSeconds, clip, snapshot, mover, endedBy, streamKey);
+                shiftPx, durationSeconds, clip, snapshot, mover, endedBy, streamKey, handover);
     }
 
     /** Start or end of an event. */
@@ -178,6 +209,10 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
         if (stream != null && !stream.equals(SOURCE) && !stream.equals(ANALYSIS_SOURCE)) {
             throw new IllegalArgumentException("event stream: " + stream + " (expected " + SOURCE + " or "
                     + ANALYSIS_SOURCE + ")");
+        }
+        if ((kind == EventKind.CAMERA_REASSIGNED) != (handover != null)) {
+            throw new IllegalArgumentException("event " + kind.jsonName() + ": handover " + handover
+                    + " (expected one exactly for camera_reassigned)");
         }
         if (kind != EventKind.CAMERA_MOVED && present(shiftPx)) {
             throw new IllegalArgumentException("event " + kind.jsonName() + ": shift " + shiftPx

@@ -82,6 +82,11 @@ public final class EventJson {
                 // one name, one meaning: the stream that dropped, or the stream the evidence came from
                 g.writeStringField(e.kind() == EventKind.CAMERA_LOST ? "stream" : "evidence_stream", e.stream());
             }
+            if (e.handover() != null) {
+                g.writeStringField("from_instance", e.handover().from());
+                g.writeStringField("to_instance", e.handover().to());
+                g.writeStringField("reason", e.handover().reason());
+            }
             g.writeEndObject();
         } catch (IOException ex) {
             throw new UncheckedIOException(ex);
@@ -110,7 +115,7 @@ public final class EventJson {
      */
     public static Event parse(byte[] json) {
         String id = null, camera = null, zone = null, clip = null, snapshot = null, at = null, endedBy = null;
-        String streamKey = null;
+        String streamKey = null, fromInstance = null, toInstance = null, reason = null;
         String kindName = null;
         Event.Phase phase = null;
         double stream = Double.NaN, duration = Double.NaN;
@@ -160,6 +165,9 @@ public final class EventJson {
                     case "snapshot" -> snapshot = p.getText();
                     case "ended_by" -> endedBy = p.getText();
                     case "stream", "evidence_stream" -> streamKey = p.getText();
+                    case "from_instance" -> fromInstance = p.getText();
+                    case "to_instance" -> toInstance = p.getText();
+                    case "reason" -> reason = p.getText();
                     case "mover_width_px" -> moverWidth = p.getIntValue();
                     case "mover_height_px" -> moverHeight = p.getIntValue();
                     case "mover_samples" -> moverSamples = p.getIntValue();
@@ -213,8 +221,10 @@ public final class EventJson {
         try {
             Event.Mover mover = moverPath == null ? null
                     : new Event.Mover(moverWidth, moverHeight, moverSamples, moverPath, moverSpeed, moverTravel);
+            Event.Handover handover = kind != EventKind.CAMERA_REASSIGNED ? null
+                    : new Event.Handover(fromInstance, toInstance, reason == null ? "" : reason);
             return new Event(id, camera, zone, kind, phase, stream, Instant.parse(at), bearing, speed, share, shiftPx,
-                    duration, clip, snapshot, mover, endedBy, streamKey);
+                    duration, clip, snapshot, mover, endedBy, streamKey, handover);
         } catch (java.time.format.DateTimeParseException e) {
             throw new IllegalArgumentException("\"at\" is not an ISO-8601 instant: " + at);
         }

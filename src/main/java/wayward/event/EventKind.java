@@ -19,7 +19,12 @@ public enum EventKind {
     /** The stream repeats the very same picture: a frozen encoder or a replayed still. */
     PICTURE_FROZEN("picture_frozen"),
     /** The whole picture shifted and stayed shifted: the camera was knocked or turned. */
-    CAMERA_MOVED("camera_moved");
+    CAMERA_MOVED("camera_moved"),
+    /**
+     * The camera moved from one instance to another among instances that share one config: its instance went
+     * offline, or came back. A start and its end (same id) are sent together; the event names both instances.
+     */
+    CAMERA_REASSIGNED("camera_reassigned");
 
     private final String jsonName;
 

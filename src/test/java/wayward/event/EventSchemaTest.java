@@ -39,10 +39,20 @@ class EventSchemaTest {
             double speed = zone ? 12.5 : Double.NaN;
             double share = zone ? 0.2 : Double.NaN;
             double shift = k == EventKind.CAMERA_MOVED ? 4.47 : Double.NaN;
-            Event start = new Event("id-" + k, "gate", zone ? "door" : null, k, Event.Phase.START, 3.5, AT, bearing,
-                    speed, share, shift, Double.NaN, null, null, null, null);
-            Event end = new Event("id-" + k, "gate", zone ? "door" : null, k, Event.Phase.END, 8, AT, bearing, speed,
-                    share, Double.NaN, 4.5, null, null, null, null);
+            Event start;
+            Event end;
+            if (k == EventKind.CAMERA_REASSIGNED) {
+                Event.Handover h = new Event.Handover("south", "north", "south went offline");
+                start = Event.handover("id-" + k, "gate", Event.Phase.START, AT, h);
+                end = Event.handover("id-" + k, "gate", Event.Phase.END, AT, h);
+                assertEquals(start, EventJson.parse(EventJson.toJson(start).getBytes(
+                        java.nio.charset.StandardCharsets.UTF_8)), "read back as written");
+            } else {
+                start = new Event("id-" + k, "gate", zone ? "door" : null, k, Event.Phase.START, 3.5, AT, bearing,
+                        speed, share, shift, Double.NaN, null, null, null, null);
+                end = new Event("id-" + k, "gate", zone ? "door" : null, k, Event.Phase.END, 8, AT, bearing, speed,
+                        share, Double.NaN, 4.5, null, null, null, null);
+            }
             assertValid(start);
             assertValid(end);
             assertValid(start.closedAtRestart(AT));
