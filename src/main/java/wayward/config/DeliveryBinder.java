@@ -104,7 +104,7 @@ final class DeliveryBinder {
         double maxBackoff = s.number("max_backoff_seconds", MqttConfig.DEFAULT_MAX_BACKOFF_SECONDS, 1, 3600);
         s.finish();
         return url == null ? null : new MqttConfig(url, prefix, clientId, username, passwordFile, password, keepAlive,
-                caFile, inFlight, maxBackoff);
+                caFile, inFlight, maxBackoff, null);
     }
 
     /** {@code [outbox] max_mb} in bytes. */
@@ -125,7 +125,8 @@ final class DeliveryBinder {
         String stem = own.substring(0, Math.max(1, Math.min(own.length(), MAX_CLIENT_ID - suffix.length())));
         String id = (stem + suffix).substring(0, Math.min(MAX_CLIENT_ID, stem.length() + suffix.length()));
         return new MqttConfig(mqtt.url(), mqtt.topicPrefix(), id, mqtt.username(), mqtt.passwordFile(),
-                mqtt.password(), mqtt.keepAliveSeconds(), mqtt.caFile(), mqtt.inFlight(), mqtt.maxBackoffSeconds());
+                mqtt.password(), mqtt.keepAliveSeconds(), mqtt.caFile(), mqtt.inFlight(), mqtt.maxBackoffSeconds(),
+                shard.instance());
     }
 
     /** "wayward-" and this host's name, cut to what every broker accepts. */

@@ -15,11 +15,17 @@ import wayward.secret.Urls;
  * @param caFile            PEM file of extra certificate authorities for mqtts, besides the JDK's, or null
  * @param inFlight          event phases published and not yet acknowledged at most
  * @param maxBackoffSeconds longest wait between reconnect attempts
+ * @param instance          this instance's name when several share the config (its status then says so), or null
  */
 public record MqttConfig(String url, String topicPrefix, String clientId, String username, String passwordFile,
-        byte[] password, int keepAliveSeconds, String caFile, int inFlight, double maxBackoffSeconds) {
+        byte[] password, int keepAliveSeconds, String caFile, int inFlight, double maxBackoffSeconds,
+        String instance) {
     public static final String DEFAULT_TOPIC_PREFIX = "wayward";
-    public static final int DEFAULT_KEEP_ALIVE_SECONDS = 30;
+    /**
+     * MQTT keep-alive. The broker fires the will of a client silent for 1.5 of it (MQTT 3.1.1 §3.1.2.10), so with
+     * instances sharing the cameras a host that died loses them for 9 s plus a camera's start.
+     */
+    public static final int DEFAULT_KEEP_ALIVE_SECONDS = 6;
     /** Publishes sent and not yet acknowledged at most ({@code in_flight}). */
     public static final int DEFAULT_IN_FLIGHT = 16;
     /** Longest wait between reconnect attempts ({@code max_backoff_seconds}). */
@@ -28,19 +34,20 @@ public record MqttConfig(String url, String topicPrefix, String clientId, String
 
     /** Defaults for everything but the broker address (tests). */
     public static MqttConfig of(String url, String topicPrefix, String clientId) {
-        return new MqttConfig(url, topicPrefix, clientId, null, null, null, 30, null, 16, 30);
+        return new MqttConfig(url, topicPrefix, clientId, null, null, null, DEFAULT_KEEP_ALIVE_SECONDS, null, 16, 30,
+                null);
     }
 
     /** The same settings with a login. */
     public MqttConfig withLogin(String user, byte[] secret) {
         return new MqttConfig(url, topicPrefix, clientId, user, passwordFile, secret, keepAliveSeconds, caFile,
-                inFlight, maxBackoffSeconds);
+                inFlight, maxBackoffSeconds, instance);
     }
 
     /** The same settings trusting the CA certificates in {@code file}. */
     public MqttConfig withCaFile(String file) {
         return new MqttConfig(url, topicPrefix, clientId, username, passwordFile, password, keepAliveSeconds, file,
-                inFlight, maxBackoffSeconds);
+                inFlight, maxBackoffSeconds, instance);
     }
 
     @Override

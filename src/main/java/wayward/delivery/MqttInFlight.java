@@ -38,6 +38,11 @@ final class MqttInFlight {
         return id;
     }
 
+    /** A packet identifier for another packet than a publish (SUBSCRIBE), not in use by an unacknowledged one. */
+    int otherId() {
+        return allocatePacketId();
+    }
+
     private int allocatePacketId() {
         // MQTT 3.1.1 §2.3.1: a non-zero 16-bit identifier not in use by another unacknowledged publish
         while (byId.containsKey(nextPacketId)) {

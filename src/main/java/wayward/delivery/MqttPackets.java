@@ -6,10 +6,12 @@ import io.netty.handler.codec.mqtt.MqttConnectReturnCode;
 import io.netty.handler.codec.mqtt.MqttFixedHeader;
 import io.netty.handler.codec.mqtt.MqttMessage;
 import io.netty.handler.codec.mqtt.MqttMessageBuilders;
+import io.netty.handler.codec.mqtt.MqttMessageIdVariableHeader;
 import io.netty.handler.codec.mqtt.MqttMessageType;
 import io.netty.handler.codec.mqtt.MqttPublishMessage;
 import io.netty.handler.codec.mqtt.MqttPublishVariableHeader;
 import io.netty.handler.codec.mqtt.MqttQoS;
+import io.netty.handler.codec.mqtt.MqttSubscribeMessage;
 import io.netty.handler.codec.mqtt.MqttVersion;
 
 /**
@@ -46,6 +48,18 @@ final class MqttPackets {
         return new MqttPublishMessage(
                 new MqttFixedHeader(MqttMessageType.PUBLISH, dup, MqttQoS.AT_LEAST_ONCE, retain, 0),
                 new MqttPublishVariableHeader(topic, packetId), Unpooled.wrappedBuffer(payload));
+    }
+
+    /** SUBSCRIBE to one topic filter at QoS 0: a status missed while disconnected is read again as retained. */
+    static MqttSubscribeMessage subscribe(int packetId, String filter) {
+        return MqttMessageBuilders.subscribe().messageId(packetId).addSubscription(MqttQoS.AT_MOST_ONCE, filter)
+                .build();
+    }
+
+    /** PUBACK of a QoS 1 publish received (MQTT 3.1.1 §3.4). */
+    static MqttMessage pubAck(int packetId) {
+        return new MqttMessage(new MqttFixedHeader(MqttMessageType.PUBACK, false, MqttQoS.AT_MOST_ONCE, false, 2),
+                MqttMessageIdVariableHeader.from(packetId));
     }
 
     static MqttMessage pingReq() {

@@ -19,6 +19,9 @@ import io.netty.handler.codec.mqtt.MqttDecoder;
 import io.netty.handler.codec.mqtt.MqttEncoder;
 import io.netty.handler.codec.mqtt.MqttMessage;
 import io.netty.handler.codec.mqtt.MqttMessageIdVariableHeader;
+import io.netty.handler.codec.mqtt.MqttPublishMessage;
+import io.netty.handler.codec.mqtt.MqttQoS;
+import io.netty.handler.codec.mqtt.MqttSubAckMessage;
 import io.netty.handler.ssl.SslContext;
 import io.netty.handler.timeout.IdleState;
 import io.netty.handler.timeout.IdleStateEvent;
@@ -60,6 +63,8 @@ public final class MqttPublisher implements Destination {
     private final String statusTopic;
     /** Open camera conditions; confined to the courier thread that calls {@link #send}. */
     private final CameraStates cameraStates = new CameraStates();
+    /** Told of the other instances' statuses, or null when this instance watches alone. */
+    private final PeerWatch peers;
 
     // confined to the event loop thread
     private final MqttInFlight inFlight = new MqttInFlight();
@@ -71,6 +76,7 @@ public final class MqttPublisher implements Destination {
     private final Backoff backoff;
     private String lastProblem;
     private int failedAttempts;
+    private boolean subscribed;
 
     /**
      * @param zones       every configured zone as "camera/zone"; once the outbox backlog is delivered, the state
@@ -79,7 +85,16 @@ public final class MqttPublisher implements Destination {
      * @param runStartSeq the first outbox seq of this run (phases before it come from an earlier run)
      */
     public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq) {
+        this(config, zones, runStartSeq, null);
+    }
+
+    /**
+     * A publisher that also subscribes to every client's status below the prefix and tells {@code peers} of the
+     * instances' (see {@link PeerWatch}); null peers: publish only.
+     */
+    public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq, PeerWatch peers) {
         this.config = config;
+        this.peers = peers;
         this.shownUrl = Urls.mask(config.url());
         URI uri = URI.create(config.url());
         boolean tls = "mqtts".equalsIgnoreCase(uri.getScheme());
@@ -144,7 +159,8 @@ public final class MqttPublisher implements Destination {
 
     /** The client's status; offline is stamped only when sent on closing, not as the will. */
     private byte[] statusPayload(String state) {
-        return MqttTopics.statusPayload(config.clientId(), state, !"offline".equals(state) || closing);
+        return MqttTopics.statusPayload(config.clientId(), config.instance(), state,
+                !"offline".equals(state) || closing);
     }
 
     /** Queues a QoS 1 publish and sends it now if connected. Event loop only. */
@@ -248,6 +264,8 @@ public final class MqttPublisher implements Destination {
                 case CONNACK -> connAck(ctx, (MqttConnAckMessage) m);
                 case PUBACK -> inFlight.acknowledged(
                         ((MqttMessageIdVariableHeader) m.variableHeader()).messageId());
+                case SUBACK -> subAck((MqttSubAckMessage) m);
+                case PUBLISH -> received(ctx, (MqttPublishMessage) m);
                 case PINGRESP -> {
                     // the idle handler counts it as traffic
                 }
@@ -278,6 +296,43 @@ public final class MqttPublisher implements Destination {
                 write(en.getKey(), en.getValue());
             }
             publish(statusTopic, statusPayload("online"), true);
+            if (peers != null) {
+                ctx.writeAndFlush(MqttPackets.subscribe(inFlight.otherId(),
+                        MqttTopics.statusFilter(config.topicPrefix())));
+            }
+        }
+
+        private void subAck(MqttSubAckMessage m) {
+            if (peers == null) {
+                return;
+            }
+            // MQTT 3.1.1 §3.9.3: 0x80 is a refusal (typically the broker's ACL)
+            if (m.payload().grantedQoSLevels().stream().anyMatch(q -> q >= 0x80)) {
+                LOG.warn("{}: the broker refused the subscription to {} (check its ACL): the other instances "
+                        + "cannot be seen, so this one keeps the cameras it watches", name(),
+                        MqttTopics.statusFilter(config.topicPrefix()));
+                return;
+            }
+            subscribed = true;
+            peers.subscribed();
+        }
+
+        /** A status of some client (the only subscription): the instance it names is online or offline. */
+        private void received(ChannelHandlerContext ctx, MqttPublishMessage m) {
+            if (m.fixedHeader().qosLevel() == MqttQoS.AT_LEAST_ONCE) {
+                ctx.writeAndFlush(MqttPackets.pubAck(m.variableHeader().packetId()));
+            }
+            if (peers == null || !subscribed) {
+                return;
+            }
+            byte[] body = new byte[m.payload().readableBytes()];
+            m.payload().getBytes(m.payload().readerIndex(), body);
+            MqttTopics.PeerStatus st = MqttTopics.parseStatus(body);
+            if (st == null) {
+                LOG.debug("{}: ignoring a status on {} that names no instance", name(), m.variableHeader().topicName());
+            } else if (!st.instance().equals(config.instance())) {
+                peers.status(st.instance(), st.online());
+            }
         }
 
         @Override
@@ -307,6 +362,10 @@ public final class MqttPublisher implements Destination {
             boolean was = connected;
             connected = false;
             channel = null;
+            if (subscribed) {
+                subscribed = false;
+                peers.lost();
+            }
             if (closing) {
                 return;
             }

@@ -39,6 +39,11 @@ public final class MqttTopics {
         return prefix + "/" + STATUS_LEVEL + "/" + clientId;
     }
 
+    /** Every client's status topic (a filter with a single-level wildcard, MQTT 3.1.1 §4.7.1.3). */
+    static String statusFilter(String prefix) {
+        return prefix + "/" + STATUS_LEVEL + "/+";
+    }
+
     /** The retained state a zone's phase sets: alert at its start, clear at its end. */
     static byte[] zoneStatePayload(Event e) {
         if (e.zone() == null) {
@@ -95,13 +100,55 @@ public final class MqttTopics {
 
     /** The client's status; {@code stamped} adds the time. */
     static byte[] statusPayload(String clientId, String state, boolean stamped) {
+        return statusPayload(clientId, null, state, stamped);
+    }
+
+    /** The client's status naming its instance (null: one instance watches all); {@code stamped} adds the time. */
+    static byte[] statusPayload(String clientId, String instance, String state, boolean stamped) {
         return json(g -> {
             g.writeStringField("state", state);
             g.writeStringField("client", clientId);
+            if (instance != null) {
+                g.writeStringField("instance", instance);
+            }
             if (stamped) {
                 g.writeStringField("at", now());
             }
         });
+    }
+
+    /** What another instance's status says: its name and whether it is online. */
+    record PeerStatus(String instance, boolean online) {
+    }
+
+    /**
+     * Reads a status payload ({@link #statusPayload}); null when it names no instance or is not a status (a
+     * client of an older version, or something else published there).
+     */
+    static PeerStatus parseStatus(byte[] payload) {
+        try (com.fasterxml.jackson.core.JsonParser p = new com.fasterxml.jackson.core.JsonFactory()
+                .createParser(payload)) {
+            if (p.nextToken() != com.fasterxml.jackson.core.JsonToken.START_OBJECT) {
+                return null;
+            }
+            String state = null;
+            String instance = null;
+            while (p.nextToken() == com.fasterxml.jackson.core.JsonToken.FIELD_NAME) {
+                String field = p.currentName();
+                p.nextToken();
+                switch (field) {
+                    case "state" -> state = p.getValueAsString();
+                    case "instance" -> instance = p.getValueAsString();
+                    default -> p.skipChildren();
+                }
+            }
+            if (instance == null || !("online".equals(state) || "offline".equals(state))) {
+                return null;
+            }
+            return new PeerStatus(instance, "online".equals(state));
+        } catch (java.io.IOException e) {
+            return null;
+        }
     }
 
     private static byte[] json(EventJson.Fields f) {
