@@ -36,6 +36,7 @@ public final class ConfigPrinter {
                 b.append(i == 0 ? "" : ", ").append(quote(c.shard().instances().get(i)));
             }
             b.append("]\n");
+            b.append("membership = ").append(quote(c.shard().membership())).append('\n');
         }
         b.append("\n[flow]\n");
         b.append("levels = ").append(c.flow().levels()).append('\n');

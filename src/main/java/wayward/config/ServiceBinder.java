@@ -25,6 +25,8 @@ final class ServiceBinder {
                 HttpConfig.DEFAULT_MAX_CONNECTIONS);
         String instance = env.instance();
         List<String> instances = new ArrayList<>();
+        // membership through the broker needs one: without [mqtt] the fixed list is all there is
+        boolean viaBroker = top.raw("mqtt") != null;
         TableReader s = top.section("service");
         if (s != null) {
             String dir = s.string("data_dir", SiteConfig.DEFAULT_DATA_DIR, "a folder path");
@@ -38,6 +40,7 @@ final class ServiceBinder {
                 instance = configured;
             }
             instances = instances(s);
+            viaBroker = membership(s, viaBroker);
             s.finish();
         }
         String fromEnv = env.instances();
@@ -47,7 +50,7 @@ final class ServiceBinder {
                 instances.add(part.trim());
             }
         }
-        ShardConfig shard = shard(errors, instance, instances);
+        ShardConfig shard = shard(errors, instance, instances, viaBroker);
         if (shard != null) {
             // instances on one host must not share an outbox or learned headings: a folder each
             dataDir = dataDir.resolve(shard.instance());
@@ -107,7 +110,25 @@ final class ServiceBinder {
     }
 
     /** This instance's share when an instance or instances are named; null when none are, or after reporting. */
-    private static ShardConfig shard(ConfigErrors errors, String instance, List<String> instances) {
+    /** {@code membership} of [service]: "broker" (the default with [mqtt]) or "fixed"; true for broker. */
+    private static boolean membership(TableReader s, boolean hasMqtt) {
+        String expected = "\"" + ShardConfig.BROKER + "\" (the instances online by their status on the MQTT broker "
+                + "share the cameras) or \"" + ShardConfig.FIXED + "\" (all configured instances share them)";
+        String m = s.string("membership", hasMqtt ? ShardConfig.BROKER : ShardConfig.FIXED, expected);
+        if (m.equals(ShardConfig.BROKER) && !hasMqtt) {
+            s.error("membership", m, "\"" + ShardConfig.FIXED + "\", or an [mqtt] broker: the instances see each "
+                    + "other through it");
+            return false;
+        }
+        if (!m.equals(ShardConfig.BROKER) && !m.equals(ShardConfig.FIXED)) {
+            s.error("membership", m, expected);
+            return hasMqtt;
+        }
+        return m.equals(ShardConfig.BROKER);
+    }
+
+    private static ShardConfig shard(ConfigErrors errors, String instance, List<String> instances,
+            boolean viaBroker) {
         if (instances.isEmpty() && instance == null) {
             return null;
         }
@@ -122,7 +143,7 @@ final class ServiceBinder {
             errors.atTop(where + ": " + TomlText.render(instance) + " (expected one of "
                     + String.join(", ", instances) + ", the instances)");
         } else {
-            return new ShardConfig(instance, instances);
+            return new ShardConfig(instance, instances, viaBroker);
         }
         return null;
     }

@@ -25,6 +25,7 @@ final class MetricsText {
     static String of(StatusSource service) {
         MetricsText m = new MetricsText();
         m.cameras(service.cameraStatus());
+        m.instances(service.instances());
         m.delivery(service.bus(), service.outbox());
         m.process();
         return m.b.toString();
@@ -101,6 +102,31 @@ final class MetricsText {
                 sample(name, v.of(p, z), "camera", p.id(), "zone", zones.get(z).id());
             }
         }
+    }
+
+    /** Instances sharing the config: who is online, who watches what, how often cameras moved. */
+    private void instances(Instances in) {
+        if (in == null) {
+            return;
+        }
+        family("wayward_instance_online", "gauge", "1 while the instance is online by its status on the broker, 0 "
+                + "while offline, as this instance sees it (broker membership only).");
+        for (Instances.Peer p : in.instances()) {
+            if (p.online() != null) {
+                sample("wayward_instance_online", p.online() ? 1 : 0, "instance", p.name());
+            }
+        }
+        family("wayward_camera_instance", "gauge", "1 for each configured camera and the instance that watches it, "
+                + "as this instance sees it.");
+        for (Instances.Assignment a : in.cameras()) {
+            sample("wayward_camera_instance", 1, "camera", a.camera(), "instance", a.instance());
+        }
+        family("wayward_membership_broker_connected", "gauge", "1 while connected to the broker and reading the "
+                + "instances' statuses; 0 while not (this instance then keeps its cameras and takes no others).");
+        sample("wayward_membership_broker_connected", in.brokerConnected() ? 1 : 0);
+        family("wayward_camera_moves_total", "counter", "Cameras that moved from one instance to another since "
+                + "this instance started, as it saw them.");
+        sample("wayward_camera_moves_total", (double) in.moves());
     }
 
     private void cameras(List<CameraStatus> ps) {

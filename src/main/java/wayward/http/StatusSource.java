@@ -25,6 +25,11 @@ public interface StatusSource {
         return false;
     }
 
+    /** The instances sharing the config and who watches which camera; null when this instance watches all. */
+    default Instances instances() {
+        return null;
+    }
+
     /** The evidence folder: clips, snapshots and their JSON (may change with a reload). */
     Path evidenceDir();
 }

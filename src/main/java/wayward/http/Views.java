@@ -171,6 +171,44 @@ final class Views {
             g.writeEndObject();
         }
         g.writeEndArray();
+        Instances in = service.instances();
+        if (in != null) {
+            writeInstances(g, in);
+        }
+    }
+
+    /** Who watches which camera when instances share the config, and why ({@code /api/cameras}, "instances"). */
+    private static void writeInstances(JsonGenerator g, Instances in) throws IOException {
+        g.writeObjectFieldStart("instances");
+        g.writeStringField("self", in.self());
+        g.writeStringField("membership", in.membership());
+        g.writeBooleanField("broker_connected", in.brokerConnected());
+        g.writeNumberField("moves", in.moves());
+        g.writeArrayFieldStart("instances");
+        for (Instances.Peer p : in.instances()) {
+            g.writeStartObject();
+            g.writeStringField("name", p.name());
+            if (p.online() == null) {
+                g.writeNullField("online");
+            } else {
+                g.writeBooleanField("online", p.online());
+            }
+            if (p.since() != null) {
+                g.writeStringField("since", java.time.format.DateTimeFormatter.ISO_INSTANT.format(p.since()));
+            }
+            g.writeEndObject();
+        }
+        g.writeEndArray();
+        g.writeArrayFieldStart("cameras");
+        for (Instances.Assignment a : in.cameras()) {
+            g.writeStartObject();
+            g.writeStringField("camera", a.camera());
+            g.writeStringField("instance", a.instance());
+            g.writeStringField("reason", a.reason());
+            g.writeEndObject();
+        }
+        g.writeEndArray();
+        g.writeEndObject();
     }
 
     /** {@code /api/events?limit=N}: the latest event phases, newest last (N from 1 to 200, 50 by default). */

@@ -70,6 +70,8 @@ public final class Service implements StatusSource {
     private wayward.clip.EvidenceWriter evidenceWriter;
     private java.util.concurrent.ScheduledExecutorService retention;
     private volatile boolean stopped;
+    /** Instances sharing the config through the broker: who watches what; null otherwise. */
+    private Membership membership;
     /** Set once {@link #start} has started every camera; the status server, bound before, reads it. */
     private volatile boolean started;
 
@@ -120,6 +122,17 @@ public final class Service implements StatusSource {
                 cameras.forEach(c -> ids.add(c.id()));
                 LOG.info("instance {} of {}: watching {} of {} cameras: {}", config.shard().instance(),
                         config.shard().instances(), cameras.size(), config.cameras().size(), ids);
+                if (config.shard().viaBroker()) {
+                    List<String> all = new ArrayList<>();
+                    config.cameras().forEach(c -> all.add(c.id()));
+                    membership = new Membership(config.shard().instance(), config.shard().instances(), all,
+                            this::watchOnly, this::announceMove, clock);
+                    LOG.info("membership: the instances online by their status on the broker share the cameras; "
+                            + "when one goes offline the others take its cameras, and hand them back when it "
+                            + "returns");
+                } else {
+                    LOG.info("membership: fixed: the cameras stay with their instance whatever its state");
+                }
             }
             leftOpen = EventLog.leftOpen(config.dataDir().resolve("events.jsonl"));
             // a data folder of an older version keeps its evidence in clips/: move it before retention looks
@@ -138,14 +151,15 @@ public final class Service implements StatusSource {
                     LOG.info("events are posted to {}", Urls.mask(w.url()));
                 }
                 if (config.mqtt() != null) {
+                    MqttConfig m = config.mqtt();
                     List<String> zones = new ArrayList<>();
                     for (CameraConfig c : cameras) {
                         for (wayward.analysis.ZoneConfig z : c.zones()) {
                             zones.add(c.id() + "/" + z.id());
                         }
                     }
-                    MqttConfig m = config.mqtt();
-                    bus.add(new MqttPublisher(m, zones, runStart), 1000, (long) (m.maxBackoffSeconds() * 1000));
+                    bus.add(new MqttPublisher(m, zones, runStart, membership), 1000,
+                            (long) (m.maxBackoffSeconds() * 1000));
                     LOG.info("events are published to {} under {}/", Urls.mask(m.url()), m.topicPrefix());
                 }
             }
@@ -243,7 +257,18 @@ public final class Service implements StatusSource {
      * camera. Changes elsewhere ([service], [clips], [[webhook]], [mqtt], [outbox]) wait for the next restart,
      * and the log says so. Any thread; one reload at a time.
      */
-    public synchronized void reload(SiteConfig next) {
+    public void reload(SiteConfig next) {
+        // outside the lock: the membership thread may be waiting for it to start or stop cameras
+        List<String> mine = null;
+        if (membership != null) {
+            List<String> ids = new ArrayList<>();
+            next.cameras().forEach(c -> ids.add(c.id()));
+            mine = membership.camerasChanged(ids);
+        }
+        reload(next, mine);
+    }
+
+    private synchronized void reload(SiteConfig next, List<String> mine) {
         if (stopped) {
             return;
         }
@@ -251,8 +276,55 @@ public final class Service implements StatusSource {
         if (flowChanged) {
             LOG.info("reload: [flow] changed; every camera restarts");
         }
+        List<CameraConfig> nextCameras = mode == Mode.REPLAY ? next.cameras()
+                : mine != null ? only(next.cameras(), mine) : Shards.camerasOf(next, next.cameras());
+        applyCameras(nextCameras, next.flow(), flowChanged, "reload");
+        if (!rest(next).equals(rest(config))) {
+            LOG.warn("reload: changes to [service], [clips], [[webhook]], [mqtt] or [outbox] take effect at the "
+                    + "next restart; the running values stay");
+            next = new SiteConfig(next.file(), config.dataDir(), next.flow(), next.cameras(), config.webhooks(),
+                    config.clips(), config.mqtt(), config.outboxMaxBytes(), config.http(), config.shard());
+        }
+        config = next;
+        LOG.info("reload: done; {} cameras", pipelines.size());
+    }
+
+    private static List<CameraConfig> only(List<CameraConfig> all, List<String> ids) {
+        List<CameraConfig> out = new ArrayList<>();
+        for (CameraConfig c : all) {
+            if (ids.contains(c.id())) {
+                out.add(c);
+            }
+        }
+        return out;
+    }
+
+    /** Membership: this instance now watches {@code ids} of the config's cameras (the membership thread). */
+    private synchronized void watchOnly(List<String> ids) {
+        if (stopped) {
+            return;
+        }
+        applyCameras(only(config.cameras(), ids), config.flow(), false, "membership");
+        LOG.info("membership: this instance watches {} of {} cameras: {}", pipelines.size(), config.cameras().size(),
+                ids);
+    }
+
+    /** Membership: raises {@code camera_reassigned}, a start and its end at once (the membership thread). */
+    private void announceMove(String camera, String from, String to, String reason) {
+        String id = java.util.UUID.randomUUID().toString();
+        java.time.Instant now = clock.instant();
+        wayward.event.Event.Handover h = new wayward.event.Event.Handover(from, to, reason);
+        bus.publish(wayward.event.Event.handover(id, camera, wayward.event.Event.Phase.START, now, h));
+        bus.publish(wayward.event.Event.handover(id, camera, wayward.event.Event.Phase.END, now, h));
+    }
+
+    /**
+     * Stops the running cameras not in {@code nextCameras} or changed, starts the new and changed ones, keeps the
+     * rest running untouched. Holding the lock.
+     */
+    private void applyCameras(List<CameraConfig> nextCameras, wayward.flow.FlowConfig flow, boolean flowChanged,
+            String why) {
         java.util.Map<String, CameraConfig> wanted = new java.util.LinkedHashMap<>();
-        List<CameraConfig> nextCameras = mode == Mode.REPLAY ? next.cameras() : Shards.camerasOf(next, next.cameras());
         for (CameraConfig c : nextCameras) {
             wanted.put(c.id(), c);
         }
@@ -261,15 +333,16 @@ public final class Service implements StatusSource {
         for (CameraPipeline p : pipelines) {
             CameraConfig n = wanted.get(p.id());
             if (n == null) {
-                LOG.info("reload: camera {} removed; stopping it", p.id());
+                LOG.info("{}: camera {} {}; stopping it", why, p.id(), why.equals("reload") ? "removed"
+                        : "moves to another instance");
                 stopping.add(p);
             } else if (flowChanged || !ConfigPrinter.cameraIdentity(n).equals(ConfigPrinter.cameraIdentity(p.config()))) {
                 if (!flowChanged) {
-                    LOG.info("reload: camera {} changed; restarting it", p.id());
+                    LOG.info("{}: camera {} changed; restarting it", why, p.id());
                 }
                 stopping.add(p);
             } else {
-                LOG.info("reload: camera {} unchanged; it keeps running", p.id());
+                LOG.debug("{}: camera {} unchanged; it keeps running", why, p.id());
                 keep.add(p);
             }
         }
@@ -294,23 +367,16 @@ public final class Service implements StatusSource {
                 now.add(kept);
                 continue;
             }
-            CameraPipeline p = pipeline(c, next.flow());
+            CameraPipeline p = pipeline(c, flow);
             if (pipelines.stream().noneMatch(old -> old.id().equals(c.id()))) {
-                LOG.info("reload: camera {} added; starting on {}", c.id(), Urls.mask(c.source()));
+                LOG.info("{}: camera {} {}; starting on {}", why, c.id(), why.equals("reload") ? "added"
+                        : "moves to this instance", Urls.mask(c.source()));
             }
             p.start();
             now.add(p);
         }
         pipelines.clear();
         pipelines.addAll(now);
-        if (!rest(next).equals(rest(config))) {
-            LOG.warn("reload: changes to [service], [clips], [[webhook]], [mqtt] or [outbox] take effect at the "
-                    + "next restart; the running values stay");
-            next = new SiteConfig(next.file(), config.dataDir(), next.flow(), next.cameras(), config.webhooks(),
-                    config.clips(), config.mqtt(), config.outboxMaxBytes(), config.http(), config.shard());
-        }
-        config = next;
-        LOG.info("reload: done; {} cameras", pipelines.size());
     }
 
     /** Blocks until every camera has ended by itself, or {@link #stop} was called. */
@@ -353,6 +419,27 @@ public final class Service implements StatusSource {
     }
 
     @Override
+    public wayward.http.Instances instances() {
+        if (membership != null) {
+            return membership.view();
+        }
+        wayward.config.ShardConfig shard = config.shard();
+        if (shard == null || mode == Mode.REPLAY) {
+            return null;
+        }
+        List<wayward.http.Instances.Peer> peers = new ArrayList<>();
+        for (String i : shard.instances()) {
+            peers.add(new wayward.http.Instances.Peer(i, i.equals(shard.instance()) ? Boolean.TRUE : null, null));
+        }
+        List<wayward.http.Instances.Assignment> as = new ArrayList<>();
+        for (CameraConfig c : config.cameras()) {
+            as.add(new wayward.http.Instances.Assignment(c.id(), Shards.owner(c.id(), shard.instances()),
+                    "its share of all configured instances (membership fixed)"));
+        }
+        return new wayward.http.Instances(shard.instance(), shard.membership(), false, peers, as, 0);
+    }
+
+    @Override
     public boolean starting() {
         return !started;
     }
@@ -368,6 +455,9 @@ public final class Service implements StatusSource {
             return;
         }
         stopped = true;
+        if (membership != null) {
+            membership.close();
+        }
         for (CameraPipeline p : pipelines) {
             p.stop();
         }

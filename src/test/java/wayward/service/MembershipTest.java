@@ -1,0 +1,157 @@
+package wayward.service;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.time.Clock;
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import java.util.Map;
+import java.util.TreeMap;
+import java.util.TreeSet;
+import java.util.concurrent.TimeUnit;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.Timeout;
+
+/**
+ * Three instances' membership fed the statuses a broker would deliver (MQTT 3.1.1: retained statuses after the
+ * SUBACK, the will's offline when an instance dies): the cameras of an instance gone offline go to the others and
+ * come back, every camera has exactly one watcher in steady state, each move is announced once, and an instance
+ * that lost the broker keeps its cameras and takes no others. The expected owners come from {@link Shards}
+ * over the online names (rendezvous hashing, Thaler and Ravishankar 1998).
+ */
+@Timeout(value = 60, unit = TimeUnit.SECONDS)
+class MembershipTest {
+    private static final List<String> NAMES = List.of("north", "south", "gate");
+    private final List<String> cameras = new ArrayList<>();
+    private final Map<String, Membership> members = new TreeMap<>();
+    private final Map<String, List<String>> watched = new TreeMap<>();
+    private final List<String> announced = Collections.synchronizedList(new ArrayList<>());
+
+    MembershipTest() {
+        for (int i = 1; i <= 30; i++) {
+            cameras.add("yard-mast-" + i);
+        }
+        for (String n : NAMES) {
+            watched.put(n, Shards.mine(cameras, n, NAMES));
+            members.put(n, new Membership(n, NAMES, cameras, ids -> watched.put(n, List.copyOf(ids)),
+                    (camera, from, to, reason) -> announced.add(n + ": " + camera + " " + from + ">" + to + " "
+                            + reason), Clock.systemUTC()));
+        }
+    }
+
+    @AfterEach
+    void close() {
+        members.values().forEach(Membership::close);
+    }
+
+    /** What a broker delivers to every live instance: {@code instance}'s status. */
+    private void status(String instance, boolean online, String... to) throws Exception {
+        for (String n : to) {
+            members.get(n).status(instance, online);
+        }
+        for (String n : to) {
+            members.get(n).drain();
+        }
+    }
+
+    private void subscribeAndSettle(String n, String... onlineOthers) throws Exception {
+        Membership m = members.get(n);
+        m.subscribed();
+        for (String o : onlineOthers) {
+            m.status(o, true);
+        }
+        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(10);
+        while (!m.view().brokerConnected() && System.nanoTime() < deadline) {
+            TimeUnit.MILLISECONDS.sleep(20); // polling the settle time, not a synchronisation sleep
+        }
+        assertTrue(m.view().brokerConnected(), n + " settled");
+        m.drain();
+    }
+
+    private void assertEachCameraOnce(String... live) {
+        List<String> all = new ArrayList<>();
+        for (String n : live) {
+            all.addAll(watched.get(n));
+            assertEquals(watched.get(n), members.get(n).watching(), n + ": what it started is what it says");
+        }
+        assertEquals(cameras.size(), all.size(), "no camera watched twice: " + watched);
+        assertEquals(new TreeSet<>(cameras), new TreeSet<>(all), "every camera watched: " + watched);
+    }
+
+    @Test
+    void anInstanceThatDiesLosesItsCamerasToTheOthersAndGetsThemBack() throws Exception {
+        List<String> southShare = Shards.mine(cameras, "south", NAMES);
+        subscribeAndSettle("north", "south", "gate");
+        subscribeAndSettle("gate", "north", "south");
+        subscribeAndSettle("south", "north", "gate");
+        assertEachCameraOnce("north", "south", "gate");
+        assertTrue(announced.isEmpty(), "all online: nothing moved " + announced);
+
+        // south's will: north and gate take exactly its cameras, each hashed over the two left
+        status("south", false, "north", "gate");
+        assertEachCameraOnce("north", "gate");
+        for (String c : southShare) {
+            String to = Shards.owner(c, List.of("north", "gate"));
+            assertTrue(watched.get(to).contains(c), c + " went to " + to);
+        }
+        assertEquals(southShare.size(), announced.size(), "each move announced once: " + announced);
+        for (String a : announced) {
+            assertTrue(a.contains(" south>") && a.endsWith("south went offline")
+                    && a.startsWith(a.substring(a.indexOf('>') + 1, a.indexOf(' ', a.indexOf('>'))) + ":"),
+                    "announced by the instance that took it: " + a);
+        }
+        for (String n : List.of("north", "gate")) {
+            assertTrue(watched.get(n).containsAll(Shards.mine(cameras, n, NAMES)), n + " kept its own cameras");
+            assertEquals(southShare.size(), members.get(n).view().moves());
+        }
+
+        // south is back: north and gate hand its cameras back, announced once each by the one handing back
+        announced.clear();
+        status("south", true, "north", "gate");
+        assertEquals(Shards.mine(cameras, "north", NAMES), watched.get("north"));
+        assertEquals(Shards.mine(cameras, "gate", NAMES), watched.get("gate"));
+        assertEquals(southShare.size(), announced.size(), "each hand-back announced once: " + announced);
+        for (String a : announced) {
+            assertTrue(a.contains(">south ") && a.endsWith("south came online") && a.startsWith(a.substring(
+                    a.indexOf(' ') + 1).split(" ")[1].split(">")[0] + ":"), "announced by the one handing back: " + a);
+        }
+    }
+
+    @Test
+    void anInstanceThatLostTheBrokerKeepsItsCamerasAndTakesNoOthers() throws Exception {
+        subscribeAndSettle("north", "south", "gate");
+        status("south", false, "north");
+        List<String> before = List.copyOf(watched.get("north"));
+        assertTrue(before.size() > Shards.mine(cameras, "north", NAMES).size(), "north took some of south's");
+
+        members.get("north").lost();
+        members.get("north").drain();
+        assertFalse(members.get("north").view().brokerConnected());
+        // statuses cannot arrive without the broker; what arrives before the next settle changes nothing yet
+        status("gate", false, "north");
+        assertEquals(before, watched.get("north"), "kept while the broker is away");
+        assertEquals(before, members.get("north").watching());
+
+        // the broker is back: the retained statuses decide (gate offline, south back)
+        members.get("north").status("south", true);
+        subscribeAndSettle("north");
+        assertEquals(Shards.mine(cameras, "north", List.of("north", "south")), watched.get("north"));
+    }
+
+    @Test
+    void atStartAnInstanceWatchesItsShareOfAllAndStatusesOfStrangersAreIgnored() throws Exception {
+        Membership north = members.get("north");
+        assertEquals(Shards.mine(cameras, "north", NAMES), north.watching());
+        assertFalse(north.view().brokerConnected());
+        // a retained status of an instance from another config, and none of gate (never started): gate is offline
+        north.status("east", true);
+        subscribeAndSettle("north", "south");
+        assertEquals(Shards.mine(cameras, "north", List.of("north", "south")), watched.get("north"));
+        assertEquals(3, north.view().instances().size(), "only the configured instances");
+        assertEquals(Boolean.FALSE, north.view().instances().get(2).online(), "gate, never seen, is offline");
+    }
+}
