@@ -77,6 +77,8 @@ public final class MqttPublisher implements Destination {
     private String lastProblem;
     private int failedAttempts;
     private boolean subscribed;
+    /** With peers: the online status sent again once a keep-alive, so the others can tell it is fresh. */
+    private java.util.concurrent.ScheduledFuture<?> refresh;
 
     /**
      * @param zones       every configured zone as "camera/zone"; once the outbox backlog is delivered, the state
@@ -299,6 +301,12 @@ public final class MqttPublisher implements Destination {
             if (peers != null) {
                 ctx.writeAndFlush(MqttPackets.subscribe(inFlight.otherId(),
                         MqttTopics.statusFilter(config.topicPrefix())));
+                int every = config.keepAliveSeconds();
+                refresh = loop.scheduleWithFixedDelay(() -> {
+                    if (connected && !closing) {
+                        publish(statusTopic, statusPayload("online"), true);
+                    }
+                }, every, every, TimeUnit.SECONDS);
             }
         }
 
@@ -362,6 +370,10 @@ public final class MqttPublisher implements Destination {
             boolean was = connected;
             connected = false;
             channel = null;
+            if (refresh != null) {
+                refresh.cancel(false);
+                refresh = null;
+            }
             if (subscribed) {
                 subscribed = false;
                 peers.lost();

@@ -37,6 +37,17 @@ public final class Membership implements PeerWatch, AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Membership.class);
     /** After the subscription, how long the retained statuses have to arrive before they are acted on. */
     public static final long SETTLE_MILLIS = 1000;
+    /**
+     * Each instance refreshes its online status once a keep-alive; one not heard for this many keep-alives is taken
+     * for offline even though its will never came (its broker node died with it, or a bridge lost it).
+     */
+    public static final int SILENT_KEEP_ALIVES = 3;
+    /**
+     * How long an instance read offline while this one is connected still counts as online: a broker that shuts
+     * down sends the will of every client first, and this instance's own connection drops right after.
+     */
+    public static final long OFFLINE_GRACE_MILLIS = 2000;
+    private static final long TICK_MILLIS = 500;
 
     /** Starts and stops cameras; called on the membership thread with the ids this instance now watches. */
     public interface Watcher {
@@ -54,12 +65,30 @@ public final class Membership implements PeerWatch, AutoCloseable {
     private final Announcer announcer;
     private final Clock clock;
     private final ScheduledExecutorService thread;
+    private final long silentNanos;
+    private final long reconnectGraceNanos;
+
+    /** What this instance knows of another. Confined to the membership thread. */
+    private static final class Peer {
+        /** Its last status: true online, false offline; null: none read. */
+        Boolean online;
+        /** When this instance saw it change, wall clock; null: never. */
+        Instant since;
+        /** System.nanoTime() of its last online status. */
+        long heard;
+        /** System.nanoTime() of the offline status that took it down. */
+        long downAt;
+        /** How long after {@link #downAt} it still counts as online. */
+        long graceNanos;
+
+        boolean counts(long now) {
+            return Boolean.TRUE.equals(online) || (Boolean.FALSE.equals(online) && now - downAt < graceNanos);
+        }
+    }
 
     // confined to the membership thread
     private List<String> cameras;
-    /** The other instances' last status: true online, false offline; absent: none read yet. */
-    private final Map<String, Boolean> online = new HashMap<>();
-    private final Map<String, Instant> since = new HashMap<>();
+    private final Map<String, Peer> peers = new HashMap<>();
     /** Each camera's instance as last decided, config order. */
     private Map<String, String> owners;
     private boolean subscribed;
@@ -71,24 +100,36 @@ public final class Membership implements PeerWatch, AutoCloseable {
     private volatile Instances view;
 
     /**
-     * @param self      this instance's name, one of {@code instances}
-     * @param instances every configured instance
-     * @param cameras   every configured camera's id, config order
+     * @param self                  this instance's name, one of {@code instances}
+     * @param instances             every configured instance
+     * @param cameras               every configured camera's id, config order
+     * @param keepAliveSeconds      the MQTT keep-alive, which is also how often every instance refreshes its status
+     * @param reconnectGraceSeconds after the broker was lost and is back: how long an instance that was online
+     *                              before and reads offline now still counts as online (the time it may take to
+     *                              find the broker again: the longest reconnect backoff and a keep-alive)
      */
-    public Membership(String self, List<String> instances, List<String> cameras, Watcher watcher, Announcer announcer,
-            Clock clock) {
+    public Membership(String self, List<String> instances, List<String> cameras, int keepAliveSeconds,
+            double reconnectGraceSeconds, Watcher watcher, Announcer announcer, Clock clock) {
         this.self = self;
         this.instances = List.copyOf(instances);
         this.cameras = List.copyOf(cameras);
         this.watcher = watcher;
         this.announcer = announcer;
         this.clock = clock;
+        for (String i : this.instances) {
+            if (!i.equals(self)) {
+                peers.put(i, new Peer());
+            }
+        }
         this.owners = owners(this.instances);
+        this.silentNanos = TimeUnit.SECONDS.toNanos((long) SILENT_KEEP_ALIVES * keepAliveSeconds);
+        this.reconnectGraceNanos = (long) (reconnectGraceSeconds * 1e9);
         this.thread = Executors.newSingleThreadScheduledExecutor(r -> {
             Thread t = new Thread(r, "membership");
             t.setDaemon(true);
             return t;
         });
+        thread.scheduleWithFixedDelay(this::tick, TICK_MILLIS, TICK_MILLIS, TimeUnit.MILLISECONDS);
         publishView();
     }
 
@@ -120,16 +161,32 @@ public final class Membership implements PeerWatch, AutoCloseable {
     @Override
     public void status(String instance, boolean up) {
         thread.execute(() -> {
-            if (!instances.contains(instance)) {
-                LOG.debug("instance {} is {} on the broker but not one of {}; ignored", instance,
+            Peer p = peers.get(instance);
+            if (p == null) {
+                LOG.debug("instance {} is {} on the broker but not another of {}; ignored", instance,
                         up ? "online" : "offline", instances);
                 return;
             }
-            Boolean was = online.put(instance, up);
-            if (was == null || was != up) {
-                since.put(instance, clock.instant());
+            long now = System.nanoTime();
+            boolean counted = p.counts(now);
+            if (up) {
+                p.heard = now;
+            }
+            if (!Boolean.valueOf(up).equals(p.online)) {
+                p.since = clock.instant();
+                if (!up) {
+                    p.downAt = now;
+                    // a will read while connected waits a moment: a broker shutting down sends every client's will
+                    // before it closes, and this instance's own connection then drops at once. After the broker
+                    // was lost, one online before gets the time it needs to find the broker again.
+                    p.graceNanos = !counted ? 0 : settled ? TimeUnit.MILLISECONDS.toNanos(OFFLINE_GRACE_MILLIS)
+                            : everSettled ? reconnectGraceNanos : 0;
+                }
+                p.online = up;
                 if (settled) {
-                    LOG.info("instance {} is {} (its status on the broker)", instance, up ? "online" : "offline");
+                    LOG.info("instance {} is {} (its status on the broker){}", instance, up ? "online" : "offline",
+                            up || p.graceNanos == 0 ? "" : "; its cameras move if it stays so for "
+                                    + TimeUnit.NANOSECONDS.toMillis(p.graceNanos) / 1000.0 + " s");
                 }
             }
             if (settled) {
@@ -144,6 +201,14 @@ public final class Membership implements PeerWatch, AutoCloseable {
             subscribed = false;
             settled = false;
             generation++;
+            // whoever counted as online when the broker went stays so until the broker tells otherwise
+            long now = System.nanoTime();
+            for (Peer p : peers.values()) {
+                if (p.counts(now)) {
+                    p.online = true;
+                    p.heard = now;
+                }
+            }
             LOG.warn("membership: the broker is unreachable, so nobody can tell which instances are alive: this "
                     + "instance keeps the {} cameras it watches and takes no others until the broker is back",
                     watching().size());
@@ -180,6 +245,29 @@ public final class Membership implements PeerWatch, AutoCloseable {
         publishView();
     }
 
+    /**
+     * Once a second while settled: an instance online by its last status that has not refreshed it for a while is
+     * taken for offline, and an offline one whose grace has run out loses its cameras.
+     */
+    private void tick() {
+        if (!settled) {
+            return;
+        }
+        long now = System.nanoTime();
+        for (Map.Entry<String, Peer> e : peers.entrySet()) {
+            Peer p = e.getValue();
+            if (Boolean.TRUE.equals(p.online) && now - p.heard > silentNanos) {
+                p.online = false;
+                p.since = clock.instant();
+                p.downAt = now;
+                p.graceNanos = 0;
+                LOG.warn("instance {} has not refreshed its status for {} s (every instance does once a keep-alive): "
+                        + "taken for offline", e.getKey(), TimeUnit.NANOSECONDS.toSeconds(now - p.heard));
+            }
+        }
+        decide();
+    }
+
     private void settle(long g) {
         if (g != generation || !subscribed) {
             return;
@@ -191,11 +279,12 @@ public final class Membership implements PeerWatch, AutoCloseable {
         decide();
     }
 
-    /** The configured instances online now, config order; this one always. */
+    /** The configured instances that count as online now, config order; this one always. */
     private List<String> online() {
+        long now = System.nanoTime();
         List<String> up = new ArrayList<>();
         for (String i : instances) {
-            if (i.equals(self) || Boolean.TRUE.equals(online.get(i))) {
+            if (i.equals(self) || peers.get(i).counts(now)) {
                 up.add(i);
             }
         }
@@ -245,9 +334,9 @@ public final class Membership implements PeerWatch, AutoCloseable {
 
     private void publishView() {
         List<String> up = online();
-        List<Instances.Peer> peers = new ArrayList<>();
+        List<Instances.Peer> shown = new ArrayList<>();
         for (String i : instances) {
-            peers.add(new Instances.Peer(i, up.contains(i), since.get(i)));
+            shown.add(new Instances.Peer(i, up.contains(i), i.equals(self) ? null : peers.get(i).since));
         }
         List<Instances.Assignment> as = new ArrayList<>();
         for (Map.Entry<String, String> e : owners.entrySet()) {
@@ -263,7 +352,7 @@ public final class Membership implements PeerWatch, AutoCloseable {
             }
             as.add(new Instances.Assignment(e.getKey(), owner, reason));
         }
-        view = new Instances(self, "broker", settled, peers, as, moves);
+        view = new Instances(self, "broker", settled, shown, as, moves);
     }
 
     /** Waits until everything handed to the membership thread so far is done (tests). */

@@ -126,7 +126,9 @@ public final class Service implements StatusSource {
                     List<String> all = new ArrayList<>();
                     config.cameras().forEach(c -> all.add(c.id()));
                     membership = new Membership(config.shard().instance(), config.shard().instances(), all,
-                            this::watchOnly, this::announceMove, clock);
+                            config.mqtt().keepAliveSeconds(),
+                            config.mqtt().maxBackoffSeconds() + config.mqtt().keepAliveSeconds(), this::watchOnly,
+                            this::announceMove, clock);
                     LOG.info("membership: the instances online by their status on the broker share the cameras; "
                             + "when one goes offline the others take its cameras, and hand them back when it "
                             + "returns");

@@ -26,6 +26,8 @@ import org.junit.jupiter.api.Timeout;
 @Timeout(value = 60, unit = TimeUnit.SECONDS)
 class MembershipTest {
     private static final List<String> NAMES = List.of("north", "south", "gate");
+    private static final int KEEP_ALIVE = 2;
+    private static final double RECONNECT_GRACE = 4;
     private final List<String> cameras = new ArrayList<>();
     private final Map<String, Membership> members = new TreeMap<>();
     private final Map<String, List<String>> watched = new TreeMap<>();
@@ -37,7 +39,8 @@ class MembershipTest {
         }
         for (String n : NAMES) {
             watched.put(n, Shards.mine(cameras, n, NAMES));
-            members.put(n, new Membership(n, NAMES, cameras, ids -> watched.put(n, List.copyOf(ids)),
+            members.put(n, new Membership(n, NAMES, cameras, KEEP_ALIVE, RECONNECT_GRACE,
+                    ids -> watched.put(n, List.copyOf(ids)),
                     (camera, from, to, reason) -> announced.add(n + ": " + camera + " " + from + ">" + to + " "
                             + reason), Clock.systemUTC()));
         }
@@ -72,6 +75,15 @@ class MembershipTest {
         m.drain();
     }
 
+    /** Waits until {@code n} watches {@code expected} (a move waits out the offline grace). */
+    private void awaitWatched(String n, List<String> expected) throws Exception {
+        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(10);
+        while (!expected.equals(watched.get(n)) && System.nanoTime() < deadline) {
+            TimeUnit.MILLISECONDS.sleep(20); // polling the membership thread's decisions
+        }
+        assertEquals(expected, watched.get(n), n);
+    }
+
     private void assertEachCameraOnce(String... live) {
         List<String> all = new ArrayList<>();
         for (String n : live) {
@@ -91,8 +103,15 @@ class MembershipTest {
         assertEachCameraOnce("north", "south", "gate");
         assertTrue(announced.isEmpty(), "all online: nothing moved " + announced);
 
-        // south's will: north and gate take exactly its cameras, each hashed over the two left
+        // south's will: after the grace north and gate take exactly its cameras, each hashed over the two left
+        long t0 = System.nanoTime();
         status("south", false, "north", "gate");
+        assertEquals(Shards.mine(cameras, "north", NAMES), watched.get("north"), "not at once: the grace first");
+        List<String> two = List.of("north", "gate");
+        awaitWatched("north", Shards.mine(cameras, "north", two));
+        awaitWatched("gate", Shards.mine(cameras, "gate", two));
+        assertTrue(System.nanoTime() - t0 >= TimeUnit.MILLISECONDS.toNanos(Membership.OFFLINE_GRACE_MILLIS),
+                "moved after the grace");
         assertEachCameraOnce("north", "gate");
         for (String c : southShare) {
             String to = Shards.owner(c, List.of("north", "gate"));
@@ -125,6 +144,7 @@ class MembershipTest {
     void anInstanceThatLostTheBrokerKeepsItsCamerasAndTakesNoOthers() throws Exception {
         subscribeAndSettle("north", "south", "gate");
         status("south", false, "north");
+        awaitWatched("north", Shards.mine(cameras, "north", List.of("north", "gate")));
         List<String> before = List.copyOf(watched.get("north"));
         assertTrue(before.size() > Shards.mine(cameras, "north", NAMES).size(), "north took some of south's");
 
@@ -136,10 +156,55 @@ class MembershipTest {
         assertEquals(before, watched.get("north"), "kept while the broker is away");
         assertEquals(before, members.get("north").watching());
 
-        // the broker is back: the retained statuses decide (gate offline, south back)
+        // the broker is back: the retained statuses decide (gate offline, south back); gate was online when the
+        // broker went, so it has the reconnect grace to show up before its cameras move
         members.get("north").status("south", true);
         subscribeAndSettle("north");
-        assertEquals(Shards.mine(cameras, "north", List.of("north", "south")), watched.get("north"));
+        assertEquals(Shards.mine(cameras, "north", List.of("north", "south", "gate")), watched.get("north"),
+                "south's cameras back to south; gate's stay with gate for the grace");
+        awaitWatched("north", Shards.mine(cameras, "north", List.of("north", "south")));
+    }
+
+    @Test
+    void theWillsABrokerSendsAsItShutsDownMoveNothing() throws Exception {
+        subscribeAndSettle("north", "south", "gate");
+        List<String> own = Shards.mine(cameras, "north", NAMES);
+        // a broker shutting down sends the others' wills, then closes this instance's connection
+        Membership north = members.get("north");
+        north.status("south", false);
+        north.status("gate", false);
+        north.lost();
+        north.drain();
+        TimeUnit.MILLISECONDS.sleep(Membership.OFFLINE_GRACE_MILLIS + 500); // longer than the grace
+        north.drain();
+        assertEquals(own, watched.get("north"), "nothing taken while the broker is away");
+        // back: the wills are retained; south and gate reconnect within the reconnect grace
+        north.status("south", false);
+        north.status("gate", false);
+        subscribeAndSettle("north");
+        status("gate", true, "north");
+        status("south", true, "north");
+        TimeUnit.MILLISECONDS.sleep((long) (RECONNECT_GRACE * 1000) + 500); // past the grace: nothing moved
+        north.drain();
+        assertEquals(own, watched.get("north"));
+        assertEquals(0, north.view().moves(), "no camera moved");
+    }
+
+    @Test
+    void anInstanceWhoseStatusIsNotRefreshedIsTakenForOffline() throws Exception {
+        // its will never comes (its broker node died with it): its retained online goes stale
+        subscribeAndSettle("north", "south", "gate");
+        long t0 = System.nanoTime();
+        for (int i = 0; i < 8; i++) {
+            status("gate", true, "north"); // gate refreshes, south does not
+            TimeUnit.MILLISECONDS.sleep(KEEP_ALIVE * 1000L);
+            if (watched.get("north").size() > Shards.mine(cameras, "north", NAMES).size()) {
+                break;
+            }
+        }
+        awaitWatched("north", Shards.mine(cameras, "north", List.of("north", "gate")));
+        double took = (System.nanoTime() - t0) / 1e9;
+        assertTrue(took >= Membership.SILENT_KEEP_ALIVES * KEEP_ALIVE - 0.5, "not before it is silent: " + took);
     }
 
     @Test
