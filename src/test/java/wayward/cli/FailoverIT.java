@@ -296,7 +296,35 @@ class FailoverIT {
             }
             assertEquals(expected, watcherOf());
 
-            // 3. the broker away for 60 s: nobody unwatched, nothing moved, everything delivered after
+            // 3. a host that stops answering (SIGSTOP: its connection stays open, silent): the broker fires its will
+            // after 1.5 keep-alives (MQTT 3.1.1 §3.1.2.10), the others take its cameras 2 s later
+            String frozen = "north";
+            List<String> frozenShare = Shards.mine(cameras, frozen, INSTANCES);
+            gapAndDouble.values().forEach(g -> {
+                g[0] = 0;
+                g[1] = 0;
+            });
+            long stoppedAt = System.nanoTime();
+            signal("STOP", running.get(frozen));
+            Map<String, String> withoutFrozen = new TreeMap<>();
+            cameras.forEach(c -> withoutFrozen.put(c, Shards.owner(c, List.of("south", "gate"))));
+            // the poller counts a frozen instance's cameras as unwatched: it answers nothing
+            await("the others watch the frozen instance's cameras", 60, () -> watcherOf().equals(withoutFrozen));
+            double frozenTakeover = (System.nanoTime() - stoppedAt) / 1e9;
+            Map<String, Double> frozenGaps = new TreeMap<>();
+            gapAndDouble.forEach((c, g) -> frozenGaps.put(c, Math.round(g[0] * 10) / 10.0));
+            System.out.printf("failover: %s frozen (SIGSTOP): its %d cameras watched again %.1f s later; seconds "
+                    + "unwatched per camera %s%n", frozen, frozenShare.size(), frozenTakeover, frozenGaps);
+            double bound = 1.5 * KEEP_ALIVE + 2 + 3; // will + the grace + a camera's start (README)
+            for (String c : frozenShare) {
+                assertTrue(frozenGaps.get(c) <= Math.min(bound, MAX_GAP_SECONDS), c + " unwatched " + frozenGaps);
+                assertTrue(frozenGaps.get(c) >= 1.5 * KEEP_ALIVE - 1, "not before its will: " + frozenGaps);
+            }
+            signal("CONT", running.get(frozen));
+            // it finds its connection gone, connects again, reads online, and gets its cameras back
+            await("the thawed instance's cameras back", 60, () -> watcherOf().equals(expected));
+
+            // 4. the broker away for 60 s: nobody unwatched, nothing moved, everything delivered after
             Map<String, Long> movesBefore = new TreeMap<>();
             for (String i : INSTANCES) {
                 movesBefore.put(i, instancesView(i).get("moves").asLong());
@@ -335,11 +363,14 @@ class FailoverIT {
                 }
             });
             Map<String, Integer> perKind = new LinkedHashMap<>();
+            Map<String, Integer> copies = new HashMap<>();
             for (JsonNode e : received(got)) {
                 perKind.merge(e.get("kind").asText() + "/" + e.get("phase").asText(), 1, Integer::sum);
+                copies.merge(e.get("id").asText() + "/" + e.get("phase").asText(), 1, Integer::sum);
             }
-            System.out.printf("failover: %d logged phases all at the broker; received by kind %s%n",
-                    logged(dir).size(), perKind);
+            long repeats = copies.values().stream().filter(n -> n > 1).count();
+            System.out.printf("failover: %d logged phases all at the broker; received by kind %s; phases received "
+                    + "more than once: %d%n", logged(dir).size(), perKind, repeats);
             TimeUnit.SECONDS.sleep(KEEP_ALIVE + 3 + 2); // past the reconnect grace: a late instance would have lost its cameras
             assertEquals(expected, watcherOf(), "after the outage each camera is still with its own instance");
             for (String i : INSTANCES) {
@@ -361,6 +392,12 @@ class FailoverIT {
             }
             broker.close();
         }
+    }
+
+    /** Sends a signal with kill(1) (procps): STOP freezes the process as a hung host would, CONT resumes it. */
+    private static void signal(String name, Process p) throws Exception {
+        assertEquals(0, new ProcessBuilder("kill", "-" + name, Long.toString(p.pid())).start().waitFor(),
+                "kill -" + name);
     }
 
     /** "id/phase" of every event phase in the instances' event logs. */

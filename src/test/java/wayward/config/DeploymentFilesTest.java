@@ -251,7 +251,7 @@ class DeploymentFilesTest {
                 fail("ConfigMap's TOML for pod " + pod + ": " + e.errors());
                 return;
             }
-            assertEquals(new ShardConfig(pod, podNames()), c.shard(), "pod " + pod + ": its share");
+            assertEquals(new ShardConfig(pod, podNames(), true), c.shard(), "pod " + pod + ": its share, membership through the broker");
             assertEquals(Path.of(dataMount, pod), c.dataDir(), "pod " + pod + ": data folder against the mount "
                     + dataMount + " and its name");
             assertEquals("0.0.0.0:" + containerPort(container.at("/ports/0/name")),
@@ -262,7 +262,9 @@ class DeploymentFilesTest {
             // MQTT 3.1.1 §3.1.3.1: 1 to 23 characters every broker accepts; ours is cut to fit, which must not
             // cut off the pod's name (the status topic names the pod by it)
             assertEquals(clientId + "-" + pod, c.mqtt().clientId(), "pod " + pod + ": MQTT client id");
-            double noticeSeconds = c.mqtt().keepAliveSeconds() * 1.5;
+            // the will, then the grace the others give an offline status (wayward.service.Membership)
+            double noticeSeconds = c.mqtt().keepAliveSeconds() * 1.5
+                    + wayward.service.Membership.OFFLINE_GRACE_MILLIS / 1000.0;
             // MQTT 3.1.1 §3.1.2.10: the broker drops a client silent for 1.5 × its keep-alive (its will fires)
             assertTrue(noticeSeconds + CAMERA_START_SECONDS < TAKE_OVER_TARGET_SECONDS, "keep_alive_seconds "
                     + c.mqtt().keepAliveSeconds() + ": a dead pod's cameras wait " + noticeSeconds + " s + the"
