@@ -30,6 +30,10 @@ final class CheckCommand extends Command {
             out.println("# instance " + c.shard().instance() + " of " + String.join(", ", c.shard().instances())
                     + " watches: " + String.join(", ", wayward.service.Shards.mine(ids, c.shard().instance(),
                     c.shard().instances())));
+            if (c.shard().viaBroker()) {
+                out.println("# membership broker: that is while all are online; when one goes offline the others take "
+                        + "its cameras, and hand them back when it returns");
+            }
         }
         // which stream of a two-stream camera does what
         for (CameraConfig cam : c.cameras()) {
