@@ -11,7 +11,7 @@ import wayward.delivery.RecentEvents;
  * A running service as the status server sees it: the cameras, recent events and evidence folder given, no
  * outbox; with no cameras by default.
  */
-final class EmptySite implements StatusSource {
+class EmptySite implements StatusSource {
     private final List<CameraStatus> cameras;
     private final RecentEvents recent;
     private final Path evidence;

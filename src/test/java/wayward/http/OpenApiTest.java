@@ -320,4 +320,52 @@ class OpenApiTest {
                     "an event record without its camera fails (the event record's schema is applied)");
         }
     }
+
+    @Test
+    @Timeout(60)
+    void instancesSharingTheConfigAreDescribedAndCounted() throws Exception {
+        Site site = site();
+        Instances in = new Instances("north", "broker", true, List.of(
+                new Instances.Peer("north", true, null),
+                new Instances.Peer("south", false, java.time.Instant.parse("2026-12-03T08:00:00Z")),
+                new Instances.Peer("gate", true, java.time.Instant.parse("2026-12-03T07:00:00Z"))),
+                List.of(new Instances.Assignment("yard-mast-2", "north",
+                        "its share of the instances online; south, whose share it is, is offline")), 3);
+        StatusSource withInstances = new EmptySite(site.cameras(), site.recent(), dir) {
+            @Override
+            public Instances instances() {
+                return in;
+            }
+        };
+        HttpClient client = HttpClient.newHttpClient();
+        try (StatusServer server = StatusServer.start(new HttpConfig("127.0.0.1", 0, null, null, 10),
+                withInstances)) {
+            Answer cameras = get(client, server.port(), "/api/cameras");
+            assertEquals(List.of(), problems("/api/cameras", cameras), cameras.body());
+            JsonNode shown = JSON.readTree(cameras.body()).get("instances");
+            assertEquals("north", shown.get("cameras").get(0).get("instance").asText());
+            assertFalse(shown.get("instances").get(1).get("online").asBoolean());
+            ObjectNode wrong = (ObjectNode) JSON.readTree(cameras.body());
+            ((ObjectNode) wrong.get("instances")).put("membership", "gossip");
+            assertFalse(responseSchema("/api/cameras", 200).validate(wrong).isEmpty(), "a membership outside the pair");
+
+            String metrics = MetricsText.of(withInstances);
+            // the Prometheus text exposition format 0.0.4: one sample per line, labels quoted
+            assertTrue(metrics.contains("wayward_instance_online{instance=\"south\"} 0\n"), metrics);
+            assertTrue(metrics.contains("wayward_instance_online{instance=\"gate\"} 1\n"), metrics);
+            assertTrue(metrics.contains("wayward_camera_instance{camera=\"yard-mast-2\",instance=\"north\"} 1\n"),
+                    metrics);
+            assertTrue(metrics.contains("wayward_camera_moves_total 3\n"), metrics);
+            assertTrue(metrics.contains("wayward_membership_broker_connected 1\n"), metrics);
+            if (Files.isExecutable(Path.of("/usr/bin/promtool"))) {
+                // promtool (Prometheus, Debian) lints names, HELP and TYPE; CI installs it
+                Process p = new ProcessBuilder("promtool", "check", "metrics").redirectErrorStream(true).start();
+                p.getOutputStream().write(metrics.getBytes(StandardCharsets.UTF_8));
+                p.getOutputStream().close();
+                String said = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
+                assertEquals(0, p.waitFor(), said);
+                assertEquals("", said.strip(), "promtool found nothing to say");
+            }
+        }
+    }
 }
