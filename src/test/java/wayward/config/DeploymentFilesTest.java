@@ -34,13 +34,10 @@ import org.junit.jupiter.api.io.TempDir;
 import org.tomlj.Toml;
 import org.tomlj.TomlParseResult;
 import org.w3c.dom.NodeList;
-import wayward.analysis.CameraStatus;
-import wayward.delivery.EventBus;
-import wayward.delivery.Outbox;
 import wayward.delivery.RecentEvents;
+import wayward.http.EmptySite;
 import wayward.http.HttpConfig;
 import wayward.http.StatusServer;
-import wayward.http.StatusSource;
 
 /**
  * The deployment files held against the service's own code: the Kubernetes example
@@ -184,7 +181,7 @@ class DeploymentFilesTest {
         HttpConfig loopback = new HttpConfig("127.0.0.1", 0, dir.resolve("token").toString(), token,
                 HttpConfig.DEFAULT_MAX_CONNECTIONS);
         HttpClient client = HttpClient.newBuilder().connectTimeout(REQUEST_TIMEOUT).build();
-        try (StatusServer server = StatusServer.start(loopback, new NoCameras(dir))) {
+        try (StatusServer server = StatusServer.start(loopback, new EmptySite(new RecentEvents(10)))) {
             for (JsonNode probe : List.of(liveness, readiness)) {
                 assertTrue(probe.path("scheme").asText("HTTP").equals("HTTP"), "probe scheme: " + probe);
                 String path = probe.path("path").asText();
@@ -563,42 +560,6 @@ class DeploymentFilesTest {
         for (Map.Entry<String, JsonNode> e : selector.properties()) {
             assertEquals(e.getValue().asText(), labels.path(e.getKey()).asText(null),
                     what + " " + e.getKey() + " against the pod template's labels");
-        }
-    }
-
-    /** A started service with no cameras, no outbox and nothing pending: ready, as a pod after its start. */
-    private static final class NoCameras implements StatusSource {
-        private final EventBus bus = new EventBus();
-        private final RecentEvents recent = new RecentEvents(10);
-        private final Path evidence;
-
-        NoCameras(Path dir) {
-            this.evidence = dir.resolve("evidence");
-        }
-
-        @Override
-        public List<CameraStatus> cameraStatus() {
-            return List.of();
-        }
-
-        @Override
-        public EventBus bus() {
-            return bus;
-        }
-
-        @Override
-        public Outbox outbox() {
-            return null;
-        }
-
-        @Override
-        public RecentEvents recentEvents() {
-            return recent;
-        }
-
-        @Override
-        public Path evidenceDir() {
-            return evidence;
         }
     }
 }

@@ -11,12 +11,12 @@ import wayward.delivery.RecentEvents;
  * A running service as the status server sees it: the cameras, recent events and evidence folder given, no
  * outbox; with no cameras by default.
  */
-class EmptySite implements StatusSource {
+public class EmptySite implements StatusSource {
     private final List<CameraStatus> cameras;
     private final RecentEvents recent;
     private final Path evidence;
 
-    EmptySite(RecentEvents recent) {
+    public EmptySite(RecentEvents recent) {
         this(List.of(), recent, Path.of("no-evidence"));
     }
 
