@@ -37,16 +37,37 @@ import java.time.Instant;
  *                        (JSON {@code evidence_stream}); null for a camera with one stream
  * @param handover        for {@code camera_reassigned}, which instance watched the camera and which watches it now;
  *                        null for other kinds
+ * @param control         for {@code zone_muted}, {@code camera_muted} and {@code zone_off_hours}: until when, by
+ *                        whom and why; null for other kinds
  */
 public record Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
         Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx, double durationSeconds,
-        String clip, String snapshot, Mover mover, String endedBy, String stream, Handover handover) {
+        String clip, String snapshot, Mover mover, String endedBy, String stream, Handover handover, Control control) {
     /** {@link #stream}: the camera's main stream, config key {@code source}. */
     public static final String SOURCE = "source";
     /** {@link #stream}: the camera's analysis stream, config key {@code analysis_source}. */
     public static final String ANALYSIS_SOURCE = "analysis_source";
     /** {@link #endedBy} of an event closed at a start because the service had stopped while it was open. */
     public static final String SERVICE_STOPPED = "service_stopped";
+    /** {@link #endedBy} of a mute that reached its end time by itself. */
+    public static final String EXPIRED = "expired";
+
+    /**
+     * An operator's or a schedule's control of a zone or camera: a mute, or the hours when a zone's rule applies.
+     *
+     * @param until  a mute's start: when it ends by itself; {@code zone_off_hours}: when the zone's hours begin
+     *               again (start) or end next (end); null when there is no such time
+     * @param by     who: the status server's token name or the MQTT client id; null for the schedule and for a
+     *               mute that expired
+     * @param reason why, in the operator's words or the schedule's (JSON {@code reason}); may be empty
+     */
+    public record Control(Instant until, String by, String reason) {
+        public Control {
+            if (reason == null) {
+                throw new IllegalArgumentException("control: reason is required (may be empty)");
+            }
+        }
+    }
 
     /**
      * The mover that went the wrong way, as followed by the zone's tracker (analysis pixels).
@@ -119,7 +140,26 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
             Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx,
             double durationSeconds, String clip, String snapshot, Mover mover, String endedBy, String stream) {
         this(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share, shiftPx,
-                durationSeconds, clip, snapshot, mover, endedBy, stream, null);
+                durationSeconds, clip, snapshot, mover, endedBy, stream, null, null);
+    }
+
+    /** An event phase of a camera moved between instances ({@link #handover}). */
+    public Event(String id, String camera, String zone, EventKind kind, Phase phase, double streamSeconds,
+            Instant at, double bearingDeg, double speedPxPerSecond, double share, double shiftPx,
+            double durationSeconds, String clip, String snapshot, Mover mover, String endedBy, String stream,
+            Handover handover) {
+        this(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share, shiftPx,
+                durationSeconds, clip, snapshot, mover, endedBy, stream, handover, null);
+    }
+
+    /**
+     * A phase of a mute or of a zone's hours ({@code zone_muted}, {@code camera_muted}, {@code zone_off_hours}):
+     * {@code zone} null for a camera's mute; {@code endedBy} {@link #EXPIRED} for a mute's end that came by itself.
+     */
+    public static Event control(String id, String camera, String zone, EventKind kind, Phase phase, Instant at,
+            double durationSeconds, String endedBy, Control control) {
+        return new Event(id, camera, zone, kind, phase, 0, at, Double.NaN, Double.NaN, Double.NaN, Double.NaN,
+                phase == Phase.END ? durationSeconds : Double.NaN, null, null, null, endedBy, null, null, control);
     }
 
     /** A phase of {@code camera_reassigned}: {@code camera} moved as {@code handover} says, at {@code at}. */
@@ -147,7 +187,7 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
     /** The end phase of this started event, closed at {@code now} because the service stopped while it was open. */
     public Event closedAtRestart(Instant now) {
         return new Event(id, camera, zone, kind, Phase.END, Double.NaN, now, Double.NaN, Double.NaN, Double.NaN,
-                Double.NaN, Double.NaN, null, null, null, SERVICE_STOPPED, stream, handover);
+                Double.NaN, Double.NaN, null, null, null, SERVICE_STOPPED, stream, handover, control);
     }
 
     /** An event phase with evidence files and no mover. */
@@ -168,13 +208,13 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
     /** The same phase naming its evidence files. */
     public Event withEvidence(String clipPath, String snapshotPath) {
         return new Event(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share,
-                shiftPx, durationSeconds, clipPath, snapshotPath, mover, endedBy, stream, handover);
+                shiftPx, durationSeconds, clipPath, snapshotPath, mover, endedBy, stream, handover, control);
     }
 
     /** The same phase naming the stream ({@link #SOURCE} or {@link #ANALYSIS_SOURCE}; null for none). */
     public Event withStream(String streamKey) {
         return new Event(id, camera, zone, kind, phase, streamSeconds, at, bearingDeg, speedPxPerSecond, share,
-                shiftPx, durationSeconds, clip, snapshot, mover, endedBy, streamKey, handover);
+                shiftPx, durationSeconds, clip, snapshot, mover, endedBy, streamKey, handover, control);
     }
 
     /** Start or end of an event. */
@@ -209,6 +249,17 @@ public record Event(String id, String camera, String zone, EventKind kind, Phase
         if (stream != null && !stream.equals(SOURCE) && !stream.equals(ANALYSIS_SOURCE)) {
             throw new IllegalArgumentException("event stream: " + stream + " (expected " + SOURCE + " or "
                     + ANALYSIS_SOURCE + ")");
+        }
+        boolean controlKind = kind == EventKind.ZONE_MUTED || kind == EventKind.CAMERA_MUTED
+                || kind == EventKind.ZONE_OFF_HOURS;
+        if (controlKind != (control != null)) {
+            throw new IllegalArgumentException("event " + kind.jsonName() + ": control " + control
+                    + " (expected one exactly for zone_muted, camera_muted and zone_off_hours)");
+        }
+        if (((kind == EventKind.ZONE_MUTED || kind == EventKind.ZONE_OFF_HOURS) && zone == null)
+                || (kind == EventKind.CAMERA_MUTED && zone != null)) {
+            throw new IllegalArgumentException("event " + kind.jsonName() + ": zone " + zone
+                    + " (expected one for zone_muted and zone_off_hours, none for camera_muted)");
         }
         if ((kind == EventKind.CAMERA_REASSIGNED) != (handover != null)) {
             throw new IllegalArgumentException("event " + kind.jsonName() + ": handover " + handover

@@ -82,6 +82,15 @@ public final class EventJson {
                 // one name, one meaning: the stream that dropped, or the stream the evidence came from
                 g.writeStringField(e.kind() == EventKind.CAMERA_LOST ? "stream" : "evidence_stream", e.stream());
             }
+            if (e.control() != null) {
+                if (e.control().until() != null) {
+                    g.writeStringField("until", DateTimeFormatter.ISO_INSTANT.format(e.control().until()));
+                }
+                if (e.control().by() != null) {
+                    g.writeStringField("by", e.control().by());
+                }
+                g.writeStringField("reason", e.control().reason());
+            }
             if (e.handover() != null) {
                 g.writeStringField("from_instance", e.handover().from());
                 g.writeStringField("to_instance", e.handover().to());
@@ -115,7 +124,7 @@ public final class EventJson {
      */
     public static Event parse(byte[] json) {
         String id = null, camera = null, zone = null, clip = null, snapshot = null, at = null, endedBy = null;
-        String streamKey = null, fromInstance = null, toInstance = null, reason = null;
+        String streamKey = null, fromInstance = null, toInstance = null, reason = null, until = null, by = null;
         String kindName = null;
         Event.Phase phase = null;
         double stream = Double.NaN, duration = Double.NaN;
@@ -168,6 +177,8 @@ public final class EventJson {
                     case "from_instance" -> fromInstance = p.getText();
                     case "to_instance" -> toInstance = p.getText();
                     case "reason" -> reason = p.getText();
+                    case "until" -> until = p.getText();
+                    case "by" -> by = p.getText();
                     case "mover_width_px" -> moverWidth = p.getIntValue();
                     case "mover_height_px" -> moverHeight = p.getIntValue();
                     case "mover_samples" -> moverSamples = p.getIntValue();
@@ -223,8 +234,11 @@ public final class EventJson {
                     : new Event.Mover(moverWidth, moverHeight, moverSamples, moverPath, moverSpeed, moverTravel);
             Event.Handover handover = kind != EventKind.CAMERA_REASSIGNED ? null
                     : new Event.Handover(fromInstance, toInstance, reason == null ? "" : reason);
+            Event.Control control = kind != EventKind.ZONE_MUTED && kind != EventKind.CAMERA_MUTED
+                    && kind != EventKind.ZONE_OFF_HOURS ? null
+                    : new Event.Control(until == null ? null : Instant.parse(until), by, reason == null ? "" : reason);
             return new Event(id, camera, zone, kind, phase, stream, Instant.parse(at), bearing, speed, share, shiftPx,
-                    duration, clip, snapshot, mover, endedBy, streamKey, handover);
+                    duration, clip, snapshot, mover, endedBy, streamKey, handover, control);
         } catch (java.time.format.DateTimeParseException e) {
             throw new IllegalArgumentException("\"at\" is not an ISO-8601 instant: " + at);
         }

@@ -24,7 +24,13 @@ public enum EventKind {
      * The camera moved from one instance to another among instances that share one config: its instance went
      * offline, or came back. A start and its end (same id) are sent together; the event names both instances.
      */
-    CAMERA_REASSIGNED("camera_reassigned");
+    CAMERA_REASSIGNED("camera_reassigned"),
+    /** An operator muted a zone (start, with its end time) and it ended: unmuted early, or expired (end). */
+    ZONE_MUTED("zone_muted"),
+    /** The same for a whole camera: none of its zones raises events meanwhile. */
+    CAMERA_MUTED("camera_muted"),
+    /** A zone's hours ended, so its rule raises nothing (start), and began again (end). */
+    ZONE_OFF_HOURS("zone_off_hours");
 
     private final String jsonName;
 

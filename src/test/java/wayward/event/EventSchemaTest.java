@@ -47,6 +47,17 @@ class EventSchemaTest {
                 end = Event.handover("id-" + k, "gate", Event.Phase.END, AT, h);
                 assertEquals(start, EventJson.parse(EventJson.toJson(start).getBytes(
                         java.nio.charset.StandardCharsets.UTF_8)), "read back as written");
+            } else if (k == EventKind.ZONE_MUTED || k == EventKind.CAMERA_MUTED || k == EventKind.ZONE_OFF_HOURS) {
+                String z = k == EventKind.CAMERA_MUTED ? null : "door";
+                boolean hours = k == EventKind.ZONE_OFF_HOURS;
+                start = Event.control("id-" + k, "gate", z, k, Event.Phase.START, AT, Double.NaN, null,
+                        new Event.Control(AT.plusSeconds(3600), hours ? null : "control-room", "sweeper in lane 2"));
+                end = Event.control("id-" + k, "gate", z, k, Event.Phase.END, AT.plusSeconds(600), 600,
+                        hours ? null : Event.EXPIRED, new Event.Control(null, null, ""));
+                assertEquals(start, EventJson.parse(EventJson.toJson(start).getBytes(
+                        java.nio.charset.StandardCharsets.UTF_8)), "read back as written");
+                assertEquals(end, EventJson.parse(EventJson.toJson(end).getBytes(
+                        java.nio.charset.StandardCharsets.UTF_8)), "read back as written");
             } else {
                 start = new Event("id-" + k, "gate", zone ? "door" : null, k, Event.Phase.START, 3.5, AT, bearing,
                         speed, share, shift, Double.NaN, null, null, null, null);
