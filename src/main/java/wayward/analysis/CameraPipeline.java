@@ -81,6 +81,12 @@ public final class CameraPipeline implements CameraStatus {
     /** @param evidence where clips, snapshots and sidecars go; null for none (replay) */
     public CameraPipeline(CameraConfig camera, FlowConfig flowConfig, Consumer<Event> events, Clock clock,
             boolean lossless, boolean realtime, int maxLoops, Evidence evidence) {
+        this(camera, flowConfig, events, clock, lossless, realtime, maxLoops, evidence, ZoneGate.OPEN);
+    }
+
+    /** @param gate whether each zone may raise events now (mutes, hours) */
+    public CameraPipeline(CameraConfig camera, FlowConfig flowConfig, Consumer<Event> events, Clock clock,
+            boolean lossless, boolean realtime, int maxLoops, Evidence evidence, ZoneGate gate) {
         this.camera = camera;
         this.flowConfig = flowConfig;
         this.events = events;
@@ -117,7 +123,7 @@ public final class CameraPipeline implements CameraStatus {
             analyse();
         }, "analysis-" + camera.id());
         for (ZoneConfig z : camera.zones()) {
-            channels.add(new ZoneChannel(camera, z, clock));
+            channels.add(new ZoneChannel(camera, z, clock, gate));
         }
         this.tamper = camera.tamperAlerts() ? new wayward.rule.TamperWatch(camera.id(), clock) : null;
         this.zoneFigures = new ZoneFigures(camera.zones().size());

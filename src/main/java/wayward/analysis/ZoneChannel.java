@@ -40,11 +40,15 @@ final class ZoneChannel {
     private String state = "idle";
     /** The movers the rule read in the last frame; null when no mover rule ran. */
     private Movers read;
+    private final ZoneGate gate;
+    /** The id of the event whose start the gate dropped: its end is dropped too. */
+    private String dropped;
 
-    ZoneChannel(CameraConfig camera, ZoneConfig zone, Clock clock) {
+    ZoneChannel(CameraConfig camera, ZoneConfig zone, Clock clock, ZoneGate gate) {
         this.camera = camera;
         this.zone = zone;
         this.clock = clock;
+        this.gate = gate;
         this.heading = zone.headingDeg();
         if (zone.learnsHeading()) {
             learner = new HeadingLearner(zone.learnHeadingSeconds());
@@ -121,6 +125,24 @@ final class ZoneChannel {
             e = shareRule.update(reading);
             state = shareRule.stateName();
         }
+        return gated(e);
+    }
+
+    /** The phase as the gate lets it through: a start while closed is dropped, and so is its end. */
+    private Event gated(Event e) {
+        if (e == null) {
+            return null;
+        }
+        if (e.phase() == Event.Phase.START && !gate.raises(camera.id(), zone.id(), e.at())) {
+            dropped = e.id();
+            LOG.info("camera {} zone {}: a {} starts while the zone raises no events (muted or off hours); not raised",
+                    camera.id(), zone.id(), e.kind().jsonName());
+            return null;
+        }
+        if (e.phase() == Event.Phase.END && e.id().equals(dropped)) {
+            dropped = null;
+            return null;
+        }
         return e;
     }
 
@@ -136,7 +158,7 @@ final class ZoneChannel {
 
     /** Closes an open event at the end of the stream; returns its end phase or null. */
     Event finish(double t) {
-        return shareRule != null ? shareRule.finish(t) : moverRule != null ? moverRule.finish(t) : null;
+        return gated(shareRule != null ? shareRule.finish(t) : moverRule != null ? moverRule.finish(t) : null);
     }
 
     /** A heading learned earlier (data_dir/learned): used at once. */
