@@ -81,6 +81,6 @@ public final class ConfigLoader {
             mqtt = DeliveryBinder.forInstance(mqtt, service.shard());
         }
         return new SiteConfig(file, service.dataDir(), flow, cameras, webhooks, clips, mqtt, outboxMaxBytes,
-                service.http(), service.shard());
+                service.http(), service.shard(), service.maxMute());
     }
 }

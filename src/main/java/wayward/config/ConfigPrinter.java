@@ -29,6 +29,7 @@ public final class ConfigPrinter {
         if (c.http() != null && c.http().tokenFile() != null) {
             b.append("token_file = ").append(quote(c.http().tokenFile())).append("   # the token itself is never printed\n");
         }
+        b.append("max_mute_hours = ").append(num(c.maxMute().toSeconds() / 3600.0)).append('\n');
         if (c.shard() != null) {
             b.append("instance = ").append(quote(c.shard().instance())).append('\n');
             b.append("instances = [");
@@ -96,6 +97,7 @@ public final class ConfigPrinter {
             }
             b.append("in_flight = ").append(m.inFlight()).append('\n');
             b.append("max_backoff_seconds = ").append(num(m.maxBackoffSeconds())).append('\n');
+            b.append("commands = ").append(m.commands()).append('\n');
         }
         b.append("\n[outbox]\nmax_mb = ").append(num(c.outboxMaxBytes() / (double) (1 << 20))).append('\n');
         return b.toString();

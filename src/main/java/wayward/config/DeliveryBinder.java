@@ -102,9 +102,10 @@ final class DeliveryBinder {
         String caFile = ReferencedFiles.caFile(s, base, tls);
         int inFlight = s.integer("in_flight", MqttConfig.DEFAULT_IN_FLIGHT, 1, 1000);
         double maxBackoff = s.number("max_backoff_seconds", MqttConfig.DEFAULT_MAX_BACKOFF_SECONDS, 1, 3600);
+        boolean commands = s.bool("commands", false);
         s.finish();
         return url == null ? null : new MqttConfig(url, prefix, clientId, username, passwordFile, password, keepAlive,
-                caFile, inFlight, maxBackoff, null);
+                caFile, inFlight, maxBackoff, null, commands);
     }
 
     /** {@code [outbox] max_mb} in bytes. */
@@ -126,7 +127,7 @@ final class DeliveryBinder {
         String id = (stem + suffix).substring(0, Math.min(MAX_CLIENT_ID, stem.length() + suffix.length()));
         return new MqttConfig(mqtt.url(), mqtt.topicPrefix(), id, mqtt.username(), mqtt.passwordFile(),
                 mqtt.password(), mqtt.keepAliveSeconds(), mqtt.caFile(), mqtt.inFlight(), mqtt.maxBackoffSeconds(),
-                shard.instance());
+                shard.instance(), mqtt.commands());
     }
 
     /** "wayward-" and this host's name, cut to what every broker accepts. */

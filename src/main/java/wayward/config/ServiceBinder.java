@@ -16,7 +16,7 @@ final class ServiceBinder {
     }
 
     /** What [service] settles: {@code http} is null when off, {@code shard} null when one instance watches all. */
-    record Service(Path dataDir, HttpConfig http, ShardConfig shard) {
+    record Service(Path dataDir, HttpConfig http, ShardConfig shard, java.time.Duration maxMute) {
     }
 
     static Service bind(TableReader top, ConfigErrors errors, Path base, Environment env) {
@@ -27,6 +27,7 @@ final class ServiceBinder {
         List<String> instances = new ArrayList<>();
         // membership through the broker needs one: without [mqtt] the fixed list is all there is
         boolean viaBroker = top.raw("mqtt") != null;
+        double muteHours = SiteConfig.DEFAULT_MAX_MUTE_HOURS;
         TableReader s = top.section("service");
         if (s != null) {
             String dir = s.string("data_dir", SiteConfig.DEFAULT_DATA_DIR, "a folder path");
@@ -41,6 +42,8 @@ final class ServiceBinder {
             }
             instances = instances(s);
             viaBroker = membership(s, viaBroker);
+            muteHours = s.number("max_mute_hours", SiteConfig.DEFAULT_MAX_MUTE_HOURS, SiteConfig.MIN_MAX_MUTE_HOURS,
+                    SiteConfig.MAX_MAX_MUTE_HOURS);
             s.finish();
         }
         String fromEnv = env.instances();
@@ -55,7 +58,8 @@ final class ServiceBinder {
             // instances on one host must not share an outbox or learned headings: a folder each
             dataDir = dataDir.resolve(shard.instance());
         }
-        return new Service(dataDir, httpFromEnv(errors, env.http(), http), shard);
+        return new Service(dataDir, httpFromEnv(errors, env.http(), http), shard,
+                java.time.Duration.ofSeconds(Math.round(muteHours * 3600)));
     }
 
     /** {@code http} ("host:port" or "off") and {@code token_file} of [service]; null when off. */

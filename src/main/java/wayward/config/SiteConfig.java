@@ -23,13 +23,20 @@ import wayward.http.HttpConfig;
  * @param outboxMaxBytes bound on the durable outbox's size on disk
  * @param http     the status server, or null when off
  * @param shard    this instance's share of the cameras, or null when one instance watches all
+ * @param maxMute  the longest an operator's mute may last ({@code [service] max_mute_hours})
  */
 public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
-        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http, ShardConfig shard) {
+        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http, ShardConfig shard,
+        java.time.Duration maxMute) {
     /** The data folder, beside the config file, when {@code data_dir} is not given. */
     public static final String DEFAULT_DATA_DIR = "data";
     /** The outbox's bound on disk, MB ({@code [outbox] max_mb}). */
     public static final double DEFAULT_OUTBOX_MB = 256;
+    /** The longest mute, hours ({@code [service] max_mute_hours}): a mute always ends by itself. */
+    public static final double DEFAULT_MAX_MUTE_HOURS = 12;
+    /** The bounds of {@code max_mute_hours}. */
+    public static final double MIN_MAX_MUTE_HOURS = 0.1;
+    public static final double MAX_MAX_MUTE_HOURS = 24 * 31;
 
     public SiteConfig {
         cameras = List.copyOf(cameras);

@@ -19,6 +19,9 @@ final class CameraStates {
         /** The open camera_lost of a two-stream camera's main stream ({@code source}): clips degrade, analysis goes on. */
         String sourceLostEvent;
         final EnumMap<EventKind, String> conditions = new EnumMap<>(EventKind.class);
+        /** The open camera_muted and when it ends by itself. */
+        String muteEvent;
+        java.time.Instant mutedUntil;
         long lastSeq = Long.MIN_VALUE;
     }
 
@@ -49,6 +52,14 @@ final class CameraStates {
                 } else if (e.id().equals(open.lostEvent)) {
                     open.lostEvent = null;
                 }
+            } else if (e.kind() == EventKind.CAMERA_MUTED) {
+                if (start) {
+                    open.muteEvent = e.id();
+                    open.mutedUntil = e.control().until();
+                } else if (e.id().equals(open.muteEvent)) {
+                    open.muteEvent = null;
+                    open.mutedUntil = null;
+                }
             } else if (e.kind() == EventKind.CAMERA_REASSIGNED) {
                 // which instance watches is no condition of the camera: the state stays as it was
                 open.lastSeq = seq;
@@ -59,6 +70,6 @@ final class CameraStates {
             }
         }
         return MqttTopics.cameraStatePayload(e, open.lostEvent != null, open.sourceLostEvent != null,
-                open.conditions.keySet());
+                open.conditions.keySet(), open.mutedUntil);
     }
 }

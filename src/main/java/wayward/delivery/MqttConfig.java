@@ -16,10 +16,12 @@ import wayward.secret.Urls;
  * @param inFlight          event phases published and not yet acknowledged at most
  * @param maxBackoffSeconds longest wait between reconnect attempts
  * @param instance          this instance's name when several share the config (its status then says so), or null
+ * @param commands          read operators' mute and unmute commands below {@code <prefix>/command/} (only with a
+ *                          broker whose ACL lets each operator write only below its own name)
  */
 public record MqttConfig(String url, String topicPrefix, String clientId, String username, String passwordFile,
         byte[] password, int keepAliveSeconds, String caFile, int inFlight, double maxBackoffSeconds,
-        String instance) {
+        String instance, boolean commands) {
     public static final String DEFAULT_TOPIC_PREFIX = "wayward";
     /**
      * MQTT keep-alive. The broker fires the will of a client silent for 1.5 of it (MQTT 3.1.1 §3.1.2.10), so with
@@ -35,19 +37,19 @@ public record MqttConfig(String url, String topicPrefix, String clientId, String
     /** Defaults for everything but the broker address (tests). */
     public static MqttConfig of(String url, String topicPrefix, String clientId) {
         return new MqttConfig(url, topicPrefix, clientId, null, null, null, DEFAULT_KEEP_ALIVE_SECONDS, null, 16, 30,
-                null);
+                null, false);
     }
 
     /** The same settings with a login. */
     public MqttConfig withLogin(String user, byte[] secret) {
         return new MqttConfig(url, topicPrefix, clientId, user, passwordFile, secret, keepAliveSeconds, caFile,
-                inFlight, maxBackoffSeconds, instance);
+                inFlight, maxBackoffSeconds, instance, commands);
     }
 
     /** The same settings trusting the CA certificates in {@code file}. */
     public MqttConfig withCaFile(String file) {
         return new MqttConfig(url, topicPrefix, clientId, username, passwordFile, password, keepAliveSeconds, file,
-                inFlight, maxBackoffSeconds, instance);
+                inFlight, maxBackoffSeconds, instance, commands);
     }
 
     @Override

@@ -50,10 +50,9 @@ final class MqttPackets {
                 new MqttPublishVariableHeader(topic, packetId), Unpooled.wrappedBuffer(payload));
     }
 
-    /** SUBSCRIBE to one topic filter at QoS 0: a status missed while disconnected is read again as retained. */
-    static MqttSubscribeMessage subscribe(int packetId, String filter) {
-        return MqttMessageBuilders.subscribe().messageId(packetId).addSubscription(MqttQoS.AT_MOST_ONCE, filter)
-                .build();
+    /** SUBSCRIBE to one topic filter at the QoS given. */
+    static MqttSubscribeMessage subscribe(int packetId, String filter, MqttQoS qos) {
+        return MqttMessageBuilders.subscribe().messageId(packetId).addSubscription(qos, filter).build();
     }
 
     /** PUBACK of a QoS 1 publish received (MQTT 3.1.1 §3.4). */

@@ -65,6 +65,11 @@ public final class MqttPublisher implements Destination {
     private final CameraStates cameraStates = new CameraStates();
     /** Told of the other instances' statuses, or null when this instance watches alone. */
     private final PeerWatch peers;
+    /** Told of operators' commands, or null when they are not read. */
+    private final CommandWatch commands;
+    // packet identifiers of the SUBSCRIBEs in flight (event loop only)
+    private int statusSubscription;
+    private int commandSubscription;
 
     // confined to the event loop thread
     private final MqttInFlight inFlight = new MqttInFlight();
@@ -95,8 +100,15 @@ public final class MqttPublisher implements Destination {
      * instances' (see {@link PeerWatch}); null peers: publish only.
      */
     public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq, PeerWatch peers) {
+        this(config, zones, runStartSeq, peers, null);
+    }
+
+    /** ... and reads operators' commands below {@code <prefix>/command/} when {@code commands} is not null. */
+    public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq, PeerWatch peers,
+            CommandWatch commands) {
         this.config = config;
         this.peers = peers;
+        this.commands = commands;
         this.shownUrl = Urls.mask(config.url());
         URI uri = URI.create(config.url());
         boolean tls = "mqtts".equalsIgnoreCase(uri.getScheme());
@@ -298,9 +310,15 @@ public final class MqttPublisher implements Destination {
                 write(en.getKey(), en.getValue());
             }
             publish(statusTopic, statusPayload("online"), true);
+            if (commands != null) {
+                commandSubscription = inFlight.otherId();
+                ctx.writeAndFlush(MqttPackets.subscribe(commandSubscription,
+                        MqttTopics.commandFilter(config.topicPrefix()), MqttQoS.AT_LEAST_ONCE));
+            }
             if (peers != null) {
-                ctx.writeAndFlush(MqttPackets.subscribe(inFlight.otherId(),
-                        MqttTopics.statusFilter(config.topicPrefix())));
+                statusSubscription = inFlight.otherId();
+                ctx.writeAndFlush(MqttPackets.subscribe(statusSubscription,
+                        MqttTopics.statusFilter(config.topicPrefix()), MqttQoS.AT_MOST_ONCE));
                 int every = config.keepAliveSeconds();
                 refresh = loop.scheduleWithFixedDelay(() -> {
                     if (connected && !closing) {
@@ -311,11 +329,23 @@ public final class MqttPublisher implements Destination {
         }
 
         private void subAck(MqttSubAckMessage m) {
-            if (peers == null) {
+            // MQTT 3.1.1 §3.9.3: 0x80 is a refusal (typically the broker's ACL)
+            boolean refused = m.payload().grantedQoSLevels().stream().anyMatch(q -> q >= 0x80);
+            int id = m.variableHeader().messageId();
+            if (commands != null && id == commandSubscription) {
+                if (refused) {
+                    LOG.warn("{}: the broker refused the subscription to {} (check its ACL): operators' MQTT commands "
+                            + "are not read", name(), MqttTopics.commandFilter(config.topicPrefix()));
+                } else {
+                    LOG.info("{}: reading operators' commands on {}", name(),
+                            MqttTopics.commandFilter(config.topicPrefix()));
+                }
                 return;
             }
-            // MQTT 3.1.1 §3.9.3: 0x80 is a refusal (typically the broker's ACL)
-            if (m.payload().grantedQoSLevels().stream().anyMatch(q -> q >= 0x80)) {
+            if (peers == null || id != statusSubscription) {
+                return;
+            }
+            if (refused) {
                 LOG.warn("{}: the broker refused the subscription to {} (check its ACL): the other instances "
                         + "cannot be seen, so this one keeps the cameras it watches", name(),
                         MqttTopics.statusFilter(config.topicPrefix()));
@@ -325,16 +355,24 @@ public final class MqttPublisher implements Destination {
             peers.subscribed();
         }
 
-        /** A status of some client (the only subscription): the instance it names is online or offline. */
+        /** A command, or a status of some client: the instance it names is online or offline. */
         private void received(ChannelHandlerContext ctx, MqttPublishMessage m) {
             if (m.fixedHeader().qosLevel() == MqttQoS.AT_LEAST_ONCE) {
                 ctx.writeAndFlush(MqttPackets.pubAck(m.variableHeader().packetId()));
             }
+            byte[] body = new byte[m.payload().readableBytes()];
+            m.payload().getBytes(m.payload().readerIndex(), body);
+            String topic = m.variableHeader().topicName();
+            String[] command = MqttTopics.command(config.topicPrefix(), topic);
+            if (command != null) {
+                if (commands != null) {
+                    commands.command(command[0], command[1], body);
+                }
+                return;
+            }
             if (peers == null || !subscribed) {
                 return;
             }
-            byte[] body = new byte[m.payload().readableBytes()];
-            m.payload().getBytes(m.payload().readerIndex(), body);
             MqttTopics.PeerStatus st = MqttTopics.parseStatus(body);
             if (st == null) {
                 LOG.debug("{}: ignoring a status on {} that names no instance", name(), m.variableHeader().topicName());

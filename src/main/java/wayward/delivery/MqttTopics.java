@@ -19,8 +19,10 @@ import wayward.event.EventKind;
 public final class MqttTopics {
     /** The level under the prefix that holds the service status; no camera may have it as its id. */
     public static final String STATUS_LEVEL = "status";
+    /** The level under the prefix that holds the operators' commands; no camera may have it as its id. */
+    public static final String COMMAND_LEVEL = "command";
     /** Camera ids that would make a camera's topics collide with a fixed topic. */
-    public static final Set<String> RESERVED_CAMERA_IDS = Set.of(STATUS_LEVEL);
+    public static final Set<String> RESERVED_CAMERA_IDS = Set.of(STATUS_LEVEL, COMMAND_LEVEL);
 
     private MqttTopics() {
     }
@@ -49,11 +51,22 @@ public final class MqttTopics {
         if (e.zone() == null) {
             throw new IllegalArgumentException("event " + e.id() + ": no zone (expected a zone's phase)");
         }
-        String state = e.phase() == Event.Phase.START ? "alert" : "clear";
+        boolean start = e.phase() == Event.Phase.START;
+        String state = !start ? "clear" : e.kind() == EventKind.ZONE_MUTED ? "muted"
+                : e.kind() == EventKind.ZONE_OFF_HOURS ? "off_hours" : "alert";
         return json(g -> {
             g.writeStringField("state", state);
             g.writeStringField("event", e.id());
             g.writeStringField("kind", e.kind().jsonName());
+            if (start && e.control() != null) {
+                if (e.control().until() != null) {
+                    g.writeStringField("until", DateTimeFormatter.ISO_INSTANT.format(e.control().until()));
+                }
+                if (e.control().by() != null) {
+                    g.writeStringField("by", e.control().by());
+                }
+                g.writeStringField("reason", e.control().reason());
+            }
             g.writeStringField("at", DateTimeFormatter.ISO_INSTANT.format(e.at()));
         });
     }
@@ -73,10 +86,19 @@ public final class MqttTopics {
      *                   {@code "source_lost": true}, left out otherwise
      */
     static byte[] cameraStatePayload(Event e, boolean lost, boolean sourceLost, Collection<EventKind> conditions) {
+        return cameraStatePayload(e, lost, sourceLost, conditions, null);
+    }
+
+    /** @param mutedUntil while the whole camera is muted, when that ends; null otherwise */
+    static byte[] cameraStatePayload(Event e, boolean lost, boolean sourceLost, Collection<EventKind> conditions,
+            Instant mutedUntil) {
         return json(g -> {
             g.writeStringField("state", lost ? "lost" : "watching");
             if (sourceLost) {
                 g.writeBooleanField("source_lost", true);
+            }
+            if (mutedUntil != null) {
+                g.writeStringField("muted_until", DateTimeFormatter.ISO_INSTANT.format(mutedUntil));
             }
             g.writeArrayFieldStart("conditions");
             for (EventKind k : conditions) {
@@ -115,6 +137,21 @@ public final class MqttTopics {
                 g.writeStringField("at", now());
             }
         });
+    }
+
+    /** Every operator's commands: {@code <prefix>/command/<user>/<verb>}. */
+    static String commandFilter(String prefix) {
+        return prefix + "/" + COMMAND_LEVEL + "/+/+";
+    }
+
+    /** {@code [user, verb]} of a command topic below {@code prefix}, or null for another topic. */
+    static String[] command(String prefix, String topic) {
+        String head = prefix + "/" + COMMAND_LEVEL + "/";
+        if (!topic.startsWith(head)) {
+            return null;
+        }
+        String[] rest = topic.substring(head.length()).split("/", -1);
+        return rest.length == 2 && !rest[0].isEmpty() && !rest[1].isEmpty() ? rest : null;
     }
 
     /** What another instance's status says: its name and whether it is online. */

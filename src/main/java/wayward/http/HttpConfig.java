@@ -23,6 +23,19 @@ public record HttpConfig(String host, int port, String tokenFile, byte[] token, 
     public static final int DEFAULT_PORT = 7431;
     public static final String DEFAULT_ADDRESS = DEFAULT_HOST + ":" + DEFAULT_PORT;
 
+    /**
+     * The token's name, which events record as who muted or unmuted: its file's name without the extension
+     * ({@code /etc/wayward/control-room.token} → {@code control-room}); null without a token.
+     */
+    public String tokenName() {
+        if (tokenFile == null) {
+            return null;
+        }
+        String name = java.nio.file.Path.of(tokenFile).getFileName().toString();
+        int dot = name.indexOf('.');
+        return dot > 0 ? name.substring(0, dot) : name;
+    }
+
     /** True when the address is a loopback address, where a token is optional. */
     public boolean loopback() {
         return host.equals("localhost") || host.startsWith("127.") || host.equals("::1") || host.equals("[::1]");

@@ -26,6 +26,7 @@ final class MetricsText {
         MetricsText m = new MetricsText();
         m.cameras(service.cameraStatus());
         m.instances(service.instances());
+        m.mutes(service.cameraStatus(), service.muteControl());
         m.delivery(service.bus(), service.outbox());
         m.process();
         return m.b.toString();
@@ -102,6 +103,20 @@ final class MetricsText {
                 sample(name, v.of(p, z), "camera", p.id(), "zone", zones.get(z).id());
             }
         }
+    }
+
+    /** 1 for each camera and zone muted now, 0 for the others. */
+    private void mutes(List<CameraStatus> ps, MuteControl control) {
+        if (control == null) {
+            return;
+        }
+        List<MuteState> muted = control.mutes();
+        perCamera(ps, "wayward_camera_muted", "gauge", "1 while the whole camera is muted (its zones raise no "
+                + "events), 0 otherwise.", p -> muted.stream().anyMatch(s -> s.camera().equals(p.id())
+                && s.zone() == null) ? 1 : 0);
+        perZone(ps, "wayward_zone_muted", "gauge", "1 while the zone is muted (its own mute, not its camera's), 0 "
+                + "otherwise.", (p, z) -> muted.stream().anyMatch(s -> s.camera().equals(p.id())
+                && p.config().zones().get(z).id().equals(s.zone())) ? 1 : 0);
     }
 
     /** Instances sharing the config: who is online, who watches what, how often cameras moved. */

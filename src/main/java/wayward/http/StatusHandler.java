@@ -37,12 +37,13 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
     private static final ErrorLines ERRORS = new ErrorLines(LOG);
 
     /** What all connections share. */
-    record Shared(StatusSource service, byte[] token) {
+    record Shared(StatusSource service, byte[] token, String tokenName) {
     }
 
     private final Shared shared;
     private final Views views;
     private final EvidenceFiles evidence;
+    private final MuteRequests mutes;
 
     StatusHandler(Shared shared) {
         this(shared, new EvidenceFiles(() -> shared.service().evidenceDir()));
@@ -51,6 +52,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
     StatusHandler(Shared shared, EvidenceFiles evidence) {
         this.shared = shared;
         this.views = new Views(shared.service());
+        this.mutes = new MuteRequests(shared.service(), java.time.Clock.systemUTC());
         this.evidence = evidence;
     }
 
@@ -66,6 +68,10 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
             } else {
                 text(ctx, req, HttpResponseStatus.BAD_REQUEST, "malformed request\n", true);
             }
+            return;
+        }
+        if (req.method().equals(HttpMethod.POST)) {
+            post(ctx, req);
             return;
         }
         if (!req.method().equals(HttpMethod.GET) && !req.method().equals(HttpMethod.HEAD)) {
@@ -122,6 +128,7 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
             case "/api/cameras" -> views.cameras(ctx, req);
             case "/api/events" -> views.events(ctx, req, q);
             case "/api/evidence" -> evidence.list(ctx, req, q);
+            case "/api/mutes" -> mutes.list(ctx, req);
             default -> {
                 if (path.startsWith("/view/")) {
                     views.view(ctx, req, path.substring("/view/".length()));
@@ -135,6 +142,40 @@ final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
                     text(ctx, req, HttpResponseStatus.NOT_FOUND, "no such page: " + LogText.clean(path) + "\n", false);
                 }
             }
+        }
+    }
+
+    /**
+     * POST: only {@code /api/mutes} and {@code /api/mutes/end}, and only with the bearer token in the Authorization
+     * header, even on loopback (a change of state needs a name to record; a page's address cannot carry it).
+     */
+    private void post(ChannelHandlerContext ctx, FullHttpRequest req) {
+        String path = new QueryStringDecoder(req.uri()).rawPath();
+        if (!path.equals("/api/mutes") && !path.equals("/api/mutes/end")) {
+            FullHttpResponse r = response(HttpResponseStatus.METHOD_NOT_ALLOWED, "only GET and HEAD here; POST only "
+                    + "to /api/mutes and /api/mutes/end\n", "text/plain");
+            r.headers().set(HttpHeaderNames.ALLOW, "GET, HEAD");
+            send(ctx, req, r);
+            return;
+        }
+        String h = req.headers().get(HttpHeaderNames.AUTHORIZATION);
+        String given = h != null && h.regionMatches(true, 0, "Bearer ", 0, 7) ? h.substring(7).trim() : null;
+        if (shared.token() == null || given == null
+                || !MessageDigest.isEqual(given.getBytes(StandardCharsets.UTF_8), shared.token())) {
+            FullHttpResponse r = response(HttpResponseStatus.UNAUTHORIZED, shared.token() == null
+                    ? "muting needs a bearer token: set [service] token_file, and send it as Authorization: Bearer …\n"
+                    : "a bearer token is required in the Authorization header (Authorization: Bearer …)\n",
+                    "text/plain");
+            r.headers().set(HttpHeaderNames.WWW_AUTHENTICATE, "Bearer realm=\"wayward\"");
+            send(ctx, req, r);
+            return;
+        }
+        try {
+            mutes.change(ctx, req, path.equals("/api/mutes"), shared.tokenName());
+        } catch (RuntimeException e) {
+            ERRORS.error("status server: POST " + LogText.clean(path) + " failed: " + LogText.clean(e.toString()),
+                    System.nanoTime());
+            text(ctx, req, HttpResponseStatus.INTERNAL_SERVER_ERROR, "internal error\n", true);
         }
     }
 

@@ -55,7 +55,7 @@ public final class StatusServer implements AutoCloseable {
     static StatusServer start(HttpConfig config, StatusSource service, int headerSeconds) throws IOException {
         EventLoopGroup group = new MultiThreadIoEventLoopGroup(1, new DefaultThreadFactory("http", true),
                 NioIoHandler.newFactory());
-        StatusHandler.Shared shared = new StatusHandler.Shared(service, config.token());
+        StatusHandler.Shared shared = new StatusHandler.Shared(service, config.token(), config.tokenName());
         ConnectionLimits.Cap cap = new ConnectionLimits.Cap(config.maxConnections());
         // answers (a clip listing over a large folder, JPEG encoding) run off the socket thread, so that a slow one
         // never holds up /health or the other connections' reads and writes

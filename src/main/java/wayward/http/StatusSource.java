@@ -30,6 +30,11 @@ public interface StatusSource {
         return null;
     }
 
+    /** Mutes of zones and cameras: read by the views, changed by POST; null when the service has none (tests). */
+    default MuteControl muteControl() {
+        return null;
+    }
+
     /** The evidence folder: clips, snapshots and their JSON (may change with a reload). */
     Path evidenceDir();
 }

@@ -106,10 +106,13 @@ final class Views {
     }
 
     private void writeCameras(JsonGenerator g) throws IOException {
+        MuteControl control = service.muteControl();
+        List<MuteState> muted = control == null ? List.of() : control.mutes();
         g.writeArrayFieldStart("cameras");
         for (CameraStatus p : service.cameraStatus()) {
             g.writeStartObject();
             g.writeStringField("id", p.id());
+            mute(g, muted, p.id(), null);
             g.writeStringField("source", Urls.mask(p.config().source()));
             g.writeStringField("state", state(p));
             g.writeNumberField("frames_in", p.framesIn());
@@ -146,6 +149,7 @@ final class Views {
                 ZoneConfig zc = zones.get(z);
                 g.writeStartObject();
                 g.writeStringField("id", zc.id());
+                mute(g, muted, p.id(), zc.id());
                 g.writeArrayFieldStart("polygon");
                 double[] xs = zc.xs();
                 double[] ys = zc.ys();
@@ -174,6 +178,17 @@ final class Views {
         Instances in = service.instances();
         if (in != null) {
             writeInstances(g, in);
+        }
+    }
+
+    /** {@code "muted": {...}} when the camera (zone null) or the zone is muted. */
+    private static void mute(JsonGenerator g, List<MuteState> muted, String camera, String zone) throws IOException {
+        for (MuteState s : muted) {
+            if (s.camera().equals(camera) && java.util.Objects.equals(s.zone(), zone)) {
+                g.writeFieldName("muted");
+                MuteRequests.state(g, s);
+                return;
+            }
         }
     }
 

@@ -35,7 +35,10 @@ import wayward.http.Instances;
  */
 public final class Membership implements PeerWatch, AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Membership.class);
-    /** After the subscription, how long the retained statuses have to arrive before they are acted on. */
+    /**
+     * After a re-subscription, how long the retained statuses have to arrive before they are acted on; after the
+     * first one, a keep-alive (at least this).
+     */
     public static final long SETTLE_MILLIS = 1000;
     /**
      * Each instance refreshes its online status once a keep-alive; one not heard for this many keep-alives is taken
@@ -67,6 +70,7 @@ public final class Membership implements PeerWatch, AutoCloseable {
     private final ScheduledExecutorService thread;
     private final long silentNanos;
     private final long reconnectGraceNanos;
+    private final long firstSettleMillis;
 
     /** What this instance knows of another. Confined to the membership thread. */
     private static final class Peer {
@@ -123,6 +127,7 @@ public final class Membership implements PeerWatch, AutoCloseable {
         }
         this.owners = owners(this.instances);
         this.silentNanos = TimeUnit.SECONDS.toNanos((long) SILENT_KEEP_ALIVES * keepAliveSeconds);
+        this.firstSettleMillis = Math.max(SETTLE_MILLIS, TimeUnit.SECONDS.toMillis(keepAliveSeconds));
         this.reconnectGraceNanos = (long) (reconnectGraceSeconds * 1e9);
         this.thread = Executors.newSingleThreadScheduledExecutor(r -> {
             Thread t = new Thread(r, "membership");
@@ -154,7 +159,9 @@ public final class Membership implements PeerWatch, AutoCloseable {
         thread.execute(() -> {
             subscribed = true;
             long g = ++generation;
-            thread.schedule(() -> settle(g), SETTLE_MILLIS, TimeUnit.MILLISECONDS);
+            // the first time, a keep-alive: instances started together (a site's power coming back, a rollout)
+            // find the broker within it, and none takes the others' cameras only to hand them back
+            thread.schedule(() -> settle(g), everSettled ? SETTLE_MILLIS : firstSettleMillis, TimeUnit.MILLISECONDS);
         });
     }
 

@@ -72,6 +72,8 @@ public final class Service implements StatusSource {
     private volatile boolean stopped;
     /** Instances sharing the config through the broker: who watches what; null otherwise. */
     private Membership membership;
+    /** The operators' mutes (not in replay): the cameras' zone gate, kept in the data folder. */
+    private Mutes mutes;
     /** Set once {@link #start} has started every camera; the status server, bound before, reads it. */
     private volatile boolean started;
 
@@ -160,8 +162,13 @@ public final class Service implements StatusSource {
                             zones.add(c.id() + "/" + z.id());
                         }
                     }
-                    bus.add(new MqttPublisher(m, zones, runStart, membership), 1000,
-                            (long) (m.maxBackoffSeconds() * 1000));
+                    bus.add(new MqttPublisher(m, zones, runStart, membership, m.commands() ? this::command : null),
+                            1000, (long) (m.maxBackoffSeconds() * 1000));
+                    if (m.commands()) {
+                        LOG.warn("MQTT commands are on: whoever may publish below {}/{}/<user>/ can mute cameras; "
+                                + "the broker's ACL must let each operator write only below its own name (README, "
+                                + "\"MQTT commands\")", m.topicPrefix(), wayward.delivery.MqttTopics.COMMAND_LEVEL);
+                    }
                     LOG.info("events are published to {} under {}/", Urls.mask(m.url()), m.topicPrefix());
                 }
             }
@@ -170,7 +177,20 @@ public final class Service implements StatusSource {
             bus.add(new PrintSink(stdout), QUEUE_CAPACITY);
         }
         bus.add(recent, QUEUE_CAPACITY);
+        if (mode != Mode.REPLAY) {
+            mutes = new Mutes(config.dataDir(), config.cameras(), config.maxMute(), clock, bus::publish);
+            if (membership != null) {
+                mutes.raiseOnlyFor(c -> membership.watching().contains(c));
+            } else if (config.shard() != null) {
+                List<String> mine = new ArrayList<>();
+                cameras.forEach(c -> mine.add(c.id()));
+                mutes.raiseOnlyFor(mine::contains);
+            }
+        }
         for (wayward.event.Event e : leftOpen) {
+            if (e.kind() == wayward.event.EventKind.ZONE_MUTED || e.kind() == wayward.event.EventKind.CAMERA_MUTED) {
+                continue; // a mute outlives a restart (data_dir/mutes.json); it ends by itself or early
+            }
             LOG.warn("camera {} zone {}: {} event {} was still open when the service stopped; it ends now",
                     e.camera(), e.zone(), e.kind().jsonName(), e.id());
             bus.publish(e.closedAtRestart(clock.instant()));
@@ -204,7 +224,7 @@ public final class Service implements StatusSource {
 
     private CameraPipeline pipeline(CameraConfig c, wayward.flow.FlowConfig flow) {
         CameraPipeline p = new CameraPipeline(c, flow, bus::publish, clock, mode == Mode.REPLAY, mode != Mode.REPLAY,
-                maxLoops, evidence);
+                maxLoops, evidence, mutes != null ? mutes : wayward.analysis.ZoneGate.OPEN);
         if (mode != Mode.REPLAY) {
             p.learnInto(LearnedHeadings.folder(config.dataDir(), c.id()));
         }
@@ -250,7 +270,7 @@ public final class Service implements StatusSource {
     /** The settings outside [flow] and the cameras, as text, for telling whether they changed. */
     private static String rest(SiteConfig c) {
         return ConfigPrinter.toToml(new SiteConfig(c.file(), c.dataDir(), wayward.flow.FlowConfig.DEFAULTS,
-                List.of(), c.webhooks(), c.clips(), c.mqtt(), c.outboxMaxBytes(), c.http(), c.shard()));
+                List.of(), c.webhooks(), c.clips(), c.mqtt(), c.outboxMaxBytes(), c.http(), c.shard(), c.maxMute()));
     }
 
     /**
@@ -285,9 +305,13 @@ public final class Service implements StatusSource {
             LOG.warn("reload: changes to [service], [clips], [[webhook]], [mqtt] or [outbox] take effect at the "
                     + "next restart; the running values stay");
             next = new SiteConfig(next.file(), config.dataDir(), next.flow(), next.cameras(), config.webhooks(),
-                    config.clips(), config.mqtt(), config.outboxMaxBytes(), config.http(), config.shard());
+                    config.clips(), config.mqtt(), config.outboxMaxBytes(), config.http(), config.shard(),
+                    config.maxMute());
         }
         config = next;
+        if (mutes != null) {
+            mutes.configChanged(next.cameras());
+        }
         LOG.info("reload: done; {} cameras", pipelines.size());
     }
 
@@ -309,6 +333,28 @@ public final class Service implements StatusSource {
         applyCameras(only(config.cameras(), ids), config.flow(), false, "membership");
         LOG.info("membership: this instance watches {} of {} cameras: {}", pipelines.size(), config.cameras().size(),
                 ids);
+    }
+
+    /** An operator's MQTT command ({@code mute} or {@code unmute}); the MQTT event loop, so no waiting here. */
+    private void command(String user, String verb, byte[] payload) {
+        Mutes m = mutes;
+        if (m == null) {
+            return;
+        }
+        if (!verb.equals("mute") && !verb.equals("unmute")) {
+            LOG.warn("MQTT command from {}: unknown verb {} (expected mute or unmute); ignored",
+                    wayward.secret.LogText.clean(user), wayward.secret.LogText.clean(verb));
+            return;
+        }
+        try {
+            wayward.http.MuteState s = wayward.http.MuteRequests.apply(m, verb.equals("mute"),
+                    new String(payload, java.nio.charset.StandardCharsets.UTF_8), user, clock);
+            LOG.info("MQTT command from {}: {} of camera {}{} done", wayward.secret.LogText.clean(user), verb,
+                    s.camera(), s.zone() == null ? "" : " zone " + s.zone());
+        } catch (IllegalArgumentException | wayward.http.MuteControl.Refused e) {
+            LOG.warn("MQTT command from {}: {} refused: {}", wayward.secret.LogText.clean(user), verb,
+                    wayward.secret.LogText.clean(e.getMessage()));
+        }
     }
 
     /** Membership: raises {@code camera_reassigned}, a start and its end at once (the membership thread). */
@@ -344,7 +390,9 @@ public final class Service implements StatusSource {
                 }
                 stopping.add(p);
             } else {
-                LOG.debug("{}: camera {} unchanged; it keeps running", why, p.id());
+                if (why.equals("reload")) {
+                    LOG.info("reload: camera {} unchanged; it keeps running", p.id());
+                }
                 keep.add(p);
             }
         }
@@ -421,6 +469,11 @@ public final class Service implements StatusSource {
     }
 
     @Override
+    public wayward.http.MuteControl muteControl() {
+        return mutes;
+    }
+
+    @Override
     public wayward.http.Instances instances() {
         if (membership != null) {
             return membership.view();
@@ -459,6 +512,9 @@ public final class Service implements StatusSource {
         stopped = true;
         if (membership != null) {
             membership.close();
+        }
+        if (mutes != null) {
+            mutes.close();
         }
         for (CameraPipeline p : pipelines) {
             p.stop();

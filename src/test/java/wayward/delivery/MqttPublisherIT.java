@@ -80,7 +80,7 @@ class MqttPublisherIT {
     }
 
     private static MqttConfig config(Mosquitto m, String clientId) {
-        return new MqttConfig("mqtt://127.0.0.1:" + m.port(), "yard", clientId, null, null, null, 30, null, 16, 1, null);
+        return new MqttConfig("mqtt://127.0.0.1:" + m.port(), "yard", clientId, null, null, null, 30, null, 16, 1, null, false);
     }
 
     /** Starts mosquitto_sub printing "topic payload" lines into a file; returns the file. */
@@ -278,7 +278,7 @@ class MqttPublisherIT {
         Mosquitto m = broker("b", "cafile " + ca.caPem, "certfile " + ca.serverPem, "keyfile " + ca.serverKey);
         Path events = subscribe(m, "yard/+/+/event", "--cafile", ca.caPem.toString(), "-h", "localhost");
         MqttConfig tls = new MqttConfig("mqtts://localhost:" + m.port(), "yard", "wayward-test-4", null, null, null,
-                30, ca.caPem.toString(), 16, 1, null);
+                30, ca.caPem.toString(), 16, 1, null, false);
         bus("outbox-1", tls, List.of()).publish(phase("t1", "lane-2-out", Event.Phase.START, 1));
         List<String> got = awaitLines(events, l -> !l.isEmpty(), 20);
         assertEquals(1, got.size(), got + "\n" + m.log());
@@ -286,7 +286,7 @@ class MqttPublisherIT {
 
         try (LogCapture log = new LogCapture(MqttPublisher.class)) {
             MqttConfig untrusted = new MqttConfig("mqtts://localhost:" + m.port(), "yard", "wayward-test-5", null,
-                    null, null, 30, null, 16, 1, null);
+                    null, null, 30, null, 16, 1, null, false);
             EventBus b = bus("outbox-2", untrusted, List.of());
             b.publish(phase("t2", "lane-2-out", Event.Phase.START, 2));
             long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(20);

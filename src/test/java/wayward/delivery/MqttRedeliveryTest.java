@@ -86,7 +86,7 @@ class MqttRedeliveryTest {
                     }).bind(new InetSocketAddress("127.0.0.1", 0)).sync().channel();
             int port = ((InetSocketAddress) server.localAddress()).getPort();
             MqttConfig config = new MqttConfig("mqtt://127.0.0.1:" + port, "yard", "wayward-redeliver", null, null,
-                    null, 30, null, 1, 1, null);
+                    null, 30, null, 1, 1, null, false);
             MqttPublisher p = new MqttPublisher(config, List.of(), 1);
             Event e = new Event("r1", "yard-mast-2", "lane-2-out", EventKind.WRONG_WAY, Event.Phase.START, 1,
                     Instant.parse("2026-12-02T10:00:00Z"), 180, 40, 0.05, Double.NaN);

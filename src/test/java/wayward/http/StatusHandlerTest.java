@@ -38,7 +38,7 @@ class StatusHandlerTest {
 
     private EmbeddedChannel channel(byte[] token) throws IOException {
         evidence = Files.createDirectories(root.resolve("evidence"));
-        return new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(null, token), new EvidenceFiles(() -> evidence)));
+        return new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(null, token, "status"), new EvidenceFiles(() -> evidence)));
     }
 
     private static FullHttpRequest get(String uri) {

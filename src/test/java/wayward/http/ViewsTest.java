@@ -26,7 +26,7 @@ class ViewsTest {
     }
 
     private static FullHttpResponse get(StatusSource site, String uri) {
-        EmbeddedChannel ch = new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(site, null),
+        EmbeddedChannel ch = new EmbeddedChannel(new StatusHandler(new StatusHandler.Shared(site, null, null),
                 new EvidenceFiles(site::evidenceDir)));
         ch.writeInbound(new DefaultFullHttpRequest(HttpVersion.HTTP_1_1, HttpMethod.GET, uri));
         return ch.readOutbound();
