@@ -78,7 +78,11 @@ class OpenApiTest {
 
     /** The schema of a path's answer with this status and media type (JSON Pointer, RFC 6901: "/" is "~1"). */
     private static Schema responseSchema(String path, int status) {
-        String pointer = "#/paths/" + path.replace("~", "~0").replace("/", "~1") + "/get/responses/" + status
+        return responseSchema(path, "get", status);
+    }
+
+    private static Schema responseSchema(String path, String method, int status) {
+        String pointer = "#/paths/" + path.replace("~", "~0").replace("/", "~1") + "/" + method + "/responses/" + status
                 + "/content/application~1json/schema";
         JsonNode declared = openapi.at(pointer.substring(1));
         assertFalse(declared.isMissingNode(), path + " " + status + ": no JSON answer declared");
@@ -267,9 +271,15 @@ class OpenApiTest {
         requests.put("/api/evidence", "/api/evidence?offset=1&limit=2");
         requests.put("/api/measure", "/api/measure?camera=yard-mast-2&polygon=0.1,0.1;0.9,0.1;0.5,0.9&heading=0");
         requests.put("/openapi.json", "/openapi.json");
+        requests.put("/api/mutes", "/api/mutes");
         Set<String> documented = new TreeSet<>();
-        openapi.get("paths").propertyNames().forEach(documented::add);
-        assertEquals(documented, new TreeSet<>(requests.keySet()), "every documented path is checked live");
+        openapi.get("paths").propertyNames().forEach(path -> {
+            if (openapi.get("paths").get(path).has("get")) {
+                documented.add(path);
+            }
+        });
+        assertEquals(documented, new TreeSet<>(requests.keySet()), "every documented GET is checked live (the POSTs "
+                + "in mutesGoThroughTheStatusServerWithTheToken)");
 
         HttpClient client = HttpClient.newHttpClient();
         try (StatusServer server = StatusServer.start(new HttpConfig("127.0.0.1", 0, null, null, 10), site.source())) {
@@ -365,6 +375,105 @@ class OpenApiTest {
                 String said = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
                 assertEquals(0, p.waitFor(), said);
                 assertEquals("", said.strip(), "promtool found nothing to say");
+            }
+        }
+    }
+
+    private static Answer post(HttpClient client, int port, String uri, String token, String body) throws Exception {
+        HttpRequest.Builder b = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + uri))
+                .POST(HttpRequest.BodyPublishers.ofString(body)).header("Content-Type", "application/json");
+        if (token != null) {
+            b.header("Authorization", "Bearer " + token);
+        }
+        HttpResponse<String> r = client.send(b.build(), HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
+        return new Answer(r.statusCode(), r.headers().firstValue("Content-Type").orElse(""), r.body());
+    }
+
+    private static List<String> problems(String path, String method, Answer a) {
+        List<String> out = new ArrayList<>();
+        for (Error e : responseSchema(path, method, a.status()).validate(JSON.readTree(a.body()))) {
+            out.add(e.toString());
+        }
+        return out;
+    }
+
+    @Test
+    @Timeout(60)
+    void mutesGoThroughTheStatusServerWithTheToken() throws Exception {
+        Site site = site();
+        List<wayward.event.Event> raised = java.util.Collections.synchronizedList(new ArrayList<>());
+        String token = "yard-control-7";
+        Path tokenFile = dir.resolve("control-room.token");
+        Files.writeString(tokenFile, token);
+        try (wayward.service.Mutes mutes = new wayward.service.Mutes(dir.resolve("mute-data"),
+                List.of(site.cameras().get(0).config()), java.time.Duration.ofHours(12), java.time.Clock.systemUTC(),
+                raised::add)) {
+            StatusSource source = new EmptySite(site.cameras(), site.recent(), dir) {
+                @Override
+                public MuteControl muteControl() {
+                    return mutes;
+                }
+            };
+            HttpClient client = HttpClient.newHttpClient();
+            HttpConfig config = new HttpConfig("127.0.0.1", 0, tokenFile.toString(),
+                    token.getBytes(StandardCharsets.UTF_8), 10);
+            String good = "{\"camera\": \"yard-mast-2\", \"zone\": \"lane-2-out\", \"minutes\": 30, "
+                    + "\"reason\": \"sweeper in lane 2\"}";
+            try (StatusServer server = StatusServer.start(config, source)) {
+                int port = server.port();
+                // 401 without the token, also on loopback, and with the token only in the address (RFC 6750 §2.1)
+                assertEquals(401, post(client, port, "/api/mutes", null, good).status());
+                assertEquals(401, post(client, port, "/api/mutes?access_token=" + token, null, good).status());
+                assertEquals(401, post(client, port, "/api/mutes", "wrong", good).status());
+                // 400: not the JSON object described; 422: what the mutes refuse; each one line of text
+                Map<String, String> bad = new LinkedHashMap<>();
+                bad.put("{\"camera\": ", "400");
+                bad.put("[1, 2]", "400");
+                bad.put("{\"camera\": \"yard-mast-2\", \"minutes\": 5, \"until\": \"2026-12-03T09:00:00Z\"}", "400");
+                bad.put("{\"camera\": \"yard-mast-2\", \"minutes\": \"five\"}", "400");
+                bad.put("{\"camera\": \"yard-mast-2\", \"colour\": \"red\", \"minutes\": 5}", "400");
+                bad.put("{\"camera\": \"yard-mast-2\", \"zone\": \"lane-9\", \"minutes\": 5}", "422");
+                bad.put("{\"camera\": \"yard-mast-2\", \"until\": \"2020-01-01T00:00:00Z\"}", "422");
+                bad.put("{\"camera\": \"yard-mast-2\", \"minutes\": 100000}", "422");
+                bad.put("{\"camera\": \"yard-mast-2\"}", "422");
+                for (Map.Entry<String, String> b : bad.entrySet()) {
+                    Answer a = post(client, port, "/api/mutes", token, b.getKey());
+                    assertEquals(Integer.parseInt(b.getValue()), a.status(), b.getKey() + ": " + a.body());
+                    assertTrue(a.type().startsWith("text/plain") && a.body().strip().indexOf('\n') < 0, a.body());
+                }
+                assertTrue(raised.isEmpty(), "nothing changed by a refused request");
+
+                Answer made = post(client, port, "/api/mutes", token, good);
+                assertEquals(201, made.status(), made.body());
+                assertEquals(List.of(), problems("/api/mutes", "post", made), made.body());
+                assertEquals("control-room", JSON.readTree(made.body()).get("mute").get("by").asString(),
+                        "who: the token file's name");
+                // a GET changes nothing, and shows the mute where the description says
+                for (int i = 0; i < 3; i++) {
+                    Answer list = get(client, port, "/api/mutes?access_token=" + token);
+                    assertEquals(List.of(), problems("/api/mutes", list), list.body());
+                    assertEquals(1, JSON.readTree(list.body()).get("mutes").size());
+                }
+                Answer cams = get(client, port, "/api/cameras?access_token=" + token);
+                assertEquals(List.of(), problems("/api/cameras", cams), cams.body());
+                JsonNode zone = JSON.readTree(cams.body()).get("cameras").get(0).get("zones").get(0);
+                assertEquals("sweeper in lane 2", zone.get("muted").get("reason").asString());
+                assertFalse(JSON.readTree(cams.body()).get("cameras").get(0).get("zones").get(1).has("muted"));
+                assertTrue(MetricsText.of(source).contains(
+                        "wayward_zone_muted{camera=\"yard-mast-2\",zone=\"lane-2-out\"} 1\n"));
+                assertEquals(1, raised.size(), "one start for the mute, none for the GETs");
+                assertEquals(wayward.event.EventKind.ZONE_MUTED, raised.get(0).kind());
+                assertFalse(mutes.raises("yard-mast-2", "lane-2-out", java.time.Instant.now()));
+
+                Answer ended = post(client, port, "/api/mutes/end", token,
+                        "{\"camera\": \"yard-mast-2\", \"zone\": \"lane-2-out\", \"reason\": \"swept\"}");
+                assertEquals(200, ended.status(), ended.body());
+                assertEquals(List.of(), problems("/api/mutes/end", "post", ended), ended.body());
+                assertEquals(422, post(client, port, "/api/mutes/end", token,
+                        "{\"camera\": \"yard-mast-2\", \"zone\": \"lane-2-out\"}").status(), "nothing left to end");
+                assertEquals(2, raised.size());
+                assertEquals("swept", raised.get(1).control().reason());
+                assertEquals(405, post(client, port, "/api/cameras", token, "{}").status(), "POST only to the mutes");
             }
         }
     }

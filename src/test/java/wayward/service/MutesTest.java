@@ -1,0 +1,193 @@
+package wayward.service;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Clock;
+import java.time.Duration;
+import java.time.Instant;
+import java.time.ZoneId;
+import java.time.ZoneOffset;
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import java.util.concurrent.TimeUnit;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.Timeout;
+import org.junit.jupiter.api.io.TempDir;
+import wayward.analysis.CameraConfig;
+import wayward.config.ConfigLoader;
+import wayward.event.Event;
+import wayward.event.EventJson;
+import wayward.event.EventKind;
+import wayward.http.MuteControl;
+import wayward.testing.SchemaCheck;
+
+/**
+ * Mutes on a clock the test moves: the gate closes for the muted zone (and all zones of a muted camera), a mute
+ * ends by itself at its time (ended_by expired), early by an operator, survives a restart with the same event id,
+ * ends at the start after it expired meanwhile; the bound and the unknown names are refused. Each phase is held to
+ * the shipped event schema.
+ */
+@Timeout(value = 30, unit = TimeUnit.SECONDS)
+class MutesTest {
+    private static final Instant T0 = Instant.parse("2026-12-03T08:00:00Z");
+
+    @TempDir
+    Path dir;
+
+    /** A clock the test sets. */
+    private static final class Moving extends Clock {
+        volatile Instant now = T0;
+
+        @Override
+        public ZoneId getZone() {
+            return ZoneOffset.UTC;
+        }
+
+        @Override
+        public Clock withZone(ZoneId zone) {
+            return this;
+        }
+
+        @Override
+        public Instant instant() {
+            return now;
+        }
+    }
+
+    private final Moving clock = new Moving();
+    private final List<Event> events = Collections.synchronizedList(new ArrayList<>());
+
+    private List<CameraConfig> cameras(String... zones) throws Exception {
+        StringBuilder toml = new StringBuilder("[[camera]]\nid = \"gate-in\"\nsource = \"rtsp://cam.yard.example/s\"\n");
+        for (String z : zones) {
+            toml.append("[[camera.zone]]\nid = \"").append(z).append("\"\n")
+                    .append("polygon = [[0.1, 0.1], [0.9, 0.1], [0.5, 0.9]]\nheading_deg = 0\n");
+        }
+        Path f = dir.resolve("site.toml");
+        Files.writeString(f, toml);
+        return ConfigLoader.load(f).cameras();
+    }
+
+    private Mutes open(List<CameraConfig> cams) {
+        return new Mutes(dir.resolve("data"), cams, Duration.ofHours(12), clock, e -> {
+            // every phase the mutes raise fits the shipped event schema
+            SchemaCheck.assertEventRecord(EventJson.toJson(e));
+            events.add(e);
+        });
+    }
+
+    private void awaitEvents(int n) throws InterruptedException {
+        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(5);
+        while (events.size() < n && System.nanoTime() < deadline) {
+            TimeUnit.MILLISECONDS.sleep(20); // the timer checks once a second
+        }
+        assertEquals(n, events.size(), events.toString());
+    }
+
+    @Test
+    void aZoneMuteClosesOnlyThatZoneAndEndsByItself() throws Exception {
+        try (Mutes m = open(cameras("lane-1", "lane-2"))) {
+            m.mute("gate-in", "lane-1", T0.plusSeconds(600), "control-room", "sweeper\nin lane 1");
+            assertFalse(m.raises("gate-in", "lane-1", T0.plusSeconds(10)));
+            assertTrue(m.raises("gate-in", "lane-2", T0.plusSeconds(10)), "the other zone still raises");
+            assertTrue(m.raises("gate-in", "lane-1", T0.plusSeconds(600)), "the end time itself is open");
+            Event start = events.get(0);
+            assertEquals(EventKind.ZONE_MUTED, start.kind());
+            assertEquals("lane-1", start.zone());
+            assertEquals(new Event.Control(T0.plusSeconds(600), "control-room", "sweeper in lane 1"), start.control(),
+                    "until, by and a reason on one line");
+
+            clock.now = T0.plusSeconds(601);
+            awaitEvents(2);
+            Event end = events.get(1);
+            assertEquals(start.id(), end.id());
+            assertEquals(Event.Phase.END, end.phase());
+            assertEquals(Event.EXPIRED, end.endedBy());
+            assertNull(end.control().by());
+            assertEquals(601, end.durationSeconds(), 1e-9);
+            assertTrue(m.mutes().isEmpty());
+        }
+    }
+
+    @Test
+    void aCameraMuteClosesAllItsZonesAndEndsEarlyByName() throws Exception {
+        try (Mutes m = open(cameras("lane-1", "lane-2"))) {
+            m.mute("gate-in", null, T0.plusSeconds(3600), "yard-ops", "");
+            assertFalse(m.raises("gate-in", "lane-1", T0));
+            assertFalse(m.raises("gate-in", "lane-2", T0));
+            assertEquals(EventKind.CAMERA_MUTED, events.get(0).kind());
+            clock.now = T0.plusSeconds(120);
+            m.unmute("gate-in", null, "control-room", "done early");
+            assertTrue(m.raises("gate-in", "lane-1", clock.now));
+            Event end = events.get(1);
+            assertEquals("control-room", end.control().by());
+            assertEquals("done early", end.control().reason());
+            assertNull(end.endedBy());
+            MuteControl.Refused again = assertThrows(MuteControl.Refused.class,
+                    () -> m.unmute("gate-in", null, "control-room", ""));
+            assertEquals("camera gate-in is not muted", again.getMessage());
+        }
+    }
+
+    @Test
+    void aMuteOutlivesARestartAndOneThatEndedMeanwhileEndsAtTheStart() throws Exception {
+        List<CameraConfig> cams = cameras("lane-1", "lane-2");
+        String id;
+        try (Mutes m = open(cams)) {
+            m.mute("gate-in", "lane-1", T0.plusSeconds(600), "control-room", "kerb works");
+            m.mute("gate-in", "lane-2", T0.plusSeconds(60), "control-room", "short");
+            id = events.get(0).id();
+        }
+        events.clear();
+        clock.now = T0.plusSeconds(300);
+        try (Mutes m = open(cams)) {
+            // lane-2's end time passed while the service was down: it ends now; lane-1 holds, no new start
+            assertEquals(1, events.size(), events.toString());
+            assertEquals(Event.EXPIRED, events.get(0).endedBy());
+            assertEquals("lane-2", events.get(0).zone());
+            assertFalse(m.raises("gate-in", "lane-1", clock.now));
+            assertEquals(1, m.mutes().size());
+            m.unmute("gate-in", "lane-1", "control-room", "");
+            assertEquals(id, events.get(1).id(), "the end carries the id of the start before the restart");
+        }
+    }
+
+    @Test
+    void theBoundUnknownNamesAndThePastAreRefusedAndAZoneThatLeftTheConfigEnds() throws Exception {
+        try (Mutes m = open(cameras("lane-1"))) {
+            assertEquals("the end 2026-12-03T20:00:01Z is more than 12.0 h away (max_mute_hours); a mute always ends "
+                    + "by itself", assertThrows(MuteControl.Refused.class, () -> m.mute("gate-in", "lane-1",
+                    T0.plusSeconds(12 * 3600 + 1), "a", "")).getMessage());
+            assertTrue(assertThrows(MuteControl.Refused.class, () -> m.mute("gate-in", "lane-1", T0, "a", ""))
+                    .getMessage().contains("not in the future"));
+            assertEquals("camera gate-in has no zone lane-9 (expected one of lane-1)", assertThrows(
+                    MuteControl.Refused.class, () -> m.mute("gate-in", "lane-9", T0.plusSeconds(60), "a", ""))
+                    .getMessage());
+            assertEquals("no camera dock in the config (expected one of gate-in)", assertThrows(MuteControl.Refused.class,
+                    () -> m.mute("dock", null, T0.plusSeconds(60), "a", "")).getMessage());
+            assertTrue(events.isEmpty(), "nothing raised for a refusal");
+            m.mute("gate-in", "lane-1", T0.plusSeconds(60), "a", "");
+            m.configChanged(cameras("lane-2"));
+            assertEquals(2, events.size());
+            assertEquals("its zone left the config", events.get(1).control().reason());
+        }
+    }
+
+    @Test
+    void anUnreadableFileIsSetAsideAndNothingIsMuted() throws Exception {
+        Files.createDirectories(dir.resolve("data"));
+        Files.writeString(dir.resolve("data").resolve(Mutes.FILE), "[{\"camera\": ");
+        try (Mutes m = open(cameras("lane-1"))) {
+            assertTrue(m.mutes().isEmpty());
+            assertTrue(Files.exists(dir.resolve("data").resolve(Mutes.FILE + ".bad")));
+            assertTrue(m.raises("gate-in", "lane-1", T0));
+        }
+    }
+}
