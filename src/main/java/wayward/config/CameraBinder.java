@@ -38,7 +38,7 @@ final class CameraBinder {
         if (id != null && MqttTopics.RESERVED_CAMERA_IDS.contains(id)) {
             s.error("id", id, "an id other than " + String.join(", ", MqttTopics.RESERVED_CAMERA_IDS.stream().sorted()
                     .toList()) + ": MQTT topics use it as a fixed level (<prefix>/" + MqttTopics.STATUS_LEVEL
-                    + "/<client id>)");
+                    + "/<client id>, <prefix>/" + MqttTopics.COMMAND_LEVEL + "/<user>/…)");
             id = null;
         }
         String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");

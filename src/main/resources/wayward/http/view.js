@@ -186,6 +186,7 @@ async function poll() {
           const o = document.createElement("option"); o.value = z.id; o.textContent = z.id; existing.appendChild(o);
         }
       }
+      showMutes(cam);
       const z = cam.zones.find(z => z.id === existing.value);
       if (z) { sample.other = z.against_share; sample.onset = z.onset_level; }
     }
@@ -221,6 +222,43 @@ function plot() {
   line("other", "#888", []);
   line("onset", "#888", [4, 4]);
 }
+
+// mutes: shown from /api/cameras; set with POST and the page's token in the Authorization header
+const muteWhat = document.getElementById("mute-what");
+function showMutes(cam) {
+  if (muteWhat.options.length === 1) {
+    for (const z of cam.zones) {
+      const o = document.createElement("option"); o.value = z.id; o.textContent = "zone " + z.id; muteWhat.appendChild(o);
+    }
+  }
+  const said = [];
+  const one = (what, m) => what + " until " + new Date(m.until).toLocaleString() + " by " + m.by
+    + (m.reason ? " (" + m.reason + ")" : "");
+  if (cam.muted) said.push(one("the whole camera", cam.muted));
+  for (const z of cam.zones) if (z.muted) said.push(one("zone " + z.id, z.muted));
+  document.getElementById("mute-state").textContent = "Muted: " + (said.length ? said.join("; ") : "nothing") + ".";
+}
+async function changeMute(path, body) {
+  const out = document.getElementById("mute-said");
+  try {
+    const r = await fetch(path, { method: "POST", headers: { "Content-Type": "application/json",
+      "Authorization": "Bearer " + (token || "") }, body: JSON.stringify(body) });
+    out.textContent = r.ok ? (path.endsWith("/end") ? "Mute ended." : "Muted.") : "Refused: " + (await r.text());
+  } catch (e) {
+    out.textContent = "Not sent: " + e;
+  }
+}
+document.getElementById("mute").onclick = () => {
+  const body = { camera: camera, minutes: Number(document.getElementById("mute-minutes").value),
+    reason: document.getElementById("mute-reason").value };
+  if (muteWhat.value) body.zone = muteWhat.value;
+  changeMute("/api/mutes", body);
+};
+document.getElementById("unmute").onclick = () => {
+  const body = { camera: camera, reason: document.getElementById("mute-reason").value };
+  if (muteWhat.value) body.zone = muteWhat.value;
+  changeMute("/api/mutes/end", body);
+};
 
 // for tests and scripts: the snippet as shown
 window.waywardSnippet = () => toml.textContent;
