@@ -63,6 +63,8 @@ public final class MqttPublisher implements Destination {
     private final String statusTopic;
     /** Open camera conditions; confined to the courier thread that calls {@link #send}. */
     private final CameraStates cameraStates = new CameraStates();
+    /** Open alerts, mutes and off hours per zone; confined to the courier thread that calls {@link #send}. */
+    private final ZoneStates zoneStates = new ZoneStates();
     /** Told of the other instances' statuses, or null when this instance watches alone. */
     private final PeerWatch peers;
     /** Told of operators' commands, or null when they are not read. */
@@ -144,7 +146,7 @@ public final class MqttPublisher implements Destination {
     public CompletableFuture<Result> send(long seq, Event e) {
         byte[] body = EventJson.toJson(e).getBytes(StandardCharsets.UTF_8);
         String stateTopic = MqttTopics.stateTopic(config.topicPrefix(), e.camera(), e.zone());
-        byte[] state = e.zone() != null ? MqttTopics.zoneStatePayload(e) : cameraStates.apply(seq, e);
+        byte[] state = e.zone() != null ? zoneStates.apply(seq, e) : cameraStates.apply(seq, e);
         CompletableFuture<Result> done = new CompletableFuture<>();
         loop.execute(() -> {
             if (e.zone() != null && seq >= runStartSeq) {
