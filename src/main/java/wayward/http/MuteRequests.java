@@ -183,6 +183,12 @@ public final class MuteRequests {
     /** One mute as JSON (also in /api/cameras). */
     static void state(JsonGenerator g, MuteState s) throws IOException {
         g.writeStartObject();
+        fields(g, s);
+        g.writeEndObject();
+    }
+
+    /** A mute's fields, inside an object the caller opened (also the service's mutes file). */
+    public static void fields(JsonGenerator g, MuteState s) throws IOException {
         g.writeStringField("camera", s.camera());
         if (s.zone() != null) {
             g.writeStringField("zone", s.zone());
@@ -191,6 +197,5 @@ public final class MuteRequests {
         g.writeStringField("until", DateTimeFormatter.ISO_INSTANT.format(s.until()));
         g.writeStringField("by", s.by());
         g.writeStringField("reason", s.reason());
-        g.writeEndObject();
     }
 }

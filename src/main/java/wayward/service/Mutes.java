@@ -270,17 +270,9 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
         try (JsonGenerator g = JSON.createGenerator(out)) {
             g.writeStartArray();
             for (Entry e : active.values()) {
-                MuteState s = e.state();
                 g.writeStartObject();
                 g.writeStringField("id", e.id());
-                g.writeStringField("camera", s.camera());
-                if (s.zone() != null) {
-                    g.writeStringField("zone", s.zone());
-                }
-                g.writeStringField("since", DateTimeFormatter.ISO_INSTANT.format(s.since()));
-                g.writeStringField("until", DateTimeFormatter.ISO_INSTANT.format(s.until()));
-                g.writeStringField("by", s.by());
-                g.writeStringField("reason", s.reason());
+                wayward.http.MuteRequests.fields(g, e.state());
                 g.writeEndObject();
             }
             g.writeEndArray();

@@ -8,11 +8,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.time.Clock;
 import java.time.Duration;
 import java.time.Instant;
-import java.time.ZoneId;
-import java.time.ZoneOffset;
 import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
@@ -27,6 +24,7 @@ import wayward.event.EventJson;
 import wayward.event.EventKind;
 import wayward.http.MuteControl;
 import wayward.testing.SchemaCheck;
+import wayward.testing.SteppingClock;
 
 /**
  * Mutes on a clock the test moves: the gate closes for the muted zone (and all zones of a muted camera), a mute
@@ -41,27 +39,7 @@ class MutesTest {
     @TempDir
     Path dir;
 
-    /** A clock the test sets. */
-    private static final class Moving extends Clock {
-        volatile Instant now = T0;
-
-        @Override
-        public ZoneId getZone() {
-            return ZoneOffset.UTC;
-        }
-
-        @Override
-        public Clock withZone(ZoneId zone) {
-            return this;
-        }
-
-        @Override
-        public Instant instant() {
-            return now;
-        }
-    }
-
-    private final Moving clock = new Moving();
+    private final SteppingClock clock = new SteppingClock(T0);
     private final List<Event> events = Collections.synchronizedList(new ArrayList<>());
 
     private List<CameraConfig> cameras(String... zones) throws Exception {
@@ -104,7 +82,7 @@ class MutesTest {
             assertEquals(new Event.Control(T0.plusSeconds(600), "control-room", "sweeper in lane 1"), start.control(),
                     "until, by and a reason on one line");
 
-            clock.now = T0.plusSeconds(601);
+            clock.step(601);
             awaitEvents(2);
             Event end = events.get(1);
             assertEquals(start.id(), end.id());
@@ -123,9 +101,9 @@ class MutesTest {
             assertFalse(m.raises("gate-in", "lane-1", T0));
             assertFalse(m.raises("gate-in", "lane-2", T0));
             assertEquals(EventKind.CAMERA_MUTED, events.get(0).kind());
-            clock.now = T0.plusSeconds(120);
+            clock.step(120);
             m.unmute("gate-in", null, "control-room", "done early");
-            assertTrue(m.raises("gate-in", "lane-1", clock.now));
+            assertTrue(m.raises("gate-in", "lane-1", clock.instant()));
             Event end = events.get(1);
             assertEquals("control-room", end.control().by());
             assertEquals("done early", end.control().reason());
@@ -146,13 +124,13 @@ class MutesTest {
             id = events.get(0).id();
         }
         events.clear();
-        clock.now = T0.plusSeconds(300);
+        clock.step(300);
         try (Mutes m = open(cams)) {
             // lane-2's end time passed while the service was down: it ends now; lane-1 holds, no new start
             assertEquals(1, events.size(), events.toString());
             assertEquals(Event.EXPIRED, events.get(0).endedBy());
             assertEquals("lane-2", events.get(0).zone());
-            assertFalse(m.raises("gate-in", "lane-1", clock.now));
+            assertFalse(m.raises("gate-in", "lane-1", clock.instant()));
             assertEquals(1, m.mutes().size());
             m.unmute("gate-in", "lane-1", "control-room", "");
             assertEquals(id, events.get(1).id(), "the end carries the id of the start before the restart");
