@@ -72,7 +72,7 @@ public final class ConfigLoader {
         ServiceBinder.Service service = ServiceBinder.bind(top, errors, base, env);
         FlowConfig flow = FlowClipBinder.flow(top);
         ClipConfig clips = FlowClipBinder.clips(top);
-        List<CameraConfig> cameras = CameraBinder.cameras(top, base);
+        List<CameraConfig> cameras = CameraBinder.cameras(top, base, service.timeZone());
         List<WebhookConfig> webhooks = DeliveryBinder.webhooks(top, base);
         MqttConfig mqtt = DeliveryBinder.mqtt(top, base, env.hostName());
         long outboxMaxBytes = DeliveryBinder.outboxMaxBytes(top);
@@ -81,6 +81,6 @@ public final class ConfigLoader {
             mqtt = DeliveryBinder.forInstance(mqtt, service.shard());
         }
         return new SiteConfig(file, service.dataDir(), flow, cameras, webhooks, clips, mqtt, outboxMaxBytes,
-                service.http(), service.shard());
+                service.http(), service.shard(), service.timeZone());
     }
 }

@@ -23,9 +23,18 @@ import wayward.http.HttpConfig;
  * @param outboxMaxBytes bound on the durable outbox's size on disk
  * @param http     the status server, or null when off
  * @param shard    this instance's share of the cameras, or null when one instance watches all
+ * @param timeZone the site's time zone ([service] time_zone; zones' hours are in it), or null when not set
  */
 public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
-        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http, ShardConfig shard) {
+        List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http, ShardConfig shard,
+        java.time.ZoneId timeZone) {
+    /** A site without a time zone (no zone has hours). */
+    public SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
+            List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http,
+            ShardConfig shard) {
+        this(file, dataDir, flow, cameras, webhooks, clips, mqtt, outboxMaxBytes, http, shard, null);
+    }
+
     /** The data folder, beside the config file, when {@code data_dir} is not given. */
     public static final String DEFAULT_DATA_DIR = "data";
     /** The outbox's bound on disk, MB ({@code [outbox] max_mb}). */
