@@ -35,13 +35,15 @@ public final class ConfigLoader {
     public static SiteConfig load(Path file, Environment env) throws ConfigException {
         String shown = file.toString();
         TomlParseResult toml;
+        TomlShape.Padded padded;
         try {
             if (Files.isDirectory(file)) {
                 throw new ConfigException(List.of(shown + ": is a folder (expected a TOML config file)"));
             }
             String text = TomlShape.text(Files.readAllBytes(file), shown);
             TomlShape.checkNesting(text, shown);
-            toml = Toml.parse(text);
+            padded = TomlShape.padDatesBeforeBrackets(text);
+            toml = Toml.parse(padded.text());
         } catch (NoSuchFileException e) {
             throw new ConfigException(List.of(shown + ": file not found"));
         } catch (java.nio.file.AccessDeniedException e) {
@@ -51,6 +53,7 @@ public final class ConfigLoader {
             throw new ConfigException(List.of(shown + ": cannot read (" + e.getMessage() + ")"));
         }
         ConfigErrors errors = new ConfigErrors(shown);
+        errors.spacesAdded(padded.spaces());
         if (toml.hasErrors()) {
             for (TomlParseError e : toml.errors()) {
                 String message = e.getMessage();

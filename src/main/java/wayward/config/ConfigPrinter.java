@@ -197,12 +197,13 @@ public final class ConfigPrinter {
         }
         // the time zone is named here too, so that a camera whose zones' time zone changed counts as changed
         b.append("]   # local times in ").append(z.hours().timeZone().getId()).append('\n');
+        // spaced inside the brackets: tomlj 1.1.1 misreads a date right before "]" (TomlShape)
         b.append("  off_dates = [");
         java.util.List<java.time.LocalDate> dates = z.hours().offDates();
         for (int i = 0; i < dates.size(); i++) {
-            b.append(i == 0 ? "" : ", ").append(dates.get(i));
+            b.append(i == 0 ? " " : ", ").append(dates.get(i));
         }
-        b.append("]\n");
+        b.append(dates.isEmpty() ? "]\n" : " ]\n");
     }
 
     private static String num(double d) {
