@@ -106,7 +106,7 @@ final class MetricsText {
 
     /** 1 while a zone with hours is in them, 0 outside; zones without hours have no sample. */
     private void zonesInHours(List<CameraStatus> ps) {
-        String name = "wayward_zone_in_hours";
+        String name = "wayward_zone_on_schedule";
         family(name, "gauge", "1 while the zone is in its hours (its rule may raise events), 0 outside them; only "
                 + "zones with hours.");
         java.time.Instant now = java.time.Instant.now();
