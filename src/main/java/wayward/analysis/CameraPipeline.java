@@ -393,6 +393,12 @@ public final class CameraPipeline implements CameraStatus {
                 previous = t;
                 lastStreamSeconds = t;
                 analysedFrames++;
+                for (int z = 0; z < channels.size(); z++) {
+                    Event h = channels.get(z).hours(t);
+                    if (h != null) {
+                        emit(h);
+                    }
+                }
                 if (!estimated || dt <= 0 || dt > MAX_GAP_SECONDS) {
                     analysisNanos += System.nanoTime() - began;
                     continue;

@@ -43,6 +43,11 @@ final class ZoneChannel {
     private final ZoneGate gate;
     /** The id of the event whose start the gate dropped: its end is dropped too. */
     private String dropped;
+    /** Wall-clock milliseconds from which the zone's hours must be looked at again; MIN_VALUE before the first. */
+    private long hoursCheckMillis = Long.MIN_VALUE;
+    /** The open {@code zone_off_hours} event's id, or null while in hours. */
+    private String offHoursId;
+    private double offHoursSince;
 
     ZoneChannel(CameraConfig camera, ZoneConfig zone, Clock clock, ZoneGate gate) {
         this.camera = camera;
@@ -133,7 +138,7 @@ final class ZoneChannel {
         if (e == null) {
             return null;
         }
-        if (e.phase() == Event.Phase.START && !gate.raises(camera.id(), zone.id(), e.at())) {
+        if (e.phase() == Event.Phase.START && !(inHours(e.at()) && gate.raises(camera.id(), zone.id(), e.at()))) {
             dropped = e.id();
             LOG.info("camera {} zone {}: a {} starts while the zone raises no events (muted or off hours); not raised",
                     camera.id(), zone.id(), e.kind().jsonName());
@@ -144,6 +149,46 @@ final class ZoneChannel {
             return null;
         }
         return e;
+    }
+
+    private boolean inHours(java.time.Instant at) {
+        return !zone.hasHours() || zone.hours().on(at);
+    }
+
+    /**
+     * One analysed frame at stream time {@code t}: a {@code zone_off_hours} start when the zone's hours have ended
+     * (or the zone starts outside them), its end when they begin again; otherwise null. Reads the clock's
+     * milliseconds once and allocates nothing until the cached next change has passed.
+     */
+    Event hours(double t) {
+        if (!zone.hasHours() || clock.millis() < hoursCheckMillis) {
+            return null;
+        }
+        ZoneHours h = zone.hours();
+        java.time.Instant now = clock.instant();
+        boolean on = h.on(now);
+        java.time.Instant next = h.nextChange(now);
+        hoursCheckMillis = next == null ? Long.MAX_VALUE : next.toEpochMilli();
+        if (!on && offHoursId == null) {
+            offHoursId = java.util.UUID.randomUUID().toString();
+            offHoursSince = t;
+            LOG.info("camera {} zone {}: off hours until {}; its rule raises no events meanwhile", camera.id(),
+                    zone.id(), next == null ? "never" : next.atZone(h.timeZone()).toOffsetDateTime());
+            return offHours(Event.Phase.START, t, now, new Event.Control(next, null, h.offReason(now)));
+        }
+        if (on && offHoursId != null) {
+            Event e = offHours(Event.Phase.END, t, now, new Event.Control(next, null, "in hours " + h));
+            offHoursId = null;
+            return e;
+        }
+        return null;
+    }
+
+    private Event offHours(Event.Phase phase, double t, java.time.Instant now, Event.Control control) {
+        return new Event(offHoursId, camera.id(), zone.id(), wayward.event.EventKind.ZONE_OFF_HOURS, phase, t, now,
+                Double.NaN, Double.NaN, Double.NaN, Double.NaN,
+                phase == Event.Phase.END ? Math.max(0, t - offHoursSince) : Double.NaN, null, null, null, null, null,
+                null, control);
     }
 
     /** The rule's state after the last frame: idle, active, or learning. */

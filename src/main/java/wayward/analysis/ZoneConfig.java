@@ -21,10 +21,19 @@ import wayward.rule.RuleSettings;
  *                            the zone alerts on movement against it); 0 = a motion zone
  * @param movers              zones with a heading (configured or learned): when a mover going against it
  *                            raises an event
+ * @param hours               when the zone's rule may raise events (site time zone); null: always
  */
 public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg, double toleranceDeg,
         double minSpeedPxPerSecond, double minConfidence, RuleSettings rule, double learnHeadingSeconds,
-        MoverRuleSettings movers) {
+        MoverRuleSettings movers, ZoneHours hours) {
+    /** A zone that raises events at every hour. */
+    public ZoneConfig(String id, double[] xs, double[] ys, double headingDeg, double toleranceDeg,
+            double minSpeedPxPerSecond, double minConfidence, RuleSettings rule, double learnHeadingSeconds,
+            MoverRuleSettings movers) {
+        this(id, xs, ys, headingDeg, toleranceDeg, minSpeedPxPerSecond, minConfidence, rule, learnHeadingSeconds,
+                movers, null);
+    }
+
     /** A zone whose mover rule takes its times and travels from {@code rule} and the default mover size. */
     public ZoneConfig(String id, double[] xs, double[] ys, double headingDeg, double toleranceDeg,
             double minSpeedPxPerSecond, double minConfidence, RuleSettings rule, double learnHeadingSeconds) {
@@ -56,6 +65,11 @@ public record ZoneConfig(String id, double[] xs, double[] ys, double headingDeg,
     @Override
     public double[] ys() {
         return ys.clone();
+    }
+
+    /** True when the zone has hours (outside them its rule raises no events). */
+    public boolean hasHours() {
+        return hours != null;
     }
 
     public boolean hasHeading() {

@@ -9,7 +9,10 @@ import wayward.analysis.CameraConfig;
 import wayward.config.ConfigPrinter;
 import wayward.config.SiteConfig;
 
-/** Checks a config and prints the effective one (secrets masked), what learning zones learned. */
+/**
+ * Checks a config and prints the effective one (secrets masked), what learning zones learned, and for zones with
+ * hours whether they are in hours now and until when.
+ */
 final class CheckCommand extends Command {
     CheckCommand() {
         super("check", Set.of("--config"), String.join("\n",
@@ -59,6 +62,15 @@ final class CheckCommand extends Command {
                     learned = "cannot read what was learned (" + e.getMessage() + "); it is learned again at start";
                 }
                 out.println("# camera " + cam.id() + " zone " + z.id() + ": " + learned);
+            }
+        }
+        // each zone with hours: in or off hours now, and when that changes (site time, with its offset)
+        java.time.Instant now = java.time.Instant.now();
+        for (CameraConfig cam : c.cameras()) {
+            for (wayward.analysis.ZoneConfig z : cam.zones()) {
+                if (z.hasHours()) {
+                    out.println("# camera " + cam.id() + " zone " + z.id() + ": " + z.hours().describe(now));
+                }
             }
         }
         return Main.OK;

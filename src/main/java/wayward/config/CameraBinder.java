@@ -2,11 +2,14 @@ package wayward.config;
 
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.time.LocalDate;
+import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
 import java.util.Set;
 import java.util.function.Function;
+import org.tomlj.TomlArray;
 import wayward.capture.SourceInput;
 import wayward.capture.Sources;
 import wayward.delivery.MqttTopics;
@@ -15,6 +18,7 @@ import wayward.rule.RuleSettings;
 import wayward.secret.Urls;
 import wayward.analysis.CameraConfig;
 import wayward.analysis.ZoneConfig;
+import wayward.analysis.ZoneHours;
 
 /**
  * Binds the [[camera]] tables and their [[camera.zone]] tables: the source and how it is read, the analysis size
@@ -25,15 +29,15 @@ final class CameraBinder {
     }
 
     /** The cameras in file order; at least one is required, and ids must differ. */
-    static List<CameraConfig> cameras(TableReader top, Path base) {
+    static List<CameraConfig> cameras(TableReader top, Path base, ZoneId timeZone) {
         List<TableReader> tables = top.entries("camera");
         if (tables.isEmpty() && !top.has("camera")) {
             top.errorAtTable("camera", "missing (expected at least one [[camera]] table)");
         }
-        return bindAll(tables, s -> camera(s, base), CameraConfig::id, "an id no other camera has");
+        return bindAll(tables, s -> camera(s, base, timeZone), CameraConfig::id, "an id no other camera has");
     }
 
-    private static CameraConfig camera(TableReader s, Path base) {
+    private static CameraConfig camera(TableReader s, Path base, ZoneId timeZone) {
         String id = s.requiredId("id");
         if (id != null && MqttTopics.RESERVED_CAMERA_IDS.contains(id)) {
             s.error("id", id, "an id other than " + String.join(", ", MqttTopics.RESERVED_CAMERA_IDS.stream().sorted()
@@ -75,7 +79,7 @@ final class CameraBinder {
         if (zoneTables.isEmpty()) {
             s.errorAtTable("zone", "missing (expected at least one [[camera.zone]] table)");
         }
-        List<ZoneConfig> zones = bindAll(zoneTables, CameraBinder::zone, ZoneConfig::id,
+        List<ZoneConfig> zones = bindAll(zoneTables, z -> zone(z, timeZone), ZoneConfig::id,
                 "an id no other zone of this camera has");
         s.finish();
         if (id == null || source == null) {
@@ -172,7 +176,7 @@ final class CameraBinder {
         return new SourceInput(transport, deviceSize, deviceFps, deviceFormat, lostAfter);
     }
 
-    private static ZoneConfig zone(TableReader z) {
+    private static ZoneConfig zone(TableReader z, ZoneId timeZone) {
         String id = z.requiredId("id");
         double[][] polygon = z.polygon("polygon");
         double heading = Double.NaN;
@@ -228,6 +232,7 @@ final class CameraBinder {
                         + "release_level (set heading_deg or learn_heading_seconds to decide on movers)");
             }
         }
+        ZoneHours hours = hours(z, timeZone);
         z.finish();
         if (id == null || polygon == null) {
             return null;
@@ -235,7 +240,61 @@ final class CameraBinder {
         return new ZoneConfig(id, polygon[0], polygon[1], heading, tolerance, minSpeed, minConfidence,
                 new RuleSettings(Math.max(onset, 0.0001), Math.max(0, Math.min(release, onset)), hold, clear, rest,
                         minTravel, quickTravel), learn,
-                new MoverRuleSettings(hold, clear, rest, minTravel, quickTravel, minArea));
+                new MoverRuleSettings(hold, clear, rest, minTravel, quickTravel, minArea), hours);
+    }
+
+    /**
+     * A zone's {@code hours} and {@code off_dates} in the site's time zone; null when absent, or wrong (reported
+     * once per wrong entry).
+     */
+    private static ZoneHours hours(TableReader z, ZoneId timeZone) {
+        Object hoursValue = z.raw("hours");
+        Object datesValue = z.raw("off_dates");
+        if (hoursValue == null) {
+            if (datesValue != null) {
+                z.error("off_dates", datesValue, "hours set as well (off dates are exceptions to a zone's hours)");
+            }
+            return null;
+        }
+        boolean ok = true;
+        List<ZoneHours.Range> ranges = new ArrayList<>();
+        if (!(hoursValue instanceof TomlArray a) || a.isEmpty()) {
+            z.error("hours", hoursValue, "a list of ranges such as [\"mon-fri 06:00-22:00\", \"sat 07:00-12:00\"]");
+            ok = false;
+        } else {
+            for (int i = 0; i < a.size(); i++) {
+                try {
+                    if (!(a.get(i) instanceof String text)) {
+                        throw new IllegalArgumentException(ZoneHours.RANGE_EXPECTED);
+                    }
+                    ranges.add(ZoneHours.parseRange(text));
+                } catch (IllegalArgumentException e) {
+                    z.errorAtItem("hours", a, i, e.getMessage());
+                    ok = false;
+                }
+            }
+        }
+        List<LocalDate> dates = new ArrayList<>();
+        String dateExpected = "a local date such as 2026-12-24 (a TOML date, without quotes)";
+        if (datesValue instanceof TomlArray a) {
+            for (int i = 0; i < a.size(); i++) {
+                if (a.get(i) instanceof LocalDate d) {
+                    dates.add(d);
+                } else {
+                    z.errorAtItem("off_dates", a, i, dateExpected);
+                    ok = false;
+                }
+            }
+        } else if (datesValue != null) {
+            z.error("off_dates", datesValue, "a list of local dates such as [2026-12-24, 2026-12-25]");
+            ok = false;
+        }
+        if (timeZone == null) {
+            z.error("hours", hoursValue, "[service] time_zone set as well (the hours are local times of the site, "
+                    + "in a time zone such as \"Europe/Berlin\")");
+            ok = false;
+        }
+        return ok ? new ZoneHours(timeZone, ranges, dates) : null;
     }
 
     /** Binds each table in order; a table that did not bind (reported) is left out, a repeated id reported. */

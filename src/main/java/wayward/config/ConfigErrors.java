@@ -12,14 +12,28 @@ final class ConfigErrors {
     private final String file;
     private final List<String> lines = new ArrayList<>();
     private final List<long[]> order = new ArrayList<>();
+    /** Spaces put into the text before parsing ({line, column}; {@link TomlShape#padDatesBeforeBrackets}). */
+    private List<int[]> spaces = List.of();
 
     ConfigErrors(String file) {
         this.file = file;
     }
 
+    /** The text parsed had these spaces put in ({line, column}): positions after them are told as in the file. */
+    void spacesAdded(List<int[]> added) {
+        this.spaces = List.copyOf(added);
+    }
+
     void at(TomlPosition p, String text) {
         int line = p == null ? 1 : p.line();
         int column = p == null ? 1 : p.column();
+        int shift = 0;
+        for (int[] s : spaces) {
+            if (s[0] == line && s[1] < column) {
+                shift++;
+            }
+        }
+        column -= shift;
         order.add(new long[] {line, column, order.size()});
         lines.add(file + ":" + line + ":" + column + ": " + text);
     }

@@ -35,13 +35,15 @@ public final class ConfigLoader {
     public static SiteConfig load(Path file, Environment env) throws ConfigException {
         String shown = file.toString();
         TomlParseResult toml;
+        TomlShape.Padded padded;
         try {
             if (Files.isDirectory(file)) {
                 throw new ConfigException(List.of(shown + ": is a folder (expected a TOML config file)"));
             }
             String text = TomlShape.text(Files.readAllBytes(file), shown);
             TomlShape.checkNesting(text, shown);
-            toml = Toml.parse(text);
+            padded = TomlShape.padDatesBeforeBrackets(text);
+            toml = Toml.parse(padded.text());
         } catch (NoSuchFileException e) {
             throw new ConfigException(List.of(shown + ": file not found"));
         } catch (java.nio.file.AccessDeniedException e) {
@@ -51,6 +53,7 @@ public final class ConfigLoader {
             throw new ConfigException(List.of(shown + ": cannot read (" + e.getMessage() + ")"));
         }
         ConfigErrors errors = new ConfigErrors(shown);
+        errors.spacesAdded(padded.spaces());
         if (toml.hasErrors()) {
             for (TomlParseError e : toml.errors()) {
                 String message = e.getMessage();
@@ -72,7 +75,7 @@ public final class ConfigLoader {
         ServiceBinder.Service service = ServiceBinder.bind(top, errors, base, env);
         FlowConfig flow = FlowClipBinder.flow(top);
         ClipConfig clips = FlowClipBinder.clips(top);
-        List<CameraConfig> cameras = CameraBinder.cameras(top, base);
+        List<CameraConfig> cameras = CameraBinder.cameras(top, base, service.timeZone());
         List<WebhookConfig> webhooks = DeliveryBinder.webhooks(top, base);
         MqttConfig mqtt = DeliveryBinder.mqtt(top, base, env.hostName());
         long outboxMaxBytes = DeliveryBinder.outboxMaxBytes(top);
@@ -81,6 +84,6 @@ public final class ConfigLoader {
             mqtt = DeliveryBinder.forInstance(mqtt, service.shard());
         }
         return new SiteConfig(file, service.dataDir(), flow, cameras, webhooks, clips, mqtt, outboxMaxBytes,
-                service.http(), service.shard(), service.maxMute());
+                service.http(), service.shard(), service.timeZone(), service.maxMute());
     }
 }

@@ -39,6 +39,11 @@ public final class ConfigPrinter {
             b.append("]\n");
             b.append("membership = ").append(quote(c.shard().membership())).append('\n');
         }
+        if (c.timeZone() != null) {
+            b.append("time_zone = ").append(quote(c.timeZone().getId())).append('\n');
+        } else {
+            b.append("# time_zone not set: no zone has hours\n");
+        }
         b.append("\n[flow]\n");
         b.append("levels = ").append(c.flow().levels()).append('\n');
         b.append("iterations = ").append(c.flow().iterations()).append('\n');
@@ -177,7 +182,30 @@ public final class ConfigPrinter {
                 b.append("  clear_seconds = ").append(num(z.rule().clearSeconds())).append('\n');
                 b.append("  rest_seconds = ").append(num(z.rule().restSeconds())).append('\n');
             }
+            hours(b, z);
         }
+    }
+
+    private static void hours(StringBuilder b, ZoneConfig z) {
+        if (!z.hasHours()) {
+            b.append("  # hours not set: the zone raises events at every hour\n");
+            b.append("  # off_dates not set: no hours to make exceptions to\n");
+            return;
+        }
+        b.append("  hours = [");
+        java.util.List<wayward.analysis.ZoneHours.Range> ranges = z.hours().ranges();
+        for (int i = 0; i < ranges.size(); i++) {
+            b.append(i == 0 ? "" : ", ").append(quote(ranges.get(i).text()));
+        }
+        // the time zone is named here too, so that a camera whose zones' time zone changed counts as changed
+        b.append("]   # local times in ").append(z.hours().timeZone().getId()).append('\n');
+        // spaced inside the brackets: tomlj 1.1.1 misreads a date right before "]" (TomlShape)
+        b.append("  off_dates = [");
+        java.util.List<java.time.LocalDate> dates = z.hours().offDates();
+        for (int i = 0; i < dates.size(); i++) {
+            b.append(i == 0 ? " " : ", ").append(dates.get(i));
+        }
+        b.append(dates.isEmpty() ? "]\n" : " ]\n");
     }
 
     private static String num(double d) {

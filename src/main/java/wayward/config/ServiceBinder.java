@@ -2,6 +2,7 @@ package wayward.config;
 
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.List;
 import org.tomlj.TomlArray;
@@ -15,9 +16,16 @@ final class ServiceBinder {
     private ServiceBinder() {
     }
 
-    /** What [service] settles: {@code http} is null when off, {@code shard} null when one instance watches all. */
-    record Service(Path dataDir, HttpConfig http, ShardConfig shard, java.time.Duration maxMute) {
+    /**
+     * What [service] settles: {@code http} is null when off, {@code shard} null when one instance watches all,
+     * {@code timeZone} null when not set.
+     */
+    record Service(Path dataDir, HttpConfig http, ShardConfig shard, ZoneId timeZone, java.time.Duration maxMute) {
     }
+
+    /** What {@code time_zone} must be, for messages. */
+    static final String TIME_ZONE_EXPECTED = "a time zone of the tz database such as \"Europe/Berlin\" (a region, "
+            + "so that daylight saving follows it; \"UTC\" for none)";
 
     static Service bind(TableReader top, ConfigErrors errors, Path base, Environment env) {
         Path dataDir = base.resolve(SiteConfig.DEFAULT_DATA_DIR);
@@ -28,6 +36,7 @@ final class ServiceBinder {
         // membership through the broker needs one: without [mqtt] the fixed list is all there is
         boolean viaBroker = top.raw("mqtt") != null;
         double muteHours = SiteConfig.DEFAULT_MAX_MUTE_HOURS;
+        ZoneId timeZone = null;
         TableReader s = top.section("service");
         if (s != null) {
             String dir = s.string("data_dir", SiteConfig.DEFAULT_DATA_DIR, "a folder path");
@@ -44,6 +53,7 @@ final class ServiceBinder {
             viaBroker = membership(s, viaBroker);
             muteHours = s.number("max_mute_hours", SiteConfig.DEFAULT_MAX_MUTE_HOURS, SiteConfig.MIN_MAX_MUTE_HOURS,
                     SiteConfig.MAX_MAX_MUTE_HOURS);
+            timeZone = timeZone(s);
             s.finish();
         }
         String fromEnv = env.instances();
@@ -58,8 +68,24 @@ final class ServiceBinder {
             // instances on one host must not share an outbox or learned headings: a folder each
             dataDir = dataDir.resolve(shard.instance());
         }
-        return new Service(dataDir, httpFromEnv(errors, env.http(), http), shard,
+        return new Service(dataDir, httpFromEnv(errors, env.http(), http), shard, timeZone,
                 java.time.Duration.ofSeconds(Math.round(muteHours * 3600)));
+    }
+
+    /**
+     * {@code time_zone} of [service]: a region id of the JDK's tz database; null when absent or wrong (reported).
+     * Fixed offsets such as "+01:00" are refused: they never change for daylight saving, which a site's clock does.
+     */
+    private static ZoneId timeZone(TableReader s) {
+        String id = s.string("time_zone", null, TIME_ZONE_EXPECTED);
+        if (id == null) {
+            return null;
+        }
+        if (!ZoneId.getAvailableZoneIds().contains(id)) {
+            s.error("time_zone", id, TIME_ZONE_EXPECTED);
+            return null;
+        }
+        return ZoneId.of(id);
     }
 
     /** {@code http} ("host:port" or "off") and {@code token_file} of [service]; null when off. */

@@ -23,11 +23,12 @@ import wayward.http.HttpConfig;
  * @param outboxMaxBytes bound on the durable outbox's size on disk
  * @param http     the status server, or null when off
  * @param shard    this instance's share of the cameras, or null when one instance watches all
+ * @param timeZone the site's time zone ([service] time_zone; zones' hours are in it), or null when not set
  * @param maxMute  the longest an operator's mute may last ({@code [service] max_mute_hours})
  */
 public record SiteConfig(Path file, Path dataDir, FlowConfig flow, List<CameraConfig> cameras,
         List<WebhookConfig> webhooks, ClipConfig clips, MqttConfig mqtt, long outboxMaxBytes, HttpConfig http, ShardConfig shard,
-        java.time.Duration maxMute) {
+        java.time.ZoneId timeZone, java.time.Duration maxMute) {
     /** The data folder, beside the config file, when {@code data_dir} is not given. */
     public static final String DEFAULT_DATA_DIR = "data";
     /** The outbox's bound on disk, MB ({@code [outbox] max_mb}). */

@@ -56,6 +56,13 @@ final class TableReader {
         errors.at(where(name), key(name) + ": " + TomlText.render(value) + " (expected " + expected + ")");
     }
 
+    /** A wrong item of the array {@code name}: {@code key[i]: value (expected …)} at the item's position. */
+    void errorAtItem(String name, TomlArray a, int i, String expected) {
+        TomlPosition at = a.inputPositionOf(i);
+        errors.at(at != null ? at : where(name), key(name) + "[" + i + "]: " + TomlText.render(a.get(i))
+                + " (expected " + expected + ")");
+    }
+
     void errorAtTable(String name, String text) {
         errors.at(position, key(name) + ": " + text);
     }

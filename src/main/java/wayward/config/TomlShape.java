@@ -67,6 +67,70 @@ final class TomlShape {
         }
     }
 
+    /**
+     * The text with a space put between a date or time and a {@code ]} that directly follows it, and where each
+     * space went ({line, column} in the returned text, 1-based). tomlj 1.1.1 misreads what follows such an array
+     * ({@code off_dates = [2026-12-24]} then any key: "Unexpected ..., expected a newline"), though it is valid TOML
+     * 1.0; with the space it reads it right. Error positions on those lines are shifted back by {@link ConfigErrors}.
+     */
+    static Padded padDatesBeforeBrackets(String s) {
+        StringBuilder out = new StringBuilder(s.length());
+        List<int[]> spaces = new java.util.ArrayList<>();
+        int line = 1;
+        int lineStart = 0;
+        for (int i = 0; i < s.length(); i++) {
+            char c = s.charAt(i);
+            if (c == '#') {
+                int end = s.indexOf('\n', i);
+                end = end < 0 ? s.length() : end;
+                out.append(s, i, end);
+                i = end - 1;
+                continue;
+            }
+            if (c == '"' || c == '\'') {
+                boolean multi = s.startsWith(String.valueOf(c).repeat(3), i);
+                String close = multi ? String.valueOf(c).repeat(3) : String.valueOf(c);
+                int j = i + (multi ? 3 : 1);
+                while (j < s.length() && !s.startsWith(close, j) && (multi || s.charAt(j) != '\n')) {
+                    j += c == '"' && s.charAt(j) == '\\' ? 2 : 1;
+                }
+                int end = Math.min(s.length(), j + close.length());
+                for (int k = i; k < end; k++) {
+                    if (s.charAt(k) == '\n') {
+                        line++;
+                        lineStart = out.length() + (k - i) + 1;
+                    }
+                }
+                out.append(s, i, end);
+                i = end - 1;
+                continue;
+            }
+            if (c == ']' && endsWithDate(s, i)) {
+                spaces.add(new int[] {line, out.length() - lineStart + 1});
+                out.append(' ');
+            }
+            out.append(c);
+            if (c == '\n') {
+                line++;
+                lineStart = out.length();
+            }
+        }
+        return new Padded(out.toString(), spaces);
+    }
+
+    /** The text to parse and where spaces were put in it ({line, column}). */
+    record Padded(String text, List<int[]> spaces) {
+    }
+
+    /** True when the value that ends just before {@code end} is a TOML date or time (RFC 3339 forms). */
+    private static boolean endsWithDate(String s, int end) {
+        int start = end;
+        while (start > 0 && " \t,[".indexOf(s.charAt(start - 1)) < 0) {
+            start--;
+        }
+        return s.substring(start, end).matches("[0-9]{4}-[0-9]{2}-[0-9]{2}.*|[0-9]{2}:[0-9]{2}.*");
+    }
+
     private static int[] lineColumn(CharSequence s, int upTo) {
         int line = 1;
         int column = 1;

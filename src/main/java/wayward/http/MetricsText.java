@@ -119,6 +119,21 @@ final class MetricsText {
                 && p.config().zones().get(z).id().equals(s.zone())) ? 1 : 0);
     }
 
+    /** 1 while a zone with hours is in them, 0 outside; zones without hours have no sample. */
+    private void zonesInHours(List<CameraStatus> ps) {
+        String name = "wayward_zone_on_schedule";
+        family(name, "gauge", "1 while the zone is in its hours (its rule may raise events), 0 outside them; only "
+                + "zones with hours.");
+        java.time.Instant now = java.time.Instant.now();
+        for (CameraStatus p : ps) {
+            for (ZoneConfig z : p.config().zones()) {
+                if (z.hasHours()) {
+                    sample(name, z.hours().on(now) ? 1 : 0, "camera", p.id(), "zone", z.id());
+                }
+            }
+        }
+    }
+
     /** Instances sharing the config: who is online, who watches what, how often cameras moved. */
     private void instances(Instances in) {
         if (in == null) {
@@ -203,6 +218,7 @@ final class MetricsText {
                 "Share of the zone's pixels moving against its heading, newest reading (0..1).",
                 CameraStatus::zoneAgainstShare);
         perZone(ps, "wayward_zone_events_total", "counter", "Events started in the zone.", CameraStatus::zoneEvents);
+        zonesInHours(ps);
         family("wayward_evidence_failed_total", "counter",
                 "Evidence files that could not be written, by file: the clip, the snapshot, the JSON sidecar.");
         sample("wayward_evidence_failed_total", (double) ClipWriter.failedClips(), "file", "clip");

@@ -169,6 +169,20 @@ final class Views {
                 number(g, "moving_share", p.zoneMovingShare(z));
                 number(g, "against_share", p.zoneAgainstShare(z));
                 g.writeNumberField("events", p.zoneEvents(z));
+                if (zc.hasHours()) {
+                    // the schedule is a function of the time: read from the config, as the analysis thread does
+                    java.time.Instant now = java.time.Instant.now();
+                    java.time.Instant next = zc.hours().nextChange(now);
+                    g.writeObjectFieldStart("hours");
+                    g.writeBooleanField("in_hours", zc.hours().on(now));
+                    if (next == null) {
+                        g.writeNullField("next_change");
+                    } else {
+                        g.writeStringField("next_change", java.time.format.DateTimeFormatter.ISO_INSTANT.format(next));
+                    }
+                    g.writeStringField("schedule", zc.hours().toString());
+                    g.writeEndObject();
+                }
                 g.writeEndObject();
             }
             g.writeEndArray();

@@ -270,7 +270,8 @@ public final class Service implements StatusSource {
     /** The settings outside [flow] and the cameras, as text, for telling whether they changed. */
     private static String rest(SiteConfig c) {
         return ConfigPrinter.toToml(new SiteConfig(c.file(), c.dataDir(), wayward.flow.FlowConfig.DEFAULTS,
-                List.of(), c.webhooks(), c.clips(), c.mqtt(), c.outboxMaxBytes(), c.http(), c.shard(), c.maxMute()));
+                List.of(), c.webhooks(), c.clips(), c.mqtt(), c.outboxMaxBytes(), c.http(), c.shard(), null,
+                c.maxMute()));
     }
 
     /**
@@ -306,7 +307,7 @@ public final class Service implements StatusSource {
                     + "next restart; the running values stay");
             next = new SiteConfig(next.file(), config.dataDir(), next.flow(), next.cameras(), config.webhooks(),
                     config.clips(), config.mqtt(), config.outboxMaxBytes(), config.http(), config.shard(),
-                    config.maxMute());
+                    next.timeZone(), config.maxMute());
         }
         config = next;
         if (mutes != null) {

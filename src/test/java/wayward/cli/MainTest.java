@@ -44,6 +44,13 @@ class MainTest {
         assertEquals(0, run("check", "--config", "conf/wayward.example.toml"));
         assertTrue(stdout().contains("[[camera.zone]]"), stdout());
         assertTrue(stdout().contains("viewer:***@"), "password masked");
+        // the example's staff-door has hours (Europe/Berlin): its state now and the next change with the offset
+        // (+01:00 in winter, +02:00 in summer: the tz database, from memory)
+        assertTrue(java.util.regex.Pattern.compile("\n# camera yard-gate-1 zone staff-door: (in hours until "
+                + "\\d{4}-\\d\\d-\\d\\dT\\d\\d:\\d\\d\\+0[12]:00 \\(mon-fri 06:00-22:00, sat 07:00-12:00\\)|off hours until "
+                + "\\d{4}-\\d\\d-\\d\\dT\\d\\d:\\d\\d\\+0[12]:00 \\((outside hours mon-fri 06:00-22:00, sat 07:00-12:00|off date "
+                + "2026-12-2[45])\\))\n").matcher(stdout()).find(), stdout());
+        assertTrue(!stdout().contains("zone exit-ramp: "), "a zone without hours has no such line");
     }
 
     @Test

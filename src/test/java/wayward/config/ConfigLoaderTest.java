@@ -28,7 +28,7 @@ class ConfigLoaderTest {
     @ParameterizedTest(name = "{0}")
     @CsvSource(delimiter = '|', quoteCharacter = '`', value = {
         "tolerance-out-of-range.toml | 9:3: camera[0].zone[0].tolerance_deg: 120 (expected a number from 0 to 90)",
-        "unknown-key.toml | 12:1: camera[0].zone[1].colour: \"red\" (unknown key; expected one of id, polygon, heading_deg, tolerance_deg, min_speed, min_confidence, learn_heading_seconds, hold_seconds, clear_seconds, rest_seconds, onset_level, release_level)",
+        "unknown-key.toml | 12:1: camera[0].zone[1].colour: \"red\" (unknown key; expected one of id, polygon, heading_deg, tolerance_deg, min_speed, min_confidence, learn_heading_seconds, hold_seconds, clear_seconds, rest_seconds, onset_level, release_level, hours, off_dates)",
         "onset-on-heading-zone.toml | 9:3: camera[0].zone[0].onset_level: 0.02 (expected no such key for a zone with a heading: it decides on movers (min_mover_area_px, min_travel_px, quick_travel_px, hold_seconds), not on shares of the zone)",
         "travel-on-motion-zone.toml | 8:3: camera[0].zone[0].min_travel_px: 15 (expected no such key for a zone without a heading: it reports any motion by onset_level and release_level (set heading_deg or learn_heading_seconds to decide on movers))",
         "quick-under-min-travel.toml | 10:3: camera[0].zone[0].quick_travel_px: 12 (expected at least min_travel_px 20)",
@@ -64,6 +64,16 @@ class ConfigLoaderTest {
         "analysis-source-on-webcam.toml | 4:1: camera[0].analysis_source: \"rtsp://cam.yard.example/sub\" (expected no analysis_source for a webcam (/dev/videoN sends one stream))",
         "analysis-source-file-beside-url.toml | 4:1: camera[0].analysis_source: \"gate-sub.mp4\" (expected a URL like source (both streams of a camera are files, or both URLs))",
         "analysis-source-not-text.toml | 4:1: camera[0].analysis_source: 2 (expected the camera's smaller stream: a video file path or a URL such as rtsp://host/stream2)",
+        // a zone's hours (ZoneHours): the site's time zone is required, and each entry is checked by itself
+        "hours-without-time-zone.toml | 9:3: camera[0].zone[0].hours: [\"mon-fri 06:00-22:00\"] (expected [service] time_zone set as well (the hours are local times of the site, in a time zone such as \"Europe/Berlin\"))",
+        "hours-range-malformed.toml | 12:35: camera[0].zone[0].hours[1]: \"weekdays 6-22\" (expected a day or day range (mon to sun, e.g. \"mon-fri\" or \"sat-mon\") and a local time range such as \"06:00-22:00\" (\"22:00-06:00\" crosses midnight, \"00:00-24:00\" is the whole day))",
+        "hours-empty-range.toml | 12:12: camera[0].zone[0].hours[0]: \"sat 07:00-07:00\" (expected a time range that is not empty (07:00-07:00 starts where it ends; the whole day is \"00:00-24:00\"))",
+        "off-date-quoted.toml | 13:28: camera[0].zone[0].off_dates[1]: \"2026-12-25\" (expected a local date such as 2026-12-24 (a TOML date, without quotes))",
+        "off-dates-without-hours.toml | 9:3: camera[0].zone[0].off_dates: [2026-12-24] (expected hours set as well (off dates are exceptions to a zone's hours))",
+        // a space is put before a date's "]" for tomlj (TomlShape); positions after it are still the file's
+        "off-dates-then-text.toml | 13:28: TOML syntax: Unexpected 'extra', expected a newline or end-of-input",
+        // a fixed offset never follows daylight saving (java.time: ZoneOffset is not in ZoneId.getAvailableZoneIds)
+        "time-zone-offset.toml | 2:1: service.time_zone: \"+01:00\" (expected a time zone of the tz database such as \"Europe/Berlin\" (a region, so that daylight saving follows it; \"UTC\" for none))",
     })
     void reportsOneLocatedLinePerMistake(String fixture, String expected) {
         assertEquals(List.of(DIR + fixture + ":" + expected), errorsOf(fixture));
@@ -187,8 +197,44 @@ class ConfigLoaderTest {
                 DIR + "three-mistakes.toml:12:3: camera[0].zone[0].hold_secs: 0.5 (unknown key; expected one of id, "
                         + "polygon, heading_deg, tolerance_deg, min_speed, min_confidence, learn_heading_seconds, "
                         + "hold_seconds, clear_seconds, rest_seconds, min_travel_px, quick_travel_px, "
-                        + "min_mover_area_px)"),
+                        + "min_mover_area_px, hours, off_dates)"),
                 errorsOf("three-mistakes.toml"));
+    }
+
+    @Test
+    void aDateRightBeforeAClosingBracketIsRead(@TempDir Path dir) throws Exception {
+        String zone = String.join("\n",
+                "[service]",
+                "time_zone = \"Europe/Berlin\"",
+                "[[camera]]",
+                "id = \"gate\"",
+                "source = \"rtsp://cam.yard.example/s\"",
+                "[[camera.zone]]",
+                "id = \"lane\"",
+                "polygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]",
+                "hours = [\"mon-sun 00:00-24:00\"]",
+                "off_dates = [2026-12-24,2026-12-31]",
+                "note = \"[2026-12-24]\"   # a string is left as it is: unknown key, value as written",
+                "[[camera.zone]]",
+                "id = \"door\"",
+                "polygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]",
+                "hours = [\"mon-sun 00:00-24:00\"]",
+                "off_dates = [2027-01-01]",
+                "");
+        // valid TOML 1.0 that tomlj 1.1.1 alone misreads: the key after the array is a syntax error to it
+        org.tomlj.TomlParseResult plain = org.tomlj.Toml.parse(zone);
+        assertTrue(plain.hasErrors(), "tomlj reads it right by itself now: TomlShape.padDatesBeforeBrackets can go");
+        Path f = dir.resolve("site.toml");
+        Files.writeString(f, zone);
+        ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.load(f));
+        assertEquals(1, e.errors().size(), e.errors().toString());
+        assertTrue(e.errors().get(0).startsWith(f + ":11:1: camera[0].zone[0].note: \"[2026-12-24]\" (unknown key"),
+                e.errors().get(0));
+        Files.writeString(f, zone.replace("note = \"[2026-12-24]\"   # a string is left as it is: unknown key, value as written\n", ""));
+        List<ZoneConfig> zones = ConfigLoader.load(f).cameras().get(0).zones();
+        assertEquals(List.of(java.time.LocalDate.of(2026, 12, 24), java.time.LocalDate.of(2026, 12, 31)),
+                zones.get(0).hours().offDates());
+        assertEquals(List.of(java.time.LocalDate.of(2027, 1, 1)), zones.get(1).hours().offDates());
     }
 
     @Test
@@ -208,6 +254,11 @@ class ConfigLoaderTest {
         assertEquals(0, ramp.headingDeg());
         assertEquals(0.5, ramp.rule().holdSeconds());
         assertFalse(cam.zones().get(1).hasHeading(), "staff-door has no heading");
+        assertFalse(ramp.hasHours(), "exit-ramp raises events at every hour");
+        assertEquals(java.time.ZoneId.of("Europe/Berlin"), c.timeZone());
+        assertEquals("mon-fri 06:00-22:00, sat 07:00-12:00", cam.zones().get(1).hours().toString());
+        assertEquals(List.of(java.time.LocalDate.of(2026, 12, 24), java.time.LocalDate.of(2026, 12, 25)),
+                cam.zones().get(1).hours().offDates());
         assertEquals(1, c.webhooks().size());
         assertEquals(java.util.Map.of("Authorization", "Bearer yard-ops-token"), c.webhooks().get(0).headers());
         assertEquals("yard/north", c.mqtt().topicPrefix());

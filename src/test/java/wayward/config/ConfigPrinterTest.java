@@ -28,10 +28,12 @@ class ConfigPrinterTest {
         "id = \"ramp\"\npolygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]\nheading_deg = 90\n",
         "id = \"door\"\npolygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]\n",
         "id = \"aisle\"\npolygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]\nlearn_heading_seconds = 60\n",
+        "id = \"dock\"\npolygon = [[0.1, 0.1], [0.9, 0.1], [0.9, 0.9]]\nheading_deg = 180\n"
+                + "hours = [\"mon-fri 06:00-22:00\", \"SAT-MON 22:00-02:00\"]\noff_dates = [2026-12-24, 2026-12-25]\n",
     };
 
     private static String site(String extra) {
-        StringBuilder b = new StringBuilder("[[camera]]\nid = \"gate\"\nsource = \"rtsp://cam.yard.example/s\"\n");
+        StringBuilder b = new StringBuilder("[service]\ntime_zone = \"Europe/Berlin\"\n[[camera]]\nid = \"gate\"\nsource = \"rtsp://cam.yard.example/s\"\n");
         for (String z : ZONES) {
             b.append("[[camera.zone]]\n").append(z).append(extra);
         }
@@ -80,6 +82,11 @@ class ConfigPrinterTest {
             assertEquals(before.get(k).movers(), after.get(k).movers());
             assertEquals(before.get(k).headingDeg(), after.get(k).headingDeg());
             assertEquals(before.get(k).learnHeadingSeconds(), after.get(k).learnHeadingSeconds());
+            assertEquals(String.valueOf(before.get(k).hours()), String.valueOf(after.get(k).hours()));
+            assertEquals(before.get(k).hasHours() ? before.get(k).hours().offDates() : null,
+                    after.get(k).hasHours() ? after.get(k).hours().offDates() : null);
         }
+        assertEquals(config.timeZone(), ConfigLoader.load(again).timeZone());
+        assertEquals("mon-fri 06:00-22:00, sat-mon 22:00-02:00", after.get(3).hours().toString());
     }
 }

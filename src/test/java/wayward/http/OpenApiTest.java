@@ -206,6 +206,7 @@ class OpenApiTest {
         Files.writeString(config, String.join("\n",
                 "[service]",
                 "data_dir = \"" + dir.resolve("data").toString().replace("\\", "\\\\") + "\"",
+                "time_zone = \"Europe/Berlin\"",
                 "",
                 "[[camera]]",
                 "id = \"yard-mast-2\"",
@@ -216,6 +217,7 @@ class OpenApiTest {
                 "  polygon = [[0.31, 0.98], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]",
                 "  heading_deg = 0",
                 "  tolerance_deg = 60",
+                "  hours = [\"mon-fri 06:00-22:00\", \"sat 07:00-12:00\"]",
                 "",
                 "  [[camera.zone]]",
                 "  id = \"gate-area\"",
@@ -318,6 +320,15 @@ class OpenApiTest {
             assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(),
                     "a field the description does not have fails (additionalProperties false)");
             first.remove("delivering");
+            // a zone with hours shows them (described, not only allowed); one without has none
+            JsonNode lane = first.get("zones").get(0);
+            assertEquals("mon-fri 06:00-22:00, sat 07:00-12:00", lane.get("hours").get("schedule").asText());
+            assertTrue(lane.get("hours").get("in_hours").isBoolean());
+            assertTrue(lane.get("hours").get("next_change").isString());
+            assertFalse(first.get("zones").get(1).has("hours"));
+            ((ObjectNode) lane.get("hours")).remove("schedule");
+            assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(), "hours without schedule");
+            ((ObjectNode) lane.get("hours")).put("schedule", "mon-fri 06:00-22:00");
             first.put("state", "delivering");
             assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(), "a state outside the pair");
             ObjectNode events = (ObjectNode) JSON.readTree(answers.get("/api/events").body());
@@ -363,6 +374,10 @@ class OpenApiTest {
                     metrics);
             assertTrue(metrics.contains("wayward_camera_moves_total 3\n"), metrics);
             assertTrue(metrics.contains("wayward_membership_broker_connected 1\n"), metrics);
+            // 1 or 0 by the time of day in Berlin; only the zone with hours has a sample
+            assertTrue(java.util.regex.Pattern.compile("\nwayward_zone_on_schedule\\{camera=\"yard-mast-2\",zone=\"lane-2-out\"\\} [01]\n")
+                    .matcher(metrics).find(), metrics);
+            assertFalse(metrics.contains("wayward_zone_on_schedule{camera=\"yard-mast-2\",zone=\"gate-area\"}"), metrics);
             {
                 // promtool (Debian's prometheus package; .ci/run installs it on the PATH) lints names, HELP and TYPE
                 Process p;
