@@ -184,6 +184,11 @@ class OpenApiTest {
         public LiveView live() {
             return live;
         }
+
+        @Override
+        public List<String> conditions() {
+            return List.of("focus_lost"); // one tamper condition open: the list is not checked empty
+        }
     }
 
     /** The test site: a status source over its cameras, recent events (filled by the test) and evidence. */
@@ -283,6 +288,7 @@ class OpenApiTest {
             }
             // the answers carry what the site holds (so that the schemas were not checked on empty lists)
             assertTrue(answers.get("/api/cameras").body().contains("\"state\":\"watching\""));
+            assertTrue(answers.get("/api/cameras").body().contains("\"conditions\":[\"focus_lost\"]"));
             assertEquals(3, JSON.readTree(answers.get("/api/events").body()).get("events").size());
             assertEquals(2, JSON.readTree(answers.get("/api/evidence").body()).get("files").size());
 
@@ -312,6 +318,9 @@ class OpenApiTest {
             assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(),
                     "a field the description does not have fails (additionalProperties false)");
             first.remove("delivering");
+            first.putArray("conditions").add("lens_dirty");
+            assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(), "a condition no kind names");
+            first.putArray("conditions").add("focus_lost");
             first.put("state", "delivering");
             assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(), "a state outside the pair");
             ObjectNode events = (ObjectNode) JSON.readTree(answers.get("/api/events").body());
