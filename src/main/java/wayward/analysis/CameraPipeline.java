@@ -53,6 +53,11 @@ public final class CameraPipeline implements CameraStatus {
     private volatile java.nio.file.Path learnedDir;
     private volatile ReadingListener readings;
     private volatile FrameListener frames;
+    /** The tamper conditions open now, kinds' JSON names (written by the analysis thread, a new list each change). */
+    private volatile List<String> conditions = List.of();
+    /** The open tamper conditions and their events' ids (analysis thread only). */
+    private final java.util.EnumMap<wayward.event.EventKind, String> open =
+            new java.util.EnumMap<>(wayward.event.EventKind.class);
 
     // analysis-thread state
     private FlowEstimator flow;
@@ -421,7 +426,7 @@ public final class CameraPipeline implements CameraStatus {
                 if (tamper != null) {
                     tamper.update(f, field, t);
                     for (Event e; (e = tamper.poll()) != null; ) {
-                        emit(e);
+                        tampered(e);
                     }
                 }
                 analysisNanos += System.nanoTime() - began;
@@ -446,7 +451,7 @@ public final class CameraPipeline implements CameraStatus {
             if (tamper != null) {
                 tamper.finish(lastStreamSeconds);
                 for (Event e; (e = tamper.poll()) != null; ) {
-                    emit(e);
+                    tampered(e);
                 }
             }
             for (ZoneChannel c : channels) {
@@ -461,6 +466,26 @@ public final class CameraPipeline implements CameraStatus {
     /** Waits for this camera's clip writers to write their trailers (shutdown). */
     public void awaitClips(long timeoutMillis) throws InterruptedException {
         evidence.awaitClips(timeoutMillis);
+    }
+
+    /** A tamper event: the open conditions follow it (analysis thread), then it goes out. */
+    private void tampered(Event e) {
+        if (e.phase() == Event.Phase.START) {
+            open.put(e.kind(), e.id());
+        } else if (e.id().equals(open.get(e.kind()))) {
+            open.remove(e.kind());
+        }
+        List<String> now = new ArrayList<>();
+        for (wayward.event.EventKind k : open.keySet()) {
+            now.add(k.jsonName());
+        }
+        conditions = List.copyOf(now);
+        emit(e);
+    }
+
+    @Override
+    public List<String> conditions() {
+        return conditions;
     }
 
     private void emit(Event e) {

@@ -104,4 +104,13 @@ public interface CameraStatus {
 
     /** The latest frame and flow for the live view. */
     LiveView live();
+
+    /**
+     * The tamper conditions open now (a start raised, its end not yet) by their kinds' JSON names
+     * ({@code view_blocked}, {@code focus_lost}, {@code picture_frozen}, {@code camera_moved}), in that order;
+     * empty when none is or the camera does not watch for them. Safe from any thread.
+     */
+    default java.util.List<String> conditions() {
+        return java.util.List.of();
+    }
 }

@@ -26,10 +26,11 @@ import wayward.secret.LogText;
  * Routes one connection's requests (GET and HEAD only) to their responders; every refusal is a short plain-text
  * 4xx naming the reason. Open to all: {@code /health}, {@code /health/ready}, {@code /view.js} (the live page's
  * script, no site data) and {@code /openapi.json} (the description of the JSON answers, no site data). With a
- * bearer token set, everything else needs it: {@code /} (the camera list), {@code /view/<camera>} (live view
- * page), {@code /live/<camera>.jpg} and {@code /live/<camera>.mjpeg} ({@link LiveStream}), {@code /api/measure}
- * (a drawn zone on the live flow), {@code /metrics}, {@code /api/cameras}, {@code /api/events?limit=N}
- * ({@link Views}), {@code /api/evidence} and {@code /evidence/<path>} ({@link EvidenceFiles}).
+ * bearer token set, everything else needs it: {@code /} (the site page: cameras, recent events, one event),
+ * {@code /view/<camera>} (live view page), {@code /live/<camera>.jpg} and {@code /live/<camera>.mjpeg}
+ * ({@link LiveStream}), {@code /api/measure} (a drawn zone on the live flow), {@code /metrics},
+ * {@code /api/cameras}, {@code /api/events?limit=N} ({@link Views}), {@code /api/evidence} and
+ * {@code /evidence/<path>} ({@link EvidenceFiles}).
  */
 final class StatusHandler extends SimpleChannelInboundHandler<FullHttpRequest> {
     private static final Logger LOG = LoggerFactory.getLogger(StatusHandler.class);

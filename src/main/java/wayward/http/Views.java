@@ -115,6 +115,12 @@ final class Views {
             mute(g, muted, p.id(), null);
             g.writeStringField("source", Urls.mask(p.config().source()));
             g.writeStringField("state", state(p));
+            // the tamper conditions open now: a start raised, its end not yet (the site page's "tampered")
+            g.writeArrayFieldStart("conditions");
+            for (String c : p.conditions()) {
+                g.writeString(c);
+            }
+            g.writeEndArray();
             g.writeNumberField("frames_in", p.framesIn());
             g.writeNumberField("frames_analysed", p.analysedFrames());
             g.writeNumberField("frames_dropped", p.droppedFrames());

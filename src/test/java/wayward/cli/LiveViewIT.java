@@ -4,25 +4,10 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.awt.image.BufferedImage;
-import java.io.ByteArrayInputStream;
-import java.net.URI;
-import java.net.http.HttpClient;
-import java.net.http.HttpRequest;
-import java.net.http.HttpResponse;
-import java.net.http.WebSocket;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.time.Duration;
-import java.util.Base64;
-import java.util.Map;
-import java.util.concurrent.CompletableFuture;
-import java.util.concurrent.CompletionStage;
-import java.util.concurrent.ConcurrentHashMap;
 import java.util.concurrent.TimeUnit;
-import java.util.concurrent.atomic.AtomicInteger;
-import java.util.regex.Matcher;
 import java.util.regex.Pattern;
-import javax.imageio.ImageIO;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
@@ -38,96 +23,6 @@ import wayward.delivery.Mosquitto;
 class LiveViewIT {
     private static final String TOKEN = "yard-view-token-7";
 
-    /** A minimal CDP session: one page target, commands answered by id. */
-    private static final class Cdp implements WebSocket.Listener {
-        private final Map<Integer, CompletableFuture<String>> waiting = new ConcurrentHashMap<>();
-        private final AtomicInteger ids = new AtomicInteger();
-        private final StringBuilder partial = new StringBuilder();
-        private WebSocket socket;
-
-        static Cdp connect(String url) throws Exception {
-            Cdp c = new Cdp();
-            c.socket = HttpClient.newHttpClient().newWebSocketBuilder().buildAsync(URI.create(url), c)
-                    .get(10, TimeUnit.SECONDS);
-            return c;
-        }
-
-        String call(String method, String params) throws Exception {
-            int id = ids.incrementAndGet();
-            CompletableFuture<String> f = new CompletableFuture<>();
-            waiting.put(id, f);
-            socket.sendText("{\"id\":" + id + ",\"method\":\"" + method + "\",\"params\":" + params + "}", true)
-                    .get(10, TimeUnit.SECONDS);
-            String answer = f.get(30, TimeUnit.SECONDS);
-            if (answer.contains("\"error\":")) {
-                throw new AssertionError(method + ": " + answer);
-            }
-            return answer;
-        }
-
-        /** Evaluates an expression in the page; returns its value as a string (String(value)). */
-        String eval(String expression) throws Exception {
-            String a = call("Runtime.evaluate", "{\"expression\":" + quote("String(" + expression + ")")
-                    + ",\"returnByValue\":true}");
-            Matcher m = Pattern.compile("\"value\":\"((?:[^\"\\\\]|\\\\.)*)\"").matcher(a);
-            if (!m.find()) {
-                throw new AssertionError(expression + ": " + a);
-            }
-            return m.group(1).replace("\\n", "\n").replace("\\\"", "\"").replace("\\\\", "\\");
-        }
-
-        void mouse(String type, double x, double y, int buttons) throws Exception {
-            call("Input.dispatchMouseEvent", String.format(java.util.Locale.ROOT,
-                    "{\"type\":\"%s\",\"x\":%.2f,\"y\":%.2f,\"button\":\"left\",\"buttons\":%d,\"clickCount\":1}",
-                    type, x, y, buttons));
-        }
-
-        void click(double x, double y) throws Exception {
-            mouse("mousePressed", x, y, 1);
-            mouse("mouseReleased", x, y, 0);
-        }
-
-        @Override
-        public CompletionStage<?> onText(WebSocket ws, CharSequence data, boolean last) {
-            partial.append(data);
-            if (last) {
-                String msg = partial.toString();
-                partial.setLength(0);
-                Matcher m = Pattern.compile("^\\{\"id\":(\\d+),").matcher(msg);
-                if (m.find()) {
-                    CompletableFuture<String> f = waiting.remove(Integer.parseInt(m.group(1)));
-                    if (f != null) {
-                        f.complete(msg);
-                    }
-                }
-            }
-            ws.request(1);
-            return null;
-        }
-    }
-
-    static String quote(String s) {
-        return "\"" + s.replace("\\", "\\\\").replace("\"", "\\\"").replace("\n", "\\n") + "\"";
-    }
-
-    private static String get(String url) throws Exception {
-        return HttpClient.newHttpClient().send(HttpRequest.newBuilder(URI.create(url)).timeout(Duration.ofSeconds(5))
-                .build(), HttpResponse.BodyHandlers.ofString()).body();
-    }
-
-    private static String await(Cdp cdp, String expression, Pattern until, long seconds) throws Exception {
-        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(seconds);
-        String v = "";
-        while (System.nanoTime() < deadline) {
-            v = cdp.eval(expression);
-            if (until.matcher(v).matches()) {
-                return v;
-            }
-            TimeUnit.MILLISECONDS.sleep(200); // polling the page, not a synchronisation sleep
-        }
-        throw new AssertionError(expression + " stayed " + v);
-    }
-
     @Test
     @Timeout(value = 180, unit = TimeUnit.SECONDS)
     void aZoneDrawnWithTheMouseGivesItsTomlAndTheChartMoves(@TempDir Path dir) throws Exception {
@@ -139,53 +34,23 @@ class LiveViewIT {
         Path site = dir.resolve("site.toml");
         Files.writeString(site, config);
         Process service = YardSite.startService(dir, site);
-        int debugPort = Mosquitto.freePort();
-        Process browser = new ProcessBuilder("chromium", "--headless=new", "--no-sandbox", "--disable-gpu",
-                "--disable-dev-shm-usage", "--remote-debugging-port=" + debugPort,
-                "--user-data-dir=" + dir.resolve("chromium"), "--window-size=1400,900", "about:blank")
-                .redirectErrorStream(true).redirectOutput(dir.resolve("chromium.log").toFile()).start();
-        try {
-            String list = "";
-            long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(30);
-            while (!list.contains("\"type\": \"page\"") && System.nanoTime() < deadline) {
-                try {
-                    list = get("http://127.0.0.1:" + debugPort + "/json/list");
-                } catch (java.io.IOException notYet) {
-                    TimeUnit.MILLISECONDS.sleep(200); // polling for the browser, not a synchronisation sleep
-                }
-            }
-            Matcher ws = Pattern.compile("\"webSocketDebuggerUrl\": \"(ws://[^\"]+/page/[^\"]+)\"").matcher(list);
-            assertTrue(ws.find(), list + Files.readString(dir.resolve("chromium.log")));
-            Cdp cdp = Cdp.connect(ws.group(1));
-            cdp.call("Page.enable", "{}");
-            // the camera list: one camera with one zone, in the singular, its one stream's size (the demo clip is
-            // 640x360, ffprobe) and no "lost" for a camera that is watching
-            cdp.call("Page.navigate", "{\"url\":\"http://127.0.0.1:" + port + "/?access_token=" + TOKEN + "\"}");
-            await(cdp, "(document.getElementById('cameras') || {textContent: ''}).textContent.replace(/\\u2014/g, '-')",
-                    Pattern.compile("yard-mast-2 - 1 zone - 640x360 analysed"), 30);
-            cdp.call("Page.navigate", "{\"url\":\"http://127.0.0.1:" + port + "/view/yard-mast-2?access_token=" + TOKEN + "\"}");
+        try (Chromium cdp = Chromium.start(dir, 1400, 900)) {
+            // the site page: one camera with one zone, in the singular, its one stream's size (the demo clip is
+            // 640x360, ffprobe) and "watching" for a camera that is watching (SitePageIT checks the rest of it)
+            cdp.navigate("http://127.0.0.1:" + port + "/?access_token=" + TOKEN);
+            cdp.await("(document.querySelector('.camera[data-camera=\"yard-mast-2\"] .facts') || {textContent: ''})"
+                    + ".textContent", Pattern.compile("1 zone \u00b7 640x360 analysed"), 30);
+            assertEquals("\u25cf watching", cdp.eval("document.querySelector('.camera .badges').textContent"));
+            cdp.navigate("http://127.0.0.1:" + port + "/view/yard-mast-2?access_token=" + TOKEN);
             // the live picture arrived (the MJPEG stream's first frame gives the image its size)
-            await(cdp, "(document.getElementById('picture') || {naturalWidth: 0}).naturalWidth", Pattern.compile("[1-9]\\d*"), 60);
+            cdp.await("(document.getElementById('picture') || {naturalWidth: 0}).naturalWidth", Pattern.compile("[1-9]\\d*"), 60);
 
-            String measure = "(() => { const r = document.getElementById('draw').getBoundingClientRect();"
-                    + " return [r.left, r.top, r.width, r.height].join(','); })()";
-            // the page lays the drawing surface out again once the picture's size is known: measure until two
-            // readings agree (once measured mid-layout, every click landed at half its place)
-            String rect = cdp.eval(measure);
-            for (int i = 0; i < 25; i++) {
-                TimeUnit.MILLISECONDS.sleep(200); // polling the layout, not a synchronisation sleep
-                String again = cdp.eval(measure);
-                if (again.equals(rect)) {
-                    break;
-                }
-                rect = again;
-            }
-            String[] r = rect.split(",");
-            double left = Double.parseDouble(r[0]);
-            double top = Double.parseDouble(r[1]);
-            double width = Double.parseDouble(r[2]);
-            double height = Double.parseDouble(r[3]);
-            assertTrue(width > 300 && height > 150, rect);
+            double[] r = stableRect(cdp);
+            double left = r[0];
+            double top = r[1];
+            double width = r[2];
+            double height = r[3];
+            assertTrue(width > 300 && height > 150, java.util.Arrays.toString(r));
             double[][] corners = {{0.20, 0.90}, {0.80, 0.90}, {0.60, 0.20}, {0.40, 0.20}};
             for (double[] c : corners) {
                 cdp.click(left + c[0] * width, top + c[1] * height);
@@ -204,12 +69,18 @@ class LiveViewIT {
                     "polygon = [[0.20, 0.90], [0.80, 0.90], [0.60, 0.20], [0.40, 0.20]]", "heading_deg = 45", ""),
                     snippet);
             // the chart gets measurements of the drawn zone from /api/measure
-            await(cdp, "series.filter(s => s.moving_share !== null).length >= 3", Pattern.compile("true"), 20);
+            cdp.await("series.filter(s => s.moving_share !== null).length >= 3", Pattern.compile("true"), 20);
 
             // a configured zone, moved: its first corner dragged from (0.31, 0.98) to (0.25, 0.95)
-            await(cdp, "document.getElementById('existing').options.length", Pattern.compile("2"), 20);
+            cdp.await("document.getElementById('existing').options.length", Pattern.compile("2"), 20);
             cdp.eval("(() => { const s = document.getElementById('existing'); s.value = 'lane-2-out';"
                     + " document.getElementById('edit').click(); return s.value; })()");
+            // measured again: the text above the picture (the streams line) may have changed its height meanwhile
+            r = stableRect(cdp);
+            left = r[0];
+            top = r[1];
+            width = r[2];
+            height = r[3];
             cdp.mouse("mousePressed", left + 0.31 * width, top + 0.98 * height, 1);
             cdp.mouse("mouseMoved", left + 0.28 * width, top + 0.965 * height, 1);
             cdp.mouse("mouseMoved", left + 0.25 * width, top + 0.95 * height, 1);
@@ -234,7 +105,7 @@ class LiveViewIT {
             int coloured = 0;
             long arrowsDeadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(40);
             while (coloured <= 50 && System.nanoTime() < arrowsDeadline) {
-                BufferedImage img = screenshot(cdp);
+                BufferedImage img = cdp.screenshot(ProcessRunner.projectDir().resolve("target/live-view.png"));
                 coloured = colouredSamples(img, left, top, width, height);
                 if (coloured <= 50) {
                     TimeUnit.MILLISECONDS.sleep(500); // polling the live picture, not a synchronisation sleep
@@ -244,20 +115,31 @@ class LiveViewIT {
             // the colour legend beside the picture has arrived and is the wheel (WheelLegendTest checks its pixels)
             assertEquals("65", cdp.eval("document.getElementById('wheel').naturalWidth"));
         } finally {
-            browser.destroyForcibly();
             service.destroy();
             service.waitFor(20, TimeUnit.SECONDS);
         }
     }
 
-    /** The page as the browser draws it (also kept as target/live-view.png). */
-    private static BufferedImage screenshot(Cdp cdp) throws Exception {
-        String shot = cdp.call("Page.captureScreenshot", "{\"format\":\"png\"}");
-        Matcher data = Pattern.compile("\"data\":\"([^\"]+)\"").matcher(shot);
-        assertTrue(data.find());
-        byte[] png = Base64.getDecoder().decode(data.group(1));
-        Files.write(ProcessRunner.projectDir().resolve("target/live-view.png"), png);
-        return ImageIO.read(new ByteArrayInputStream(png));
+    /**
+     * The drawing surface's box on screen (left, top, width, height). The page lays it out again once the
+     * picture's size is known: measured until two readings 200 ms apart agree (once measured mid-layout, every
+     * click landed at half its place).
+     */
+    private static double[] stableRect(Chromium cdp) throws Exception {
+        String measure = "(() => { const r = document.getElementById('draw').getBoundingClientRect();"
+                + " return [r.left, r.top, r.width, r.height].join(','); })()";
+        String rect = cdp.eval(measure);
+        for (int i = 0; i < 25; i++) {
+            TimeUnit.MILLISECONDS.sleep(200); // polling the layout, not a synchronisation sleep
+            String again = cdp.eval(measure);
+            if (again.equals(rect)) {
+                break;
+            }
+            rect = again;
+        }
+        String[] r = rect.split(",");
+        return new double[] {Double.parseDouble(r[0]), Double.parseDouble(r[1]), Double.parseDouble(r[2]),
+            Double.parseDouble(r[3])};
     }
 
     /** Samples (every 2nd pixel each way) inside the picture's box whose colour is far from grey. */

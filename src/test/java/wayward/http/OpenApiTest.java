@@ -188,6 +188,11 @@ class OpenApiTest {
         public LiveView live() {
             return live;
         }
+
+        @Override
+        public List<String> conditions() {
+            return List.of("focus_lost"); // one tamper condition open: the list is not checked empty
+        }
     }
 
     /** The test site: a status source over its cameras, recent events (filled by the test) and evidence. */
@@ -291,6 +296,7 @@ class OpenApiTest {
             }
             // the answers carry what the site holds (so that the schemas were not checked on empty lists)
             assertTrue(answers.get("/api/cameras").body().contains("\"state\":\"watching\""));
+            assertTrue(answers.get("/api/cameras").body().contains("\"conditions\":[\"focus_lost\"]"));
             assertEquals(3, JSON.readTree(answers.get("/api/events").body()).get("events").size());
             assertEquals(2, JSON.readTree(answers.get("/api/evidence").body()).get("files").size());
 
@@ -329,6 +335,9 @@ class OpenApiTest {
             ((ObjectNode) lane.get("hours")).remove("schedule");
             assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(), "hours without schedule");
             ((ObjectNode) lane.get("hours")).put("schedule", "mon-fri 06:00-22:00");
+            first.putArray("conditions").add("lens_dirty");
+            assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(), "a condition no kind names");
+            first.putArray("conditions").add("focus_lost");
             first.put("state", "delivering");
             assertFalse(responseSchema("/api/cameras", 200).validate(cameras).isEmpty(), "a state outside the pair");
             ObjectNode events = (ObjectNode) JSON.readTree(answers.get("/api/events").body());
