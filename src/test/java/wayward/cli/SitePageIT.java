@@ -148,6 +148,19 @@ class SitePageIT {
             assertEquals(picture[1] + last.get(1).asDouble() * pictureHeight, Double.parseDouble(dot[1]), 3.0,
                     "the last point's y");
             page.screenshot(ProcessRunner.projectDir().resolve("target/site-event.png"));
+
+            // (e) a mute set through the status server shows on the camera, in words, and in the events
+            java.net.http.HttpResponse<String> muted = java.net.http.HttpClient.newHttpClient().send(
+                    java.net.http.HttpRequest.newBuilder(java.net.URI.create("http://127.0.0.1:" + port + "/api/mutes"))
+                            .header("Authorization", "Bearer " + TOKEN).POST(java.net.http.HttpRequest.BodyPublishers
+                                    .ofString("{\"camera\": \"yard-mast-2\", \"minutes\": 20, "
+                                            + "\"reason\": \"mast repainted\"}")).build(),
+                    java.net.http.HttpResponse.BodyHandlers.ofString());
+            assertEquals(201, muted.statusCode(), muted.body());
+            page.eval("location.hash = ''");
+            page.await("(document.querySelector('.camera[data-camera=\"yard-mast-2\"] .badges') || {textContent: ''})"
+                    + ".textContent", Pattern.compile("\u2298 muted[^\\n]*mast repainted"), 20);
+            page.await("document.body.innerText", Pattern.compile("camera muted"), 20);
         } finally {
             service.destroy();
             service.waitFor(20, TimeUnit.SECONDS);
