@@ -176,6 +176,107 @@ class FailoverIT {
         return out;
     }
 
+    /** Ends the polls and the instances (SIGTERM, an orderly stop). */
+    private void stopAll(Thread poller) throws InterruptedException {
+        polling = false;
+        if (poller != null) {
+            poller.join(5000);
+        }
+        for (Process p : running.values()) {
+            p.destroy();
+        }
+        for (Process p : running.values()) {
+            p.waitFor(20, TimeUnit.SECONDS);
+        }
+    }
+
+    private static List<String> cameras() {
+        List<String> cameras = new ArrayList<>();
+        for (int c = 1; c <= 9; c++) {
+            cameras.add("yard-mast-" + c);
+        }
+        return cameras;
+    }
+
+    /** The shared config: the 9 looping cameras, membership through the broker at {@code brokerPort}. */
+    private static Path site(Path dir, String name, int brokerPort, List<String> cameras) throws Exception {
+        StringBuilder toml = new StringBuilder(String.join("\n", "[service]", "data_dir = \"data\"",
+                "[clips]", "enabled = false", "[mqtt]",
+                "url = \"mqtt://127.0.0.1:" + brokerPort + "\"", "topic_prefix = \"yard\"",
+                "client_id = \"wayward-fo\"", "keep_alive_seconds = " + KEEP_ALIVE, "max_backoff_seconds = 3", ""));
+        for (String id : cameras) {
+            toml.append(String.join("\n", "[[camera]]", "id = \"" + id + "\"", "source = \""
+                    + YardSite.clip() + "\"", "loop = true", "[[camera.zone]]", "id = \"lane-2-out\"",
+                    "polygon = [[0.31, 0.98], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]", "heading_deg = 0", ""));
+        }
+        Path config = dir.resolve(name);
+        Files.writeString(config, toml);
+        return config;
+    }
+
+    /**
+     * Two Mosquitto brokers bridged both ways (mosquitto.conf(5), "Bridges"); north and south on the first, gate on
+     * the second. Gate's broker node and gate die together (SIGKILL both): no will reaches the others, and they take
+     * gate's cameras when its status has not been refreshed for 3 keep-alives.
+     */
+    @Test
+    @Timeout(value = 300, unit = TimeUnit.SECONDS)
+    void anInstanceWhoseBrokerNodeDiesWithItLosesItsCamerasWhenItsStatusGoesStale(@TempDir Path dir)
+            throws Exception {
+        for (String i : INSTANCES) {
+            ports.put(i, Mosquitto.freePort());
+        }
+        Mosquitto first = new Mosquitto(dir.resolve("broker-1"), List.of());
+        Mosquitto second = null;
+        Thread poller = null;
+        try {
+            first.start();
+            second = new Mosquitto(dir.resolve("broker-2"), List.of("connection to-first",
+                    "address 127.0.0.1:" + first.port(), "topic yard/# both 1"));
+            second.start();
+            List<String> cameras = cameras();
+            start(dir, site(dir, "site-1.toml", first.port(), cameras), "north");
+            start(dir, site(dir, "site-1.toml", first.port(), cameras), "south");
+            start(dir, site(dir, "site-2.toml", second.port(), cameras), "gate");
+            poller = new Thread(() -> poll(cameras), "failover-poll");
+            poller.setDaemon(true);
+            poller.start();
+            Map<String, String> expected = new TreeMap<>();
+            cameras.forEach(c -> expected.put(c, Shards.owner(c, INSTANCES)));
+            await("each camera watched by its instance across the bridge", 90, () -> watcherOf().equals(expected));
+            List<String> gateShare = Shards.mine(cameras, "gate", INSTANCES);
+            gapAndDouble.values().forEach(g -> {
+                g[0] = 0;
+                g[1] = 0;
+            });
+            long died = System.nanoTime();
+            second.kill();
+            running.get("gate").destroyForcibly().waitFor();
+            Map<String, String> without = new TreeMap<>();
+            cameras.forEach(c -> without.put(c, Shards.owner(c, List.of("north", "south"))));
+            await("north and south watch gate's cameras", 90, () -> watcherOf().equals(without));
+            double took = (System.nanoTime() - died) / 1e9;
+            Map<String, Double> gaps = new TreeMap<>();
+            gapAndDouble.forEach((c, g) -> gaps.put(c, Math.round(g[0] * 10) / 10.0));
+            System.out.printf("failover: gate and its broker node killed together: its %d cameras watched again "
+                    + "%.1f s later; seconds unwatched per camera %s%n", gateShare.size(), took, gaps);
+            // the last refresh came up to a keep-alive before the kill; stale after 3 (Membership.SILENT_KEEP_ALIVES)
+            assertTrue(took >= 2 * KEEP_ALIVE, "not before the status went stale: " + took);
+            assertTrue(took <= 3 * KEEP_ALIVE + 1 + 3, "within 3 keep-alives + a tick + a camera's start: " + took);
+            for (String c : cameras) {
+                if (!gateShare.contains(c)) {
+                    assertEquals(0.0, gaps.get(c), c + " was not gate's and stays watched");
+                }
+            }
+        } finally {
+            stopAll(poller);
+            if (second != null) {
+                second.close();
+            }
+            first.close();
+        }
+    }
+
     @Test
     @Timeout(value = 420, unit = TimeUnit.SECONDS)
     void camerasOfADeadInstanceMoveToTheOthersAndBack(@TempDir Path dir) throws Exception {
@@ -187,21 +288,8 @@ class FailoverIT {
         Thread poller = null;
         try {
             broker.start();
-            StringBuilder toml = new StringBuilder(String.join("\n", "[service]", "data_dir = \"data\"",
-                    "[clips]", "enabled = false", "[mqtt]",
-                    "url = \"mqtt://127.0.0.1:" + broker.port() + "\"", "topic_prefix = \"yard\"",
-                    "client_id = \"wayward-fo\"", "keep_alive_seconds = " + KEEP_ALIVE, "max_backoff_seconds = 3",
-                    ""));
-            List<String> cameras = new ArrayList<>();
-            for (int c = 1; c <= 9; c++) {
-                String id = "yard-mast-" + c;
-                cameras.add(id);
-                toml.append(String.join("\n", "[[camera]]", "id = \"" + id + "\"", "source = \""
-                        + YardSite.clip() + "\"", "loop = true", "[[camera.zone]]", "id = \"lane-2-out\"",
-                        "polygon = [[0.31, 0.98], [0.69, 0.98], [0.58, 0.10], [0.42, 0.10]]", "heading_deg = 0", ""));
-            }
-            Path config = dir.resolve("site.toml");
-            Files.writeString(config, toml);
+            List<String> cameras = cameras();
+            Path config = site(dir, "site.toml", broker.port(), cameras);
             Path got = dir.resolve("events.txt");
             // a persistent QoS 1 session (-c): what is published while it reconnects is kept for it
             sub = new ProcessBuilder("mosquitto_sub", "-h", "127.0.0.1", "-p", Integer.toString(broker.port()),
@@ -379,16 +467,7 @@ class FailoverIT {
                 assertEquals(movesBefore.get(i), instancesView(i).get("moves").asLong(), i + ": no move for the outage");
             }
         } finally {
-            polling = false;
-            if (poller != null) {
-                poller.join(5000);
-            }
-            for (Process p : running.values()) {
-                p.destroy();
-            }
-            for (Process p : running.values()) {
-                p.waitFor(20, TimeUnit.SECONDS);
-            }
+            stopAll(poller);
             if (sub != null) {
                 sub.destroyForcibly();
             }

@@ -86,6 +86,13 @@ public final class Mosquitto implements AutoCloseable {
         throw new IOException("mosquitto did not listen on " + port + ": " + log());
     }
 
+    /** Kills the broker (SIGKILL: no goodbye, no will sent, as when its host dies) and waits for it. */
+    public void kill() throws InterruptedException {
+        if (process != null && process.isAlive()) {
+            process.destroyForcibly().waitFor();
+        }
+    }
+
     /** Stops the broker (SIGTERM: it saves its database) and waits for it. */
     public void stop() throws InterruptedException {
         if (process != null && process.isAlive()) {
