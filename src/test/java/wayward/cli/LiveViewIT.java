@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import java.awt.image.BufferedImage;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.Map;
 import java.util.concurrent.TimeUnit;
 import java.util.regex.Pattern;
 import org.junit.jupiter.api.Test;
@@ -114,6 +115,22 @@ class LiveViewIT {
             assertTrue(coloured > 50, "flow arrows show: " + coloured + " coloured samples");
             // the colour legend beside the picture has arrived and is the wheel (WheelLegendTest checks its pixels)
             assertEquals("65", cdp.eval("document.getElementById('wheel').naturalWidth"));
+
+            // the page mutes a zone (POST with the page's token in the Authorization header), shows it, and ends it
+            cdp.eval("(() => { document.getElementById('mute-what').value = 'lane-2-out';"
+                    + " document.getElementById('mute-minutes').value = '15';"
+                    + " document.getElementById('mute-reason').value = 'forklift reversing';"
+                    + " document.getElementById('mute').click(); return 1; })()");
+            cdp.await("document.getElementById('mute-said').textContent", Pattern.compile("Muted\\."), 20);
+            cdp.await("document.getElementById('mute-state').textContent",
+                    Pattern.compile("Muted: zone lane-2-out until .* by status \\(forklift reversing\\)\\."), 20);
+            Map<String, Object> muted = YardSite.awaitRecord(dir.resolve("data/events.jsonl"), "zone_muted", "start",
+                    1, 20);
+            assertEquals("forklift reversing", muted.get("reason"));
+            cdp.eval("(() => { document.getElementById('mute-said').textContent = '';"
+                    + " document.getElementById('unmute').click(); return 1; })()");
+            cdp.await("document.getElementById('mute-said').textContent", Pattern.compile("Mute ended\\."), 20);
+            cdp.await("document.getElementById('mute-state').textContent", Pattern.compile("Muted: nothing\\."), 20);
         } finally {
             service.destroy();
             service.waitFor(20, TimeUnit.SECONDS);
