@@ -159,8 +159,8 @@ class SitePageIT {
             assertEquals(201, muted.statusCode(), muted.body());
             page.eval("location.hash = ''");
             page.await("(document.querySelector('.camera[data-camera=\"yard-mast-2\"] .badges') || {textContent: ''})"
-                    + ".textContent", Pattern.compile("\u2298 muted[^\\n]*mast repainted"), 20);
-            page.await("document.body.innerText", Pattern.compile("camera muted"), 20);
+                    + ".textContent", Pattern.compile("(?s).*\u2298 muted until .* by status \\(mast repainted\\).*"), 20);
+            page.await("document.body.innerText", Pattern.compile("(?s).*camera muted.*"), 20);
         } finally {
             service.destroy();
             service.waitFor(20, TimeUnit.SECONDS);
