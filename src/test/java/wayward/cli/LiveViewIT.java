@@ -41,7 +41,8 @@ class LiveViewIT {
             cdp.navigate("http://127.0.0.1:" + port + "/?access_token=" + TOKEN);
             cdp.await("(document.querySelector('.camera[data-camera=\"yard-mast-2\"] .facts') || {textContent: ''})"
                     + ".textContent", Pattern.compile("1 zone \u00b7 640x360 analysed"), 30);
-            assertEquals("\u25cf watching", cdp.eval("document.querySelector('.camera .badges').textContent"));
+            // a camera opening reads lost until its first analysed frame: waited for, not read once
+            cdp.await("document.querySelector('.camera .badges').textContent", Pattern.compile("\u25cf watching"), 30);
             cdp.navigate("http://127.0.0.1:" + port + "/view/yard-mast-2?access_token=" + TOKEN);
             // the live picture arrived (the MJPEG stream's first frame gives the image its size)
             cdp.await("(document.getElementById('picture') || {naturalWidth: 0}).naturalWidth", Pattern.compile("[1-9]\\d*"), 60);
