@@ -95,6 +95,8 @@ public final class Membership implements PeerWatch, AutoCloseable {
     private final Map<String, Peer> peers = new HashMap<>();
     /** Each camera's instance as last decided, config order. */
     private Map<String, String> owners;
+    /** The instances {@link #owners} was hashed over: the same list again decides nothing new. */
+    private List<String> decidedOver;
     private boolean subscribed;
     private boolean settled;
     private boolean everSettled;
@@ -126,6 +128,7 @@ public final class Membership implements PeerWatch, AutoCloseable {
             }
         }
         this.owners = owners(this.instances);
+        this.decidedOver = this.instances;
         this.silentNanos = TimeUnit.SECONDS.toNanos((long) SILENT_KEEP_ALIVES * keepAliveSeconds);
         this.firstSettleMillis = Math.max(SETTLE_MILLIS, TimeUnit.SECONDS.toMillis(keepAliveSeconds));
         this.reconnectGraceNanos = (long) (reconnectGraceSeconds * 1e9);
@@ -199,6 +202,7 @@ public final class Membership implements PeerWatch, AutoCloseable {
             if (settled) {
                 decide();
             }
+            publishView();
         });
     }
 
@@ -249,6 +253,8 @@ public final class Membership implements PeerWatch, AutoCloseable {
             kept.put(c, settled || !owners.containsKey(c) ? fresh.get(c) : owners.get(c));
         }
         owners = kept;
+        // hashed afresh over those online when settled; otherwise the next decision hashes everything again
+        decidedOver = settled ? online() : null;
         publishView();
     }
 
@@ -309,6 +315,10 @@ public final class Membership implements PeerWatch, AutoCloseable {
     /** Hashes over the instances online now, logs and announces each move, and starts or stops cameras. */
     private void decide() {
         List<String> up = online();
+        if (up.equals(decidedOver)) {
+            return; // a refreshed status or a tick: nobody came or went
+        }
+        decidedOver = up;
         Map<String, String> next = owners(up);
         boolean mineChanged = false;
         for (Map.Entry<String, String> e : next.entrySet()) {
