@@ -343,6 +343,11 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
         changed();
     }
 
+    /** Runs {@code task} on the mutes' own thread (a caller that must not wait for the file's fsync). */
+    public void later(Runnable task) {
+        timer.execute(task);
+    }
+
     @Override
     public void close() {
         timer.shutdownNow();

@@ -336,12 +336,21 @@ public final class Service implements StatusSource {
                 ids);
     }
 
-    /** An operator's MQTT command ({@code mute} or {@code unmute}); the MQTT event loop, so no waiting here. */
+    /**
+     * An operator's MQTT command ({@code mute} or {@code unmute}). It comes on the MQTT event loop, which must not
+     * wait for the mutes file's fsync: carried out on the mutes' thread.
+     */
     private void command(String user, String verb, byte[] payload) {
         Mutes m = mutes;
         if (m == null) {
+            LOG.warn("MQTT command from {}: {} before the mutes were read at the start; ignored",
+                    wayward.secret.LogText.clean(user), wayward.secret.LogText.clean(verb));
             return;
         }
+        m.later(() -> carryOut(m, user, verb, payload));
+    }
+
+    private void carryOut(Mutes m, String user, String verb, byte[] payload) {
         if (!verb.equals("mute") && !verb.equals("unmute")) {
             LOG.warn("MQTT command from {}: unknown verb {} (expected mute or unmute); ignored",
                     wayward.secret.LogText.clean(user), wayward.secret.LogText.clean(verb));
