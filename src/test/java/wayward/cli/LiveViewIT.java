@@ -29,11 +29,8 @@ class LiveViewIT {
     void aZoneDrawnWithTheMouseGivesItsTomlAndTheChartMoves(@TempDir Path dir) throws Exception {
         Files.writeString(dir.resolve("status.token"), TOKEN);
         int port = Mosquitto.freePort();
-        String config = Files.readString(YardSite.config(dir, YardSite.clip().toString(),
-                "http = \"127.0.0.1:" + port + "\"", "token_file = \"status.token\"", "[clips]", "enabled = false"))
-                .replace("source = ", "loop = true\nsource = ");
-        Path site = dir.resolve("site.toml");
-        Files.writeString(site, config);
+        Path site = YardSite.looping(dir, "http = \"127.0.0.1:" + port + "\"", "token_file = \"status.token\"",
+                "[clips]", "enabled = false");
         Process service = YardSite.startService(dir, site);
         try (Chromium cdp = Chromium.start(dir, 1400, 900)) {
             // the site page: one camera with one zone, in the singular, its one stream's size (the demo clip is

@@ -92,12 +92,11 @@ class MuteIT {
         Process service = null;
         try {
             broker.start();
-            Path config = YardSite.config(dir, YardSite.clip().toString(), "http = \"127.0.0.1:" + port + "\"",
+            Path config = YardSite.looping(dir, "http = \"127.0.0.1:" + port + "\"",
                     "token_file = \"control-room.token\"", "max_mute_hours = 1", "[mqtt]",
                     "url = \"mqtt://127.0.0.1:" + broker.port() + "\"", "topic_prefix = \"yard\"",
                     "client_id = \"wayward-mute-it\"", "username = \"wayward\"", "password_file = \"mqtt.password\"",
                     "commands = true", "[clips]", "enabled = false");
-            Files.writeString(config, Files.readString(config).replace("source = ", "loop = true\nsource = "));
             Path log = dir.resolve("service.log");
             Path events = dir.resolve("data/events.jsonl");
             service = YardSite.startService(dir, config);

@@ -36,11 +36,8 @@ class SitePageIT {
         Files.writeString(dir.resolve("status.token"), TOKEN);
         int port = Mosquitto.freePort();
         // the demo scene as a camera, looping, clips on (a 2 s post-roll keeps the wait for the clip short)
-        String config = Files.readString(YardSite.config(dir, YardSite.clip().toString(),
-                "http = \"127.0.0.1:" + port + "\"", "token_file = \"status.token\"", "[clips]",
-                "post_roll_seconds = 2")).replace("source = ", "loop = true\nsource = ");
-        Path site = dir.resolve("site.toml");
-        Files.writeString(site, config);
+        Path site = YardSite.looping(dir, "http = \"127.0.0.1:" + port + "\"", "token_file = \"status.token\"",
+                "[clips]", "post_roll_seconds = 2");
         Process service = YardSite.startService(dir, site);
         Path shot = ProcessRunner.projectDir().resolve("target/site-page.png");
         try (Chromium page = Chromium.start(dir, 1000, 1400)) {

@@ -47,10 +47,7 @@ class SystemdNotifyIT {
         Process service = null;
         try {
             awaitMessages(got, l -> l.contains("bound"), 20);
-            String config = Files.readString(YardSite.config(dir, YardSite.clip().toString(), "[clips]",
-                    "enabled = false")).replace("source = ", "loop = true\nsource = ");
-            Path site = dir.resolve("site.toml");
-            Files.writeString(site, config);
+            Path site = YardSite.looping(dir, "[clips]", "enabled = false");
             ProcessBuilder pb = new ProcessBuilder("java", "-jar", ProcessRunner.jar().toString(), "run", "--config",
                     site.toString()).directory(dir.toFile()).redirectErrorStream(true)
                     .redirectOutput(dir.resolve("service.log").toFile());

@@ -20,6 +20,15 @@ final class YardSite {
 
     /** Writes site.toml into {@code dir} for a camera reading {@code source}; extra tables go first. */
     static Path config(Path dir, String source, String... extraTables) throws IOException {
+        return config(dir, source, false, extraTables);
+    }
+
+    /** The demo clip as a camera that loops (a live camera that never ends); extra tables go first. */
+    static Path looping(Path dir, String... extraTables) throws IOException {
+        return config(dir, clip().toString(), true, extraTables);
+    }
+
+    private static Path config(Path dir, String source, boolean loop, String... extraTables) throws IOException {
         List<String> lines = new ArrayList<>(List.of("[service]", "data_dir = \"data\""));
         if (List.of(extraTables).stream().noneMatch(l -> l.startsWith("http ="))) {
             lines.add("http = \"off\""); // tests that want the status server pass their own address
@@ -28,6 +37,7 @@ final class YardSite {
         lines.addAll(List.of(
                 "[[camera]]",
                 "id = \"yard-mast-2\"",
+                loop ? "loop = true" : "",
                 "source = \"" + source + "\"",
                 "[[camera.zone]]",
                 "id = \"lane-2-out\"",

@@ -251,8 +251,11 @@ class OpenApiTest {
     }
 
     private static Answer get(HttpClient client, int port, String uri) throws Exception {
-        HttpResponse<String> r = client.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + uri))
-                .GET().build(), HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
+        return send(client, HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + uri)).GET().build());
+    }
+
+    private static Answer send(HttpClient client, HttpRequest request) throws Exception {
+        HttpResponse<String> r = client.send(request, HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
         return new Answer(r.statusCode(), r.headers().firstValue("Content-Type").orElse(""), r.body());
     }
 
@@ -410,8 +413,7 @@ class OpenApiTest {
         if (token != null) {
             b.header("Authorization", "Bearer " + token);
         }
-        HttpResponse<String> r = client.send(b.build(), HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
-        return new Answer(r.statusCode(), r.headers().firstValue("Content-Type").orElse(""), r.body());
+        return send(client, b.build());
     }
 
     private static List<String> problems(String path, String method, Answer a) {
