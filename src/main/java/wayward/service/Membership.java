@@ -102,6 +102,8 @@ public final class Membership implements PeerWatch, AutoCloseable {
     private boolean everSettled;
     private long generation;
     private long moves;
+    /** System.nanoTime() of the last (re)connection to the broker. */
+    private long connectedAt;
 
     private volatile Instances view;
 
@@ -161,6 +163,7 @@ public final class Membership implements PeerWatch, AutoCloseable {
     public void subscribed() {
         thread.execute(() -> {
             subscribed = true;
+            connectedAt = System.nanoTime();
             long g = ++generation;
             // the first time, a keep-alive: instances started together (a site's power coming back, a rollout)
             // find the broker within it, and none takes the others' cameras only to hand them back
@@ -269,7 +272,12 @@ public final class Membership implements PeerWatch, AutoCloseable {
         long now = System.nanoTime();
         for (Map.Entry<String, Peer> e : peers.entrySet()) {
             Peer p = e.getValue();
-            if (Boolean.TRUE.equals(p.online) && now - p.heard > silentNanos) {
+            // one not heard since this instance (re)connected may still be finding the broker after an outage
+            // (a broker without persistence keeps no retained status): it gets the reconnect grace as well
+            boolean sinceConnected = p.heard - connectedAt >= 0;
+            long quiet = now - (sinceConnected ? p.heard : connectedAt);
+            long allowed = sinceConnected ? silentNanos : Math.max(silentNanos, reconnectGraceNanos);
+            if (Boolean.TRUE.equals(p.online) && quiet > allowed) {
                 p.online = false;
                 p.since = clock.instant();
                 p.downAt = now;
@@ -290,6 +298,7 @@ public final class Membership implements PeerWatch, AutoCloseable {
         List<String> up = online();
         LOG.info("membership: online by their status on the broker: {} of {}", up, instances);
         decide();
+        publishView(); // settled, even when nobody came or went
     }
 
     /** The configured instances that count as online now, config order; this one always. */

@@ -220,6 +220,30 @@ class MembershipTest {
     }
 
     @Test
+    void aBrokerAwayLongerThanTheSilenceMovesNothingWhenTheOthersReconnectLater() throws Exception {
+        // a broker without persistence comes back with no retained status at all; north finds it first, the others
+        // within the reconnect grace, but after north settled. Their last refresh is older than three keep-alives.
+        alive.addAll(List.of("south", "gate"));
+        subscribeAndSettle("north", "south", "gate");
+        List<String> own = Shards.mine(cameras, "north", NAMES);
+        Membership north = members.get("north");
+        connected.remove("north");
+        alive.clear();
+        north.lost();
+        north.drain();
+        TimeUnit.MILLISECONDS.sleep(Membership.SILENT_KEEP_ALIVES * KEEP_ALIVE * 1000L + 500); // the outage
+        subscribeAndSettle("north");
+        TimeUnit.MILLISECONDS.sleep((long) (RECONNECT_GRACE * 1000) - 1000); // the others still finding the broker
+        north.drain();
+        assertEquals(own, watched.get("north"), "nothing taken while the others reconnect");
+        alive.addAll(List.of("south", "gate"));
+        TimeUnit.MILLISECONDS.sleep(2000); // their refreshes arrive
+        north.drain();
+        assertEquals(own, watched.get("north"));
+        assertEquals(0, north.view().moves(), "no camera moved");
+    }
+
+    @Test
     void anInstanceWhoseStatusIsNotRefreshedIsTakenForOffline() throws Exception {
         // its will never comes (its broker node died with it): its retained online goes stale; gate refreshes
         alive.add("gate");
