@@ -42,7 +42,8 @@ final class CameraBinder {
         if (id != null && MqttTopics.RESERVED_CAMERA_IDS.contains(id)) {
             s.error("id", id, "an id other than " + String.join(", ", MqttTopics.RESERVED_CAMERA_IDS.stream().sorted()
                     .toList()) + ": MQTT topics use it as a fixed level (<prefix>/" + MqttTopics.STATUS_LEVEL
-                    + "/<client id>, <prefix>/" + MqttTopics.COMMAND_LEVEL + "/<user>/…)");
+                    + "/<client id>, <prefix>/" + MqttTopics.COMMAND_LEVEL + "/<user>/…, <prefix>/"
+                    + MqttTopics.MUTES_LEVEL + "/<camera>/…)");
             id = null;
         }
         String source = s.requiredString("source", "a video file path or a URL such as rtsp://host/stream");

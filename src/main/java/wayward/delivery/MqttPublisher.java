@@ -33,6 +33,7 @@ import java.util.List;
 import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.TimeUnit;
+import java.util.function.Consumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.event.Event;
@@ -69,9 +70,12 @@ public final class MqttPublisher implements Destination {
     private final PeerWatch peers;
     /** Told of operators' commands, or null when they are not read. */
     private final CommandWatch commands;
+    /** Where mute records read below {@code <prefix>/mutes/} go; null: none read. Called on the event loop. */
+    private final Consumer<byte[]> mutes;
     // packet identifiers of the SUBSCRIBEs in flight (event loop only)
     private int statusSubscription;
     private int commandSubscription;
+    private int muteSubscription;
 
     // confined to the event loop thread
     private final MqttInFlight inFlight = new MqttInFlight();
@@ -108,9 +112,19 @@ public final class MqttPublisher implements Destination {
     /** ... and reads operators' commands below {@code <prefix>/command/} when {@code commands} is not null. */
     public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq, PeerWatch peers,
             CommandWatch commands) {
+        this(config, zones, runStartSeq, peers, commands, null);
+    }
+
+    /**
+     * ... and passes mutes between instances when {@code mutes} is not null: {@link #shareMute} publishes a record
+     * retained below {@code <prefix>/mutes/}, and every record there (this instance's own too) goes to {@code mutes}.
+     */
+    public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq, PeerWatch peers,
+            CommandWatch commands, Consumer<byte[]> mutes) {
         this.config = config;
         this.peers = peers;
         this.commands = commands;
+        this.mutes = mutes;
         this.shownUrl = Urls.mask(config.url());
         URI uri = URI.create(config.url());
         boolean tls = "mqtts".equalsIgnoreCase(uri.getScheme());
@@ -177,6 +191,14 @@ public final class MqttPublisher implements Destination {
     private byte[] statusPayload(String state) {
         return MqttTopics.statusPayload(config.clientId(), config.instance(), state,
                 !"offline".equals(state) || closing);
+    }
+
+    /**
+     * Passes a mute record to the other instances: retained, QoS 1, sent now or once connected again (while this
+     * process lives). Any thread.
+     */
+    public void shareMute(String camera, String zone, byte[] record) {
+        loop.execute(() -> publish(MqttTopics.muteTopic(config.topicPrefix(), camera, zone), record, true));
     }
 
     /** Queues a QoS 1 publish and sends it now if connected. Event loop only. */
@@ -317,6 +339,11 @@ public final class MqttPublisher implements Destination {
                 ctx.writeAndFlush(MqttPackets.subscribe(commandSubscription,
                         MqttTopics.commandFilter(config.topicPrefix()), MqttQoS.AT_LEAST_ONCE));
             }
+            if (mutes != null) {
+                muteSubscription = inFlight.otherId();
+                ctx.writeAndFlush(MqttPackets.subscribe(muteSubscription, MqttTopics.muteFilter(config.topicPrefix()),
+                        MqttQoS.AT_LEAST_ONCE));
+            }
             if (peers != null) {
                 statusSubscription = inFlight.otherId();
                 ctx.writeAndFlush(MqttPackets.subscribe(statusSubscription,
@@ -341,6 +368,14 @@ public final class MqttPublisher implements Destination {
                 } else {
                     LOG.info("{}: reading operators' commands on {}", name(),
                             MqttTopics.commandFilter(config.topicPrefix()));
+                }
+                return;
+            }
+            if (mutes != null && id == muteSubscription) {
+                if (refused) {
+                    LOG.warn("{}: the broker refused the subscription to {} (check its ACL): mutes asked of another "
+                            + "instance's status server are not known here", name(),
+                            MqttTopics.muteFilter(config.topicPrefix()));
                 }
                 return;
             }
@@ -369,6 +404,12 @@ public final class MqttPublisher implements Destination {
             if (command != null) {
                 if (commands != null) {
                     commands.command(command[0], command[1], body);
+                }
+                return;
+            }
+            if (MqttTopics.isMute(config.topicPrefix(), topic)) {
+                if (mutes != null && body.length > 0) {
+                    mutes.accept(body);
                 }
                 return;
             }

@@ -13,7 +13,8 @@ import wayward.event.EventKind;
  * The topics below the configured prefix and the JSON each carries: {@code <camera>/<zone>/event} (the event
  * record) and retained {@code <camera>/<zone>/state} ({@code alert} or {@code clear}); {@code <camera>/event}
  * (the record) and retained {@code <camera>/state} ({@code watching} or {@code lost}, with the tamper conditions
- * open); retained {@code status/<client id>} ({@code online}; the will sets {@code offline}). The payloads are
+ * open); retained {@code status/<client id>} ({@code online}; the will sets {@code offline}); retained
+ * {@code mutes/<camera>[/<zone>]} (the latest mute asked of an instance, passed on to the others). The payloads are
  * fixed by the files in {@code schema/} (README, "MQTT").
  */
 public final class MqttTopics {
@@ -21,8 +22,10 @@ public final class MqttTopics {
     public static final String STATUS_LEVEL = "status";
     /** The level under the prefix that holds the operators' commands; no camera may have it as its id. */
     public static final String COMMAND_LEVEL = "command";
+    /** The level under the prefix that holds the mutes instances pass on; no camera may have it as its id. */
+    public static final String MUTES_LEVEL = "mutes";
     /** Camera ids that would make a camera's topics collide with a fixed topic. */
-    public static final Set<String> RESERVED_CAMERA_IDS = Set.of(STATUS_LEVEL, COMMAND_LEVEL);
+    public static final Set<String> RESERVED_CAMERA_IDS = Set.of(STATUS_LEVEL, COMMAND_LEVEL, MUTES_LEVEL);
 
     private MqttTopics() {
     }
@@ -137,6 +140,21 @@ public final class MqttTopics {
                 g.writeStringField("at", now());
             }
         });
+    }
+
+    /** The retained record of a camera's or zone's latest mute passed on between instances. */
+    static String muteTopic(String prefix, String camera, String zone) {
+        return prefix + "/" + MUTES_LEVEL + "/" + camera + (zone != null ? "/" + zone : "");
+    }
+
+    /** Every mute record (a multi-level wildcard, MQTT 3.1.1 §4.7.1.2). */
+    static String muteFilter(String prefix) {
+        return prefix + "/" + MUTES_LEVEL + "/#";
+    }
+
+    /** Whether {@code topic} is a mute record's. */
+    static boolean isMute(String prefix, String topic) {
+        return topic.startsWith(prefix + "/" + MUTES_LEVEL + "/");
     }
 
     /** Every operator's commands: {@code <prefix>/command/<user>/<verb>}. */

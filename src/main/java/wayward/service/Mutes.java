@@ -60,6 +60,16 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
     private final ScheduledExecutorService timer;
     private volatile Map<String, List<String>> zones;
     private volatile Predicate<String> raisesFor = c -> true;
+    /** Where changes asked of this instance go for the other instances; null: no other instance to tell. */
+    private volatile Share share;
+
+    /**
+     * Tells the other instances sharing the cameras of one config of a mute started or ended here (through the
+     * broker, a retained record per camera or zone; see {@link #mirror}).
+     */
+    public interface Share {
+        void send(String camera, String zone, byte[] record);
+    }
 
     /** One mute in force and the id its phases share. */
     private record Entry(String id, MuteState state) {
@@ -67,6 +77,8 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
 
     /** Key "camera" or "camera/zone" → the mute; insertion order. Guarded by this. */
     private final Map<String, Entry> active = new LinkedHashMap<>();
+    /** Ids of mutes ended here before their time → that time: a late copy of their record starts nothing. */
+    private final Map<String, Instant> endedEarly = new LinkedHashMap<>();
     /** Lock-free copy for {@link #raises}, replaced on every change. */
     private volatile Map<String, Instant> ends = Map.of();
 
@@ -111,6 +123,41 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
         this.raisesFor = watching;
     }
 
+    /**
+     * Mutes and early ends asked of this instance through the status server go to {@code share} as records, so an
+     * instance watching the camera, now or after a move, keeps them too. MQTT commands are not passed on: every
+     * instance reads them itself ({@link #unshared}).
+     */
+    public void shareWith(Share share) {
+        this.share = share;
+    }
+
+    /** The same mutes, whose changes are not passed on: for MQTT commands, which every instance reads. */
+    public MuteControl unshared() {
+        return new MuteControl() {
+            @Override
+            public MuteState mute(String camera, String zone, Instant until, String by, String reason)
+                    throws Refused {
+                return Mutes.this.mute(camera, zone, until, by, reason, false);
+            }
+
+            @Override
+            public MuteState unmute(String camera, String zone, String by, String reason) throws Refused {
+                return Mutes.this.unmute(camera, zone, by, reason, false);
+            }
+
+            @Override
+            public List<MuteState> mutes() {
+                return Mutes.this.mutes();
+            }
+
+            @Override
+            public Duration longest() {
+                return longest;
+            }
+        };
+    }
+
     /** The config changed (a reload): mutes of cameras or zones no longer in it end now. */
     public synchronized void configChanged(List<CameraConfig> cameras) {
         zones = zonesOf(cameras);
@@ -147,8 +194,12 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
     }
 
     @Override
-    public synchronized MuteState mute(String camera, String zone, Instant until, String by, String reason)
-            throws Refused {
+    public MuteState mute(String camera, String zone, Instant until, String by, String reason) throws Refused {
+        return mute(camera, zone, until, by, reason, true);
+    }
+
+    private synchronized MuteState mute(String camera, String zone, Instant until, String by, String reason,
+            boolean tell) throws Refused {
         if (!zones.containsKey(camera)) {
             throw new Refused("no camera " + camera + " in the config (expected one of "
                     + String.join(", ", zones.keySet()) + ")");
@@ -171,26 +222,145 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
             end(old, by, "replaced by a mute until " + DateTimeFormatter.ISO_INSTANT.format(until), null);
         }
         Entry e = new Entry(UUID.randomUUID().toString(), new MuteState(camera, zone, now, until, by, why));
-        active.put(key(camera, zone), e);
-        changed();
-        LOG.info("{}: muted until {} by {}{}", where(camera, zone), until, by, why.isEmpty() ? "" : " (" + why + ")");
-        if (raisesFor.test(camera)) {
-            events.accept(Event.control(e.id(), camera, zone, kind(zone), Event.Phase.START, now, Double.NaN, null,
-                    new Event.Control(until, by, why)));
+        start(e, "");
+        if (tell) {
+            send(e, null);
         }
         return e.state();
     }
 
+    /** Puts {@code e} in force, logs and raises its start. Holding the lock; saves. */
+    private void start(Entry e, String told) {
+        MuteState s = e.state();
+        active.put(key(s.camera(), s.zone()), e);
+        changed();
+        LOG.info("{}: muted until {} by {}{}{}", where(s.camera(), s.zone()), s.until(), s.by(),
+                s.reason().isEmpty() ? "" : " (" + s.reason() + ")", told);
+        if (raisesFor.test(s.camera())) {
+            events.accept(Event.control(e.id(), s.camera(), s.zone(), kind(s.zone()), Event.Phase.START, s.since(),
+                    Double.NaN, null, new Event.Control(s.until(), s.by(), s.reason())));
+        }
+    }
+
     @Override
-    public synchronized MuteState unmute(String camera, String zone, String by, String reason) throws Refused {
+    public MuteState unmute(String camera, String zone, String by, String reason) throws Refused {
+        return unmute(camera, zone, by, reason, true);
+    }
+
+    private synchronized MuteState unmute(String camera, String zone, String by, String reason, boolean tell)
+            throws Refused {
         Entry e = active.get(key(camera, zone));
         if (e == null) {
             throw new Refused(where(camera, zone) + " is not muted" + (active.isEmpty() ? ""
                     : " (muted: " + String.join(", ", active.keySet()) + ")"));
         }
-        end(e, by, clean(reason), null);
+        String why = clean(reason);
+        end(e, by, why, null);
         changed();
+        if (tell) {
+            send(e, new Event.Control(null, by, why));
+        }
         return e.state();
+    }
+
+    /** The record of a mute started ({@code ended} null) or ended here, to the other instances. Holding the lock. */
+    private void send(Entry e, Event.Control ended) {
+        Share to = share;
+        if (to == null) {
+            return;
+        }
+        MuteState s = e.state();
+        StringWriter out = new StringWriter();
+        try (JsonGenerator g = JSON.createGenerator(out)) {
+            g.writeStartObject();
+            g.writeStringField("state", ended == null ? "muted" : "ended");
+            g.writeStringField("id", e.id());
+            wayward.http.MuteRequests.fields(g, s);
+            if (ended != null) {
+                g.writeStringField("ended_at", DateTimeFormatter.ISO_INSTANT.format(clock.instant()));
+                g.writeStringField("ended_by", ended.by());
+                g.writeStringField("ended_reason", ended.reason());
+            }
+            g.writeEndObject();
+        } catch (IOException x) {
+            throw new IllegalStateException(x);
+        }
+        to.send(s.camera(), s.zone(), out.toString().getBytes(StandardCharsets.UTF_8));
+    }
+
+    /**
+     * A record another instance sent (or this one, read back): a mute started or ended there through its status
+     * server. A mute not known here starts here with the same id (its phases are raised by whichever instance
+     * watches the camera), replacing an older one of the same camera or zone; an end ends the mute of that id. A
+     * mute whose end time has passed, an unreadable record and one of a camera or zone not in this config change
+     * nothing. Never throws.
+     */
+    public synchronized void mirror(byte[] record) {
+        Map<String, String> f;
+        try {
+            f = fields(record);
+        } catch (IOException | RuntimeException bad) {
+            LOG.warn("mutes: a shared mute record is unreadable ({}); ignored", wayward.secret.LogText.clean(
+                    bad.getMessage()));
+            return;
+        }
+        try {
+            String camera = f.get("camera");
+            String zone = f.get("zone");
+            String id = f.get("id");
+            if (camera == null || id == null || !known(camera, zone)) {
+                LOG.debug("mutes: a shared record of {} {}, not in this config; ignored", camera, zone);
+                return;
+            }
+            Entry cur = active.get(key(camera, zone));
+            boolean same = cur != null && cur.id().equals(id);
+            if ("ended".equals(f.get("state"))) {
+                if (same) {
+                    end(cur, f.get("ended_by"), clean(f.get("ended_reason")), null);
+                    changed();
+                }
+                return;
+            }
+            Instant since = Instant.parse(f.get("since"));
+            Instant until = Instant.parse(f.get("until"));
+            Instant now = clock.instant();
+            if (same || !now.isBefore(until) || endedEarly.containsKey(id)
+                    || (cur != null && cur.state().since().isAfter(since))) {
+                return; // known, over, ended here already, or older than the one in force here
+            }
+            if (Duration.between(now, until).compareTo(longest) > 0) {
+                until = now.plus(longest); // a mute always ends by itself, whatever the other side's bound
+            }
+            if (cur != null) {
+                end(cur, f.get("by"), "replaced by a mute until " + DateTimeFormatter.ISO_INSTANT.format(until), null);
+            }
+            start(new Entry(id, new MuteState(camera, zone, since, until, f.get("by"), clean(f.get("reason")))),
+                    " (asked of another instance)");
+        } catch (RuntimeException bad) {
+            LOG.warn("mutes: a shared mute record is not one ({}); ignored", wayward.secret.LogText.clean(
+                    bad.toString()));
+        }
+    }
+
+    /** A flat JSON object's fields as strings. */
+    private static Map<String, String> fields(byte[] json) throws IOException {
+        try (JsonParser p = JSON.createParser(json)) {
+            if (p.nextToken() != JsonToken.START_OBJECT) {
+                throw new IOException("not a JSON object");
+            }
+            return object(p);
+        }
+    }
+
+    /** The fields of the object whose start {@code p} has just read, as strings (flat objects only). */
+    private static Map<String, String> object(JsonParser p) throws IOException {
+        Map<String, String> f = new LinkedHashMap<>();
+        while (p.nextToken() == JsonToken.FIELD_NAME) {
+            String name = p.currentName();
+            p.nextToken();
+            f.put(name, p.getValueAsString());
+        }
+        return f;
     }
 
     /** Ends {@code e}: removed, logged and raised. Holding the lock; the caller saves. */
@@ -198,6 +368,9 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
         active.remove(key(e.state().camera(), e.state().zone()));
         Instant now = clock.instant();
         MuteState s = e.state();
+        if (now.isBefore(s.until())) {
+            endedEarly.put(e.id(), s.until());
+        }
         LOG.info("{}: mute ended ({}){}", where(s.camera(), s.zone()), endedBy != null ? "its end time came"
                 : "by " + by, reason.isEmpty() ? "" : ": " + reason);
         if (raisesFor.test(s.camera())) {
@@ -214,6 +387,7 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
     /** Mutes whose end time has come end (expired). The timer thread, once a second. */
     private synchronized void expire() {
         Instant now = clock.instant();
+        endedEarly.values().removeIf(until -> !now.isBefore(until));
         boolean any = false;
         for (Entry e : List.copyOf(active.values())) {
             if (!now.isBefore(e.state().until())) {
@@ -307,12 +481,7 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
                 throw new IOException("not a JSON array");
             }
             while (p.nextToken() == JsonToken.START_OBJECT) {
-                Map<String, String> f = new LinkedHashMap<>();
-                while (p.nextToken() == JsonToken.FIELD_NAME) {
-                    String name = p.currentName();
-                    p.nextToken();
-                    f.put(name, p.getValueAsString());
-                }
+                Map<String, String> f = object(p);
                 read.add(new Entry(f.get("id"), new MuteState(f.get("camera"), f.get("zone"),
                         Instant.parse(f.get("since")), Instant.parse(f.get("until")), f.get("by"),
                         f.getOrDefault("reason", ""))));

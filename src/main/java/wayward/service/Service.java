@@ -74,6 +74,12 @@ public final class Service implements StatusSource {
     private Membership membership;
     /** The operators' mutes (not in replay): the cameras' zone gate, kept in the data folder. */
     private Mutes mutes;
+    /** The MQTT publisher that passes mutes between instances; null when this instance watches alone. */
+    private MqttPublisher sharer;
+    /** Mute records read before the mutes were: mirrored once they are. Guarded by itself. */
+    private final List<byte[]> sharedEarly = new ArrayList<>();
+    /** The mutes that mirror records, once read. Guarded by {@link #sharedEarly}. */
+    private Mutes mirroring;
     /** Set once {@link #start} has started every camera; the status server, bound before, reads it. */
     private volatile boolean started;
 
@@ -162,8 +168,12 @@ public final class Service implements StatusSource {
                             zones.add(c.id() + "/" + z.id());
                         }
                     }
-                    bus.add(new MqttPublisher(m, zones, runStart, membership, m.commands() ? this::command : null),
-                            1000, (long) (m.maxBackoffSeconds() * 1000));
+                    // instances sharing the cameras pass on the mutes asked of their status servers
+                    boolean share = membership != null || config.shard() != null;
+                    MqttPublisher publisher = new MqttPublisher(m, zones, runStart, membership,
+                            m.commands() ? this::command : null, share ? this::sharedMute : null);
+                    sharer = share ? publisher : null;
+                    bus.add(publisher, 1000, (long) (m.maxBackoffSeconds() * 1000));
                     if (m.commands()) {
                         LOG.warn("MQTT commands are on: whoever may publish below {}/{}/<user>/ can mute cameras; "
                                 + "the broker's ACL must let each operator write only below its own name (README, "
@@ -185,6 +195,14 @@ public final class Service implements StatusSource {
                 List<String> mine = new ArrayList<>();
                 cameras.forEach(c -> mine.add(c.id()));
                 mutes.raiseOnlyFor(mine::contains);
+            }
+            if (sharer != null) {
+                mutes.shareWith(sharer::shareMute);
+                synchronized (sharedEarly) {
+                    mirroring = mutes;
+                    sharedEarly.forEach(this::sharedMute);
+                    sharedEarly.clear();
+                }
             }
         }
         for (wayward.event.Event e : leftOpen) {
@@ -350,6 +368,22 @@ public final class Service implements StatusSource {
         m.later(() -> carryOut(m, user, verb, payload));
     }
 
+    /**
+     * A mute record from the broker (the MQTT event loop): mirrored on the mutes' thread; one that comes before
+     * the mutes were read at the start waits for them.
+     */
+    private void sharedMute(byte[] record) {
+        Mutes m;
+        synchronized (sharedEarly) {
+            m = mirroring;
+            if (m == null) {
+                sharedEarly.add(record);
+                return;
+            }
+        }
+        m.later(() -> m.mirror(record));
+    }
+
     private void carryOut(Mutes m, String user, String verb, byte[] payload) {
         if (!verb.equals("mute") && !verb.equals("unmute")) {
             LOG.warn("MQTT command from {}: unknown verb {} (expected mute or unmute); ignored",
@@ -357,7 +391,8 @@ public final class Service implements StatusSource {
             return;
         }
         try {
-            wayward.http.MuteState s = wayward.http.MuteRequests.apply(m, verb.equals("mute"),
+            // every instance reads the command itself: nothing to pass on
+            wayward.http.MuteState s = wayward.http.MuteRequests.apply(m.unshared(), verb.equals("mute"),
                     new String(payload, java.nio.charset.StandardCharsets.UTF_8), user, clock);
             LOG.info("MQTT command from {}: {} of camera {}{} done", wayward.secret.LogText.clean(user), verb,
                     s.camera(), s.zone() == null ? "" : " zone " + s.zone());

@@ -51,6 +51,7 @@ class FailoverIT {
     /** The issue's bound on the time a dead instance's cameras stay unwatched. */
     private static final double MAX_GAP_SECONDS = 15;
     private static final ObjectMapper JSON = new ObjectMapper();
+    private static final String TOKEN = "ops-token-7f3e9b1c2d";
 
     private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(2)).build();
     private final Map<String, Integer> ports = new HashMap<>();
@@ -79,9 +80,8 @@ class FailoverIT {
             return null;
         }
         try {
-            HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:"
-                    + ports.get(instance) + "/api/cameras")).timeout(Duration.ofSeconds(2)).build(),
-                    HttpResponse.BodyHandlers.ofString());
+            HttpResponse<String> r = http.send(request(instance, "/api/cameras").timeout(Duration.ofSeconds(2))
+                    .build(), HttpResponse.BodyHandlers.ofString());
             if (r.statusCode() != 200) {
                 return null;
             }
@@ -98,9 +98,33 @@ class FailoverIT {
     }
 
     private JsonNode instancesView(String instance) throws Exception {
-        HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:"
-                + ports.get(instance) + "/api/cameras")).build(), HttpResponse.BodyHandlers.ofString());
-        return JSON.readTree(r.body()).get("instances");
+        return JSON.readTree(get(instance, "/api/cameras")).get("instances");
+    }
+
+    /** A request to an instance's status server with the operators' token (README, "Muting a zone"). */
+    private HttpRequest.Builder request(String instance, String path) {
+        return HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + ports.get(instance) + path))
+                .header("Authorization", "Bearer " + TOKEN);
+    }
+
+    private String get(String instance, String path) throws Exception {
+        return http.send(request(instance, path).build(), HttpResponse.BodyHandlers.ofString()).body();
+    }
+
+    private HttpResponse<String> post(String instance, String path, String body) throws Exception {
+        return http.send(request(instance, path).POST(HttpRequest.BodyPublishers.ofString(body)).build(),
+                HttpResponse.BodyHandlers.ofString());
+    }
+
+    /** The first phase of {@code kind} for {@code camera} received from the broker, or null. */
+    private static JsonNode firstReceived(Path got, String kind, String phase, String camera) throws Exception {
+        for (JsonNode e : received(got)) {
+            if (kind.equals(e.get("kind").asText()) && phase.equals(e.get("phase").asText())
+                    && camera.equals(e.get("camera").asText())) {
+                return e;
+            }
+        }
+        return null;
     }
 
     private final Map<String, Set<String>> lastSeen = new ConcurrentHashMap<>();
@@ -200,7 +224,9 @@ class FailoverIT {
 
     /** The shared config: the 9 looping cameras, membership through the broker at {@code brokerPort}. */
     private static Path site(Path dir, String name, int brokerPort, List<String> cameras) throws Exception {
+        Files.writeString(dir.resolve("ops.token"), TOKEN);
         StringBuilder toml = new StringBuilder(String.join("\n", "[service]", "data_dir = \"data\"",
+                "token_file = \"ops.token\"",
                 "[clips]", "enabled = false", "[mqtt]",
                 "url = \"mqtt://127.0.0.1:" + brokerPort + "\"", "topic_prefix = \"yard\"",
                 "client_id = \"wayward-fo\"", "keep_alive_seconds = " + KEEP_ALIVE, "max_backoff_seconds = 3", ""));
@@ -315,6 +341,31 @@ class FailoverIT {
                     }
                 });
             }
+            // a mute asked of one instance's status server holds where the camera is watched (passed on through
+            // the broker), and so does its early end asked of a third
+            String mutedCamera = Shards.mine(cameras, "gate", INSTANCES).get(0);
+            HttpResponse<String> made = post("north", "/api/mutes", "{\"camera\": \"" + mutedCamera
+                    + "\", \"minutes\": 30, \"reason\": \"mast inspection\"}");
+            assertEquals(201, made.statusCode(), made.body());
+            await("gate, which watches " + mutedCamera + ", raises its mute", 30,
+                    () -> quietly(() -> firstReceived(got, "camera_muted", "start", mutedCamera) != null));
+            JsonNode muteStart = firstReceived(got, "camera_muted", "start", mutedCamera);
+            assertEquals("ops", muteStart.get("by").asText(), "who: the token's name, as asked of north");
+            assertEquals("mast inspection", muteStart.get("reason").asText());
+            assertTrue(get("gate", "/api/mutes").contains("\"camera\":\"" + mutedCamera + "\""),
+                    get("gate", "/api/mutes"));
+            HttpResponse<String> ended = post("south", "/api/mutes/end", "{\"camera\": \"" + mutedCamera
+                    + "\", \"reason\": \"inspected\"}");
+            assertEquals(200, ended.statusCode(), ended.body());
+            await("gate ends the mute south was asked to end", 30,
+                    () -> quietly(() -> firstReceived(got, "camera_muted", "end", mutedCamera) != null));
+            JsonNode muteEnd = firstReceived(got, "camera_muted", "end", mutedCamera);
+            assertEquals(muteStart.get("id").asText(), muteEnd.get("id").asText());
+            assertEquals("inspected", muteEnd.get("reason").asText());
+            for (String i : INSTANCES) {
+                await(i + " holds no mute", 10, () -> quietly(() -> get(i, "/api/mutes").contains("\"mutes\":[]")));
+            }
+
             gapAndDouble.values().forEach(g -> {
                 g[0] = 0;
                 g[1] = 0;
@@ -472,6 +523,15 @@ class FailoverIT {
                 sub.destroyForcibly();
             }
             broker.close();
+        }
+    }
+
+    /** A check that may fail while a process starts or a file is written: false then. */
+    private static boolean quietly(java.util.concurrent.Callable<Boolean> check) {
+        try {
+            return check.call();
+        } catch (Exception e) {
+            return false;
         }
     }
 

@@ -43,7 +43,7 @@ class ConfigLoaderTest {
         "heading-360.toml | 8:3: camera[0].zone[0].heading_deg: 360 (expected a bearing from 0 up to, not including, 360 degrees clockwise from image-up)",
         "window-even.toml | 2:1: flow.window: 4 (expected an odd number from 3 to 15)",
         "camera-id-upper-case.toml | 2:1: camera[0].id: \"Gate 1\" (expected lower-case letters, digits, '.', '_' or '-', 1 to 63 characters)",
-        "camera-id-status.toml | 2:1: camera[0].id: \"status\" (expected an id other than command, status: MQTT topics use it as a fixed level (<prefix>/status/<client id>, <prefix>/command/<user>/…))",
+        "camera-id-status.toml | 2:1: camera[0].id: \"status\" (expected an id other than command, mutes, status: MQTT topics use it as a fixed level (<prefix>/status/<client id>, <prefix>/command/<user>/…, <prefix>/mutes/<camera>/…))",
         "mute-hours-over.toml | 3:1: service.max_mute_hours: 1000 (expected a number from 0.1 to 744)",
         "zone-missing.toml | 1:1: camera[0].zone: missing (expected at least one [[camera.zone]] table)",
         "device-key-on-a-file.toml | 4:1: camera[0].device_fps: 15 (expected no such key for a source that is not a webcam (/dev/videoN))",

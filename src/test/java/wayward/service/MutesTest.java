@@ -158,6 +158,139 @@ class MutesTest {
         }
     }
 
+    /** A broker's retained messages (MQTT 3.1.1 §3.3.1.3): the last record per topic, delivered to each instance. */
+    private static final class Retained {
+        final java.util.Map<String, byte[]> last = new java.util.TreeMap<>();
+        final List<byte[]> pending = new ArrayList<>();
+
+        Mutes.Share to() {
+            return (camera, zone, record) -> {
+                // each record fits the shipped schema of its topic
+                SchemaCheck.assertMqttPayload("yard", "yard/mutes/" + camera + (zone == null ? "" : "/" + zone),
+                        new String(record, java.nio.charset.StandardCharsets.UTF_8));
+                last.put(camera + "/" + zone, record);
+                pending.add(record);
+            };
+        }
+
+        /** Delivers what was sent since the last call to every instance (each gets its own back, as from a broker). */
+        void deliver(Mutes... to) {
+            List<byte[]> now = List.copyOf(pending);
+            pending.clear();
+            for (byte[] r : now) {
+                for (Mutes m : to) {
+                    m.mirror(r);
+                }
+            }
+        }
+    }
+
+    private Mutes open(String instance, List<CameraConfig> cams, List<Event> raised) {
+        return new Mutes(dir.resolve(instance), cams, Duration.ofHours(12), clock, e -> {
+            SchemaCheck.assertEventRecord(EventJson.toJson(e));
+            raised.add(e);
+        });
+    }
+
+    /** Two instances' mutes, north and south, each passing its changes to the same retained stand-in. */
+    private final class Two implements AutoCloseable {
+        final Retained broker = new Retained();
+        final List<Event> northRaised = Collections.synchronizedList(new ArrayList<>());
+        final List<Event> southRaised = Collections.synchronizedList(new ArrayList<>());
+        final Mutes north;
+        final Mutes south;
+
+        Two(List<CameraConfig> cams) {
+            north = open("north", cams, northRaised);
+            south = open("south", cams, southRaised);
+            north.shareWith(broker.to());
+            south.shareWith(broker.to());
+        }
+
+        @Override
+        public void close() {
+            north.close();
+            south.close();
+        }
+    }
+
+    @Test
+    void aMuteAskedOfOneInstanceHoldsOnTheOneWatchingAndAfterTheCameraMoves() throws Exception {
+        try (Two two = new Two(cameras("lane-1"))) {
+            Mutes n = two.north;
+            Mutes s = two.south;
+            List<Event> north = two.northRaised;
+            List<Event> south = two.southRaised;
+            Retained broker = two.broker;
+            // south watches gate-in; the operator's request reached north (a load balancer, another desk)
+            n.raiseOnlyFor(c -> false);
+            s.raiseOnlyFor(c -> true);
+            n.mute("gate-in", "lane-1", T0.plusSeconds(900), "control-room", "sweeper");
+            broker.deliver(n, s);
+            assertFalse(s.raises("gate-in", "lane-1", T0.plusSeconds(60)), "the watching instance holds the mute");
+            assertEquals(0, north.size(), "north does not watch gate-in: raises nothing");
+            assertEquals(1, south.size());
+            Event start = south.get(0);
+            assertEquals(EventKind.ZONE_MUTED, start.kind());
+            assertEquals("control-room", start.control().by());
+            assertEquals(n.mutes().get(0), s.mutes().get(0), "the same mute: since, until, by, reason");
+
+            // south dies; gate-in moves to north, which knew the mute all along and ends it at its time
+            n.raiseOnlyFor(c -> true);
+            clock.step(900);
+            long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(5);
+            while (north.isEmpty() && System.nanoTime() < deadline) {
+                TimeUnit.MILLISECONDS.sleep(20); // the timer checks once a second
+            }
+            assertEquals(1, north.size(), north.toString());
+            assertEquals(start.id(), north.get(0).id(), "the end carries the start's id, though another raised it");
+            assertEquals(Event.EXPIRED, north.get(0).endedBy());
+        }
+    }
+
+    @Test
+    void anEarlyEndAndANewerMuteArePassedOnAndOldOrForeignRecordsChangeNothing() throws Exception {
+        try (Two two = new Two(cameras("lane-1"))) {
+            Mutes n = two.north;
+            Mutes s = two.south;
+            List<Event> south = two.southRaised;
+            Retained broker = two.broker;
+            n.raiseOnlyFor(c -> false);
+            n.mute("gate-in", null, T0.plusSeconds(600), "control-room", "camera cleaned");
+            broker.deliver(n, s);
+            clock.step(10);
+            s.mute("gate-in", null, T0.plusSeconds(1200), "night-desk", "longer");
+            broker.deliver(n, s);
+            assertEquals(T0.plusSeconds(1200), n.mutes().get(0).until(), "the newer mute replaces the older");
+            assertEquals(s.mutes(), n.mutes());
+            // a record read late (an older mute of the same camera) does not undo the newer one
+            byte[] older = broker.last.get("gate-in/null");
+            s.unmute("gate-in", null, "night-desk", "done early");
+            broker.deliver(n, s);
+            assertTrue(n.mutes().isEmpty(), "the early end is passed on");
+            assertTrue(s.mutes().isEmpty());
+            assertEquals(Event.Phase.END, south.get(south.size() - 1).phase());
+            assertEquals("done early", south.get(south.size() - 1).control().reason());
+            n.mirror(older); // the ended record replaced it at the broker; an old copy arriving late
+            assertTrue(n.mutes().isEmpty(), "a mute ended here does not start again from a late copy");
+            // records that are not ours: unreadable, a camera of another config, a mute already over
+            int before = south.size();
+            s.mirror("not json".getBytes(java.nio.charset.StandardCharsets.UTF_8));
+            s.mirror(("{\"state\":\"muted\",\"id\":\"x\",\"camera\":\"dock-7\",\"since\":\"" + T0
+                    + "\",\"until\":\"" + T0.plusSeconds(900) + "\",\"by\":\"a\",\"reason\":\"\"}")
+                    .getBytes(java.nio.charset.StandardCharsets.UTF_8));
+            s.mirror(("{\"state\":\"muted\",\"id\":\"y\",\"camera\":\"gate-in\",\"since\":\"" + T0
+                    + "\",\"until\":\"" + T0.plusSeconds(5) + "\",\"by\":\"a\",\"reason\":\"\"}")
+                    .getBytes(java.nio.charset.StandardCharsets.UTF_8));
+            assertTrue(s.mutes().isEmpty());
+            assertEquals(before, south.size());
+            // an MQTT command reaches every instance itself: nothing is passed on
+            broker.pending.clear();
+            s.unshared().mute("gate-in", "lane-1", T0.plusSeconds(300), "night-desk", "by command");
+            assertTrue(broker.pending.isEmpty());
+        }
+    }
+
     @Test
     void anUnreadableFileIsSetAsideAndNothingIsMuted() throws Exception {
         Files.createDirectories(dir.resolve("data"));

@@ -23,6 +23,7 @@ public final class SchemaCheck {
     public static final String CAMERA_STATE = "mqtt-camera-state.schema.json";
     public static final String ZONE_STATE = "mqtt-zone-state.schema.json";
     public static final String STATUS = "mqtt-status.schema.json";
+    public static final String MUTE = "mqtt-mute.schema.json";
 
     private static final SchemaRegistry REGISTRY = SchemaRegistry.withDefaultDialect(SpecificationVersion.DRAFT_2020_12);
     private static final Map<String, Schema> LOADED = new ConcurrentHashMap<>();
@@ -53,7 +54,7 @@ public final class SchemaCheck {
 
     /**
      * Fails unless an MQTT payload is valid under the schema of its topic, found from the topic's levels below
-     * {@code prefix}: {@code status/<client>}, {@code <camera>/event} and {@code <camera>/<zone>/event} (event
+     * {@code prefix}: {@code status/<client>}, {@code mutes/<camera>[/<zone>]}, {@code <camera>/event} and {@code <camera>/<zone>/event} (event
      * record), {@code <camera>/state}, {@code <camera>/<zone>/state}.
      */
     public static void assertMqttPayload(String prefix, String topic, String payload) {
@@ -65,6 +66,8 @@ public final class SchemaCheck {
         String schema;
         if (levels.length == 2 && levels[0].equals("status")) {
             schema = STATUS;
+        } else if ((levels.length == 2 || levels.length == 3) && levels[0].equals("mutes")) {
+            schema = MUTE;
         } else if (last.equals("event") && (levels.length == 2 || levels.length == 3)) {
             schema = EVENT;
         } else if (last.equals("state") && levels.length == 2) {
