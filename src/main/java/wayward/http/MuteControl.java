@@ -29,4 +29,9 @@ public interface MuteControl {
 
     /** The longest a mute may last ({@code [service] max_mute_hours}). */
     Duration longest();
+
+    /** Runs {@code task} where changes may wait for the disk (not on a network event loop); here by default. */
+    default void later(Runnable task) {
+        task.run();
+    }
 }

@@ -4,6 +4,7 @@ import com.fasterxml.jackson.core.JsonFactory;
 import com.fasterxml.jackson.core.JsonGenerator;
 import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.core.JsonToken;
+import io.netty.buffer.Unpooled;
 import io.netty.channel.ChannelHandlerContext;
 import io.netty.handler.codec.http.FullHttpRequest;
 import io.netty.handler.codec.http.HttpResponseStatus;
@@ -61,18 +62,30 @@ public final class MuteRequests {
             Replies.text(ctx, req, HttpResponseStatus.NOT_FOUND, "this service keeps no mutes\n", false);
             return;
         }
+        String body = req.content().toString(StandardCharsets.UTF_8);
+        // the request's line and headers, for the reply: the request itself is released when this returns
+        FullHttpRequest head = req.replace(Unpooled.EMPTY_BUFFER);
+        // a change writes the mutes file and waits for the disk: not on the event loop, which serves the others
+        m.later(() -> changeNow(ctx, head, m, start, body, by));
+    }
+
+    private void changeNow(ChannelHandlerContext ctx, FullHttpRequest head, MuteControl m, boolean start, String body,
+            String by) {
         try {
-            MuteState s = apply(m, start, req.content().toString(StandardCharsets.UTF_8), by, clock);
-            Replies.json(ctx, req, start ? HttpResponseStatus.CREATED : HttpResponseStatus.OK, write(g -> {
+            MuteState s = apply(m, start, body, by, clock);
+            Replies.json(ctx, head, start ? HttpResponseStatus.CREATED : HttpResponseStatus.OK, write(g -> {
                 g.writeFieldName("mute");
                 state(g, s);
                 g.writeBooleanField("ended", !start);
             }));
         } catch (IllegalArgumentException bad) {
-            Replies.text(ctx, req, HttpResponseStatus.BAD_REQUEST, bad.getMessage() + "\n", false);
+            Replies.text(ctx, head, HttpResponseStatus.BAD_REQUEST, bad.getMessage() + "\n", false);
         } catch (MuteControl.Refused r) {
             LOG.info("status server: {} refused: {}", start ? "mute" : "end of a mute", LogText.clean(r.getMessage()));
-            Replies.text(ctx, req, HttpResponseStatus.UNPROCESSABLE_ENTITY, r.getMessage() + "\n", false);
+            Replies.text(ctx, head, HttpResponseStatus.UNPROCESSABLE_ENTITY, r.getMessage() + "\n", false);
+        } catch (RuntimeException e) {
+            LOG.error("status server: {} failed: {}", start ? "mute" : "end of a mute", LogText.clean(e.toString()));
+            Replies.text(ctx, head, HttpResponseStatus.INTERNAL_SERVER_ERROR, "internal error\n", true);
         }
     }
 

@@ -51,6 +51,8 @@ public final class Membership implements PeerWatch, AutoCloseable {
      */
     public static final long OFFLINE_GRACE_MILLIS = 2000;
     private static final long TICK_MILLIS = 500;
+    /** A gap between ticks from which this instance counts as having been stopped, not the others as silent. */
+    private static final long STALL_NANOS = TimeUnit.SECONDS.toNanos(2);
 
     /** Starts and stops cameras; called on the membership thread with the ids this instance now watches. */
     public interface Watcher {
@@ -102,6 +104,8 @@ public final class Membership implements PeerWatch, AutoCloseable {
     private boolean everSettled;
     private long generation;
     private long moves;
+    /** System.nanoTime() of the last tick; 0 before the first. */
+    private long lastTick;
     /** System.nanoTime() of the last (re)connection to the broker. */
     private long connectedAt;
 
@@ -266,10 +270,21 @@ public final class Membership implements PeerWatch, AutoCloseable {
      * taken for offline, and an offline one whose grace has run out loses its cameras.
      */
     private void tick() {
+        long now = System.nanoTime();
+        long gap = lastTick == 0 ? 0 : now - lastTick;
+        lastTick = now;
+        if (gap > STALL_NANOS) {
+            // this instance itself did not run (SIGSTOP, a suspended VM, a long pause): the others' silence over
+            // that time says nothing of them, so it does not count towards their being taken for offline
+            for (Peer p : peers.values()) {
+                p.heard += gap - TimeUnit.MILLISECONDS.toNanos(TICK_MILLIS);
+            }
+            LOG.warn("membership: this instance did not run for {} s (stopped or paused); the others' silence over "
+                    + "that time is not held against them", TimeUnit.NANOSECONDS.toMillis(gap) / 1000.0);
+        }
         if (!settled) {
             return;
         }
-        long now = System.nanoTime();
         for (Map.Entry<String, Peer> e : peers.entrySet()) {
             Peer p = e.getValue();
             // one not heard since this instance (re)connected may still be finding the broker after an outage
@@ -379,6 +394,17 @@ public final class Membership implements PeerWatch, AutoCloseable {
             as.add(new Instances.Assignment(e.getKey(), owner, reason));
         }
         view = new Instances(self, "broker", settled, shown, as, moves);
+    }
+
+    /** Holds the membership thread for {@code millis}, as a stopped process would be (tests). */
+    void stall(long millis) {
+        thread.execute(() -> {
+            try {
+                TimeUnit.MILLISECONDS.sleep(millis);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+            }
+        });
     }
 
     /** Waits until everything handed to the membership thread so far is done (tests). */

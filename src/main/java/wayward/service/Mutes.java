@@ -513,6 +513,7 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
     }
 
     /** Runs {@code task} on the mutes' own thread (a caller that must not wait for the file's fsync). */
+    @Override
     public void later(Runnable task) {
         timer.execute(task);
     }

@@ -456,10 +456,13 @@ class FailoverIT {
             gapAndDouble.forEach((c, g) -> frozenGaps.put(c, Math.round(g[0] * 10) / 10.0));
             System.out.printf("failover: %s frozen (SIGSTOP): its %d cameras watched again %.1f s later; seconds "
                     + "unwatched per camera %s%n", frozen, frozenShare.size(), frozenTakeover, frozenGaps);
-            double bound = 1.5 * KEEP_ALIVE + 2 + 3; // will + the grace + a camera's start (README)
+            // the will comes 1.5 keep-alives after the broker last heard from the instance (MQTT 3.1.1 §3.1.2.10),
+            // which is at most one keep-alive before the stop (it pings when it has sent nothing else); then the
+            // 2 s grace and a camera's start (up to 4 s here, on a loaded CI machine: 13.6 s seen in all)
+            double bound = 1.5 * KEEP_ALIVE + 2 + 4;
             for (String c : frozenShare) {
                 assertTrue(frozenGaps.get(c) <= Math.min(bound, MAX_GAP_SECONDS), c + " unwatched " + frozenGaps);
-                assertTrue(frozenGaps.get(c) >= 1.5 * KEEP_ALIVE - 1, "not before its will: " + frozenGaps);
+                assertTrue(frozenGaps.get(c) >= 0.5 * KEEP_ALIVE + 2 - 1, "not before its will: " + frozenGaps);
             }
             signal("CONT", running.get(frozen));
             // it finds its connection gone, connects again, reads online, and gets its cameras back
@@ -515,7 +518,8 @@ class FailoverIT {
             TimeUnit.SECONDS.sleep(KEEP_ALIVE + 3 + 2); // past the reconnect grace: a late instance would have lost its cameras
             assertEquals(expected, watcherOf(), "after the outage each camera is still with its own instance");
             for (String i : INSTANCES) {
-                assertEquals(movesBefore.get(i), instancesView(i).get("moves").asLong(), i + ": no move for the outage");
+                assertEquals(movesBefore.get(i), instancesView(i).get("moves").asLong(), i + ": no move for the outage; "
+                        + "its membership lines:\n" + membershipLines(dir, i));
             }
         } finally {
             stopAll(poller);
@@ -524,6 +528,17 @@ class FailoverIT {
             }
             broker.close();
         }
+    }
+
+    /** What an instance's log says of the others and of moves, for a failure's message. */
+    private static String membershipLines(Path dir, String instance) throws Exception {
+        StringBuilder out = new StringBuilder();
+        for (String line : Files.readAllLines(dir.resolve(instance + ".log"), StandardCharsets.UTF_8)) {
+            if (line.contains("[membership]") || line.contains("moves from instance")) {
+                out.append(line).append('\n');
+            }
+        }
+        return out.toString();
     }
 
     /** A check that may fail while a process starts or a file is written: false then. */

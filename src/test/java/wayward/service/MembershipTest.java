@@ -244,6 +244,24 @@ class MembershipTest {
     }
 
     @Test
+    void anInstanceThatWasStoppedDoesNotTakeTheOthersForSilent() throws Exception {
+        // SIGSTOP of north for longer than three keep-alives: nothing reaches it meanwhile, and when it runs again
+        // the others' last refresh is old only because north itself did not run
+        alive.addAll(List.of("south", "gate"));
+        subscribeAndSettle("north", "south", "gate");
+        List<String> own = Shards.mine(cameras, "north", NAMES);
+        Membership north = members.get("north");
+        connected.remove("north");
+        north.stall(Membership.SILENT_KEEP_ALIVES * KEEP_ALIVE * 1000L + 1000);
+        north.drain();
+        connected.add("north"); // running again: the refreshes reach it within a second
+        TimeUnit.MILLISECONDS.sleep(1500);
+        north.drain();
+        assertEquals(own, watched.get("north"), "nothing taken on waking up");
+        assertEquals(0, north.view().moves(), "no camera moved");
+    }
+
+    @Test
     void anInstanceWhoseStatusIsNotRefreshedIsTakenForOffline() throws Exception {
         // its will never comes (its broker node died with it): its retained online goes stale; gate refreshes
         alive.add("gate");
