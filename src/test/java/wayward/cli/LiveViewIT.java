@@ -44,6 +44,9 @@ class LiveViewIT {
             // the live picture arrived (the MJPEG stream's first frame gives the image its size)
             cdp.await("(document.getElementById('picture') || {naturalWidth: 0}).naturalWidth", Pattern.compile("[1-9]\\d*"), 60);
 
+            // the streams line above the picture is filled by the page's first poll; the page keeps its room, and
+            // the drawing is measured after it came (in CI a measurement before it put every click 0.1 too high)
+            cdp.await("document.getElementById('streams').textContent", Pattern.compile(".*analysed.*"), 30);
             double[] r = stableRect(cdp);
             double left = r[0];
             double top = r[1];
