@@ -33,7 +33,6 @@ import java.util.List;
 import java.util.Map;
 import java.util.concurrent.CompletableFuture;
 import java.util.concurrent.TimeUnit;
-import java.util.function.Consumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.event.Event;
@@ -71,11 +70,28 @@ public final class MqttPublisher implements Destination {
     /** Told of operators' commands, or null when they are not read. */
     private final CommandWatch commands;
     /** Where mute records read below {@code <prefix>/mutes/} go; null: none read. Called on the event loop. */
-    private final Consumer<byte[]> mutes;
+    private final MuteRecords mutes;
+
+    /**
+     * Told of the mute records below {@code <prefix>/mutes/}, on the event loop, in this order on each connection:
+     * {@link #subscribing}, the records the broker retained (and live ones), {@link #caughtUp} once every retained
+     * record has been read, then live records.
+     */
+    public interface MuteRecords {
+        void subscribing();
+
+        void record(byte[] json);
+
+        void caughtUp();
+    }
     // packet identifiers of the SUBSCRIBEs in flight (event loop only)
     private int statusSubscription;
     private int commandSubscription;
     private int muteSubscription;
+    /** PINGREQs sent and PINGRESPs read on this connection, and the answer that follows the retained mutes. */
+    private long pingsSent;
+    private long pingsAnswered;
+    private long mutesCaughtUpAt = -1;
 
     // confined to the event loop thread
     private final MqttInFlight inFlight = new MqttInFlight();
@@ -120,7 +136,7 @@ public final class MqttPublisher implements Destination {
      * retained below {@code <prefix>/mutes/}, and every record there (this instance's own too) goes to {@code mutes}.
      */
     public MqttPublisher(MqttConfig config, List<String> zones, long runStartSeq, PeerWatch peers,
-            CommandWatch commands, Consumer<byte[]> mutes) {
+            CommandWatch commands, MuteRecords mutes) {
         this.config = config;
         this.peers = peers;
         this.commands = commands;
@@ -288,6 +304,9 @@ public final class MqttPublisher implements Destination {
                 return;
             }
             channel = ctx.channel();
+            pingsSent = 0;
+            pingsAnswered = 0;
+            mutesCaughtUpAt = -1;
             ctx.writeAndFlush(MqttPackets.connect(config, statusTopic, statusPayload("offline")));
         }
 
@@ -306,6 +325,11 @@ public final class MqttPublisher implements Destination {
                 case PUBLISH -> received(ctx, (MqttPublishMessage) m);
                 case PINGRESP -> {
                     // the idle handler counts it as traffic
+                    pingsAnswered++;
+                    if (pingsAnswered == mutesCaughtUpAt) {
+                        mutesCaughtUpAt = -1;
+                        mutes.caughtUp();
+                    }
                 }
                 default -> LOG.debug("{}: ignoring {}", name(), m.fixedHeader().messageType());
             }
@@ -341,8 +365,12 @@ public final class MqttPublisher implements Destination {
             }
             if (mutes != null) {
                 muteSubscription = inFlight.otherId();
+                mutes.subscribing();
+                // QoS 0: the records are retained state, so one missed while the connection drops comes again
+                // at the next subscription; and a broker sends retained QoS 0 messages at once, not held back
+                // behind its in-flight window, so they all come before the answer to the ping after the SUBACK
                 ctx.writeAndFlush(MqttPackets.subscribe(muteSubscription, MqttTopics.muteFilter(config.topicPrefix()),
-                        MqttQoS.AT_LEAST_ONCE));
+                        MqttQoS.AT_MOST_ONCE));
             }
             if (peers != null) {
                 statusSubscription = inFlight.otherId();
@@ -376,6 +404,11 @@ public final class MqttPublisher implements Destination {
                     LOG.warn("{}: the broker refused the subscription to {} (check its ACL): mutes asked of another "
                             + "instance's status server are not known here", name(),
                             MqttTopics.muteFilter(config.topicPrefix()));
+                } else {
+                    // the broker sends the retained records right after the SUBACK, before it answers a later
+                    // ping (it handles one client's packets in order): that answer says they have all been read
+                    ping();
+                    mutesCaughtUpAt = pingsSent;
                 }
                 return;
             }
@@ -409,7 +442,7 @@ public final class MqttPublisher implements Destination {
             }
             if (MqttTopics.isMute(config.topicPrefix(), topic)) {
                 if (mutes != null && body.length > 0) {
-                    mutes.accept(body);
+                    mutes.record(body);
                 }
                 return;
             }
@@ -424,11 +457,16 @@ public final class MqttPublisher implements Destination {
             }
         }
 
+        private void ping() {
+            pingsSent++;
+            channel.writeAndFlush(MqttPackets.pingReq());
+        }
+
         @Override
         public void userEventTriggered(ChannelHandlerContext ctx, Object evt) throws Exception {
             if (evt instanceof IdleStateEvent idle) {
                 if (idle.state() == IdleState.WRITER_IDLE) {
-                    ctx.writeAndFlush(MqttPackets.pingReq());
+                    ping();
                 } else if (idle.state() == IdleState.READER_IDLE) {
                     dropReason = "broker silent for " + config.keepAliveSeconds() * 3 / 2 + " s";
                     ctx.close();

@@ -18,6 +18,7 @@ import java.time.Duration;
 import java.time.Instant;
 import java.time.format.DateTimeFormatter;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -71,14 +72,19 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
         void send(String camera, String zone, byte[] record);
     }
 
-    /** One mute in force and the id its phases share. */
-    private record Entry(String id, MuteState state) {
+    /**
+     * One mute in force and the id its phases share; {@code passOn}: asked of this instance's status server, so
+     * this instance answers for its record at the broker ({@link #caughtUp}).
+     */
+    private record Entry(String id, MuteState state, boolean passOn) {
     }
 
     /** Key "camera" or "camera/zone" → the mute; insertion order. Guarded by this. */
     private final Map<String, Entry> active = new LinkedHashMap<>();
     /** Ids of mutes ended here before their time → that time: a late copy of their record starts nothing. */
     private final Map<String, Instant> endedEarly = new LinkedHashMap<>();
+    /** Key → the id of the record read from the broker for it since this instance last subscribed. Guarded by this. */
+    private final Map<String, String> atBroker = new HashMap<>();
     /** Lock-free copy for {@link #raises}, replaced on every change. */
     private volatile Map<String, Instant> ends = Map.of();
 
@@ -221,7 +227,7 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
         if (old != null) {
             end(old, by, "replaced by a mute until " + DateTimeFormatter.ISO_INSTANT.format(until), null);
         }
-        Entry e = new Entry(UUID.randomUUID().toString(), new MuteState(camera, zone, now, until, by, why));
+        Entry e = new Entry(UUID.randomUUID().toString(), new MuteState(camera, zone, now, until, by, why), tell);
         start(e, "");
         if (tell) {
             send(e, null);
@@ -289,6 +295,34 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
     }
 
     /**
+     * This instance subscribes to the records afresh (it connected to the broker): what the broker holds follows,
+     * then {@link #caughtUp}. Call on the mutes' thread, in order with {@link #mirror}.
+     */
+    public synchronized void subscribing() {
+        atBroker.clear();
+    }
+
+    /**
+     * Every record the broker held at the subscription has been read: a mute asked of this instance whose record
+     * the broker does not hold is passed on again. It was asked while the broker was away and this process stopped
+     * before it could pass it on (the mute is kept in the data folder, the publish that carried it was not), or the
+     * broker came back without its retained messages. A record of the same key under another id wins if it is the
+     * newer mute (it replaced this one in {@link #mirror} already) and loses otherwise, as it would have had both
+     * been sent in order. Call on the mutes' thread, in order with {@link #mirror}.
+     */
+    public synchronized void caughtUp() {
+        for (Entry e : List.copyOf(active.values())) {
+            MuteState s = e.state();
+            String held = atBroker.get(key(s.camera(), s.zone()));
+            if (e.passOn() && !e.id().equals(held) && clock.instant().isBefore(s.until())) {
+                LOG.info("{}: the broker does not hold the mute until {} asked here; passed on again",
+                        where(s.camera(), s.zone()), s.until());
+                send(e, null);
+            }
+        }
+    }
+
+    /**
      * A record another instance sent (or this one, read back): a mute started or ended there through its status
      * server. A mute not known here starts here with the same id (its phases are raised by whichever instance
      * watches the camera), replacing an older one of the same camera or zone; an end ends the mute of that id. A
@@ -312,6 +346,7 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
                 LOG.debug("mutes: a shared record of {} {}, not in this config; ignored", camera, zone);
                 return;
             }
+            atBroker.put(key(camera, zone), id);
             Entry cur = active.get(key(camera, zone));
             boolean same = cur != null && cur.id().equals(id);
             if ("ended".equals(f.get("state"))) {
@@ -334,7 +369,7 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
             if (cur != null) {
                 end(cur, f.get("by"), "replaced by a mute until " + DateTimeFormatter.ISO_INSTANT.format(until), null);
             }
-            start(new Entry(id, new MuteState(camera, zone, since, until, f.get("by"), clean(f.get("reason")))),
+            start(new Entry(id, new MuteState(camera, zone, since, until, f.get("by"), clean(f.get("reason"))), false),
                     " (asked of another instance)");
         } catch (RuntimeException bad) {
             LOG.warn("mutes: a shared mute record is not one ({}); ignored", wayward.secret.LogText.clean(
@@ -447,6 +482,9 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
                 g.writeStartObject();
                 g.writeStringField("id", e.id());
                 wayward.http.MuteRequests.fields(g, e.state());
+                if (e.passOn()) {
+                    g.writeBooleanField("pass_on", true);
+                }
                 g.writeEndObject();
             }
             g.writeEndArray();
@@ -484,7 +522,7 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
                 Map<String, String> f = object(p);
                 read.add(new Entry(f.get("id"), new MuteState(f.get("camera"), f.get("zone"),
                         Instant.parse(f.get("since")), Instant.parse(f.get("until")), f.get("by"),
-                        f.getOrDefault("reason", ""))));
+                        f.getOrDefault("reason", "")), "true".equals(f.get("pass_on"))));
             }
         } catch (IOException | RuntimeException e) {
             LOG.error("mutes: {} is unreadable ({}); no mute is in force, and the file is kept as {}.bad", file,

@@ -76,8 +76,8 @@ public final class Service implements StatusSource {
     private Mutes mutes;
     /** The MQTT publisher that passes mutes between instances; null when this instance watches alone. */
     private MqttPublisher sharer;
-    /** Mute records read before the mutes were: mirrored once they are. Guarded by itself. */
-    private final List<byte[]> sharedEarly = new ArrayList<>();
+    /** What the broker told of mutes before the mutes were read: carried out once they are. Guarded by itself. */
+    private final List<java.util.function.Consumer<Mutes>> sharedEarly = new ArrayList<>();
     /** The mutes that mirror records, once read. Guarded by {@link #sharedEarly}. */
     private Mutes mirroring;
     /** Set once {@link #start} has started every camera; the status server, bound before, reads it. */
@@ -171,7 +171,7 @@ public final class Service implements StatusSource {
                     // instances sharing the cameras pass on the mutes asked of their status servers
                     boolean share = membership != null || config.shard() != null;
                     MqttPublisher publisher = new MqttPublisher(m, zones, runStart, membership,
-                            m.commands() ? this::command : null, share ? this::sharedMute : null);
+                            m.commands() ? this::command : null, share ? sharedMutes() : null);
                     sharer = share ? publisher : null;
                     bus.add(publisher, 1000, (long) (m.maxBackoffSeconds() * 1000));
                     if (m.commands()) {
@@ -200,7 +200,7 @@ public final class Service implements StatusSource {
                 mutes.shareWith(sharer::shareMute);
                 synchronized (sharedEarly) {
                     mirroring = mutes;
-                    sharedEarly.forEach(this::sharedMute);
+                    sharedEarly.forEach(this::toMutes);
                     sharedEarly.clear();
                 }
             }
@@ -368,20 +368,40 @@ public final class Service implements StatusSource {
         m.later(() -> carryOut(m, user, verb, payload));
     }
 
+    /** The mutes' side of the broker's mute records: each carried out on the mutes' thread, in their order. */
+    private MqttPublisher.MuteRecords sharedMutes() {
+        return new MqttPublisher.MuteRecords() {
+            @Override
+            public void subscribing() {
+                toMutes(Mutes::subscribing);
+            }
+
+            @Override
+            public void record(byte[] json) {
+                toMutes(m -> m.mirror(json));
+            }
+
+            @Override
+            public void caughtUp() {
+                toMutes(Mutes::caughtUp);
+            }
+        };
+    }
+
     /**
-     * A mute record from the broker (the MQTT event loop): mirrored on the mutes' thread; one that comes before
-     * the mutes were read at the start waits for them.
+     * What the broker told of mutes (the MQTT event loop): carried out on the mutes' thread; what comes before the
+     * mutes were read at the start waits for them.
      */
-    private void sharedMute(byte[] record) {
+    private void toMutes(java.util.function.Consumer<Mutes> action) {
         Mutes m;
         synchronized (sharedEarly) {
             m = mirroring;
             if (m == null) {
-                sharedEarly.add(record);
+                sharedEarly.add(action);
                 return;
             }
         }
-        m.later(() -> m.mirror(record));
+        m.later(() -> action.accept(m));
     }
 
     private void carryOut(Mutes m, String user, String verb, byte[] payload) {

@@ -298,4 +298,55 @@ class MqttPublisherIT {
                     line);
         }
     }
+
+    /**
+     * Mute records are retained state read at QoS 0: on connecting, every record the broker retained reaches the
+     * mutes before they are told they caught up, also beyond Mosquitto's in-flight window (max_inflight_messages,
+     * 20 by default), which holds back QoS 1 deliveries but not QoS 0 ones; a later record comes after.
+     */
+    @Test
+    void everyRetainedMuteRecordComesBeforeCaughtUp() throws Exception {
+        Mosquitto m = broker("mutes");
+        int retained = 40;
+        for (int i = 0; i < retained; i++) {
+            Mosquitto.client(10, "mosquitto_pub", "-h", "127.0.0.1", "-p", Integer.toString(m.port()), "-q", "1",
+                    "-r", "-t", "yard/mutes/cam-" + i, "-m", "{\"n\":" + i + "}");
+        }
+        List<String> told = java.util.Collections.synchronizedList(new ArrayList<>());
+        MqttPublisher.MuteRecords records = new MqttPublisher.MuteRecords() {
+            @Override
+            public void subscribing() {
+                told.add("subscribing");
+            }
+
+            @Override
+            public void record(byte[] json) {
+                told.add(new String(json, StandardCharsets.UTF_8));
+            }
+
+            @Override
+            public void caughtUp() {
+                told.add("caught up");
+            }
+        };
+        MqttPublisher p = new MqttPublisher(config(m, "yard-north"), List.of(), 1, null, null, records);
+        try {
+            long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(20);
+            while (!told.contains("caught up") && System.nanoTime() < deadline) {
+                Thread.sleep(20);
+            }
+            assertEquals("subscribing", told.get(0));
+            assertEquals(retained + 1, told.indexOf("caught up"), "every retained record first: " + told);
+            Mosquitto.client(10, "mosquitto_pub", "-h", "127.0.0.1", "-p", Integer.toString(m.port()), "-q", "1",
+                    "-r", "-t", "yard/mutes/cam-live", "-m", "{\"n\":\"live\"}");
+            deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(10);
+            while (!told.contains("{\"n\":\"live\"}") && System.nanoTime() < deadline) {
+                Thread.sleep(20);
+            }
+            assertEquals(retained + 3, told.size(), told.toString());
+            assertEquals("{\"n\":\"live\"}", told.get(retained + 2));
+        } finally {
+            p.close();
+        }
+    }
 }

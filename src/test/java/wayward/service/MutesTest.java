@@ -185,6 +185,16 @@ class MutesTest {
         }
     }
 
+    /** A Share whose records never reach a broker: the publish in flight died with its process. */
+    private static final Mutes.Share LOST = (camera, zone, record) -> { };
+
+    /** What a (re)connecting instance is told (MqttPublisher.MuteRecords): the retained records, then caught up. */
+    private static void subscribe(Retained broker, Mutes m) {
+        m.subscribing();
+        broker.last.values().forEach(m::mirror);
+        m.caughtUp();
+    }
+
     private Mutes open(String instance, List<CameraConfig> cams, List<Event> raised) {
         return new Mutes(dir.resolve(instance), cams, Duration.ofHours(12), clock, e -> {
             SchemaCheck.assertEventRecord(EventJson.toJson(e));
@@ -288,6 +298,55 @@ class MutesTest {
             broker.pending.clear();
             s.unshared().mute("gate-in", "lane-1", T0.plusSeconds(300), "night-desk", "by command");
             assertTrue(broker.pending.isEmpty());
+        }
+    }
+
+    @Test
+    void aMuteAskedWhileTheBrokerWasAwayIsPassedOnWhenItsInstanceComesBackAfterDying() throws Exception {
+        Retained broker = new Retained();
+        List<Event> northRaised = new ArrayList<>();
+        List<Event> southRaised = new ArrayList<>();
+        Mutes north = open("north", cameras("lane-1"), northRaised);
+        north.shareWith(LOST); // the broker is away; the process dies before it comes back
+        north.mute("gate-in", "lane-1", T0.plusSeconds(900), "control-room", "sweeper");
+        north.unshared().mute("gate-in", null, T0.plusSeconds(600), "night-desk", "by command");
+        String id = northRaised.get(0).id(); // the zone's mute start
+        north.close();
+        try (Mutes south = open("south", cameras("lane-1"), southRaised);
+                Mutes again = open("north", cameras("lane-1"), northRaised)) {
+            south.shareWith(broker.to());
+            again.shareWith(broker.to());
+            subscribe(broker, south);
+            subscribe(broker, again);
+            assertEquals(1, broker.pending.size(), "the mute asked here is passed on; the MQTT command's is not");
+            broker.deliver(south, again);
+            assertEquals(1, south.mutes().size());
+            assertEquals("lane-1", south.mutes().get(0).zone());
+            assertEquals(id, southRaised.get(0).id(), "the same mute, under its id");
+            // connected again later: the broker holds it now, so nothing is sent twice
+            subscribe(broker, again);
+            assertTrue(broker.pending.isEmpty(), "held by the broker: not sent again");
+        }
+    }
+
+    @Test
+    void aMuteEndedElsewhereWhileItsInstanceWasDownDoesNotComeBack() throws Exception {
+        try (Two two = new Two(cameras("lane-1"))) {
+            two.north.mute("gate-in", "lane-1", T0.plusSeconds(900), "control-room", "sweeper");
+            two.broker.deliver(two.north, two.south);
+            two.north.close(); // north stops; south ends the mute early, the broker keeps the ended record
+            two.south.unmute("gate-in", "lane-1", "night-desk", "sweeper gone");
+            two.broker.deliver(two.south);
+            List<Event> raised = new ArrayList<>();
+            try (Mutes again = open("north", cameras("lane-1"), raised)) {
+                again.shareWith(two.broker.to());
+                assertEquals(1, again.mutes().size(), "north's file still holds it");
+                subscribe(two.broker, again);
+                assertTrue(again.mutes().isEmpty(), "the broker's ended record ends it");
+                assertTrue(two.broker.pending.isEmpty(), "and it is not passed on again");
+                assertEquals("ended", new String(two.broker.last.get("gate-in/lane-1"),
+                        java.nio.charset.StandardCharsets.UTF_8).replaceAll(".*\"state\":\"(\\w+)\".*", "$1"));
+            }
         }
     }
 
