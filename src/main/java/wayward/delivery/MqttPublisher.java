@@ -321,7 +321,7 @@ public final class MqttPublisher implements Destination {
                 case CONNACK -> connAck(ctx, (MqttConnAckMessage) m);
                 case PUBACK -> inFlight.acknowledged(
                         ((MqttMessageIdVariableHeader) m.variableHeader()).messageId());
-                case SUBACK -> subAck((MqttSubAckMessage) m);
+                case SUBACK -> subAck(ctx, (MqttSubAckMessage) m);
                 case PUBLISH -> received(ctx, (MqttPublishMessage) m);
                 case PINGRESP -> {
                     // the idle handler counts it as traffic
@@ -385,7 +385,7 @@ public final class MqttPublisher implements Destination {
             }
         }
 
-        private void subAck(MqttSubAckMessage m) {
+        private void subAck(ChannelHandlerContext ctx, MqttSubAckMessage m) {
             // MQTT 3.1.1 §3.9.3: 0x80 is a refusal (typically the broker's ACL)
             boolean refused = m.payload().grantedQoSLevels().stream().anyMatch(q -> q >= 0x80);
             int id = m.variableHeader().messageId();
@@ -407,7 +407,7 @@ public final class MqttPublisher implements Destination {
                 } else {
                     // the broker sends the retained records right after the SUBACK, before it answers a later
                     // ping (it handles one client's packets in order): that answer says they have all been read
-                    ping();
+                    ping(ctx);
                     mutesCaughtUpAt = pingsSent;
                 }
                 return;
@@ -457,16 +457,16 @@ public final class MqttPublisher implements Destination {
             }
         }
 
-        private void ping() {
+        private void ping(ChannelHandlerContext ctx) {
             pingsSent++;
-            channel.writeAndFlush(MqttPackets.pingReq());
+            ctx.writeAndFlush(MqttPackets.pingReq());
         }
 
         @Override
         public void userEventTriggered(ChannelHandlerContext ctx, Object evt) throws Exception {
             if (evt instanceof IdleStateEvent idle) {
                 if (idle.state() == IdleState.WRITER_IDLE) {
-                    ping();
+                    ping(ctx);
                 } else if (idle.state() == IdleState.READER_IDLE) {
                     dropReason = "broker silent for " + config.keepAliveSeconds() * 3 / 2 + " s";
                     ctx.close();
