@@ -311,7 +311,7 @@ public final class Mutes implements MuteControl, ZoneGate, AutoCloseable {
      * been sent in order. Call on the mutes' thread, in order with {@link #mirror}.
      */
     public synchronized void caughtUp() {
-        for (Entry e : List.copyOf(active.values())) {
+        for (Entry e : active.values()) {
             MuteState s = e.state();
             String held = atBroker.get(key(s.camera(), s.zone()));
             if (e.passOn() && !e.id().equals(held) && clock.instant().isBefore(s.until())) {

@@ -7,6 +7,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.CountDownLatch;
 import java.util.concurrent.TimeUnit;
+import java.util.function.Consumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 import wayward.analysis.CameraConfig;
@@ -77,7 +78,7 @@ public final class Service implements StatusSource {
     /** The MQTT publisher that passes mutes between instances; null when this instance watches alone. */
     private MqttPublisher sharer;
     /** What the broker told of mutes before the mutes were read: carried out once they are. Guarded by itself. */
-    private final List<java.util.function.Consumer<Mutes>> sharedEarly = new ArrayList<>();
+    private final List<Consumer<Mutes>> sharedEarly = new ArrayList<>();
     /** The mutes that mirror records, once read. Guarded by {@link #sharedEarly}. */
     private Mutes mirroring;
     /** Set once {@link #start} has started every camera; the status server, bound before, reads it. */
@@ -392,7 +393,7 @@ public final class Service implements StatusSource {
      * What the broker told of mutes (the MQTT event loop): carried out on the mutes' thread; what comes before the
      * mutes were read at the start waits for them.
      */
-    private void toMutes(java.util.function.Consumer<Mutes> action) {
+    private void toMutes(Consumer<Mutes> action) {
         Mutes m;
         synchronized (sharedEarly) {
             m = mirroring;
