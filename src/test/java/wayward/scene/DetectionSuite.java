@@ -419,8 +419,13 @@ public final class DetectionSuite {
 
     /** The three detectors on every scenario of both halves, in table order (tune first). */
     public static List<Row> run(Path suiteDir, Path work) throws IOException {
+        return run(suiteDir, work, HALVES);
+    }
+
+    /** The three detectors on every scenario of the given sets (folders of the suite), in that order. */
+    static List<Row> run(Path suiteDir, Path work, List<String> halves) throws IOException {
         List<Row> rows = new ArrayList<>();
-        for (String half : HALVES) {
+        for (String half : halves) {
             Path dir = work.resolve(half);
             Files.createDirectories(dir);
             for (Path file : scenarios(suiteDir.resolve(half))) {
@@ -486,7 +491,8 @@ public final class DetectionSuite {
     /** The tables for DEVELOPERS.md (Markdown): one per half, then the summary of both halves. */
     public static String table(List<Row> rows) {
         StringBuilder b = new StringBuilder();
-        for (String half : HALVES) {
+        List<String> halves = rows.stream().map(Row::half).distinct().toList();
+        for (String half : halves) {
             List<Row> in = rows.stream().filter(r -> r.half().equals(half)).toList();
             if (in.isEmpty()) {
                 continue;
@@ -512,7 +518,7 @@ public final class DetectionSuite {
         }
         b.append("\n| half | detector | recall | precision | false alerts (per hour) | nuisance scenes with a false "
                 + "alert | onset latency over hold, mean / max (s) |\n|---|---|---|---|---|---|---|\n");
-        for (String half : HALVES) {
+        for (String half : halves) {
             List<Row> in = rows.stream().filter(r -> r.half().equals(half)).toList();
             if (in.isEmpty()) {
                 continue;
@@ -535,10 +541,14 @@ public final class DetectionSuite {
                 t.nuisanceFalse(), f(t.meanLatency(), "%.2f"), f(t.maxLatency(), "%.2f")));
     }
 
-    /** Prints the tables: {@code java -cp … wayward.scene.DetectionSuite [suite folder] [work folder]}. */
+    /**
+     * Prints the tables: {@code java -cp … wayward.scene.DetectionSuite [suite folder] [work folder] [set …]}, the
+     * sets being folders of the suite (default: tune and held-out; e.g. {@code probe}).
+     */
     public static void main(String[] args) throws IOException {
         Path suite = Path.of(args.length > 0 ? args[0] : "test-streams/suite");
         Path work = Path.of(args.length > 1 ? args[1] : "target/suite");
-        System.out.print(table(run(suite, work)));
+        List<String> halves = args.length > 2 ? List.of(args).subList(2, args.length) : HALVES;
+        System.out.print(table(run(suite, work, halves)));
     }
 }
