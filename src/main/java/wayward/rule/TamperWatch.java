@@ -52,6 +52,8 @@ public final class TamperWatch {
     private final ArrayDeque<Event> out = new ArrayDeque<>();
     private byte[] previous;
     private double[] blocks;
+    /** Sums of the current frame's 2×2 blocks (4 × their means). */
+    private int[] blockSums;
     private int width;
     private int height;
     private double startT = Double.NaN;
@@ -139,6 +141,7 @@ public final class TamperWatch {
             height = f.height;
             previous = new byte[width * height];
             blocks = new double[(width / 2) * (height / 2)];
+            blockSums = new int[blocks.length];
             shift.size(width / 2, height / 2);
             reference = null; // a new size starts a new reference
             System.arraycopy(f.pixels, 0, previous, 0, previous.length);
@@ -150,16 +153,10 @@ public final class TamperWatch {
         }
         double dt = Math.max(0, t - lastT);
         lastT = t;
-        // frozen: hardly a pixel changed since the previous analysed frame (|difference| over 1 grey level)
+        // frozen: hardly a pixel changed since the previous analysed frame (|difference| over 1 grey level);
+        // counted in the same pass that sums the 2×2 blocks
         byte[] p = f.pixels;
-        int changed = 0;
-        for (int i = 0; i < previous.length; i++) {
-            int d = (p[i] & 0xff) - (previous[i] & 0xff);
-            // |d| > 1 counted without a branch: in sensor noise it goes either way at random, and a mispredicted
-            // branch per pixel cost more than the rest of the watch
-            int a = (d ^ (d >> 31)) - (d >> 31);
-            changed += (1 - a) >>> 31;
-        }
+        int changed = sumBlocks(p);
         System.arraycopy(p, 0, previous, 0, previous.length);
         double changedShare = (double) changed / previous.length;
         boolean still = changedShare < STILL_SHARE;
@@ -175,7 +172,7 @@ public final class TamperWatch {
         // only where the picture is normally never still (sensor noise survives the encoder): a compressed
         // static scene is as still as a frozen one, and there a freeze cannot be told from pixels
         boolean noisyCamera = baseStill <= NEVER_STILL;
-        double spread = spread(f);
+        double spread = spread();
         double detail = detail();
         double ratio = spread > 1e-6 ? detail / spread : 0;
         lastSpread = spread;
@@ -186,9 +183,11 @@ public final class TamperWatch {
         frozen.update(noisyCamera && mostlyStill && !flat && !blocked.active()
                 && t - stillSince + 1e-9 >= FROZEN_SECONDS - 1, stillness < 0.3, t, Double.NaN, Double.NaN);
         if (reference == null) {
+            fillBlocks();
             reference = blocks.clone(); // once per size
         } else if (!flat && t - lastRegistration + 1e-9 >= 0.5) {
             lastRegistration = t;
+            fillBlocks();
             shift.find(blocks, reference);
             shiftX = shift.x;
             shiftY = shift.y;
@@ -237,31 +236,81 @@ public final class TamperWatch {
         }
     }
 
-    /** Standard deviation of the 8×8 block means; fills the 2×2 block means for {@link #detail}. */
-    private double spread(GrayFrame f) {
-        int bw = width / 2;
-        int bh = height / 2;
-        byte[] p = f.pixels;
+    /**
+     * Sums each 2×2 block of the frame into {@link #blockSums} and counts the pixels that differ from the
+     * previous frame by more than 1 grey level, in one pass over both pictures (pixels outside whole blocks, an
+     * odd last row or column, are counted on their own).
+     */
+    private int sumBlocks(byte[] p) {
+        final int w = width;
+        final int bw = w / 2;
+        final int bh = height / 2;
+        final byte[] q = previous;
+        final int[] sums = blockSums;
+        int changed = 0;
         for (int by = 0; by < bh; by++) {
-            int row = 2 * by * width;
+            final int row = 2 * by * w;
             for (int bx = 0; bx < bw; bx++) {
-                int k = row + 2 * bx;
-                blocks[by * bw + bx] = ((p[k] & 0xff) + (p[k + 1] & 0xff) + (p[k + width] & 0xff)
-                        + (p[k + width + 1] & 0xff)) * 0.25;
+                final int k = row + 2 * bx;
+                final int a = p[k] & 0xff;
+                final int b = p[k + 1] & 0xff;
+                final int c = p[k + w] & 0xff;
+                final int d = p[k + w + 1] & 0xff;
+                sums[by * bw + bx] = a + b + c + d;
+                changed += changedBy(a, q[k]) + changedBy(b, q[k + 1]) + changedBy(c, q[k + w])
+                        + changedBy(d, q[k + w + 1]);
             }
         }
+        if (w % 2 != 0) {
+            for (int y = 0; y < 2 * bh; y++) {
+                changed += changedBy(p[y * w + w - 1] & 0xff, q[y * w + w - 1]);
+            }
+        }
+        if (height % 2 != 0) {
+            for (int i = (height - 1) * w; i < height * w; i++) {
+                changed += changedBy(p[i] & 0xff, q[i]);
+            }
+        }
+        return changed;
+    }
+
+    /**
+     * 1 when grey level v differs from the previous frame's byte by more than 1, else 0; without a branch: in
+     * sensor noise it goes either way at random, and a mispredicted branch per pixel cost more than the rest of
+     * the watch.
+     */
+    private static int changedBy(int v, byte previous) {
+        final int d = v - (previous & 0xff);
+        final int a = (d ^ (d >> 31)) - (d >> 31);
+        return (1 - a) >>> 31;
+    }
+
+    /** The 2×2 block means from {@link #blockSums}, for the moved-camera check (only when it registers). */
+    private void fillBlocks() {
+        for (int i = 0; i < blocks.length; i++) {
+            blocks[i] = blockSums[i] * 0.25;
+        }
+    }
+
+    /**
+     * Standard deviation of the 8×8 block means, from the 2×2 block sums. Integer sums: each mean is the same
+     * number as summed from the block means in floating point (quarters of integers add up exactly).
+     */
+    private double spread() {
+        final int bw = width / 2;
+        final int bh = height / 2;
+        final int[] sums = blockSums;
         double sum = 0;
         double sum2 = 0;
         int n = 0;
         for (int y = 0; y + 4 <= bh; y += 4) {
             for (int x = 0; x + 4 <= bw; x += 4) {
-                double m = 0;
+                int s16 = 0;
                 for (int j = 0; j < 4; j++) {
-                    for (int i = 0; i < 4; i++) {
-                        m += blocks[(y + j) * bw + x + i];
-                    }
+                    final int row = (y + j) * bw + x;
+                    s16 += sums[row] + sums[row + 1] + sums[row + 2] + sums[row + 3];
                 }
-                m /= 16;
+                final double m = s16 / 64.0;
                 sum += m;
                 sum2 += m * m;
                 n++;
@@ -274,20 +323,24 @@ public final class TamperWatch {
         return Math.sqrt(Math.max(0, sum2 / n - mean * mean));
     }
 
-    /** Mean absolute difference of neighbouring 2×2 block means (fine detail, with the noise halved). */
+    /**
+     * Mean absolute difference of neighbouring 2×2 block means (fine detail, with the noise halved), summed as
+     * integers over the block sums: the same number as the floating-point sum over the means.
+     */
     private double detail() {
-        int bw = width / 2;
-        int bh = height / 2;
-        double sum = 0;
-        int n = 0;
+        final int bw = width / 2;
+        final int bh = height / 2;
+        final int[] sums = blockSums;
+        long total = 0;
         for (int y = 0; y + 1 < bh; y++) {
+            final int row = y * bw;
             for (int x = 0; x + 1 < bw; x++) {
-                double c = blocks[y * bw + x];
-                sum += Math.abs(blocks[y * bw + x + 1] - c) + Math.abs(blocks[(y + 1) * bw + x] - c);
-                n += 2;
+                final int c = sums[row + x];
+                total += Math.abs(sums[row + x + 1] - c) + Math.abs(sums[row + bw + x] - c);
             }
         }
-        return n == 0 ? 0 : sum / n;
+        final int n = 2 * (bh - 1) * (bw - 1);
+        return n <= 0 ? 0 : total * 0.25 / n;
     }
 
     private double lastSpread;

@@ -113,6 +113,105 @@ class TamperWatchTest {
         return events.stream().filter(e -> e.kind() == kind && e.phase() == Event.Phase.START).count();
     }
 
+    /**
+     * The picture figures against their definitions worked out here the plain way (analytic: means of 2×2 and
+     * 8×8 blocks in floating point), on random pictures of an even and an odd size: the watch sums the blocks as
+     * integers, which must give the very same numbers.
+     */
+    @Test
+    void pictureFiguresFollowTheirDefinitions() {
+        SplittableRandom r = new SplittableRandom(3);
+        for (int[] size : new int[][] {{W, H}, {37, 23}}) {
+            int w = size[0];
+            int h = size[1];
+            TamperWatch watch = new TamperWatch("yard-gate-1", Clock.systemUTC());
+            GrayFrame f = new GrayFrame(w, h);
+            for (int i = 0; i < 3; i++) {
+                for (int k = 0; k < f.pixels.length; k++) {
+                    f.pixels[k] = (byte) r.nextInt(256);
+                }
+                watch.update(f, null, i);
+            }
+            int bw = w / 2;
+            int bh = h / 2;
+            double[] b = new double[bw * bh];
+            for (int y = 0; y < bh; y++) {
+                for (int x = 0; x < bw; x++) {
+                    int k = 2 * y * w + 2 * x;
+                    b[y * bw + x] = ((f.pixels[k] & 0xff) + (f.pixels[k + 1] & 0xff) + (f.pixels[k + w] & 0xff)
+                            + (f.pixels[k + w + 1] & 0xff)) / 4.0;
+                }
+            }
+            double sum = 0;
+            double sum2 = 0;
+            int n = 0;
+            for (int y = 0; y + 4 <= bh; y += 4) {
+                for (int x = 0; x + 4 <= bw; x += 4) {
+                    double m = 0;
+                    for (int j = 0; j < 4; j++) {
+                        for (int i = 0; i < 4; i++) {
+                            m += b[(y + j) * bw + x + i];
+                        }
+                    }
+                    m /= 16;
+                    sum += m;
+                    sum2 += m * m;
+                    n++;
+                }
+            }
+            double spread = Math.sqrt(sum2 / n - (sum / n) * (sum / n));
+            double detail = 0;
+            int pairs = 0;
+            for (int y = 0; y + 1 < bh; y++) {
+                for (int x = 0; x + 1 < bw; x++) {
+                    detail += Math.abs(b[y * bw + x + 1] - b[y * bw + x]) + Math.abs(b[(y + 1) * bw + x] - b[y * bw + x]);
+                    pairs += 2;
+                }
+            }
+            detail /= pairs;
+            assertEquals(spread, watch.figures().spread(), 0.0, w + "x" + h);
+            assertEquals(detail / spread, watch.figures().ratio(), 0.0, w + "x" + h);
+        }
+    }
+
+    /**
+     * Every pixel counts towards a still pair, also an odd last column or row outside the 2×2 blocks: frames a
+     * second apart, so that the running stillness is the last pair's verdict (under 0.2 % of the pixels changed
+     * by more than one grey level).
+     */
+    @Test
+    void theLastColumnAndRowOfAnOddPictureCountForStillness() {
+        int w = 37;
+        int h = 23;
+        TamperWatch watch = new TamperWatch("yard-gate-1", Clock.systemUTC());
+        GrayFrame f = new GrayFrame(w, h);
+        SplittableRandom r = new SplittableRandom(5);
+        for (int k = 0; k < f.pixels.length; k++) {
+            f.pixels[k] = (byte) (40 + r.nextInt(150));
+        }
+        byte[] base = f.pixels.clone();
+        watch.update(f, null, 0);
+        watch.update(f, null, 1);
+        assertEquals(1.0, watch.figures().stillness(), 0.0, "the same picture again");
+        for (int y = 0; y < h; y++) {
+            f.pixels[y * w + w - 1] += 5; // the last column: 23 of 851 pixels
+        }
+        watch.update(f, null, 2);
+        assertEquals(0.0, watch.figures().stillness(), 0.0, "last column changed");
+        System.arraycopy(base, 0, f.pixels, 0, base.length);
+        watch.update(f, null, 3);
+        for (int x = 0; x < w; x++) {
+            f.pixels[(h - 1) * w + x] += 5; // the last row: 37 pixels
+        }
+        watch.update(f, null, 4);
+        assertEquals(0.0, watch.figures().stillness(), 0.0, "last row changed");
+        System.arraycopy(base, 0, f.pixels, 0, base.length);
+        watch.update(f, null, 5);
+        f.pixels[w * h - 1] += 5; // one pixel: 0.12 %, a still pair
+        watch.update(f, null, 6);
+        assertEquals(1.0, watch.figures().stillness(), 0.0, "one pixel changed");
+    }
+
     @Test
     void aBlurredPictureLosesFocus() {
         // a 15×15 box blur, separable (a lens well out of focus): fine detail falls, large-scale structure stays
