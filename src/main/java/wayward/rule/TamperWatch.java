@@ -9,8 +9,8 @@ import wayward.flow.FlowField;
 import wayward.image.GrayFrame;
 
 /**
- * Watches a camera for tampering, from picture statistics, one analysed frame at a time, at most five a second
- * (analysis thread; buffers sized once per resolution, nothing allocated per frame but the events):
+ * Watches a camera for tampering, from picture statistics and the flow's dominant motion, one analysed frame
+ * at a time (analysis thread; buffers sized once per resolution, nothing allocated per frame but the events):
  * <ul>
  * <li>{@code view_blocked}: the spread of 8×8 block means (the picture's large-scale structure) falls under
  *     15 % of its running baseline for 2 s; lights going off scale it by their gain only (0.4 stays above);</li>
@@ -46,11 +46,6 @@ public final class TamperWatch {
     static final double BASELINE_SECONDS = 30;
     static final double WARM_UP_SECONDS = 2;
     static final double CLEAR_SECONDS = 2;
-    /**
-     * Least stream time between two measured frames, seconds: the conditions hold for seconds, so five frames a
-     * second tell them as well as ten, at half the cost (on a still picture the watch was most of the analysis).
-     */
-    static final double INTERVAL_SECONDS = 0.2;
 
     private final String camera;
     private final Clock clock;
@@ -139,10 +134,7 @@ public final class TamperWatch {
         this.clock = clock;
     }
 
-    /**
-     * Measures one analysed frame and its flow (the pair ending at it), unless the last measured frame is less
-     * than {@link #INTERVAL_SECONDS} of stream time earlier; then drain {@link #poll()}.
-     */
+    /** Measures one analysed frame and its flow (the pair ending at it); then drain {@link #poll()}. */
     public void update(GrayFrame f, FlowField field, double t) {
         if (previous == null || width != f.width || height != f.height) {
             width = f.width;
@@ -158,9 +150,6 @@ public final class TamperWatch {
             baseSpread = Double.NaN;
             baseRatio = Double.NaN;
             return;
-        }
-        if (t - lastT + 1e-6 < INTERVAL_SECONDS) {
-            return; // measured at most every INTERVAL_SECONDS; frames between are passed over
         }
         double dt = Math.max(0, t - lastT);
         lastT = t;
