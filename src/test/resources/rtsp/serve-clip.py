@@ -45,7 +45,11 @@ def main():
     server.set_address("127.0.0.1")
     server.set_service(port)
     server.get_mount_points().add_factory("/clip", LoopingFactory(clip))
-    server.attach(None)
+    if server.attach(None) == 0:
+        # the port could not be bound (taken since it was picked): say so, so that the test does not wait on a
+        # server that is not there
+        print("cannot listen on 127.0.0.1:%s" % port, flush=True)
+        sys.exit(1)
     print("serving rtsp://127.0.0.1:%s/clip" % port, flush=True)
     GLib.MainLoop().run()
 

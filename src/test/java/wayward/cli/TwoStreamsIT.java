@@ -154,12 +154,8 @@ class TwoStreamsIT {
     }
 
     private static Process serve(int port, Path clip) throws IOException {
-        Process server = new ProcessBuilder("/usr/bin/python3",
-                ProcessRunner.projectDir().resolve("src/test/resources/rtsp/serve-clip.py").toString(),
-                Integer.toString(port), clip.toString()).redirectErrorStream(true).start();
-        BufferedReader r = new BufferedReader(new InputStreamReader(server.getInputStream(), StandardCharsets.UTF_8));
-        String line = r.readLine(); // blocks until the server says it listens (or dies)
-        assertTrue(line != null && line.startsWith("serving"), "RTSP server did not start: " + line);
+        Process server = RtspClipServer.start(port, clip);
+        assertTrue(server != null, "RTSP server could not listen on port " + port);
         return server;
     }
 
@@ -169,9 +165,11 @@ class TwoStreamsIT {
         Path main = dir.resolve("main.mp4");
         YardSite.command("ffmpeg", "-v", "error", "-i", YardSite.clip().toString(), "-vf", "scale=1280:720", "-c:v",
                 "libx264", "-preset", "veryfast", "-bf", "0", "-g", "30", "-pix_fmt", "yuv420p", main.toString());
-        int subPort = freePort();
+        // the analysis stream's server may take any port: a port taken between picking and binding is picked again
+        RtspClipServer.Started subServer = RtspClipServer.startOnFreePort(YardSite.clip());
+        int subPort = subServer.port();
         int mainPort = freePort();
-        Process sub = serve(subPort, YardSite.clip());
+        Process sub = subServer.process();
         Process mainServer = null;
         Path log = dir.resolve("data/events.jsonl");
         Process service = YardSite.startService(dir, config(dir, "rtsp://127.0.0.1:" + mainPort + "/clip",
@@ -218,9 +216,10 @@ class TwoStreamsIT {
     @Test
     @Timeout(value = 300, unit = TimeUnit.SECONDS)
     void alertsWithClipsFromTheAnalysisStreamWhileTheMainStreamIsDown(@TempDir Path dir) throws Exception {
-        int rtsp = freePort();
+        RtspClipServer.Started started = RtspClipServer.startOnFreePort(YardSite.clip());
+        int rtsp = started.port();
         int closed = freePort(); // nothing listens there: connection refused
-        Process server = serve(rtsp, YardSite.clip());
+        Process server = started.process();
         Path log = dir.resolve("data/events.jsonl");
         Process service = YardSite.startService(dir, config(dir, "rtsp://127.0.0.1:" + closed + "/main",
                 "rtsp://127.0.0.1:" + rtsp + "/clip", "off"));
