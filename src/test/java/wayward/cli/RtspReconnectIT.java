@@ -3,11 +3,7 @@ package wayward.cli;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import java.io.BufferedReader;
 import java.io.IOException;
-import java.io.InputStreamReader;
-import java.net.ServerSocket;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.concurrent.TimeUnit;
@@ -25,20 +21,10 @@ class RtspReconnectIT {
     private Process server;
 
     private Process startServer(int port) throws IOException {
-        Path script = ProcessRunner.projectDir().resolve("src/test/resources/rtsp/serve-clip.py");
-        Path clip = ProcessRunner.projectDir().resolve("test-streams/yard-lane.mp4");
-        Process p = new ProcessBuilder("/usr/bin/python3", script.toString(), Integer.toString(port), clip.toString())
-                .redirectErrorStream(true).start();
-        BufferedReader r = new BufferedReader(new InputStreamReader(p.getInputStream(), StandardCharsets.UTF_8));
-        String line = r.readLine(); // blocks until the server says it listens (or dies)
-        assertTrue(line != null && line.startsWith("serving"), "RTSP server did not start: " + line);
+        // the same port again after each kill: the camera's URL does not change
+        Process p = RtspClipServer.start(port, ProcessRunner.projectDir().resolve("test-streams/yard-lane.mp4"));
+        assertTrue(p != null, "RTSP server could not listen on port " + port);
         return p;
-    }
-
-    private static int freePort() throws IOException {
-        try (ServerSocket s = new ServerSocket(0)) {
-            return s.getLocalPort();
-        }
     }
 
     private static int threads(long pid) throws IOException {
@@ -58,7 +44,7 @@ class RtspReconnectIT {
     @Test
     @Timeout(value = 480, unit = TimeUnit.SECONDS)
     void survivesServerRestartsWithLostAndBackEvents(@TempDir Path dir) throws Exception {
-        int port = freePort();
+        int port = RtspClipServer.freePort();
         server = startServer(port);
         Path config = YardSite.config(dir, "rtsp://127.0.0.1:" + port + "/clip");
         Path log = dir.resolve("data/events.jsonl");

@@ -5,15 +5,11 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
-import java.io.BufferedReader;
 import java.io.IOException;
-import java.io.InputStreamReader;
-import java.net.ServerSocket;
 import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
-import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
@@ -39,12 +35,6 @@ class TwoStreamsIT {
     /** [clips] defaults: 3 s pre-roll, 4 s post-roll (ClipConfig.DEFAULTS, README). */
     private static final double PRE_ROLL_S = 3;
     private static final double POST_ROLL_S = 4;
-
-    private static int freePort() throws IOException {
-        try (ServerSocket s = new ServerSocket(0)) {
-            return s.getLocalPort();
-        }
-    }
 
     private static Path config(Path dir, String source, String analysisSource, String http) throws IOException {
         Path f = dir.resolve("site.toml");
@@ -90,7 +80,7 @@ class TwoStreamsIT {
         Path main = dir.resolve("main.mp4");
         YardSite.command("ffmpeg", "-v", "error", "-i", sub.toString(), "-vf", "scale=1280:720", "-c:v", "libx264",
                 "-preset", "veryfast", "-bf", "0", "-g", "30", "-pix_fmt", "yuv420p", main.toString());
-        int port = freePort();
+        int port = RtspClipServer.freePort();
         Path log = dir.resolve("data/events.jsonl");
         Process service = YardSite.startService(dir, config(dir, main.toString(), sub.toString(), "127.0.0.1:" + port));
         JsonNode streams;
@@ -168,7 +158,7 @@ class TwoStreamsIT {
         // the analysis stream's server may take any port: a port taken between picking and binding is picked again
         RtspClipServer.Started subServer = RtspClipServer.startOnFreePort(YardSite.clip());
         int subPort = subServer.port();
-        int mainPort = freePort();
+        int mainPort = RtspClipServer.freePort();
         Process sub = subServer.process();
         Process mainServer = null;
         Path log = dir.resolve("data/events.jsonl");
@@ -218,7 +208,7 @@ class TwoStreamsIT {
     void alertsWithClipsFromTheAnalysisStreamWhileTheMainStreamIsDown(@TempDir Path dir) throws Exception {
         RtspClipServer.Started started = RtspClipServer.startOnFreePort(YardSite.clip());
         int rtsp = started.port();
-        int closed = freePort(); // nothing listens there: connection refused
+        int closed = RtspClipServer.freePort(); // nothing listens there: connection refused
         Process server = started.process();
         Path log = dir.resolve("data/events.jsonl");
         Process service = YardSite.startService(dir, config(dir, "rtsp://127.0.0.1:" + closed + "/main",
