@@ -21,6 +21,7 @@ import java.util.concurrent.TimeUnit;
 import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
 import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.CsvSource;
 import org.junit.jupiter.params.provider.ValueSource;
 import wayward.scene.Scene;
 import wayward.scene.SceneGenerator;
@@ -39,7 +40,31 @@ class ReplayEndToEndTest {
     @ValueSource(strings = {"yard-lane", "dock-lane"})
     @Timeout(value = 120, unit = TimeUnit.SECONDS)
     void firesOnceForEachWrongWayMoverAndNeverForTheOthers(String name, @TempDir Path dir) throws Exception {
-        Scene scene = Scene.load(Path.of("test-streams", name + ".scene.toml"));
+        check(Scene.load(Path.of("test-streams", name + ".scene.toml")), dir);
+    }
+
+    /**
+     * The same scenes as other cameras would film them: other picture sizes and shapes (a small 4:3 camera, a
+     * portrait corridor camera, 960×540), frame rates from 5 to 25 a second and bit rates to match. Positions
+     * and sizes are fractions of the picture, so the renderer's exact ground truth holds at every size; the
+     * defaults were chosen on 640×360 at 15 fps only.
+     */
+    @ParameterizedTest(name = "{0}")
+    @CsvSource({
+        "yard-lane 176x144 at 10 fps, yard-lane, 176, 144, 10, 120",
+        "yard-lane 640x480 at 5 fps, yard-lane, 640, 480, 5, 300",
+        "dock-lane 360x640 at 15 fps, dock-lane, 360, 640, 15, 500",
+        "dock-lane 960x540 at 25 fps, dock-lane, 960, 540, 25, 1200"})
+    @Timeout(value = 180, unit = TimeUnit.SECONDS)
+    void firesAlikeAtOtherSizesAndFrameRates(String label, String name, int width, int height, double fps, int kbps,
+            @TempDir Path dir) throws Exception {
+        Scene s = Scene.load(Path.of("test-streams", name + ".scene.toml"));
+        check(new Scene(s.name(), width, height, fps, s.seconds(), s.seed(), s.noise(), kbps, s.background(), s.lines(),
+                s.zones(), s.movers(), s.nuisances()), dir);
+    }
+
+    private static void check(Scene scene, Path dir) throws Exception {
+        String name = scene.name() + "-" + scene.width() + "x" + scene.height();
         Path video = dir.resolve(name + ".mp4");
         Path truth = dir.resolve(name + ".truth.json");
         new SceneGenerator(scene).write(video, truth);
@@ -60,6 +85,7 @@ class ReplayEndToEndTest {
         }
 
         List<Map<String, Object>> truthMovers = truthEntries(truth);
+        int wrongWay = 0;
         for (Scene.Zone zone : scene.zones()) {
             List<Double> entries = new ArrayList<>();
             for (Map<String, Object> t : truthMovers) {
@@ -79,6 +105,7 @@ class ReplayEndToEndTest {
                     }
                 }
             }
+            wrongWay += entries.size();
             assertEquals(entries.size(), starts.size(), name + ": one start per wrong-way mover; events " + events);
             assertEquals(starts.size(), ends, name + ": each start has its end");
             for (int i = 0; i < entries.size(); i++) {
@@ -90,6 +117,7 @@ class ReplayEndToEndTest {
                 assertTrue(zone.isAgainst(bearing), "measured bearing " + bearing + " is against " + zone.headingDeg());
             }
         }
+        assertTrue(wrongWay > 0, name + ": the scene has a wrong-way passage to catch");
     }
 
     static String configFor(Scene scene, Path video) {
