@@ -4,6 +4,7 @@ import java.time.Clock;
 import java.util.UUID;
 import wayward.event.Event;
 import wayward.event.EventKind;
+import wayward.zone.MoverSettings;
 import wayward.zone.Movers;
 import wayward.zone.ZoneMeter;
 
@@ -29,7 +30,8 @@ import wayward.zone.ZoneMeter;
  * far behind a whole body (not a rim) never joins it, not even as a fragment: it is the front of the plain body
  * that follows ({@link #followsWholeBody}). A qualifying mover that does not ride with a member is a different one: it ends the open event at
  * once and starts its own with the next frame, so two wrong-way movers in a row are two events even when the
- * second enters before the first has left, and events of one zone never overlap. Otherwise the event ends when
+ * second enters before the first has left, and events of one zone never overlap. A track that picks up a member
+ * the tracker lost joins too before it qualifies ({@link #continuesMember}). Otherwise the event ends when
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
  *
  * <p><b>Rest.</b> A mover that was a member of an ended event never starts or ends another. After an end, for
@@ -54,6 +56,8 @@ public final class WrongWayRule {
      * one: three grid points at the default stride (samples of one body apart by at most two unsampled points).
      */
     static final double JOIN_GAP_PX = 12;
+    /** A track that picks up a lost member goes its way within 45° (the tracker's group angle, common use). */
+    static final double COS_SAME_WAY = Math.cos(Math.toRadians(MoverSettings.GROUP_ANGLE_DEG));
     /** Points of the mover's path in an event. */
     static final int PATH_POINTS = 8;
     private static final int MAX_MEMBERS = 64;
@@ -147,6 +151,11 @@ public final class WrongWayRule {
                         successorId = m.id(k);
                         return end(t);
                     }
+                    j = members++;
+                    memberId[j] = m.id(k);
+                } else if (j < 0 && members < MAX_MEMBERS && !retired(m.id(k)) && continuesMember(m, k, t)) {
+                    // a member's track broke and this one picked it up: the same body, before it has travelled
+                    // far enough again to qualify
                     j = members++;
                     memberId[j] = m.id(k);
                 }
@@ -331,6 +340,46 @@ public final class WrongWayRule {
         final int ahead = along >= 0 ? a : b;
         final double halfLength = 0.5 * extent(m.widthPx(ahead), m.heightPx(ahead), ux, uy);
         return m.stillAheadPx(behind) < Math.abs(along) - halfLength;
+    }
+
+    /**
+     * A track that picks up a member the tracker lost, while the event is open: it began after the member was last
+     * seen and within {@link MoverRuleSettings#clearSeconds} of it, its first point within the tracker's pairing
+     * gate ({@link MoverSettings#GATE_PX} plus half the member's larger side) of where the member's last velocity
+     * puts it at that moment, it goes the member's way (within {@link #COS_SAME_WAY}) at half to twice its speed,
+     * and it is not a fragment of it (at least 1/{@link #FRAGMENT_SHARE} of its peak samples). A body whose track
+     * broke (a plain van read as rims that take turns, a person lost in rain for a moment) goes on being the event's
+     * before its new track has travelled far enough to qualify; a chance cluster's velocity points anywhere.
+     */
+    private boolean continuesMember(Movers m, int k, double t) {
+        if (m.pathCount(k) == 0) {
+            return false;
+        }
+        final double born = t - m.ageSeconds(k);
+        for (int j = 0; j < members; j++) {
+            final int mj = m.slot(memberId[j]);
+            if (mj >= 0 && m.seen(mj)) {
+                continue; // still followed: nothing to pick up
+            }
+            final double dt = born - memberSeen[j];
+            if (dt < -EPSILON_SECONDS || dt > settings.clearSeconds() + EPSILON_SECONDS) {
+                continue;
+            }
+            // going the member's way at its pace (a chance cluster's velocity points anywhere), and not a
+            // speck of it
+            final double sk = Math.hypot(m.vx(k), m.vy(k));
+            final double sj = Math.hypot(memberVx[j], memberVy[j]);
+            if (!(sk > 0 && sj > 0) || m.vx(k) * memberVx[j] + m.vy(k) * memberVy[j] < COS_SAME_WAY * sk * sj
+                    || sk < 0.5 * sj || sk > 2 * sj || m.peakSamples(k) * FRAGMENT_SHARE < memberSamples[j]) {
+                continue;
+            }
+            final double d = Math.hypot(m.pathX(k, 0) - (memberX[j] + memberVx[j] * dt),
+                    m.pathY(k, 0) - (memberY[j] + memberVy[j] * dt));
+            if (d <= MoverSettings.GATE_PX + 0.5 * Math.max(memberW[j], memberH[j])) {
+                return true;
+            }
+        }
+        return false;
     }
 
     /** During rest: a member of the ended event, or a track that began where its last member was lost. */

@@ -338,6 +338,48 @@ class WrongWayRuleTest {
         assertEquals(2, out.size(), "one start and one end: " + out);
     }
 
+    /**
+     * A member lost at 1.0 s and a new track born 0.3 s later where its speed puts it, at its pace, whose own travel
+     * stays under the minimum (the flow reads a plain body's outline short); (vx, vy) is the new track's velocity.
+     * Returns the phases.
+     */
+    private static List<Event> pickedUp(double vx, double vy, int samples) {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        double t = 0;
+        for (int n = 0; n <= 10; n++, t += DT) {
+            collect(out, frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
+        }
+        for (int n = 0; n < 2; n++, t += DT) {
+            collect(out, frame(rule, m, t));
+        }
+        double born = t;
+        for (int n = 0; n <= 20; n++, t += DT) {
+            m.begin(t, 320, 180, 4);
+            // where the member's 30 px/s puts it: 70 px at 1.0 s, 9 px further 0.3 s later
+            m.put(2, true, t - born, 0.2 * n, samples, samples, 12, 20, 160, 79 + 3 * n, vx, vy, Math.hypot(vx, vy));
+            m.end();
+            collect(out, rule.update(m, 0.01));
+        }
+        for (int n = 0; n < 15; n++, t += DT) {
+            collect(out, frame(rule, m, t));
+        }
+        return out;
+    }
+
+    @Test
+    void aMoverPickedUpAgainByANewTrackStaysTheEventsBeforeTheTrackQualifies() {
+        // analytic: lost at 1.0 s, picked up from 1.3 s to 3.3 s; the event ends at 3.3 + clear 1 s, not at 2.0 s
+        List<Event> out = pickedUp(0, 30, 15);
+        assertEquals(2, out.size(), out.toString());
+        assertEquals(4.3, out.get(1).streamSeconds(), 1e-6);
+        // a track there that goes across, at a third of the pace, or is a speck of it is not the member: 1.0 + 1 s
+        assertEquals(2.0, pickedUp(30, 0, 15).get(1).streamSeconds(), 1e-6);
+        assertEquals(2.0, pickedUp(0, 10, 15).get(1).streamSeconds(), 1e-6);
+        assertEquals(2.0, pickedUp(0, 30, 3).get(1).streamSeconds(), 1e-6);
+    }
+
     @Test
     void aSwayingThingNeverTravelsFarEnough() {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
