@@ -16,7 +16,8 @@ import wayward.flow.FlowField;
  * from the centroid, so a mover that shrinks as it drives away, or whose outline changes, still adds up its
  * true travel. Where the flow fails (a small mover jumping tens of pixels a frame), the centroid's steps count
  * instead, but only while the group keeps its size and shape, has at least {@link #MIN_STEADY_SAMPLES} samples
- * and its flow goes the same way at the speed floor; the travel is the larger of the two sums.
+ * and its flow goes the same way at the speed floor, each step at most {@link #STEP_PER_FLOW} times that flow
+ * plus a grid step; the travel is the larger of the two sums.
  *
  * <p><b>Following.</b> Each track predicts its centroid (last centroid + velocity × time since seen); groups
  * and tracks are paired nearest first within a gate (gate + half the track's size, or the prediction inside the
@@ -51,6 +52,14 @@ public final class MoverTracker {
     static final int MAX_TRACKS = 64;
     /** How far ahead of a track's centroid still ground is looked for, analysis pixels. */
     static final double LOOK_AHEAD_PX = 160;
+    /**
+     * A centroid step counts as travel up to this many times the group's own flow along the heading, plus one grid
+     * step ({@code stride}) for the centroid's jitter, where the flow did not fail: the flow under-reads a plain
+     * body's outline by up to about three times (the object-motion benchmark's plain-paint cases; probe p13: 9–25
+     * px/s read for 54), while a chance cluster of rain streaks whose centroid jumps 26 px on a flow of 1.4 px is
+     * no body moving. Chosen on the tune half: 4 changes no scene there, 3 starts its crawl s36 0.2 s later.
+     */
+    static final double STEP_PER_FLOW = 4;
 
     private final ZoneMask mask;
     private final MoverSettings settings;
@@ -353,8 +362,11 @@ public final class MoverTracker {
                     final double floor = settings.minSpeedPxPerSecond() * dt;
                     // and only where the flow, however short, goes the same way at least at the speed floor:
                     // a track hopping between chance clusters of noise moves its centroid, not its flow
-                    if (flowFailed || (stepAlong > 0 ? along >= floor : along <= -floor)) {
+                    if (flowFailed) {
                         tr.centroidTravel[k] += stepAlong;
+                    } else if (stepAlong > 0 ? along >= floor : along <= -floor) {
+                        final double most = STEP_PER_FLOW * Math.abs(along) + stride;
+                        tr.centroidTravel[k] += Math.max(-most, Math.min(most, stepAlong));
                     }
                 }
                 tr.entryX[k] = cx;

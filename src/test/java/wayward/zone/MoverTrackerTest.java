@@ -191,6 +191,31 @@ class MoverTrackerTest {
         assertTrue(m.travelPx(k) < 10, "travel " + m.travelPx(k));
     }
 
+    /** Travel of a 4 × 4 group whose flow reads 1 px a frame and whose centroid steps {@code steps[n]} px down. */
+    private static double travelWithCentroidSteps(double... steps) {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        double y = 60;
+        for (int n = 0; n < steps.length; n++) {
+            y += steps[n];
+            ground(f, null, 0);
+            box(f, 150, y, 4, 4, 0, 1, null, 0);
+            t.update(f, DT, (n + 1) * DT, m);
+        }
+        return m.travelPx(slotOf(m));
+    }
+
+    @Test
+    void aCentroidStepCountsOnlyAsFarAsTheGroupsFlowCanExplain() {
+        // analytic (steps whole grid steps, so the samples' centroid moves by exactly them): the flow reads 1 px a
+        // frame, so a centroid step counts up to 4 × 1 + one stride (4 px) = 8 px
+        // a plain body whose flow reads a quarter of its motion: 7 centroid steps of 4 px all count (the flow: 8)
+        assertEquals(28, travelWithCentroidSteps(4, 4, 4, 4, 4, 4, 4, 4), 0.5);
+        // a cluster whose centroid jumps 20 px on one frame while its flow reads 1 px: 6 × 4 + 8, not 6 × 4 + 20
+        assertEquals(32, travelWithCentroidSteps(4, 4, 4, 4, 4, 20, 4, 4), 0.5);
+    }
+
     @Test
     void stillTexturedGroundAheadOfAMoverIsFoundAndPlainGroundIsNot() {
         FlowField f = field();
