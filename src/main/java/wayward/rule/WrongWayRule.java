@@ -56,7 +56,7 @@ public final class WrongWayRule {
      * one: three grid points at the default stride (samples of one body apart by at most two unsampled points).
      */
     static final double JOIN_GAP_PX = 12;
-    /** A track that picks up a lost member goes its way within 45° (the tracker's group angle, common use). */
+    /** A track that picks up a lost member goes its way within the tracker's group angle (45°). */
     static final double COS_SAME_WAY = Math.cos(Math.toRadians(MoverSettings.GROUP_ANGLE_DEG));
     /** Points of the mover's path in an event. */
     static final int PATH_POINTS = 8;

@@ -54,10 +54,11 @@ public final class MoverTracker {
     static final double LOOK_AHEAD_PX = 160;
     /**
      * A centroid step counts as travel up to this many times the group's own flow along the heading, plus one grid
-     * step ({@code stride}) for the centroid's jitter, where the flow did not fail: the flow under-reads a plain
-     * body's outline by up to about three times (the object-motion benchmark's plain-paint cases; probe p13: 9–25
-     * px/s read for 54), while a chance cluster of rain streaks whose centroid jumps 26 px on a flow of 1.4 px is
-     * no body moving. Chosen on the tune half: 4 changes no scene there, 3 starts its crawl s36 0.2 s later.
+     * step ({@code stride}) for the centroid's jitter, where the flow did not fail. The flow reads a plain body's
+     * outline short, a small one's down to a sixth of its motion (probe p13: 9–25 px/s read for 54, steps of about
+     * 5 px, which the grid step covers), while a chance cluster of rain streaks whose centroid jumps 26 px on a flow
+     * of 1.4 px is no body moving. Chosen on the tune half: 4 changes no scene there, 3 starts its crawl s36 0.2 s
+     * later.
      */
     static final double STEP_PER_FLOW = 4;
 
