@@ -75,6 +75,8 @@ public final class WrongWayRule {
     // members of the open event, with where and how each was last seen
     private final long[] memberId = new long[MAX_MEMBERS];
     private final double[] memberSeen = new double[MAX_MEMBERS];
+    /** When each member's remembered place and motion were seen (its last sighting that was not a speck of it). */
+    private final double[] memberPlaced = new double[MAX_MEMBERS];
     private final double[] memberX = new double[MAX_MEMBERS];
     private final double[] memberY = new double[MAX_MEMBERS];
     private final double[] memberVx = new double[MAX_MEMBERS];
@@ -145,6 +147,7 @@ public final class WrongWayRule {
                     continue;
                 }
                 int j = member(m.id(k));
+                final boolean joins = j < 0;
                 if (j < 0 && qualifies(m, k) && !retired(m.id(k))) {
                     if (!ridesWithMember(m, k, t) || members == MAX_MEMBERS) {
                         // a different wrong-way mover: this event ends, its own starts with the next frame
@@ -160,7 +163,7 @@ public final class WrongWayRule {
                     memberId[j] = m.id(k);
                 }
                 if (j >= 0) {
-                    remember(j, m, k, t);
+                    remember(j, m, k, t, joins);
                     lastSeen = t;
                     if (m.id(k) == triggerId) {
                         keepTrigger(m, k);
@@ -217,8 +220,12 @@ public final class WrongWayRule {
         return -1;
     }
 
-    private void remember(int j, Movers m, int k, double t) {
+    private void remember(int j, Movers m, int k, double t, boolean first) {
         memberSeen[j] = t;
+        if (!first && m.samples(k) * FRAGMENT_SHARE < memberSamples[j]) {
+            return; // a speck of it this frame (its track may have paired with a chance cluster): place it as before
+        }
+        memberPlaced[j] = t;
         memberX[j] = m.x(k);
         memberY[j] = m.y(k);
         memberVx[j] = m.vx(k);
@@ -242,7 +249,7 @@ public final class WrongWayRule {
             }
             final int mj = m.slot(memberId[j]);
             final boolean now = mj >= 0 && m.seen(mj);
-            final double dt = now ? 0 : t - memberSeen[j];
+            final double dt = now ? 0 : t - memberPlaced[j];
             final double jx = now ? m.x(mj) : memberX[j] + memberVx[j] * dt;
             final double jy = now ? m.y(mj) : memberY[j] + memberVy[j] * dt;
             final double jvx = now ? m.vx(mj) : memberVx[j];
@@ -343,13 +350,16 @@ public final class WrongWayRule {
     }
 
     /**
-     * A track that picks up a member the tracker lost, while the event is open: it began after the member was last
-     * seen and within {@link MoverRuleSettings#clearSeconds} of it, its first point within the tracker's pairing
-     * gate ({@link MoverSettings#GATE_PX} plus half the member's larger side) of where the member's last velocity
-     * puts it at that moment, it goes the member's way (within {@link #COS_SAME_WAY}) at half to twice its speed,
-     * and it is not a fragment of it (at least 1/{@link #FRAGMENT_SHARE} of its peak samples). A body whose track
-     * broke (a plain van read as rims that take turns, a person lost in rain for a moment) goes on being the event's
-     * before its new track has travelled far enough to qualify; a chance cluster's velocity points anywhere.
+     * A track that picks up a member the tracker lost, while the event is open. Either it began after the member was
+     * last placed and within {@link MoverRuleSettings#clearSeconds} of it, its first point within the tracker's
+     * pairing gate ({@link MoverSettings#GATE_PX} plus half the member's larger side) of where the member's last
+     * velocity puts it at that moment; or it was there before and has taken the member's body, so that it is now
+     * within that gate of where the member would be now. Both ways it goes the member's way (within {@link
+     * #COS_SAME_WAY}) at half to twice its speed, and it is not a fragment of it (at least 1/{@link #FRAGMENT_SHARE}
+     * of its peak samples). A body whose track broke (a plain van read as rims that take turns, a person lost in
+     * rain for a moment, or whose group another track won while its own track wandered off to a speck) goes on
+     * being the event's before its new track has travelled far enough to qualify; a chance cluster's velocity
+     * points anywhere.
      */
     private boolean continuesMember(Movers m, int k, double t) {
         if (m.pathCount(k) == 0) {
@@ -361,7 +371,16 @@ public final class WrongWayRule {
             if (mj >= 0 && m.seen(mj)) {
                 continue; // still followed: nothing to pick up
             }
-            final double dt = born - memberSeen[j];
+            double dt = born - memberPlaced[j];
+            double px = m.pathX(k, 0);
+            double py = m.pathY(k, 0);
+            if (dt < -EPSILON_SECONDS && t - memberSeen[j] <= settings.clearSeconds() + EPSILON_SECONDS) {
+                // a track that was already there took the member's body: where it is now against where the
+                // member would be now
+                dt = t - memberPlaced[j];
+                px = m.x(k);
+                py = m.y(k);
+            }
             if (dt < -EPSILON_SECONDS || dt > settings.clearSeconds() + EPSILON_SECONDS) {
                 continue;
             }
@@ -373,8 +392,7 @@ public final class WrongWayRule {
                     || sk < 0.5 * sj || sk > 2 * sj || m.peakSamples(k) * FRAGMENT_SHARE < memberSamples[j]) {
                 continue;
             }
-            final double d = Math.hypot(m.pathX(k, 0) - (memberX[j] + memberVx[j] * dt),
-                    m.pathY(k, 0) - (memberY[j] + memberVy[j] * dt));
+            final double d = Math.hypot(px - (memberX[j] + memberVx[j] * dt), py - (memberY[j] + memberVy[j] * dt));
             if (d <= MoverSettings.GATE_PX + 0.5 * Math.max(memberW[j], memberH[j])) {
                 return true;
             }
@@ -424,7 +442,7 @@ public final class WrongWayRule {
         peakShare = againstShare;
         members = 1;
         memberId[0] = m.id(k);
-        remember(0, m, k, t);
+        remember(0, m, k, t, true);
         triggerId = m.id(k);
         keepTrigger(m, k);
         return new Event(eventId, camera, zone, EventKind.WRONG_WAY, Event.Phase.START, t, clock.instant(),
@@ -445,7 +463,7 @@ public final class WrongWayRule {
                 last = j;
             }
         }
-        endSeen = memberSeen[last];
+        endSeen = memberPlaced[last];
         endX = memberX[last];
         endY = memberY[last];
         endVx = memberVx[last];

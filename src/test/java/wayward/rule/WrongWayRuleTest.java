@@ -381,6 +381,42 @@ class WrongWayRuleTest {
     }
 
     @Test
+    void aMoverWhoseBodyAnotherTrackWonStaysTheEventsWhileItsOwnTrackWandersOffToASpeck() {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        double t = 0;
+        // member 1: 15 samples, 30 px/s down, 70 px at 1.0 s; track 2 began at 0.8 s as a speck beside it
+        for (int n = 0; n <= 10; n++, t += DT) {
+            m.begin(t, 320, 180, 4);
+            m.put(1, true, t, 3 * n, 15, 15, 12, 20, 160, 40 + 3 * n, 0, 30, 30);
+            if (t > 0.75) {
+                m.put(2, true, t - 0.8, 0, 3, 3, 4, 8, 150, 40 + 3 * n, 0, 30, 30);
+            }
+            m.end();
+            collect(out, rule.update(m, 0.01));
+        }
+        // at 1.1 s track 2 wins the body (15 samples where the member goes on) and track 1 pairs with a speck
+        // 37 px on; then track 1 is gone and track 2 goes on, its own travel under the minimum, until 3.0 s
+        double born = 0.8;
+        for (int n = 11; n <= 30; n++, t += DT) {
+            m.begin(t, 320, 180, 4);
+            if (n == 11) {
+                m.put(1, true, t, 33, 2, 15, 4, 8, 160, 110, 0, 30, 30);
+            }
+            m.put(2, true, t - born, 0.2 * n, 15, 15, 12, 20, 160, 40 + 3 * n, 0, 30, 30);
+            m.end();
+            collect(out, rule.update(m, 0.01));
+        }
+        for (int n = 0; n < 15; n++, t += DT) {
+            collect(out, frame(rule, m, t));
+        }
+        // analytic: one event; it ends at track 2's last sighting (3.0 s) + clear (1 s), not at 1.1 + 1 s
+        assertEquals(2, out.size(), out.toString());
+        assertEquals(4.0, out.get(1).streamSeconds(), 1e-6);
+    }
+
+    @Test
     void aSwayingThingNeverTravelsFarEnough() {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
         Movers m = new Movers(8);
