@@ -57,6 +57,15 @@ final class RtspClipServer {
         return p;
     }
 
+    /** As {@link #start}, failing the test when the port could not be bound (a port the test must keep). */
+    static Process startOn(int port, Path clip) throws IOException {
+        Process p = start(port, clip);
+        if (p == null) {
+            throw new AssertionError("RTSP server could not listen on port " + port);
+        }
+        return p;
+    }
+
     /** A server on a port of its own: tries up to three free ports. */
     static Started startOnFreePort(Path clip) throws IOException {
         for (int attempt = 0; attempt < 3; attempt++) {

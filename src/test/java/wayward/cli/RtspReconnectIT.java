@@ -22,9 +22,7 @@ class RtspReconnectIT {
 
     private Process startServer(int port) throws IOException {
         // the same port again after each kill: the camera's URL does not change
-        Process p = RtspClipServer.start(port, ProcessRunner.projectDir().resolve("test-streams/yard-lane.mp4"));
-        assertTrue(p != null, "RTSP server could not listen on port " + port);
-        return p;
+        return RtspClipServer.startOn(port, ProcessRunner.projectDir().resolve("test-streams/yard-lane.mp4"));
     }
 
     private static int threads(long pid) throws IOException {

@@ -143,12 +143,6 @@ class TwoStreamsIT {
                 + expectedLast);
     }
 
-    private static Process serve(int port, Path clip) throws IOException {
-        Process server = RtspClipServer.start(port, clip);
-        assertTrue(server != null, "RTSP server could not listen on port " + port);
-        return server;
-    }
-
     @Test
     @Timeout(value = 300, unit = TimeUnit.SECONDS)
     void theMainStreamComesBackOnItsOwnAndClipsAreFullSizeAgain(@TempDir Path dir) throws Exception {
@@ -170,7 +164,7 @@ class TwoStreamsIT {
         try {
             // the main stream's server is not there yet: it is lost, the analysis stream is watched
             lost = YardSite.awaitRecord(log, "camera_lost", "start", 1, 60);
-            mainServer = serve(mainPort, main);
+            mainServer = RtspClipServer.startOn(mainPort, main);
             back = YardSite.awaitRecord(log, "camera_lost", "end", 1, 90);
             // the demo lane loops every 26 s on the analysis server: wrong-way starts keep coming; take the first
             // that started after the main stream was back
