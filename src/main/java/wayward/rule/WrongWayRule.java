@@ -13,7 +13,9 @@ import wayward.zone.ZoneMeter;
  * mover of at least {@link MoverRuleSettings#minMoverAreaPx} has travelled against the heading at least
  * {@link MoverRuleSettings#minTravelPx} and has been followed at least {@link MoverRuleSettings#holdSeconds}, or
  * has travelled {@link MoverRuleSettings#quickTravelPx} whatever its age once it has been seen in two frames (one
- * frame's reading alone can be a lamp switched on). A small mover in a large zone decides
+ * frame's reading alone can be a lamp switched on). A steady mover (one body seen in nearly every frame at about
+ * the same size, never gone back along its way: {@link #steady}) needs {@link #STEADY_TRAVEL_SHARE} of the travel
+ * once followed {@link #STEADY_HOLDS} × the hold, so a crawl starts sooner. A small mover in a large zone decides
  * exactly as in a small zone: the zone's size enters nowhere.
  *
  * <pre>
@@ -56,6 +58,22 @@ public final class WrongWayRule {
      * one: three grid points at the default stride (samples of one body apart by at most two unsampled points).
      */
     static final double JOIN_GAP_PX = 12;
+    /**
+     * A steady mover ({@link #steady}) qualifies with this share of {@link MoverRuleSettings#minTravelPx} once it
+     * has been followed {@link #STEADY_HOLDS} × {@link MoverRuleSettings#holdSeconds}: a crawl (under a pixel
+     * per analysed frame) takes seconds to carry the full travel, and what else carries half of it in that time
+     * does not stay one body seen in nearly every frame that never goes back. Chosen on the suite's tune half
+     * (DEVELOPERS.md, "Movers", stop 34): there shake, flicker and blizzard tracks carry 10 px over 1.5 s too, but
+     * are seen in 40–77 % of their frames with sample counts varying by 0.70–3.0 of their mean; crawlers in
+     * every set by 0.14–0.48.
+     */
+    static final double STEADY_TRAVEL_SHARE = 0.5;
+    /** Times the hold a steady mover must have been followed: longer than a swaying thing's half swing. */
+    static final double STEADY_HOLDS = 3;
+    /** Share of the frames since it began in which a steady mover was seen. */
+    static final double STEADY_SEEN_SHARE = 0.75;
+    /** Most a steady mover's moving-sample count varies between sightings: standard deviation over mean. */
+    static final double STEADY_SPREAD = 0.6;
     /** A track that picks up a lost member goes its way within the tracker's group angle (45°). */
     static final double COS_SAME_WAY = Math.cos(Math.toRadians(MoverSettings.GROUP_ANGLE_DEG));
     /** Points of the mover's path in an event. */
@@ -197,9 +215,22 @@ public final class WrongWayRule {
             return false;
         }
         double travel = m.travelPx(k) + 1e-6;
+        double age = m.ageSeconds(k) + EPSILON_SECONDS;
         // quick travel still needs a second sighting: one frame's reading alone can be a light switched on
         return (travel >= settings.quickTravelPx() && m.ageSeconds(k) > EPSILON_SECONDS)
-                || (travel >= settings.minTravelPx() && m.ageSeconds(k) + EPSILON_SECONDS >= settings.holdSeconds());
+                || (travel >= settings.minTravelPx() && age >= settings.holdSeconds())
+                || (travel >= STEADY_TRAVEL_SHARE * settings.minTravelPx() && age >= STEADY_HOLDS * settings.holdSeconds()
+                        && steady(m, k));
+    }
+
+    /**
+     * Whether a mover is one steady body going one way: seen in at least {@link #STEADY_SEEN_SHARE} of the
+     * frames since it began, its moving-sample count varying by at most {@link #STEADY_SPREAD} of its mean, and
+     * its travel never fallen back by more than one sample spacing.
+     */
+    static boolean steady(Movers m, int k) {
+        return m.seenFrames(k) >= STEADY_SEEN_SHARE * m.frames(k) && m.sampleSpread(k) <= STEADY_SPREAD
+                && m.travelDropPx(k) <= m.stride;
     }
 
     private boolean retired(long id) {

@@ -45,6 +45,12 @@ public final class Movers {
     private final int[] pathCount;
     private final int[] pathStep;
     private final int[] pathTick;
+    private final int[] frames;
+    private final int[] seenFrames;
+    private final double[] sampleSum;
+    private final double[] sampleSquares;
+    private final double[] travelPeak;
+    private final double[] travelDrop;
 
     public Movers(int capacity) {
         if (capacity < 1) {
@@ -71,6 +77,12 @@ public final class Movers {
         pathCount = new int[capacity];
         pathStep = new int[capacity];
         pathTick = new int[capacity];
+        frames = new int[capacity];
+        seenFrames = new int[capacity];
+        sampleSum = new double[capacity];
+        sampleSquares = new double[capacity];
+        travelPeak = new double[capacity];
+        travelDrop = new double[capacity];
     }
 
     public int capacity() {
@@ -117,8 +129,22 @@ public final class Movers {
             pathCount[k] = 0;
             pathStep[k] = 1;
             pathTick[k] = 0;
+            frames[k] = 0;
+            seenFrames[k] = 0;
+            sampleSum[k] = 0;
+            sampleSquares[k] = 0;
+            travelPeak[k] = travelPx;
+            travelDrop[k] = 0;
         }
         touched[k] = true;
+        frames[k]++;
+        travelPeak[k] = Math.max(travelPeak[k], travelPx);
+        travelDrop[k] = Math.max(travelDrop[k], travelPeak[k] - travelPx);
+        if (seen) {
+            seenFrames[k]++;
+            sampleSum[k] += samples;
+            sampleSquares[k] += (double) samples * samples;
+        }
         this.seen[k] = seen;
         this.age[k] = ageSeconds;
         this.travel[k] = travelPx;
@@ -274,6 +300,34 @@ public final class Movers {
     /** Sets {@link #stillAheadPx} of slot k (after {@link #put}, which resets it to infinity). */
     public void stillAheadPx(int k, double px) {
         stillAhead[k] = px;
+    }
+
+    /** Frames the track was put in since it entered this table, seen or not. */
+    public int frames(int k) {
+        return frames[k];
+    }
+
+    /** Frames in which the track was seen since it entered this table. */
+    public int seenFrames(int k) {
+        return seenFrames[k];
+    }
+
+    /**
+     * How much the track's moving-sample count varies between the frames it was seen in: standard deviation over
+     * mean (0: the same every time); {@link Double#POSITIVE_INFINITY} before it was seen with any sample.
+     */
+    public double sampleSpread(int k) {
+        if (seenFrames[k] == 0 || sampleSum[k] <= 0) {
+            return Double.POSITIVE_INFINITY;
+        }
+        double mean = sampleSum[k] / seenFrames[k];
+        double variance = Math.max(0, sampleSquares[k] / seenFrames[k] - mean * mean);
+        return Math.sqrt(variance) / mean;
+    }
+
+    /** The most the track's travel against the heading ever fell back from its highest point, px (0: never). */
+    public double travelDropPx(int k) {
+        return travelDrop[k];
     }
 
     /** The slot of a live track, or -1. */

@@ -427,6 +427,44 @@ class WrongWayRuleTest {
         }
     }
 
+    /**
+     * A crawler at 4 px/s (0.4 px a frame) scripted frame by frame: seen in frames where {@code seenEvery}
+     * divides n, with {@code samples(n)} moving samples, its travel {@code travel(n)}; returns the start's time.
+     */
+    private static double crawlStart(int seenEvery, java.util.function.IntUnaryOperator samples,
+            java.util.function.IntToDoubleFunction travel) {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        for (int n = 0; n <= 60; n++) {
+            double t = n * DT;
+            boolean seen = n % seenEvery == 0;
+            m.begin(t, 320, 180, 4);
+            m.put(1, seen, t, travel.applyAsDouble(n), seen ? samples.applyAsInt(n) : 0, 40, 12, 12, 160,
+                    40 + travel.applyAsDouble(n), 0, 4, 4);
+            m.end();
+            Event e = rule.update(m, 0.01);
+            if (e != null) {
+                return e.streamSeconds();
+            }
+        }
+        return Double.NaN;
+    }
+
+    @Test
+    void aSteadyCrawlerQualifiesWithHalfTheTravelAfterThreeHolds() {
+        // analytic: travel 0.4 px a frame; half of min travel 10 px is 5 px (frame 13), three holds 1.5 s (frame 15);
+        // the full 10 px with the hold come at frame 25
+        assertEquals(1.5, crawlStart(1, n -> 20, n -> 0.4 * n), 1e-9);
+        // samples alternating 5 and 35 vary by 15 / 20 = 0.75 of their mean: not one steady body
+        assertEquals(2.5, crawlStart(1, n -> n % 2 == 0 ? 5 : 35, n -> 0.4 * n), 1e-9);
+        // seen in every other frame only (half its frames): not steady; frame 25 is unseen, so frame 26 starts
+        assertEquals(2.6, crawlStart(2, n -> 20, n -> 0.4 * n), 1e-9);
+        // went back 2 grid steps (8 px) on its way and came on again: swinging, not crawling; 10 px at frame 38
+        // (steady, half of it would start frame 32)
+        assertEquals(3.8, crawlStart(1, n -> 20, n -> n <= 10 ? 0.4 * n : n <= 20 ? 4 - 0.8 * (n - 10)
+                : -4 + 0.8 * (n - 20)), 1e-9);
+    }
+
     @Test
     void aMoverSmallerThanTheMinimumDoesNotCount() {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
