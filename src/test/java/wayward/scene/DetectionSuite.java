@@ -5,6 +5,8 @@ import static org.bytedeco.opencv.global.opencv_core.CV_8UC1;
 import com.fasterxml.jackson.core.JsonFactory;
 import com.fasterxml.jackson.core.JsonParser;
 import com.fasterxml.jackson.core.JsonToken;
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.PrintStream;
@@ -69,12 +71,33 @@ public final class DetectionSuite {
     record Passage(String mover, String zone, double enter, double exit) {
     }
 
-    /** A detector's event: zone (null for camera events), kind and the start's stream time. */
-    record Detection(String zone, String kind, double start) {
+    /**
+     * A detector's event: zone (null for camera events), kind, the start's stream time and, for wayward, where the
+     * mover that started it was (the last point of {@code mover_path}, picture fractions; NaN for the references,
+     * which have no mover).
+     */
+    record Detection(String zone, String kind, double start, double x, double y) {
+        Detection(String zone, String kind, double start) {
+            this(zone, kind, start, Double.NaN, Double.NaN);
+        }
+
         Detection(String zone, double start) {
             this(zone, "wrong_way", start);
         }
     }
+
+    /**
+     * A catch is by the passage's own mover when the start's mover stands within half the mover's diagonal plus
+     * this many pixels (the scene's) of where the script puts the mover's centre, at the start or up to
+     * {@link #OWN_MOVER_LAG_SECONDS} before it: a plain body's centroid sits on its rims.
+     */
+    static final double OWN_MOVER_SLACK_PX = 12;
+    /**
+     * How far the start's mover position may lag the script: the flow places a group where its samples moved from
+     * (one analysed frame back), three-frame differencing places a hop's footprint on the middle frame of three (one
+     * more back); two analysed frames at the suite's 10 a second, and a little for their uneven spacing.
+     */
+    static final double OWN_MOVER_LAG_SECONDS = 0.25;
 
     /** Event kinds of the tamper watch. */
     static final java.util.Set<String> TAMPER = java.util.Set.of("view_blocked", "focus_lost", "picture_frozen",
@@ -90,7 +113,7 @@ public final class DetectionSuite {
     /** The score of one detector on one scenario; latencies are start − entry − the detector's hold time. */
     record Score(String scenario, boolean nuisance, double seconds, int passages, int caught, int events,
             int falseAlerts, double maxLatency, double meanLatency, String tamperExpected, boolean tamperCaught,
-            int falseTamper) {
+            int falseTamper, int caughtByOwnMover) {
         double recall() {
             return passages == 0 ? Double.NaN : (double) caught / passages;
         }
@@ -99,6 +122,8 @@ public final class DetectionSuite {
             return events == 0 ? Double.NaN : (double) (events - falseAlerts) / events;
         }
     }
+
+    private static final ObjectMapper MAPPER = new ObjectMapper();
 
     private DetectionSuite() {
     }
@@ -178,7 +203,10 @@ public final class DetectionSuite {
             }
             String kind = field(line, "kind");
             if (kind.equals("wrong_way")) {
-                found.add(new Detection(field(line, "zone"), kind, Double.parseDouble(field(line, "stream_s"))));
+                JsonNode path = MAPPER.readTree(line).get("mover_path");
+                JsonNode last = path == null || path.isEmpty() ? null : path.get(path.size() - 1);
+                found.add(new Detection(field(line, "zone"), kind, Double.parseDouble(field(line, "stream_s")),
+                        last == null ? Double.NaN : last.get(0).asDouble(), last == null ? Double.NaN : last.get(1).asDouble()));
             } else if (TAMPER.contains(kind)) {
                 found.add(new Detection(null, kind, Double.parseDouble(field(line, "stream_s"))));
             }
@@ -390,6 +418,8 @@ public final class DetectionSuite {
         }
         boolean[] used = new boolean[found.size()];
         int caught = 0;
+        int own = 0;
+        boolean placed = found.stream().anyMatch(d -> !Double.isNaN(d.x()));
         double sum = 0;
         double max = Double.NaN;
         for (Passage p : passages) {
@@ -399,6 +429,7 @@ public final class DetectionSuite {
                         && d.start() <= p.exit() + LATE_SECONDS) {
                     used[i] = true;
                     caught++;
+                    own += ownMover(scene, p, d) ? 1 : 0;
                     double latency = d.start() - p.enter() - holdSeconds;
                     sum += latency;
                     max = Double.isNaN(max) ? latency : Math.max(max, latency);
@@ -414,7 +445,30 @@ public final class DetectionSuite {
         }
         boolean nuisance = passages.isEmpty();
         return new Score(scene.name(), nuisance, scene.seconds(), passages.size(), caught, found.size(), falseAlerts,
-                max, caught == 0 ? Double.NaN : sum / caught, expected, tamperCaught, falseTamper);
+                max, caught == 0 ? Double.NaN : sum / caught, expected, tamperCaught, falseTamper, placed ? own : -1);
+    }
+
+    /** Whether a start matched to a passage was started by the passage's own mover ({@link #OWN_MOVER_SLACK_PX}). */
+    static boolean ownMover(Scene scene, Passage p, Detection d) {
+        if (Double.isNaN(d.x())) {
+            return false;
+        }
+        for (Scene.Mover m : scene.movers()) {
+            if (!m.id().equals(p.mover())) {
+                continue;
+            }
+            for (double lag = 0; lag <= OWN_MOVER_LAG_SECONDS + 1e-9; lag += 0.01) {
+                double t = Math.max(m.startSeconds(), d.start() - lag);
+                double[] c = m.centreAt(t);
+                double[] size = m.sizeAt(t);
+                double reach = 0.5 * Math.hypot(size[0] * scene.width(), size[1] * scene.height()) + OWN_MOVER_SLACK_PX;
+                if (Math.hypot((d.x() - c[0]) * scene.width(), (d.y() - c[1]) * scene.height()) <= reach) {
+                    return true;
+                }
+            }
+            return false;
+        }
+        return false;
     }
 
     /** The three detectors on every scenario of both halves, in table order (tune first). */
@@ -451,7 +505,7 @@ public final class DetectionSuite {
 
     /** Totals of one detector over one half. */
     record Totals(int scenarios, double seconds, int passages, int caught, int events, int falseAlerts,
-            int nuisanceScenes, int nuisanceFalse, double meanLatency, double maxLatency) {
+            int nuisanceScenes, int nuisanceFalse, double meanLatency, double maxLatency, int caughtByOwnMover) {
         static Totals of(List<Score> scores) {
             int passages = 0;
             int caught = 0;
@@ -462,7 +516,13 @@ public final class DetectionSuite {
             double seconds = 0;
             double sum = 0;
             double max = Double.NaN;
+            int own = 0;
+            boolean placed = false;
             for (Score o : scores) {
+                if (o.caughtByOwnMover() >= 0) {
+                    own += o.caughtByOwnMover();
+                    placed = true;
+                }
                 passages += o.passages();
                 caught += o.caught();
                 events += o.events();
@@ -476,7 +536,7 @@ public final class DetectionSuite {
                 }
             }
             return new Totals(scores.size(), seconds, passages, caught, events, falseAlerts, nuisanceScenes,
-                    nuisanceFalse, caught == 0 ? Double.NaN : sum / caught, max);
+                    nuisanceFalse, caught == 0 ? Double.NaN : sum / caught, max, placed ? own : -1);
         }
 
         double recall() {
@@ -507,7 +567,9 @@ public final class DetectionSuite {
                 Score m = r.mog2();
                 Score d = r.dis();
                 b.append("| ").append(o.scenario()).append(" | ").append(o.passages()).append(" | ")
-                        .append(o.caught()).append(" | ").append(o.falseAlerts()).append(" | ")
+                        .append(o.caught()).append(o.caughtByOwnMover() >= 0 && o.caughtByOwnMover() < o.caught()
+                                ? " (" + (o.caught() - o.caughtByOwnMover()) + " by another mover)" : "")
+                        .append(" | ").append(o.falseAlerts()).append(" | ")
                         .append(f(o.meanLatency(), "%.2f")).append(" / ").append(f(o.maxLatency(), "%.2f")).append(" | ")
                         .append(o.tamperExpected() == null ? "–" : o.tamperExpected() + (o.tamperCaught() ? " ✓" : " ✗"))
                         .append(o.falseTamper() > 0 ? " (+" + o.falseTamper() + " false)" : "").append(" | ")
@@ -535,8 +597,10 @@ public final class DetectionSuite {
 
     private static void summary(StringBuilder b, String half, String name, Totals t, List<Score> scores) {
         long nuisanceWithFalse = scores.stream().filter(s -> s.nuisance() && s.falseAlerts() > 0).count();
-        b.append(String.format(Locale.ROOT, "| %s | %s | %d/%d = %s | %s | %d (%.0f) | %d of %d (%d alerts) | %s / %s |%n",
-                half, name, t.caught(), t.passages(), f(t.recall(), "%.3f"), f(t.precision(), "%.3f"),
+        b.append(String.format(Locale.ROOT, "| %s | %s | %d/%d = %s%s | %s | %d (%.0f) | %d of %d (%d alerts) | %s / %s |%n",
+                half, name, t.caught(), t.passages(), f(t.recall(), "%.3f"),
+                t.caughtByOwnMover() < 0 ? "" : " (by its own mover: " + t.caughtByOwnMover() + ")",
+                f(t.precision(), "%.3f"),
                 t.falseAlerts(), t.falseAlerts() / (t.seconds() / 3600), nuisanceWithFalse, t.nuisanceScenes(),
                 t.nuisanceFalse(), f(t.meanLatency(), "%.2f"), f(t.maxLatency(), "%.2f")));
     }

@@ -69,6 +69,8 @@ class DetectionSuiteIT {
             originals++;
             passages += ours.passages();
             caught += ours.caught();
+            // the start's mover stood where the script puts the passage's mover (DetectionSuite.ownMover)
+            assertEquals(ours.caught(), ours.caughtByOwnMover(), ours.scenario() + ": every catch by its own mover\n" + table);
             baselineFalse += r.mog2().falseAlerts();
             if (ours.nuisance()) {
                 assertEquals(0, ours.falseAlerts(), ours.scenario() + ": no false alert\n" + table);
@@ -86,11 +88,11 @@ class DetectionSuiteIT {
     /**
      * The held-out half, which no default was chosen on, against both references on the same videos: wayward
      * catches more wrong-way passages than OpenCV DIS-MEDIUM with our share rule and than MOG2 motion detection,
-     * and at least 0.98 of them (issue 16's recall target, met since small hopping movers are followed by their
+     * and at least 0.98 of them, each started by the passage's own mover (issue 16's recall target, met since small hopping movers are followed by their
      * footprints: 18/18); no more scenes without a wrong-way passage raise a false alert than with the DIS-MEDIUM
      * reference; every tampering raises its own kind within 5 s. Issue 16's other targets (no false alert in any
-     * scene without a passage, onset ≤ hold + 0.5 s) are NOT met yet (measured 2026-12-03: s47 glare raises two
-     * false alerts, s37's crawl starts 4.4 s late); the message lists every scene that misses them, and
+     * scene without a passage, onset ≤ hold + 0.5 s) are NOT met yet (measured 2026-12-04: s47 glare raises two
+     * false alerts, s37's crawl starts 2.4 s late); the message lists every scene that misses them, and
      * DEVELOPERS.md ("Movers") records the figures.
      */
     @Test
@@ -98,6 +100,7 @@ class DetectionSuiteIT {
         List<String> misses = new ArrayList<>();
         int passages = 0;
         int caught = 0;
+        int own = 0;
         int disCaught = 0;
         int mogCaught = 0;
         int falseScenes = 0;
@@ -109,6 +112,7 @@ class DetectionSuiteIT {
             DetectionSuite.Score ours = r.ours();
             passages += ours.passages();
             caught += ours.caught();
+            own += ours.caughtByOwnMover();
             disCaught += r.dis().caught();
             mogCaught += r.mog2().caught();
             if (ours.nuisance() && ours.falseAlerts() > 0) {
@@ -122,6 +126,10 @@ class DetectionSuiteIT {
             if (ours.caught() < ours.passages()) {
                 misses.add(ours.scenario() + ": caught " + ours.caught() + " of " + ours.passages());
             }
+            if (ours.caughtByOwnMover() < ours.caught()) {
+                misses.add(ours.scenario() + ": " + (ours.caught() - ours.caughtByOwnMover())
+                        + " catch(es) started by another mover");
+            }
             if (ours.nuisance() && ours.falseAlerts() > 0) {
                 misses.add(ours.scenario() + ": " + ours.falseAlerts() + " false alert(s) without a wrong-way mover");
             }
@@ -134,7 +142,8 @@ class DetectionSuiteIT {
                 + " without a passage that alert: %d (reference %d)%nshort of issue 16's targets:%n%s%n%s", caught,
                 passages, disCaught, mogCaught, falseScenes, disFalseScenes, String.join("\n", misses), table);
         assertTrue(caught > disCaught && caught > mogCaught, message);
-        assertTrue((double) caught / passages >= 0.98, message);
+        // recall counts only catches started by the passage's own mover
+        assertTrue((double) own / passages >= 0.98, message);
         assertTrue(falseScenes <= disFalseScenes, message);
     }
 }

@@ -66,12 +66,20 @@ public final class MoverTuning {
             for (int v = 0; v < variants.size(); v++) {
                 List<DetectionSuite.Detection> det = new ArrayList<>();
                 for (Event e : wayward.report.WhatIf.run(report, variants.get(v))) {
-                    if (e.phase() == Event.Phase.START) det.add(new DetectionSuite.Detection(e.zone(), e.streamSeconds()));
+                    if (e.phase() == Event.Phase.START) {
+                        double[] path = e.mover() == null ? new double[0] : e.mover().path();
+                        det.add(new DetectionSuite.Detection(e.zone(), "wrong_way", e.streamSeconds(),
+                                path.length < 2 ? Double.NaN : path[path.length - 2],
+                                path.length < 2 ? Double.NaN : path[path.length - 1]));
+                    }
                 }
                 double hold = variants.get(v).getOrDefault("hold_seconds", 0.5);
                 DetectionSuite.Score s = DetectionSuite.score(scene, passages, det, hold);
                 tot[v][0] += s.passages(); tot[v][1] += s.caught(); tot[v][2] += s.falseAlerts(); tot[v][3] += s.events();
                 if (s.caught() > 0) maxLat[v] = Math.max(maxLat[v], s.maxLatency());
+                if (s.caughtByOwnMover() >= 0 && s.caughtByOwnMover() < s.caught()) {
+                    line.append(" OTHER-MOVER=").append(s.caught() - s.caughtByOwnMover());
+                }
                 line.append(String.format(" | c=%d f=%d lat=%s", s.caught(), s.falseAlerts(),
                         s.caught() > 0 ? String.format("%.2f", s.maxLatency()) : "-"));
                 if (System.getProperty("events") != null && v == 0) {
