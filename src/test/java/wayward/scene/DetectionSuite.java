@@ -396,8 +396,12 @@ public final class DetectionSuite {
         return found;
     }
 
-    /** Matches starts to passages (each start at most one passage, in time order), and tamper alerts. */
-    static Score score(Scene scene, List<Passage> passages, List<Detection> all, double holdSeconds) {
+    /**
+     * Matches starts to passages (each start at most one passage, in time order), and tamper alerts; placesMovers:
+     * the detector says where each start's mover stood (wayward), so catches by the passage's own mover are counted.
+     */
+    static Score score(Scene scene, List<Passage> passages, List<Detection> all, double holdSeconds,
+            boolean placesMovers) {
         List<Detection> found = all.stream().filter(d -> d.kind().equals("wrong_way") || d.kind().equals("motion"))
                 .toList();
         Scene.Nuisances nu = scene.nuisances();
@@ -419,7 +423,6 @@ public final class DetectionSuite {
         boolean[] used = new boolean[found.size()];
         int caught = 0;
         int own = 0;
-        boolean placed = found.stream().anyMatch(d -> !Double.isNaN(d.x()));
         double sum = 0;
         double max = Double.NaN;
         for (Passage p : passages) {
@@ -445,7 +448,7 @@ public final class DetectionSuite {
         }
         boolean nuisance = passages.isEmpty();
         return new Score(scene.name(), nuisance, scene.seconds(), passages.size(), caught, found.size(), falseAlerts,
-                max, caught == 0 ? Double.NaN : sum / caught, expected, tamperCaught, falseTamper, placed ? own : -1);
+                max, caught == 0 ? Double.NaN : sum / caught, expected, tamperCaught, falseTamper, placesMovers ? own : -1);
     }
 
     /** Whether a start matched to a passage was started by the passage's own mover ({@link #OWN_MOVER_SLACK_PX}). */
@@ -494,9 +497,9 @@ public final class DetectionSuite {
         Scene scene = Scene.load(file);
         Path video = render(file, work);
         List<Passage> passages = passages(scene);
-        return new Row(half, score(scene, passages, wayward(scene, video, work), RULE.holdSeconds()),
-                score(scene, passages, motionBaseline(scene, video), RULE.holdSeconds()),
-                score(scene, passages, disReference(scene, video), DIS_RULE.holdSeconds()));
+        return new Row(half, score(scene, passages, wayward(scene, video, work), RULE.holdSeconds(), true),
+                score(scene, passages, motionBaseline(scene, video), RULE.holdSeconds(), false),
+                score(scene, passages, disReference(scene, video), DIS_RULE.holdSeconds(), false));
     }
 
     private static String f(double v, String pattern) {

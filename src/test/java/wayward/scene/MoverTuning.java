@@ -74,7 +74,7 @@ public final class MoverTuning {
                     }
                 }
                 double hold = variants.get(v).getOrDefault("hold_seconds", 0.5);
-                DetectionSuite.Score s = DetectionSuite.score(scene, passages, det, hold);
+                DetectionSuite.Score s = DetectionSuite.score(scene, passages, det, hold, true);
                 tot[v][0] += s.passages(); tot[v][1] += s.caught(); tot[v][2] += s.falseAlerts(); tot[v][3] += s.events();
                 if (s.caught() > 0) maxLat[v] = Math.max(maxLat[v], s.maxLatency());
                 if (s.caughtByOwnMover() >= 0 && s.caughtByOwnMover() < s.caught()) {
