@@ -11,7 +11,10 @@ import java.util.Arrays;
  * <p>Units: analysis pixels, stream seconds, px/s. The path keeps up to {@link #PATH_POINTS} centroid points
  * over the track's whole life: one per frame in which the track was seen, thinned to every other point (and
  * from then on every second frame, then every fourth, …) whenever it is full, so its first point is always
- * where the track began. Nothing is allocated per frame, except by {@link #pathFractions} (for an event).
+ * where the track began. Per track the table also tallies, over the frames it was put in, how often it was seen,
+ * how much its sample count varies ({@link #sampleSpread}) and how far its travel ever fell back
+ * ({@link #travelDropPx}): the rule tells a steady body from chance clusters by them. Nothing is allocated per
+ * frame, except by {@link #pathFractions} (for an event).
  */
 public final class Movers {
     /** Most points a path keeps. */
