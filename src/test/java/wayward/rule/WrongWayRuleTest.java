@@ -45,6 +45,26 @@ class WrongWayRuleTest {
         }
     }
 
+    /**
+     * Frames n = 0 … last of track id, born at t, 3 px a frame down the picture from y 40 (15 samples, all seen);
+     * returns the stream time after them.
+     */
+    private static double drive(WrongWayRule rule, Movers m, List<Event> out, double t, long id, int last) {
+        final double born = t;
+        for (int n = 0; n <= last; n++, t += DT) {
+            collect(out, frame(rule, m, t, new double[] {id, born, 3 * n, 15, 40 + 3 * n}));
+        }
+        return t;
+    }
+
+    /** That many frames without any mover; returns the stream time after them. */
+    private static double nothing(WrongWayRule rule, Movers m, List<Event> out, double t, int frames) {
+        for (int n = 0; n < frames; n++, t += DT) {
+            collect(out, frame(rule, m, t));
+        }
+        return t;
+    }
+
     @Test
     void oneMoverThatHeldAndTravelledStartsAndEndsOneEvent() {
         WrongWayRule rule = new WrongWayRule("yard-mast-2", "lane-2-out", SETTINGS, CLOCK);
@@ -122,20 +142,11 @@ class WrongWayRuleTest {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
         Movers m = new Movers(8);
         List<Event> out = new ArrayList<>();
-        double t = 0;
-        for (int n = 0; n <= 20; n++, t += DT) {
-            collect(out, frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
-        }
-        for (int n = 0; n < 15; n++, t += DT) {
-            collect(out, frame(rule, m, t));
-        }
+        double t = drive(rule, m, out, 0, 1, 20);
+        t = nothing(rule, m, out, t, 15);
         double born = t;
-        for (int n = 0; n <= 20; n++, t += DT) {
-            collect(out, frame(rule, m, t, new double[] {2, born, 3 * n, 15, 40 + 3 * n}));
-        }
-        for (int n = 0; n < 15; n++, t += DT) {
-            collect(out, frame(rule, m, t));
-        }
+        t = drive(rule, m, out, t, 2, 20);
+        nothing(rule, m, out, t, 15);
         assertEquals(4, out.size(), out.toString());
         assertEquals(Event.Phase.START, out.get(2).phase());
         assertNotEquals(out.get(0).id(), out.get(2).id());
@@ -301,14 +312,9 @@ class WrongWayRuleTest {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
         Movers m = new Movers(8);
         List<Event> out = new ArrayList<>();
-        double t = 0;
-        for (int n = 0; n <= 10; n++, t += DT) {
-            collect(out, frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
-        }
+        double t = drive(rule, m, out, 0, 1, 10);
         // lost for 1.1 s (past clear: the event ends), then found again as a new track where it went on
-        for (int n = 0; n < 11; n++, t += DT) {
-            collect(out, frame(rule, m, t));
-        }
+        t = nothing(rule, m, out, t, 11);
         double born = t;
         for (int n = 0; n <= 8; n++, t += DT) {
             collect(out, frame(rule, m, t, new double[] {3, born, 3 * n, 15, 40 + 30 + 33 + 3 * n}));
@@ -327,9 +333,7 @@ class WrongWayRuleTest {
             collect(out, frame(rule, m, t, new double[] {1, 0, n, 15, 40 + n}));
         }
         // lost for 1.1 s: the event ends at the last sighting + clear
-        for (int n = 0; n < 11; n++, t += DT) {
-            collect(out, frame(rule, m, t));
-        }
+        t = nothing(rule, m, out, t, 11);
         // found again where it crawled on, 0.1 s into rest; at 1 px a frame it travels 10 px only after rest
         double born = t;
         for (int n = 0; n <= 30; n++, t += DT) {
@@ -347,13 +351,8 @@ class WrongWayRuleTest {
         WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
         Movers m = new Movers(8);
         List<Event> out = new ArrayList<>();
-        double t = 0;
-        for (int n = 0; n <= 10; n++, t += DT) {
-            collect(out, frame(rule, m, t, new double[] {1, 0, 3 * n, 15, 40 + 3 * n}));
-        }
-        for (int n = 0; n < 2; n++, t += DT) {
-            collect(out, frame(rule, m, t));
-        }
+        double t = drive(rule, m, out, 0, 1, 10);
+        t = nothing(rule, m, out, t, 2);
         double born = t;
         for (int n = 0; n <= 20; n++, t += DT) {
             m.begin(t, 320, 180, 4);
@@ -362,9 +361,7 @@ class WrongWayRuleTest {
             m.end();
             collect(out, rule.update(m, 0.01));
         }
-        for (int n = 0; n < 15; n++, t += DT) {
-            collect(out, frame(rule, m, t));
-        }
+        nothing(rule, m, out, t, 15);
         return out;
     }
 
@@ -408,9 +405,7 @@ class WrongWayRuleTest {
             m.end();
             collect(out, rule.update(m, 0.01));
         }
-        for (int n = 0; n < 15; n++, t += DT) {
-            collect(out, frame(rule, m, t));
-        }
+        nothing(rule, m, out, t, 15);
         // analytic: one event; it ends at track 2's last sighting (3.0 s) + clear (1 s), not at 1.1 + 1 s
         assertEquals(2, out.size(), out.toString());
         assertEquals(4.0, out.get(1).streamSeconds(), 1e-6);

@@ -2,9 +2,6 @@ package wayward.scene;
 
 import static org.bytedeco.opencv.global.opencv_core.CV_8UC1;
 
-import com.fasterxml.jackson.core.JsonFactory;
-import com.fasterxml.jackson.core.JsonParser;
-import com.fasterxml.jackson.core.JsonToken;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import java.io.ByteArrayOutputStream;
@@ -201,31 +198,19 @@ public final class DetectionSuite {
             if (!line.contains("\"phase\":\"start\"")) {
                 continue;
             }
-            String kind = field(line, "kind");
+            JsonNode event = MAPPER.readTree(line);
+            String kind = event.path("kind").asText();
+            double start = event.path("stream_s").asDouble(Double.NaN);
             if (kind.equals("wrong_way")) {
-                JsonNode path = MAPPER.readTree(line).get("mover_path");
-                JsonNode last = path == null || path.isEmpty() ? null : path.get(path.size() - 1);
-                found.add(new Detection(field(line, "zone"), kind, Double.parseDouble(field(line, "stream_s")),
+                JsonNode path = event.path("mover_path");
+                JsonNode last = path.isEmpty() ? null : path.get(path.size() - 1);
+                found.add(new Detection(event.path("zone").asText(), kind, start,
                         last == null ? Double.NaN : last.get(0).asDouble(), last == null ? Double.NaN : last.get(1).asDouble()));
             } else if (TAMPER.contains(kind)) {
-                found.add(new Detection(null, kind, Double.parseDouble(field(line, "stream_s"))));
+                found.add(new Detection(null, kind, start));
             }
         }
         return found;
-    }
-
-    private static String field(String json, String name) throws IOException {
-        try (JsonParser p = new JsonFactory().createParser(json)) {
-            p.nextToken();
-            while (p.nextToken() == JsonToken.FIELD_NAME) {
-                String n = p.currentName();
-                p.nextToken();
-                if (n.equals(name)) {
-                    return p.getText();
-                }
-            }
-        }
-        throw new IOException("no " + name + " in " + json);
     }
 
     /**
