@@ -36,7 +36,8 @@ import wayward.zone.ZoneMeter;
  * the tracker lost joins too before it qualifies ({@link #continuesMember}). Otherwise the event ends when
  * no member has been seen for {@link MoverRuleSettings#clearSeconds}.
  *
- * <p><b>Rest.</b> A mover that was a member of an ended event never starts or ends another. After an end, for
+ * <p><b>Rest.</b> A mover that was a member of an ended event never starts or ends another, nor does a track
+ * first seen inside such a member's box while it is seen ({@link #retireBornOnRetired}). After an end, for
  * {@link MoverRuleSettings#restSeconds}, neither can a track that began within that time where the last member was lost
  * (its first point within the same distance of the member's predicted path), however late it qualifies: that is
  * the same mover picked up again after a gap (a crawler takes seconds to travel far enough again). Any
@@ -158,6 +159,7 @@ public final class WrongWayRule {
      */
     public Event update(Movers m, double againstShare) {
         final double t = m.streamSeconds;
+        retireBornOnRetired(m);
         if (active) {
             peakShare = Math.max(peakShare, againstShare);
             for (int k = 0; k < m.capacity(); k++) {
@@ -231,6 +233,30 @@ public final class WrongWayRule {
     static boolean steady(Movers m, int k) {
         return m.seenFrames(k) >= STEADY_SEEN_SHARE * m.frames(k) && m.sampleSpread(k) <= STEADY_SPREAD
                 && m.travelDropPx(k) <= m.stride;
+    }
+
+    /**
+     * A track seen for the first time with its centroid inside the box of a retired member seen in the same frame
+     * is a piece of that body (its front edge read apart, which then takes the body's groups from the member's
+     * track): it is retired with it, and never starts or ends an event. Probe p07 (two vans in a row) raised a
+     * third start so; nothing else in any detection set changed.
+     */
+    private void retireBornOnRetired(Movers m) {
+        for (int k = 0; k < m.capacity(); k++) {
+            if (!m.live(k) || !m.seen(k) || m.ageSeconds(k) > EPSILON_SECONDS || retired(m.id(k))) {
+                continue;
+            }
+            for (int r = 0; r < m.capacity(); r++) {
+                if (r == k || !m.live(r) || !m.seen(r) || !retired(m.id(r))) {
+                    continue;
+                }
+                if (Math.abs(m.x(k) - m.x(r)) <= 0.5 * m.widthPx(r) && Math.abs(m.y(k) - m.y(r)) <= 0.5 * m.heightPx(r)) {
+                    retiredId[retiredNext] = m.id(k);
+                    retiredNext = (retiredNext + 1) % retiredId.length;
+                    break;
+                }
+            }
+        }
     }
 
     private boolean retired(long id) {

@@ -215,6 +215,46 @@ class WrongWayRuleTest {
         assertEquals(1, twoBehind(8, 36, 36, 60, 0).size());
     }
 
+    // analytic script (probe p07's pattern): body 1 starts an event; body 2, 100 px behind it with still ground
+    // between, is a different mover and ends it (body 1 retires); then a new track is born inside body 1's box,
+    // as the tracker does when it reads a body's front edge apart, and travels far enough. It is a piece of a
+    // retired body, not a third passage: two events, not three
+    @Test
+    void aTrackBornOnARetiredBodyIsRetiredWithIt() {
+        // born 15 px below body 1's centroid: inside its 40 px tall box
+        List<Event> starts = pieceBelow(15);
+        assertEquals(2, starts.size(), starts.toString());
+        // the same piece born outside the body's box (25 px below its bottom edge) is a mover of its own
+        assertEquals(3, pieceBelow(45).size());
+    }
+
+    /**
+     * Body 1 (32 × 40, 60 samples) from y 110 and body 2 100 px behind it from 0.5 s, both 3 px a frame down the
+     * picture with still ground between them; from 1.4 s a 12 × 8 piece of 15 samples {@code below} px under
+     * body 1's centroid, going with it. The starts.
+     */
+    private static List<Event> pieceBelow(double below) {
+        WrongWayRule rule = new WrongWayRule("c", "z", SETTINGS, CLOCK);
+        Movers m = new Movers(8);
+        List<Event> out = new ArrayList<>();
+        for (int n = 0; n <= 40; n++) {
+            double t = n * DT;
+            double y1 = 110 + 3 * n;
+            m.begin(t, 320, 320, 4);
+            m.put(1, true, t, 3 * n, 60, 60, 32, 40, 160, y1, 0, 30, 30);
+            if (n >= 5) {
+                int k = m.put(2, true, t - 0.5, 3 * (n - 5), 40, 40, 32, 40, 160, y1 - 100, 0, 30, 30);
+                m.stillAheadPx(k, 40);
+            }
+            if (n >= 14) {
+                m.put(3, true, t - 1.4, 3 * (n - 14), 15, 15, 12, 8, 160, y1 + below, 0, 30, 30);
+            }
+            m.end();
+            collect(out, rule.update(m, 0.01));
+        }
+        return out.stream().filter(e -> e.phase() == Event.Phase.START).toList();
+    }
+
     /** A body of 60 samples and, {@code gapPx} behind it (box to box), a rim {@code rimW} × 6 px of 10. */
     private static List<Event> rimBehindBody(double gapPx, int bodyW, int bodyH, int rimW) {
         return behind(gapPx, bodyW, bodyH, rimW, 6, 10, 0, Double.POSITIVE_INFINITY);
