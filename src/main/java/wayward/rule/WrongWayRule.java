@@ -238,8 +238,8 @@ public final class WrongWayRule {
     /**
      * A track seen for the first time with its centroid inside the box of a retired member seen in the same frame
      * is a piece of that body (its front edge read apart, which then takes the body's groups from the member's
-     * track): it is retired with it, and never starts or ends an event. Probe p07 (two vans in a row) raised a
-     * third start so; nothing else in any detection set changed.
+     * track): it is retired with it, and never starts or ends an event. With a trial flow (stop 35) probe p07 (two
+     * vans in a row) raised a third start so; nothing else in any detection set changed.
      */
     private void retireBornOnRetired(Movers m) {
         for (int k = 0; k < m.capacity(); k++) {
