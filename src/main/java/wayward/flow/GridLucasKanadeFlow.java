@@ -692,9 +692,12 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private void search(float[] i0, float[] i1, int w, int h, int cx, int cy, Band band, float[] gu, float[] gv,
             float[] gc, int g, int l) {
         float best = 0.5f * windowCost(l, i0, i1, w, h, cx, cy, gu[g], gv[g]);
-        int bx = 0;
-        int by = 0;
-        boolean found = false;
+        // the whole-pixel shifts tried on the whole window: every one within reach on the half-size level, the
+        // best lattice shift and its neighbours on the full-size level
+        int x0 = -SEARCH_RADIUS;
+        int x1 = SEARCH_RADIUS;
+        int y0 = -SEARCH_RADIUS;
+        int y1 = SEARCH_RADIUS;
         if (l == 0) {
             final int r = FINE_SEARCH_RADIUS;
             float coarse = Float.MAX_VALUE;
@@ -727,28 +730,22 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             if (coarse > FINE_SEARCH_DISTINCT * other) {
                 return;
             }
-            for (int dy = oy - 1; dy <= oy + 1; dy++) {
-                for (int dx = ox - 1; dx <= ox + 1; dx++) {
-                    final float cost = windowCost(l, i0, i1, w, h, cx, cy, dx, dy);
-                    if (cost < best) {
-                        best = cost;
-                        bx = dx;
-                        by = dy;
-                        found = true;
-                    }
-                }
-            }
-        } else {
-            final int r = SEARCH_RADIUS;
-            for (int dy = -r; dy <= r; dy++) {
-                for (int dx = -r; dx <= r; dx++) {
-                    final float cost = windowCost(l, i0, i1, w, h, cx, cy, dx, dy);
-                    if (cost < best) {
-                        best = cost;
-                        bx = dx;
-                        by = dy;
-                        found = true;
-                    }
+            x0 = ox - 1;
+            x1 = ox + 1;
+            y0 = oy - 1;
+            y1 = oy + 1;
+        }
+        int bx = 0;
+        int by = 0;
+        boolean found = false;
+        for (int dy = y0; dy <= y1; dy++) {
+            for (int dx = x0; dx <= x1; dx++) {
+                final float cost = windowCost(l, i0, i1, w, h, cx, cy, dx, dy);
+                if (cost < best) {
+                    best = cost;
+                    bx = dx;
+                    by = dy;
+                    found = true;
                 }
             }
         }
