@@ -251,12 +251,17 @@ public final class WrongWayRule {
                     continue;
                 }
                 if (Math.abs(m.x(k) - m.x(r)) <= 0.5 * m.widthPx(r) && Math.abs(m.y(k) - m.y(r)) <= 0.5 * m.heightPx(r)) {
-                    retiredId[retiredNext] = m.id(k);
-                    retiredNext = (retiredNext + 1) % retiredId.length;
+                    retire(m.id(k));
                     break;
                 }
             }
         }
+    }
+
+    /** Remembers a track as retired (the ring keeps the latest {@code 4 × MAX_MEMBERS}). */
+    private void retire(long id) {
+        retiredId[retiredNext] = id;
+        retiredNext = (retiredNext + 1) % retiredId.length;
     }
 
     private boolean retired(long id) {
@@ -511,8 +516,7 @@ public final class WrongWayRule {
         active = false;
         restUntil = t + settings.restSeconds();
         for (int j = 0; j < members; j++) {
-            retiredId[retiredNext] = memberId[j];
-            retiredNext = (retiredNext + 1) % retiredId.length;
+            retire(memberId[j]);
         }
         int last = 0;
         for (int j = 1; j < members; j++) {

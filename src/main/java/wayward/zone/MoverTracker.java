@@ -287,14 +287,22 @@ public final class MoverTracker {
             if (b == k || !tr.live[b] || tr.peak[b] < SPECK_GROWTH * Math.max(1, tr.peak[k])) {
                 continue;
             }
-            final double since = t - tr.seenAt[b];
-            final double bx = tr.x[b] + tr.predVx[b] * since;
-            final double by = tr.y[b] + tr.predVy[b] * since;
+            final double bx = predictedX(b, t);
+            final double by = predictedY(b, t);
             if (Math.abs(ex - bx) <= 0.5 * tr.w[b] && Math.abs(ey - by) <= 0.5 * tr.h[b]) {
                 return true;
             }
         }
         return false;
+    }
+
+    /** Where track k's centroid is predicted at time t: its last centroid moved on by its predicting velocity. */
+    private double predictedX(int k, double t) {
+        return tr.x[k] + tr.predVx[k] * (t - tr.seenAt[k]);
+    }
+
+    private double predictedY(int k, double t) {
+        return tr.y[k] + tr.predVy[k] * (t - tr.seenAt[k]);
     }
 
     /** Pairs groups with tracks, updates them, starts and drops tracks. */
@@ -314,9 +322,8 @@ public final class MoverTracker {
                 if (!tr.live[k] || tr.group[k] >= 0) {
                     continue;
                 }
-                final double since = t - tr.seenAt[k];
-                final double ex = tr.x[k] + tr.predVx[k] * since;
-                final double ey = tr.y[k] + tr.predVy[k] * since;
+                final double ex = predictedX(k, t);
+                final double ey = predictedY(k, t);
                 final double gate = settings.gatePx() + 0.5 * Math.max(tr.w[k], tr.h[k]);
                 final double tSpeed2 = tr.vx[k] * tr.vx[k] + tr.vy[k] * tr.vy[k];
                 for (int g = 0; g < gr.groups; g++) {
