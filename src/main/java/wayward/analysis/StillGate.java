@@ -18,7 +18,10 @@ import wayward.image.GrayFrame;
  * per camera, by each comparison) + {@value #MIN_CHANGE} grey levels. Compressed video is still almost everywhere
  * and noisy only in the blocks the encoder refreshes, so the largest change, not a spread, is the noise that counts.
  * After a change the flow keeps running for {@value #KEEP_SECONDS} s, so the movers' tracks end as they would with
- * the flow on. The first {@value #WARM_UP_SECONDS} s run the flow and learn the noise.
+ * the flow on. The first {@value #WARM_UP_SECONDS} s run the flow and learn the noise: the median of their largest
+ * changes, so that a mover passing while the camera starts (in fewer than half of those frames) is not taken for
+ * noise. A mover can only add change; a mean of the first second learned a faint mover's change as noise, and the
+ * gate then skipped the flow while it and the next one like it crossed.
  *
  * <p>One instance per camera and resolution, called by the analysis thread; buffers sized in the constructor,
  * nothing allocated per frame.
@@ -30,6 +33,12 @@ final class StillGate {
     static final int MARGIN_PX = 16;
     /** Times the learned largest still change from which a block's change counts. */
     static final double NOISE_FACTOR = 2;
+    /**
+     * Times the learned largest still change up to which (+ {@link #MIN_CHANGE}) a frame judged still teaches the
+     * noise. A faint mover's frames fall between this and the change that counts; learning from them taught the
+     * gate the mover's change as noise, and it skipped the flow while the mover crossed.
+     */
+    static final double LEARN_FACTOR = 1.25;
     /** Added to that, grey levels: an encoder's still picture has almost no noise. */
     static final double MIN_CHANGE = 2;
     /**
@@ -45,6 +54,8 @@ final class StillGate {
     static final double WARM_UP_SECONDS = 1.0;
     /** Weight of one still frame's largest change in the learned one. */
     private static final double NOISE_RATE = 0.05;
+    /** Warm-up frames whose changes are kept for the median: a second at 64 frames a second; later ones are not. */
+    private static final int WARM_UP_FRAMES = 64;
 
     private final int width;
     private final int x0;
@@ -55,6 +66,9 @@ final class StillGate {
     private final float[] previous;
     private final float[] reference;
     private final float[] scratch;
+    private final float[] warmPrevious = new float[WARM_UP_FRAMES];
+    private final float[] warmReference = new float[WARM_UP_FRAMES];
+    private final float[] warmSorted = new float[WARM_UP_FRAMES];
     private boolean primed;
     private double firstSeconds;
     private double referenceSeconds;
@@ -121,14 +135,21 @@ final class StillGate {
         final boolean warm = t - firstSeconds < WARM_UP_SECONDS;
         final boolean moved = warm || changePrevious > limit(noisePrevious) || changeReference > limit(noiseReference);
         if (warm) {
-            // a plain mean of the first second's largest changes
-            warmFrames++;
-            noisePrevious = warmFrames == 1 ? changePrevious : noisePrevious + (changePrevious - noisePrevious) / warmFrames;
-            noiseReference = warmFrames == 1 ? changeReference
-                    : noiseReference + (changeReference - noiseReference) / warmFrames;
+            // the median of the first second's largest changes
+            if (warmFrames < WARM_UP_FRAMES) {
+                warmPrevious[warmFrames] = (float) changePrevious;
+                warmReference[warmFrames] = (float) changeReference;
+                warmFrames++;
+                noisePrevious = median(warmPrevious, warmFrames);
+                noiseReference = median(warmReference, warmFrames);
+            }
         } else if (!moved) {
-            noisePrevious += NOISE_RATE * (changePrevious - noisePrevious);
-            noiseReference += NOISE_RATE * (changeReference - noiseReference);
+            if (changePrevious <= learnLimit(noisePrevious)) {
+                noisePrevious += NOISE_RATE * (changePrevious - noisePrevious);
+            }
+            if (changeReference <= learnLimit(noiseReference)) {
+                noiseReference += NOISE_RATE * (changeReference - noiseReference);
+            }
         }
         if (moved) {
             changedSeconds = t;
@@ -139,6 +160,17 @@ final class StillGate {
             referenceSeconds = t;
         }
         return t - changedSeconds <= KEEP_SECONDS + 1e-6;
+    }
+
+    /** The median of a[0..n) (the upper one of an even count), a left as it is. */
+    private float median(float[] a, int n) {
+        System.arraycopy(a, 0, warmSorted, 0, n);
+        return Quickselect.kth(warmSorted, n, n / 2);
+    }
+
+    /** The most change a still frame may show for the noise to learn from it. */
+    private static double learnLimit(double noise) {
+        return LEARN_FACTOR * noise + MIN_CHANGE;
     }
 
     /** The change of a block mean that counts, given the learned largest change of still frames. */
