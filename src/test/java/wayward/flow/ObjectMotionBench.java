@@ -58,8 +58,8 @@ public final class ObjectMotionBench {
     static final int[] SIZES_PX = {8, 12, 20, 32, 48};
     /** Displacement lengths, pixels per frame pair. */
     static final double[] MOTIONS_PX = {0.5, 1, 2, 4, 6, 8};
-    /** Sensor noise of the noisy cases, grey levels (independent per frame). */
-    static final double NOISE_SIGMA = 2.5;
+    /** Sensor noise of the noisy cases, grey levels (independent per frame); {@code -Dbench.noise=S} for another. */
+    static final double NOISE_SIGMA = Double.parseDouble(System.getProperty("bench.noise", "2.5"));
     /** Caught rule (see the class comment): endpoint error, angle and the shortest length, as share of |t|. */
     static final double CAUGHT_EPE_PX = 1;
     static final double CAUGHT_ANGLE_DEG = 30;
