@@ -38,13 +38,14 @@ import org.bytedeco.opencv.opencv_video.DISOpticalFlow;
  *   least half the length.)</li>
  *   <li><b>object EPE</b>: mean endpoint error |f − t| over the object's pixels, px.</li>
  *   <li><b>ring EPE</b>: mean |f| over the ring of still background around the object (within 7 px of the
- *   first frame's object, touched by the object in neither frame), px.</li>
+ *   first frame's object, 7K px at scale K, touched by the object in neither frame), px.</li>
  * </ul>
  * Aggregates are plain means over cases (each case weighs the same, whatever the object's size).
  *
  * <p>Run by hand (DEVELOPERS.md, "Benchmarks"); prints Markdown tables (about 40 s for all 960 cases):
  * {@code java -cp target/classes:target/test-classes:$(cat target/cp.txt) wayward.flow.ObjectMotionBench
- * [--fast | --every=N] [--csv=FILE]}, the classpath from {@code mvn -B -q dependency:build-classpath
+ * [--fast | --every=N] [--csv=FILE]} ({@code -Dbench.noise=S} for another noise, {@code -Dbench.scale=K} for the
+ * same scenes at K times the resolution, see {@link ObjectMotionCase#SCALE}), the classpath from {@code mvn -B -q dependency:build-classpath
  * -Dmdep.outputFile=target/cp.txt -Dmdep.includeScope=test}. {@code --fast} scores every {@value #FAST_EVERY}th
  * case of each half (about 5 s). Methods run on one thread.
  *
@@ -229,7 +230,7 @@ public final class ObjectMotionBench {
                             double angle = 360 * new SplittableRandom(~seed).nextDouble();
                             if (index % every == 0) {
                                 all.add(new ObjectMotionCase(half, index, bg, bgPhoto, size, texture, objPhoto, motion,
-                                        angle, noise, seed));
+                                        angle, noise, seed).scaled(ObjectMotionCase.SCALE));
                             }
                             index++;
                         }
@@ -497,7 +498,8 @@ public final class ObjectMotionBench {
         }
         double seconds = (System.nanoTime() - t0) / 1e9;
         System.out.print(report(results, every));
-        System.out.printf(Locale.ROOT, "%n%d cases in %.0f s.%n", caseCount, seconds);
+        System.out.printf(Locale.ROOT, "%n%d cases at %d×%d (scale %d, noisy cases σ %s) in %.0f s.%n", caseCount, W, H,
+                ObjectMotionCase.SCALE, trim(NOISE_SIGMA), seconds);
         if (csv != null) {
             Files.writeString(csv, csv(results));
         }
@@ -527,9 +529,10 @@ public final class ObjectMotionBench {
                 every == 1 ? "all cases" : "every " + every + "th case"));
         sb.append(String.format(Locale.ROOT, "Caught: share of the object's pixels whose flow f has |f - t| <= "
                 + "min(1 px, |t|/2) or (|f| >= |t|/2 and angle(f, t) <= 30 deg). EPE in px, object = first-frame "
-                + "object pixels, ring = still background within 7 px of it that the object touches in neither frame. "
+                + "object pixels, ring = still background within %s px of it that the object touches in neither frame. "
                 + "Means over %d (tune) and %d (held-out) cases; ms = mean wall time per pair, one thread, shared "
-                + "machine (indicative).%n%n", tune.get(0).cases().size(), held.get(0).cases().size()));
+                + "machine (indicative).%n%n", trim(ObjectMotionCase.RING_PX), tune.get(0).cases().size(),
+                held.get(0).cases().size()));
         sb.append("| method | tune caught | tune object EPE | tune ring EPE | held-out caught | held-out object EPE "
                 + "| held-out ring EPE | ms |\n");
         sb.append("|---|---|---|---|---|---|---|---|\n");

@@ -44,13 +44,23 @@ import java.util.SplittableRandom;
 record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind background, String backgroundPhoto,
         int sizePx, TextureKind texture, String texturePhoto, double motionPx, double angleDeg, double noiseSigma,
         long seed) {
+    /**
+     * The benchmark's scale ({@code -Dbench.scale=K}, default 1): the same scenes filmed at K times the resolution.
+     * The picture, the objects, their motions, rims, procedural wavelengths, the margin and the ring are all K
+     * times as many pixels, and the photographs are sampled K times as finely (natively where the file has the
+     * pixels, by its bicubic model where it has not). A flow method whose reaches are fixed in pixels loses there.
+     */
+    static final int SCALE = scale(System.getProperty("bench.scale", "1"));
+    /** Picture size at scale 1, pixels. */
+    static final int BASE_WIDTH = 320;
+    static final int BASE_HEIGHT = 240;
     /** Picture size, pixels. */
-    static final int WIDTH = 320;
-    static final int HEIGHT = 240;
+    static final int WIDTH = BASE_WIDTH * SCALE;
+    static final int HEIGHT = BASE_HEIGHT * SCALE;
     /** Width of the ring of still background scored around the object, pixels. */
-    static final double RING_PX = 7;
+    static final double RING_PX = 7 * SCALE;
     /** Smallest distance of the first frame's object from the picture border, pixels. */
-    private static final int MARGIN_PX = 24;
+    private static final int MARGIN_PX = 24 * SCALE;
     /** Midpoint-rule points per axis when integrating a smooth texture over one pixel's covered part. */
     private static final int QUADRATURE = 4;
     /** Plain grey background levels are drawn from [base, base + span). */
@@ -65,7 +75,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
     private static final int PATCH_TRIES = 24;
     private static final double PATCH_MIN_STD = 20;
     /** Procedural textures: {@link Textures} (wavelengths 6 to 40 px) squeezed by this factor: 3 to 20 px. */
-    private static final double PROCEDURAL_SQUEEZE = 2;
+    private static final double PROCEDURAL_SQUEEZE = 2.0 / SCALE;
 
     /** What the background is. */
     enum BackgroundKind {
@@ -116,7 +126,43 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
         double integral(double u0, double u1, double v0, double v1);
     }
 
-    private static final Map<String, ImageTexture> PHOTOS = new HashMap<>();
+    private static final Map<String, Photo> PHOTOS = new HashMap<>();
+
+    /**
+     * A photograph as the cases sample it: pixel (x, y) of a case is the loaded picture's (x, y) × {@code step}
+     * (1 where the file was shrunk to the case's scale by an integer factor; under 1 where it has too few pixels
+     * for the scale and its bicubic model fills in).
+     */
+    record Photo(ImageTexture texture, double step) {
+        double at(double x, double y) {
+            return texture.at(x * step, y * step);
+        }
+
+        int width() {
+            return (int) (texture.width() / step);
+        }
+
+        int height() {
+            return (int) (texture.height() / step);
+        }
+    }
+
+    private static int scale(String value) {
+        try {
+            int k = Integer.parseInt(value.trim());
+            if (k >= 1 && k <= 4) {
+                return k;
+            }
+        } catch (NumberFormatException e) {
+            // reported below
+        }
+        throw new IllegalArgumentException("bench.scale: " + value + " (expected a whole number from 1 to 4)");
+    }
+    /** This case at k times the resolution: the object's side and its motion k times as many pixels. */
+    ObjectMotionCase scaled(int k) {
+        return k == 1 ? this : new ObjectMotionCase(half, index, background, backgroundPhoto, sizePx * k, texture,
+                texturePhoto, motionPx * k, angleDeg, noiseSigma, seed);
+    }
 
     /** True displacement, pixels. */
     double dx() {
@@ -191,7 +237,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
             java.util.Arrays.fill(bg, PLAIN_BACKGROUND_BASE + r.nextInt(PLAIN_BACKGROUND_SPAN));
             return bg;
         }
-        ImageTexture photo = photo(backgroundPhoto, true);
+        Photo photo = photo(backgroundPhoto, true);
         int cx = r.nextInt(photo.width() - WIDTH + 1);
         int cy = r.nextInt(photo.height() - HEIGHT + 1);
         for (int y = 0; y < HEIGHT; y++) {
@@ -207,7 +253,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
         final int s = sizePx;
         switch (texture) {
             case PHOTO: {
-                ImageTexture photo = photo(texturePhoto, false);
+                Photo photo = photo(texturePhoto, false);
                 double bestStd = -1;
                 int bestX = 0;
                 int bestY = 0;
@@ -236,7 +282,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
             case RIM: {
                 double paint = paint(r, bg, ox, oy, RIM_DARKER);
                 double rimLevel = paint - RIM_DARKER;
-                double rim = 1 + r.nextDouble();
+                double rim = (1 + r.nextDouble()) * SCALE;
                 double inner0 = rim;
                 double inner1 = s - rim;
                 return (u0, u1, v0, v1) -> {
@@ -274,7 +320,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
         return Math.max(10 + floor, Math.min(245, paint));
     }
 
-    private static double patchStd(ImageTexture photo, int px, int py, int s) {
+    private static double patchStd(Photo photo, int px, int py, int s) {
         double sum = 0;
         double sum2 = 0;
         for (int y = 0; y < s; y++) {
@@ -350,14 +396,15 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
     }
 
     /**
-     * A photograph from Debian's opencv-doc package, loaded once and shrunk by the largest integer factor that
-     * keeps at least {@link #WIDTH}×{@link #HEIGHT} (object textures alike, so a patch shows about as much of its
-     * scene as the background does).
+     * A photograph from Debian's opencv-doc package, loaded once. At scale 1 it is shrunk by the largest integer
+     * factor f that keeps at least 320×240 (object textures alike, so a patch shows about as much of its scene as
+     * the background does); at scale K by f / K where that is a whole number, and otherwise it is kept whole and
+     * sampled every f / K of its pixels, so every scale shows the same part of the scene.
      *
      * @throws IllegalStateException naming the package when the file is missing
      */
-    static synchronized ImageTexture photo(String name, boolean asBackground) {
-        ImageTexture t = PHOTOS.get(name);
+    static synchronized Photo photo(String name, boolean asBackground) {
+        Photo t = PHOTOS.get(name);
         if (t != null) {
             return t;
         }
@@ -368,8 +415,13 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
         }
         try {
             ImageTexture full = ImageTexture.load(file, 1);
-            int shrink = Math.max(1, Math.min(full.width() / WIDTH, full.height() / HEIGHT));
-            t = shrink == 1 ? full : ImageTexture.load(file, shrink);
+            int shrink = Math.max(1, Math.min(full.width() / BASE_WIDTH, full.height() / BASE_HEIGHT));
+            if (shrink % SCALE == 0) {
+                int k = shrink / SCALE;
+                t = new Photo(k == 1 ? full : ImageTexture.load(file, k), 1);
+            } else {
+                t = new Photo(full, (double) shrink / SCALE);
+            }
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
