@@ -101,6 +101,20 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[] searchSample = new float[Quickselect.SAMPLE];
     /** The full-size search's lattice costs of one point, in the order they were tried. */
     private final float[] latticeCosts = new float[(FINE_SEARCH_RADIUS + 1) * (FINE_SEARCH_RADIUS + 1)];
+    /**
+     * How many times the reference size ({@link #REFERENCE_SIZE}) the picture is, rounded, at least 1
+     * ({@link #sceneScale}). {@link #settleFlat} looks this many times {@link #SETTLE_REACH} grid points far, so
+     * that it reaches as far into the scene at every resolution (the searches do so by searching on coarser levels:
+     * {@link #referenceLevel}).
+     */
+    private final int searchScale;
+    /**
+     * The level of about the reference size: 0 at the reference size, one level up per doubling of the picture
+     * (rounded in the logarithm). The full-size search compares its windows there.
+     */
+    private final int referenceLevel;
+    /** Level of the coarse search: {@link #SEARCH_LEVEL} at the reference size, one level up per doubling. */
+    private final int coarseSearchLevel;
     private final GlobalMotion globalMotion;
     private final float[][] smoothU;
     private final float[][] smoothV;
@@ -251,6 +265,17 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             bands[i] = new Band(windowPixels);
         }
         pool = threads > 1 ? new BandPool(threads, this::solveBand) : null;
+        searchScale = sceneScale(width, height);
+        referenceLevel = Math.min(levelCount - 1, (int) Math.round(Math.log(searchScale) / Math.log(2)));
+        coarseSearchLevel = SEARCH_LEVEL + referenceLevel;
+    }
+
+    /**
+     * How many times {@link #REFERENCE_SIZE} the picture's longer side is, rounded to a whole number, at least 1
+     * (smaller pictures keep the reference reaches).
+     */
+    static int sceneScale(int width, int height) {
+        return (int) Math.max(1, Math.round(Math.max(width, height) / (double) REFERENCE_SIZE));
     }
 
     private int centre(int l, int index, int size) {
@@ -335,7 +360,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             } else {
                 solveRows(l, 0, gridHeight[l], bands[0]);
             }
-            if (l == 0 || (l == SEARCH_LEVEL && l + 1 < levelCount)) {
+            if (l == 0 || (l == coarseSearchLevel && l + 1 < levelCount)) {
                 searchLevel(l);
             }
             initSupport(l);
@@ -370,7 +395,12 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * level, above what sensor noise alone reaches in a 5×5 window.
      */
     static final float STRUCTURE = 8f;
-    /** Grid points a flat point looks along each axis for the structure that frames it. */
+    /**
+     * Grid points a flat point looks along each axis for the structure that frames it (48 px at the reference size;
+     * k times as many on a picture k times that size, {@link #sceneScale}, so that the inside of a mover as large in
+     * the scene is reached: on the object-motion benchmark at twice the size, tune half, caught / object EPE / ring
+     * EPE 0.842 / 1.517 / 0.562 with 12 points, 0.883 / 1.258 / 0.652 with 24).
+     */
     static final int SETTLE_REACH = 12;
     /** Motion apart from the background's, pixels, from which a framing structure counts as moving. */
     static final float SETTLE_MOVING = 0.25f;
@@ -431,6 +461,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         if (!measured && movingPoints > SETTLE_MOVERS_SHARE * frame.length) {
             return;
         }
+        final int reach = SETTLE_REACH * searchScale;
         for (int j = 0; j < gh; j++) {
             for (int i = 0; i < gw; i++) {
                 final int k = j * gw + i;
@@ -438,8 +469,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     continue;
                 }
                 // each side: 0 nothing within reach, 1 still structure, 8 moving structure
-                final int sides = side(frame, k, -1, i) + side(frame, k, 1, gw - 1 - i) + side(frame, k, -gw, j)
-                        + side(frame, k, gw, gh - 1 - j);
+                final int sides = side(frame, k, -1, Math.min(i, reach))
+                        + side(frame, k, 1, Math.min(gw - 1 - i, reach)) + side(frame, k, -gw, Math.min(j, reach))
+                        + side(frame, k, gw, Math.min(gh - 1 - j, reach));
                 final int moving = sides >> 3;
                 final int still = sides & 7;
                 if (moving < SETTLE_SIDES && (still > 0 || !measured)) {
@@ -455,13 +487,12 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private static final byte MOVING = 2;
 
     /**
-     * The nearest point with structure from k in steps of {@code step} (at most {@code room}): 8 when it moves, 1
+     * The nearest point with structure from k in steps of {@code step} (at most {@code room} steps): 8 when it moves, 1
      * when it is still, 0 when there is none within reach (so four sides add up to moving × 8 + still).
      */
     private static int side(byte[] frame, int k, int step, int room) {
-        final int n = Math.min(room, SETTLE_REACH);
         int q = k;
-        for (int m = 0; m < n; m++) {
+        for (int m = 0; m < room; m++) {
             q += step;
             if (frame[q] != FLAT) {
                 return frame[q] == MOVING ? 8 : 1;
@@ -610,18 +641,35 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
 
     /**
      * Pyramid level (0 = full size) on which, besides the full-size level, badly explained textured points search
-     * for their motion.
+     * for their motion, at the reference size ({@link #REFERENCE_SIZE}); a larger picture searches one level further
+     * up per doubling of its size.
      */
     static final int SEARCH_LEVEL = 1;
-    /** Search radius on that level, its pixels (± 8 px at full size). */
+    /** Search radius on that level, its pixels (± 8 px at full size at the reference size). */
     static final int SEARCH_RADIUS = 4;
     /**
-     * Search radius on the full-size level, pixels: the same reach as {@link #SEARCH_RADIUS} on the half-size
-     * level. Chosen on the object-motion benchmark's tune half (every 7th case; caught / object EPE / ring EPE):
+     * Search radius of the full-size level, pixels of the level whose windows it compares (full size at the
+     * reference size, {@link #referenceLevel} on a larger picture): the same reach as {@link #SEARCH_RADIUS} on the
+     * half-size level. Chosen on the object-motion benchmark's tune half (every 7th case; caught / object EPE / ring EPE):
      * no full-size search 0.83 / 0.81 / 0.40; radius 6 0.86 / 0.67 / 0.42; 8 0.87 / 0.62 / 0.43; 10 0.86 / 0.70 /
      * 0.44; 12 0.85 / 0.78 / 0.44 (a wider search finds more chance matches in a photograph's texture).
      */
     static final int FINE_SEARCH_RADIUS = 8;
+    /**
+     * The picture size (longer side, pixels) at which the searches' and the flat settle's reaches were chosen: the
+     * object-motion benchmark's 320×240 (and the analysis picture's default width). A larger picture of the same
+     * scene shows the same motion and the same movers as more pixels, so those reaches grow with it
+     * ({@link #sceneScale}).
+     */
+    static final int REFERENCE_SIZE = 320;
+    /**
+     * Where the full-size search compares windows on a coarser level (a picture larger than the reference size),
+     * the shift it finds is kept only where, solved at full size, it leaves at most this share of the window's
+     * residual: as the search's own test, explaining the window at least twice as well. Without it one vector of
+     * the real pair rubberwhale1/2 (584×388, opencv-doc) took a chance match 10 px long; on the object-motion
+     * benchmark at twice the size (tune half) 0.884 / 1.249 / 0.644 without it, 0.883 / 1.255 / 0.643 with it.
+     */
+    static final float FOUND_GAIN = 0.5f;
     /**
      * The full-size search takes its best shift only when it is distinct: its cost at most this share of the best
      * cost more than one lattice step away. In a repeating pattern (a fence, a grating, tiles) many shifts match
@@ -670,7 +718,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 final int g = j * gw + i;
                 // one branch, taken rarely (the texture test alone would be taken about every other point)
                 if ((gc[g] >= FILL_KEEP) & (res[g] > bar)) {
-                    search(earlier[l], later[l], w, h, centre(l, i, w), cy, bands[0], gridU[l], gridV[l], gc, g, l);
+                    search(centre(l, i, w), cy, bands[0], gridU[l], gridV[l], gc, g, l);
                 }
             }
         }
@@ -687,11 +735,27 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * distinct ({@link #FINE_SEARCH_DISTINCT}), it and its eight whole-pixel neighbours are tried on the whole
      * window: a third of the reads of trying every shift, and on
      * the object-motion benchmark's tune half (every 7th case) the same figures as trying every shift (caught /
-     * object EPE / ring EPE 0.87 / 0.62 / 0.43 both).
+     * object EPE / ring EPE 0.87 / 0.62 / 0.43 both). On a picture k times the reference size
+     * ({@link #REFERENCE_SIZE}) both searches compare windows k times coarser: the full-size one on
+     * {@link #referenceLevel}, where a 5×5 window sees as much of the scene as at the reference size and the reach
+     * is k times as many full-size pixels, the point then solved at full size from the shift found (and kept only
+     * where that halves its residual, {@link #FOUND_GAIN}); the coarse one on {@link #coarseSearchLevel}. On the
+     * object-motion benchmark at twice the size (tune half, caught / object EPE / ring EPE): 0.83 / 1.71 / 0.54 with
+     * the reference levels and reaches, 0.883 / 1.255 / 0.643 so (the full-size search with k times the reach and
+     * lattice step on the full-size level instead: 0.883 / 1.258 / 0.652).
      */
-    private void search(float[] i0, float[] i1, int w, int h, int cx, int cy, Band band, float[] gu, float[] gv,
-            float[] gc, int g, int l) {
-        float best = 0.5f * windowCost(l, i0, i1, w, h, cx, cy, gu[g], gv[g]);
+    private void search(int cx, int cy, Band band, float[] gu, float[] gv, float[] gc, int g, int l) {
+        // the level whose windows are compared: the full-size search of a picture larger than the reference size
+        // compares them on the level of about the reference size, where a window sees as much of the scene
+        final int sl = l == 0 ? referenceLevel : l;
+        final int f = 1 << (sl - l);
+        final float[] i0 = earlier[sl];
+        final float[] i1 = later[sl];
+        final int w = levelWidth[sl];
+        final int h = levelHeight[sl];
+        final int x = Math.min(w - 1, (cx + f / 2) / f);
+        final int y = Math.min(h - 1, (cy + f / 2) / f);
+        float best = 0.5f * windowCost(sl, i0, i1, w, h, x, y, gu[g] / f, gv[g] / f);
         // the whole-pixel shifts tried on the whole window: every one within reach on the half-size level, the
         // best lattice shift and its neighbours on the full-size level
         int x0 = -SEARCH_RADIUS;
@@ -700,14 +764,15 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         int y1 = SEARCH_RADIUS;
         if (l == 0) {
             final int r = FINE_SEARCH_RADIUS;
+            final int step = 2;
             float coarse = Float.MAX_VALUE;
             int ox = 0;
             int oy = 0;
             final float[] lc = latticeCosts;
             int m = 0;
-            for (int dy = -r; dy <= r; dy += 2) {
-                for (int dx = -r; dx <= r; dx += 2) {
-                    final float cost = latticeCost(i0, i1, w, h, cx, cy, dx, dy);
+            for (int dy = -r; dy <= r; dy += step) {
+                for (int dx = -r; dx <= r; dx += step) {
+                    final float cost = latticeCost(i0, i1, w, h, x, y, dx, dy);
                     lc[m++] = cost;
                     if (cost < coarse) {
                         coarse = cost;
@@ -719,9 +784,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             // the best cost more than one lattice step from the best shift
             float other = Float.MAX_VALUE;
             m = 0;
-            for (int dy = -r; dy <= r; dy += 2) {
-                for (int dx = -r; dx <= r; dx += 2) {
-                    if (Math.abs(dx - ox) > 2 || Math.abs(dy - oy) > 2) {
+            for (int dy = -r; dy <= r; dy += step) {
+                for (int dx = -r; dx <= r; dx += step) {
+                    if (Math.abs(dx - ox) > step || Math.abs(dy - oy) > step) {
                         other = Math.min(other, lc[m]);
                     }
                     m++;
@@ -740,7 +805,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         boolean found = false;
         for (int dy = y0; dy <= y1; dy++) {
             for (int dx = x0; dx <= x1; dx++) {
-                final float cost = windowCost(l, i0, i1, w, h, cx, cy, dx, dy);
+                final float cost = windowCost(sl, i0, i1, w, h, x, y, dx, dy);
                 if (cost < best) {
                     best = cost;
                     bx = dx;
@@ -756,8 +821,10 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float v = gv[g];
         final float c = gc[g];
         final float res = gridResidual[l][g];
-        solvePoint(i0, i1, w, h, cx, cy, bx, by, band, gu, gv, gc, g, l, null);
-        if (gridResidual[l][g] >= res) {
+        solvePoint(earlier[l], later[l], levelWidth[l], levelHeight[l], cx, cy, bx * f, by * f, band, gu, gv, gc, g, l,
+                null);
+        // compared on a coarser level, the shift must also at least halve the window's residual where it is solved
+        if (gridResidual[l][g] >= (f == 1 ? 1f : FOUND_GAIN) * res) {
             gu[g] = u;
             gv[g] = v;
             gc[g] = c;
@@ -1603,7 +1670,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     static final float PIXEL_STRUCTURE = 6f;
     /**
      * Pixels a flat pixel looks along each axis for the structure that frames it, as {@link #SETTLE_REACH} grid
-     * points (24 lost the inside of 48-pixel movers: 0.800 caught; 96 changed nothing against 48).
+     * points (24 lost the inside of 48-pixel movers: 0.800 caught; 96 changed nothing against 48). Fixed in pixels,
+     * unlike {@link #SETTLE_REACH}: on the benchmark at twice the size (tune half), twice the reach here as well
+     * gave 0.885 / 1.250 / 0.796 against 0.883 / 1.258 / 0.652: the ring lost more than the movers gained.
      */
     static final int PIXEL_REACH = 48;
     /**

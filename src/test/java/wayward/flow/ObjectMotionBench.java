@@ -45,7 +45,8 @@ import org.bytedeco.opencv.opencv_video.DISOpticalFlow;
  * <p>Run by hand (DEVELOPERS.md, "Benchmarks"); prints Markdown tables (about 40 s for all 960 cases):
  * {@code java -cp target/classes:target/test-classes:$(cat target/cp.txt) wayward.flow.ObjectMotionBench
  * [--fast | --every=N] [--csv=FILE]} ({@code -Dbench.noise=S} for another noise, {@code -Dbench.scale=K} for the
- * same scenes at K times the resolution, see {@link ObjectMotionCase#SCALE}), the classpath from {@code mvn -B -q dependency:build-classpath
+ * same scenes at K times the resolution, see {@link ObjectMotionCase#SCALE}, and {@code -Dbench.movers=M} for
+ * movers at M times their sizes and motions, {@link ObjectMotionCase#MOVER_SCALE}), the classpath from {@code mvn -B -q dependency:build-classpath
  * -Dmdep.outputFile=target/cp.txt -Dmdep.includeScope=test}. {@code --fast} scores every {@value #FAST_EVERY}th
  * case of each half (about 5 s). Methods run on one thread.
  *
@@ -230,7 +231,7 @@ public final class ObjectMotionBench {
                             double angle = 360 * new SplittableRandom(~seed).nextDouble();
                             if (index % every == 0) {
                                 all.add(new ObjectMotionCase(half, index, bg, bgPhoto, size, texture, objPhoto, motion,
-                                        angle, noise, seed).scaled(ObjectMotionCase.SCALE));
+                                        angle, noise, seed).scaled(ObjectMotionCase.MOVER_SCALE));
                             }
                             index++;
                         }
@@ -498,8 +499,8 @@ public final class ObjectMotionBench {
         }
         double seconds = (System.nanoTime() - t0) / 1e9;
         System.out.print(report(results, every));
-        System.out.printf(Locale.ROOT, "%n%d cases at %d×%d (scale %d, noisy cases σ %s) in %.0f s.%n", caseCount, W, H,
-                ObjectMotionCase.SCALE, trim(NOISE_SIGMA), seconds);
+        System.out.printf(Locale.ROOT, "%n%d cases at %d×%d (scale %d, movers' scale %d, noisy cases σ %s) in %.0f s.%n",
+                caseCount, W, H, ObjectMotionCase.SCALE, ObjectMotionCase.MOVER_SCALE, trim(NOISE_SIGMA), seconds);
         if (csv != null) {
             Files.writeString(csv, csv(results));
         }

@@ -50,7 +50,13 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
      * times as many pixels, and the photographs are sampled K times as finely (natively where the file has the
      * pixels, by its bicubic model where it has not). A flow method whose reaches are fixed in pixels loses there.
      */
-    static final int SCALE = scale(System.getProperty("bench.scale", "1"));
+    static final int SCALE = scale("bench.scale", System.getProperty("bench.scale", "1"));
+    /**
+     * The movers' scale ({@code -Dbench.movers=K}, default {@link #SCALE}): their sides, motions, rims, procedural
+     * wavelengths and the ring around them. {@code -Dbench.scale=2 -Dbench.movers=1} films the scene at twice the
+     * resolution with movers of the benchmark's sizes in pixels: movers twice as far away.
+     */
+    static final int MOVER_SCALE = scale("bench.movers", System.getProperty("bench.movers", Integer.toString(SCALE)));
     /** Picture size at scale 1, pixels. */
     static final int BASE_WIDTH = 320;
     static final int BASE_HEIGHT = 240;
@@ -58,7 +64,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
     static final int WIDTH = BASE_WIDTH * SCALE;
     static final int HEIGHT = BASE_HEIGHT * SCALE;
     /** Width of the ring of still background scored around the object, pixels. */
-    static final double RING_PX = 7 * SCALE;
+    static final double RING_PX = 7 * MOVER_SCALE;
     /** Smallest distance of the first frame's object from the picture border, pixels. */
     private static final int MARGIN_PX = 24 * SCALE;
     /** Midpoint-rule points per axis when integrating a smooth texture over one pixel's covered part. */
@@ -75,7 +81,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
     private static final int PATCH_TRIES = 24;
     private static final double PATCH_MIN_STD = 20;
     /** Procedural textures: {@link Textures} (wavelengths 6 to 40 px) squeezed by this factor: 3 to 20 px. */
-    private static final double PROCEDURAL_SQUEEZE = 2.0 / SCALE;
+    private static final double PROCEDURAL_SQUEEZE = 2.0 / MOVER_SCALE;
 
     /** What the background is. */
     enum BackgroundKind {
@@ -147,7 +153,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
         }
     }
 
-    private static int scale(String value) {
+    private static int scale(String key, String value) {
         try {
             int k = Integer.parseInt(value.trim());
             if (k >= 1 && k <= 4) {
@@ -156,7 +162,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
         } catch (NumberFormatException e) {
             // reported below
         }
-        throw new IllegalArgumentException("bench.scale: " + value + " (expected a whole number from 1 to 4)");
+        throw new IllegalArgumentException(key + ": " + value + " (expected a whole number from 1 to 4)");
     }
     /** This case at k times the resolution: the object's side and its motion k times as many pixels. */
     ObjectMotionCase scaled(int k) {
@@ -282,7 +288,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
             case RIM: {
                 double paint = paint(r, bg, ox, oy, RIM_DARKER);
                 double rimLevel = paint - RIM_DARKER;
-                double rim = (1 + r.nextDouble()) * SCALE;
+                double rim = (1 + r.nextDouble()) * MOVER_SCALE;
                 double inner0 = rim;
                 double inner1 = s - rim;
                 return (u0, u1, v0, v1) -> {
