@@ -32,6 +32,15 @@ final class GlobalMotion {
      * @return true when enough samples voted for the median to be the camera's motion
      */
     boolean measure(FlowField field) {
+        return measure(field, 1f);
+    }
+
+    /**
+     * As {@link #measure(FlowField)}, with the confidence floor {@code level} times {@link #CONFIDENCE_FLOOR}: in
+     * sensor noise above the level the floor was chosen at, noise alone reaches it.
+     */
+    boolean measure(FlowField field, float level) {
+        final float floor = CONFIDENCE_FLOOR * level;
         // one pass without branching on the confidence (its pattern is noise to the branch predictor): every
         // sample is copied, and the count moves on past the confident ones only
         final float[] c = field.confidence;
@@ -43,7 +52,7 @@ final class GlobalMotion {
         for (int i = 0; i < c.length; i++) {
             su[n] = u[i];
             sv[n] = v[i];
-            n += c[i] >= CONFIDENCE_FLOOR ? 1 : 0;
+            n += c[i] >= floor ? 1 : 0;
         }
         if (n < 8 || n < MIN_CONFIDENT_SHARE * c.length) {
             field.globalU = 0f;

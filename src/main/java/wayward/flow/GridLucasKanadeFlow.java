@@ -386,7 +386,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             out.setTensor(g, gridA[0][g], gridB[0][g], gridC[0][g]);
         }
         globalMeasured = globalMotion.measure(out);
-        settleFlat(out, globalMeasured);
+        settleFlat(out, globalMeasured, 1f);
     }
 
     /**
@@ -432,8 +432,10 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * nothing is settled.
      *
      * @param measured whether the field's global motion was measured (see {@link GlobalMotion#measure})
+     * @param level    the keep, residual and structure levels' factor: 1 for the grid, the frame's noise
+     *                 ({@link #noiseScale}) for {@link #computeDense}'s second settle
      */
-    private void settleFlat(FlowField out, boolean measured) {
+    private void settleFlat(FlowField out, boolean measured, float level) {
         final int gw = gridWidth[0];
         final int gh = gridHeight[0];
         final float[] a = gridA[0];
@@ -447,11 +449,14 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         int movingPoints = 0;
         final float[] conf = gridConfidence[0];
         final float[] res = gridResidual[0];
+        final float keep = FILL_KEEP * level;
+        final float keepResidual = FILL_RESIDUAL_KEEP * level;
+        final float structure = STRUCTURE * level;
         for (int k = 0; k < frame.length; k++) {
             // no structure: the fill did not keep its own motion, and its larger eigenvalue (trace − smaller) is low;
             // worked out without branches (which points are flat is noise to the branch predictor)
-            final boolean kept = (conf[k] >= FILL_KEEP) & (res[k] <= FILL_RESIDUAL_KEEP);
-            final boolean flat = !kept & (a[k] + c[k] - conf[k] < STRUCTURE);
+            final boolean kept = (conf[k] >= keep) & (res[k] <= keepResidual);
+            final boolean flat = !kept & (a[k] + c[k] - conf[k] < structure);
             final float du = u[k] - bu;
             final float dv = v[k] - bv;
             final int moves = !flat & (du * du + dv * dv >= moving2) ? 1 : 0;
@@ -1784,11 +1789,29 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         return kind == MOVING ? 8 : (kind == STILL ? 1 : 0);
     }
 
-    /** The grid flow of the pair, then {@link #densify}: each pixel takes the motion of its own side. */
+    /**
+     * The grid flow of the pair, settled again on a noisy frame, then {@link #densify}: each pixel takes the motion
+     * of its own side. The second settle: where the frame's noise ({@link #noiseScale}) is above the level the flat
+     * settle was chosen at, {@link #settleFlat} runs again with its levels and the global motion's confidence floor
+     * grown by it. In such noise, noise alone reads as structure and as confident motion, and a mover's motion
+     * floods plain ground framed by noise that carries it. On the object-motion benchmark with σ 6 (all cases,
+     * tune / held-out, caught / object EPE / ring EPE): 0.862 / 0.684 / 1.189 and 0.856 / 0.697 / 1.127 without,
+     * 0.850 / 0.704 / 0.576 and 0.848 / 0.718 / 0.552 with it; at the benchmark's σ 2.5 0.872 / 0.606 / 0.363 and
+     * 0.872 / 0.627 / 0.333 without, 0.870 / 0.609 / 0.322 and 0.871 / 0.630 / 0.299 with it (a mover's smooth
+     * parts that the noise level calls flat go with the ground). The analysis loop ({@link #push}) reads the grid as
+     * {@link #compute} leaves it: its detection defaults were chosen with those levels.
+     */
     @Override
     public FlowField computeDense(byte[] first, byte[] second) {
         FlowField grid = newField();
         compute(first, second, grid);
+        // in noise above the level the settle's levels were chosen at, noise reads as structure and as confident
+        // motion: the mover's motion then floods plain ground, framed by noise that carries it. The dense output is
+        // settled again with the levels grown with the noise (the analysis loop reads the grid as compute left it)
+        final float noise = noiseScale();
+        if (noise > 1f) {
+            settleFlat(grid, globalMotion.measure(grid, noise), noise);
+        }
         FlowField dense = new FlowField(width, height);
         densify(grid, dense);
         return dense;
