@@ -104,16 +104,19 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     /**
      * How many times the reference size ({@link #REFERENCE_SIZE}) the picture is, rounded, at least 1
      * ({@link #sceneScale}). {@link #settleFlat} looks this many times {@link #SETTLE_REACH} grid points far, so
-     * that it reaches as far into the scene at every resolution (the searches do so by searching on coarser levels:
-     * {@link #referenceLevel}).
+     * that it reaches as far into the scene at every resolution (the searches do so by searching on coarser levels
+     * too: {@link #referenceLevel}).
      */
     private final int searchScale;
     /**
      * The level of about the reference size: 0 at the reference size, one level up per doubling of the picture
-     * (rounded in the logarithm). The full-size search compares its windows there.
+     * (rounded in the logarithm). Above 0, the full-size search searches again there.
      */
     private final int referenceLevel;
-    /** Level of the coarse search: {@link #SEARCH_LEVEL} at the reference size, one level up per doubling. */
+    /**
+     * Level of the second coarse search on a larger picture: {@link #SEARCH_LEVEL} at the reference size (no second
+     * one), one level up per doubling.
+     */
     private final int coarseSearchLevel;
     private final GlobalMotion globalMotion;
     private final float[][] smoothU;
@@ -360,7 +363,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             } else {
                 solveRows(l, 0, gridHeight[l], bands[0]);
             }
-            if (l == 0 || (l == coarseSearchLevel && l + 1 < levelCount)) {
+            if (l == 0 || ((l == SEARCH_LEVEL || l == coarseSearchLevel) && l + 1 < levelCount)) {
                 searchLevel(l);
             }
             initSupport(l);
@@ -646,16 +649,16 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
 
     /**
      * Pyramid level (0 = full size) on which, besides the full-size level, badly explained textured points search
-     * for their motion, at the reference size ({@link #REFERENCE_SIZE}); a larger picture searches one level further
-     * up per doubling of its size.
+     * for their motion; a picture larger than the reference size ({@link #REFERENCE_SIZE}) also searches one level
+     * further up per doubling of its size.
      */
     static final int SEARCH_LEVEL = 1;
     /** Search radius on that level, its pixels (± 8 px at full size at the reference size). */
     static final int SEARCH_RADIUS = 4;
     /**
-     * Search radius of the full-size level, pixels of the level whose windows it compares (full size at the
-     * reference size, {@link #referenceLevel} on a larger picture): the same reach as {@link #SEARCH_RADIUS} on the
-     * half-size level. Chosen on the object-motion benchmark's tune half (every 7th case; caught / object EPE / ring EPE):
+     * Search radius of the full-size level, pixels of the level whose windows it compares (the full-size level, and
+     * on a larger picture {@link #referenceLevel} too): the same reach as {@link #SEARCH_RADIUS} on the half-size
+     * level. Chosen on the object-motion benchmark's tune half (every 7th case; caught / object EPE / ring EPE):
      * no full-size search 0.83 / 0.81 / 0.40; radius 6 0.86 / 0.67 / 0.42; 8 0.87 / 0.62 / 0.43; 10 0.86 / 0.70 /
      * 0.44; 12 0.85 / 0.78 / 0.44 (a wider search finds more chance matches in a photograph's texture).
      */
@@ -672,7 +675,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * the shift it finds is kept only where, solved at full size, it leaves at most this share of the window's
      * residual: as the search's own test, explaining the window at least twice as well. Without it one vector of
      * the real pair rubberwhale1/2 (584×388, opencv-doc) took a chance match 10 px long; on the object-motion
-     * benchmark at twice the size (tune half) 0.884 / 1.249 / 0.644 without it, 0.883 / 1.255 / 0.643 with it.
+     * benchmark at twice the size (tune half, with the full-size search on the coarser level only) 0.884 / 1.249 /
+     * 0.644 without it, 0.883 / 1.255 / 0.643 with it.
      */
     static final float FOUND_GAIN = 0.5f;
     /**
@@ -723,7 +727,14 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 final int g = j * gw + i;
                 // one branch, taken rarely (the texture test alone would be taken about every other point)
                 if ((gc[g] >= FILL_KEEP) & (res[g] > bar)) {
-                    search(centre(l, i, w), cy, bands[0], gridU[l], gridV[l], gc, g, l);
+                    final int cx = centre(l, i, w);
+                    search(cx, cy, bands[0], gridU[l], gridV[l], gc, g, l, l);
+                    // on a picture larger than the reference size, a point the full-size search left badly explained
+                    // searches again on the level of about the reference size: farther, with windows that see as
+                    // much of the scene as at the reference size
+                    if (l == 0 && referenceLevel > 0 && res[g] > bar) {
+                        search(cx, cy, bands[0], gridU[l], gridV[l], gc, g, l, referenceLevel);
+                    }
                 }
             }
         }
@@ -741,18 +752,17 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * window: a third of the reads of trying every shift, and on
      * the object-motion benchmark's tune half (every 7th case) the same figures as trying every shift (caught /
      * object EPE / ring EPE 0.87 / 0.62 / 0.43 both). On a picture k times the reference size
-     * ({@link #REFERENCE_SIZE}) both searches compare windows k times coarser: the full-size one on
-     * {@link #referenceLevel}, where a 5×5 window sees as much of the scene as at the reference size and the reach
-     * is k times as many full-size pixels, the point then solved at full size from the shift found (and kept only
-     * where that halves its residual, {@link #FOUND_GAIN}); the coarse one on {@link #coarseSearchLevel}. On the
-     * object-motion benchmark at twice the size (tune half, caught / object EPE / ring EPE): 0.83 / 1.71 / 0.54 with
-     * the reference levels and reaches, 0.883 / 1.255 / 0.643 so (the full-size search with k times the reach and
-     * lattice step on the full-size level instead: 0.883 / 1.258 / 0.652).
+     * ({@link #REFERENCE_SIZE}) both searches also run on levels k times coarser: a point the full-size search leaves
+     * badly explained searches again on {@link #referenceLevel} (level {@code sl}), where a 5×5 window sees as much
+     * of the scene as at the reference size and the reach is k times as many full-size pixels; the point is then
+     * solved at full size from the shift found, kept only where that halves its residual ({@link #FOUND_GAIN}). The
+     * coarse search runs on {@link #coarseSearchLevel} as well as on {@link #SEARCH_LEVEL}. On the object-motion
+     * benchmark at twice the size (tune half, all cases; caught / object EPE / ring EPE): 0.831 / 1.707 / 0.541 with
+     * the reference levels only, 0.887 / 1.248 / 0.507 so; searching only on the coarser levels gave 0.883 / 1.259
+     * / 0.501 there but lost small far movers (640×480 with the benchmark's 8–48 px movers, every 7th tune case:
+     * 0.869 / 0.645 / 0.386 against 0.903 / 0.554 / 0.397 searching on both).
      */
-    private void search(int cx, int cy, Band band, float[] gu, float[] gv, float[] gc, int g, int l) {
-        // the level whose windows are compared: the full-size search of a picture larger than the reference size
-        // compares them on the level of about the reference size, where a window sees as much of the scene
-        final int sl = l == 0 ? referenceLevel : l;
+    private void search(int cx, int cy, Band band, float[] gu, float[] gv, float[] gc, int g, int l, int sl) {
         final int f = 1 << (sl - l);
         final float[] i0 = earlier[sl];
         final float[] i1 = later[sl];
