@@ -402,7 +402,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * Grid points a flat point looks along each axis for the structure that frames it (48 px at the reference size;
      * k times as many on a picture k times that size, {@link #sceneScale}, so that the inside of a mover as large in
      * the scene is reached: on the object-motion benchmark at twice the size, tune half, caught / object EPE / ring
-     * EPE 0.842 / 1.517 / 0.562 with 12 points, 0.883 / 1.258 / 0.652 with 24).
+     * EPE 0.839 / 1.539 / 0.459 with 12 points, 0.887 / 1.248 / 0.507 with 24).
      */
     static final int SETTLE_REACH = 12;
     /** Motion apart from the background's, pixels, from which a framing structure counts as moving. */
@@ -1687,7 +1687,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * Pixels a flat pixel looks along each axis for the structure that frames it, as {@link #SETTLE_REACH} grid
      * points (24 lost the inside of 48-pixel movers: 0.800 caught; 96 changed nothing against 48). Fixed in pixels,
      * unlike {@link #SETTLE_REACH}: on the benchmark at twice the size (tune half), twice the reach here as well
-     * gave 0.885 / 1.250 / 0.796 against 0.883 / 1.258 / 0.652: the ring lost more than the movers gained.
+     * gave 0.888 / 1.240 / 0.591 against 0.887 / 1.248 / 0.507: the ring lost more than the movers gained.
      */
     static final int PIXEL_REACH = 48;
     /**
@@ -1803,12 +1803,13 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * The grid flow of the pair, settled again on a noisy frame, then {@link #densify}: each pixel takes the motion
      * of its own side. The second settle: where the frame's noise ({@link #noiseScale}) is above the level the flat
      * settle was chosen at, {@link #settleFlat} runs again with its levels and the global motion's confidence floor
-     * grown by it. In such noise, noise alone reads as structure and as confident motion, and a mover's motion
-     * floods plain ground framed by noise that carries it. On the object-motion benchmark with σ 6 (all cases,
-     * tune / held-out, caught / object EPE / ring EPE): 0.862 / 0.684 / 1.189 and 0.856 / 0.697 / 1.127 without,
-     * 0.850 / 0.704 / 0.576 and 0.848 / 0.718 / 0.552 with it; at the benchmark's σ 2.5 0.872 / 0.606 / 0.363 and
-     * 0.872 / 0.627 / 0.333 without, 0.870 / 0.609 / 0.322 and 0.871 / 0.630 / 0.299 with it (a mover's smooth
-     * parts that the noise level calls flat go with the ground). The analysis loop ({@link #push}) reads the grid as
+     * grown by it, and the pixel settle ({@link #settlePixels}) takes the global motion as measured at that floor. In
+     * such noise, noise alone reads as structure and as confident motion, and a mover's motion floods plain ground
+     * framed by noise that carries it. On the object-motion benchmark with σ 6 (every 7th tune case, caught /
+     * object EPE / ring EPE): 0.859 / 0.719 / 1.247 without, 0.860 / 0.719 / 1.208 with the grid's levels alone,
+     * 0.851 / 0.725 / 0.605 with the floor too, 0.848 / 0.732 / 0.404 with the pixel settle following it; all cases
+     * in DEVELOPERS.md ("Other resolutions and heavy noise"). A mover's smooth parts that the noise level calls flat
+     * go with the ground. The analysis loop ({@link #push}) reads the grid as
      * {@link #compute} leaves it: its detection defaults were chosen with those levels.
      */
     @Override
@@ -1817,10 +1818,12 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         compute(first, second, grid);
         // in noise above the level the settle's levels were chosen at, noise reads as structure and as confident
         // motion: the mover's motion then floods plain ground, framed by noise that carries it. The dense output is
-        // settled again with the levels grown with the noise (the analysis loop reads the grid as compute left it)
+        // settled again with the levels grown with the noise, and the pixel settle takes the global motion as
+        // measured at that level too (the analysis loop reads the grid as compute left it)
         final float noise = noiseScale();
         if (noise > 1f) {
-            settleFlat(grid, globalMotion.measure(grid, noise), noise);
+            globalMeasured = globalMotion.measure(grid, noise);
+            settleFlat(grid, globalMeasured, noise);
         }
         FlowField dense = new FlowField(width, height);
         densify(grid, dense);
