@@ -80,7 +80,10 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
     /** Photo patches tried for contrast; the one with the largest standard deviation wins unless one passes. */
     private static final int PATCH_TRIES = 24;
     private static final double PATCH_MIN_STD = 20;
-    /** Procedural textures: {@link Textures} (wavelengths 6 to 40 px) squeezed by this factor: 3 to 20 px. */
+    /**
+     * Procedural textures: {@link Textures} (wavelengths 6 to 40 px) squeezed by this factor: 3 to 20 px (M times
+     * that at the movers' scale M).
+     */
     private static final double PROCEDURAL_SQUEEZE = 2.0 / MOVER_SCALE;
 
     /** What the background is. */
@@ -164,6 +167,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
         }
         throw new IllegalArgumentException(key + ": " + value + " (expected a whole number from 1 to 4)");
     }
+
     /** This case at k times the resolution: the object's side and its motion k times as many pixels. */
     ObjectMotionCase scaled(int k) {
         return k == 1 ? this : new ObjectMotionCase(half, index, background, backgroundPhoto, sizePx * k, texture,
