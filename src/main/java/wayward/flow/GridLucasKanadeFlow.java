@@ -1603,6 +1603,14 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * For pictures, files and benchmarks, not the analysis loop (reads every pixel). Allocates nothing.
      */
     public void densify(FlowField grid, FlowField dense) {
+        densify(grid, dense, noiseScale(), globalMeasured);
+    }
+
+    /**
+     * {@link #densify(FlowField, FlowField)} with the frame's noise factor ({@link #noiseScale}) and whether the
+     * global motion counts as measured, both as the caller worked them out.
+     */
+    private void densify(FlowField grid, FlowField dense, float noise, boolean measured) {
         if (grid.imageWidth != width || grid.imageHeight != height || grid.stride != stride) {
             throw new IllegalArgumentException("grid: " + grid.imageWidth + "x" + grid.imageHeight + " every "
                     + grid.stride + " px (expected this estimator's " + width + "x" + height + " every " + stride + ")");
@@ -1669,7 +1677,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         }
         dense.globalU = grid.globalU;
         dense.globalV = grid.globalV;
-        settlePixels(dense);
+        settlePixels(dense, noise, measured);
     }
 
     /**
@@ -1705,7 +1713,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * px or more) or still. Fewer than {@link #PIXEL_SIDES} moving sides and (a still side, or no measured global
      * motion): the pixel takes the background's motion. Four scans over the picture; allocates nothing.
      */
-    private void settlePixels(FlowField dense) {
+    private void settlePixels(FlowField dense, float noise, boolean measured) {
         final int w = width;
         final int h = height;
         final float[] i0 = earlier[0];
@@ -1714,8 +1722,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float bu = dense.globalU;
         final float bv = dense.globalV;
         final float moving2 = SETTLE_MOVING * SETTLE_MOVING;
-        final float structure2 = PIXEL_STRUCTURE * PIXEL_STRUCTURE * noiseScale();
-        final boolean measured = globalMeasured;
+        final float structure2 = PIXEL_STRUCTURE * PIXEL_STRUCTURE * noise;
         int movingPixels = 0;
         for (int y = 0; y < h; y++) {
             final int row = y * w;
@@ -1821,12 +1828,13 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         // settled again with the levels grown with the noise, and the pixel settle takes the global motion as
         // measured at that level too (the analysis loop reads the grid as compute left it)
         final float noise = noiseScale();
+        boolean measured = globalMeasured;
         if (noise > 1f) {
-            globalMeasured = globalMotion.measure(grid, noise);
-            settleFlat(grid, globalMeasured, noise);
+            measured = globalMotion.measure(grid, noise);
+            settleFlat(grid, measured, noise);
         }
         FlowField dense = new FlowField(width, height);
-        densify(grid, dense);
+        densify(grid, dense, noise, measured);
         return dense;
     }
 
