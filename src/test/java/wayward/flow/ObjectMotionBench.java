@@ -46,7 +46,8 @@ import org.bytedeco.opencv.opencv_video.DISOpticalFlow;
  * {@code java -cp target/classes:target/test-classes:$(cat target/cp.txt) wayward.flow.ObjectMotionBench
  * [--fast | --every=N] [--csv=FILE]} ({@code -Dbench.noise=S} for another noise, {@code -Dbench.scale=K} for the
  * same scenes at K times the resolution, see {@link ObjectMotionCase#SCALE}, and {@code -Dbench.movers=M} for
- * movers at M times their sizes and motions, {@link ObjectMotionCase#MOVER_SCALE}), the classpath from {@code mvn -B -q dependency:build-classpath
+ * movers at M times their sizes and motions, {@link ObjectMotionCase#MOVER_SCALE}, and {@code -Dbench.shrink=K} for
+ * the scenes seen at 1/K the resolution, {@link ObjectMotionCase#SHRINK}), the classpath from {@code mvn -B -q dependency:build-classpath
  * -Dmdep.outputFile=target/cp.txt -Dmdep.includeScope=test}. {@code --fast} scores every {@value #FAST_EVERY}th
  * case of each half (about 5 s). Methods run on one thread.
  *
@@ -71,8 +72,8 @@ public final class ObjectMotionBench {
     /** The densification of sampled fields used unless another is passed: bilinear between samples. */
     static final UnaryOperator<FlowField> BILINEAR = FlowField::toDense;
 
-    private static final int W = ObjectMotionCase.WIDTH;
-    private static final int H = ObjectMotionCase.HEIGHT;
+    private static final int W = ObjectMotionCase.WIDTH / ObjectMotionCase.SHRINK;
+    private static final int H = ObjectMotionCase.HEIGHT / ObjectMotionCase.SHRINK;
     private static final double COS_CAUGHT = Math.cos(Math.toRadians(CAUGHT_ANGLE_DEG));
 
     private ObjectMotionBench() {
@@ -276,7 +277,7 @@ public final class ObjectMotionBench {
             per.add(new ArrayList<>(cases.size()));
         }
         for (ObjectMotionCase c : cases) {
-            ObjectMotionCase.Frames f = c.render();
+            ObjectMotionCase.Frames f = c.render().shrunk(ObjectMotionCase.SHRINK);
             for (int m = 0; m < methods.size(); m++) {
                 long t0 = System.nanoTime();
                 FlowField flow = methods.get(m).flow(f.first(), f.second());
@@ -499,8 +500,9 @@ public final class ObjectMotionBench {
         }
         double seconds = (System.nanoTime() - t0) / 1e9;
         System.out.print(report(results, every));
-        System.out.printf(Locale.ROOT, "%n%d cases at %d×%d (scale %d, movers' scale %d, noisy cases σ %s) in %.0f s.%n",
-                caseCount, W, H, ObjectMotionCase.SCALE, ObjectMotionCase.MOVER_SCALE, trim(NOISE_SIGMA), seconds);
+        System.out.printf(Locale.ROOT, "%n%d cases at %d×%d (scale %d, movers' scale %d, shrink %d, noisy cases σ %s before it) in %.0f s.%n",
+                caseCount, W, H, ObjectMotionCase.SCALE, ObjectMotionCase.MOVER_SCALE, ObjectMotionCase.SHRINK,
+                trim(NOISE_SIGMA), seconds);
         if (csv != null) {
             Files.writeString(csv, csv(results));
         }

@@ -57,6 +57,13 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
      * resolution with movers of the benchmark's sizes in pixels: movers twice as far away.
      */
     static final int MOVER_SCALE = scale("bench.movers", System.getProperty("bench.movers", Integer.toString(SCALE)));
+    /**
+     * The scored picture's shrink ({@code -Dbench.shrink=K}, default 1): each case is rendered as above and then
+     * averaged over K × K blocks, as a camera of 1/K the resolution sees it ({@link Frames#shrunk}).
+     * {@code -Dbench.shrink=2} scores the benchmark's scenes at 160×120: movers of 4 to 24 px moving 0.25 to 4 px,
+     * in noise of half the σ.
+     */
+    static final int SHRINK = shrink(System.getProperty("bench.shrink", "1"));
     /** Picture size at scale 1, pixels. */
     static final int BASE_WIDTH = 320;
     static final int BASE_HEIGHT = 240;
@@ -127,6 +134,45 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
      * @param dy     true vertical displacement, pixels (positive = down)
      */
     record Frames(byte[] first, byte[] second, boolean[] object, boolean[] ring, double dx, double dy) {
+        /**
+         * These frames averaged over k × k blocks (rounded to the nearest grey level): {@link #WIDTH} / k ×
+         * {@link #HEIGHT} / k. A shrunk pixel is the object's (or the ring's) where all its k × k pixels are; the
+         * motion is 1/k as many pixels. k = 1 gives these frames.
+         */
+        Frames shrunk(int k) {
+            if (k == 1) {
+                return this;
+            }
+            final int w = WIDTH / k;
+            final int h = HEIGHT / k;
+            byte[] a = new byte[w * h];
+            byte[] b = new byte[w * h];
+            boolean[] o = new boolean[w * h];
+            boolean[] r = new boolean[w * h];
+            for (int y = 0; y < h; y++) {
+                for (int x = 0; x < w; x++) {
+                    int sa = 0;
+                    int sb = 0;
+                    boolean allObject = true;
+                    boolean allRing = true;
+                    for (int dy = 0; dy < k; dy++) {
+                        for (int dx = 0; dx < k; dx++) {
+                            int i = (y * k + dy) * WIDTH + x * k + dx;
+                            sa += first[i] & 0xff;
+                            sb += second[i] & 0xff;
+                            allObject &= object[i];
+                            allRing &= ring[i];
+                        }
+                    }
+                    int j = y * w + x;
+                    a[j] = (byte) ((sa + k * k / 2) / (k * k));
+                    b[j] = (byte) ((sb + k * k / 2) / (k * k));
+                    o[j] = allObject;
+                    r[j] = allRing;
+                }
+            }
+            return new Frames(a, b, o, r, dx / k, dy / k);
+        }
     }
 
     /** The object's texture in its own coordinates (u, v) ∈ [0, s)², grey levels. */
@@ -153,6 +199,17 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
 
         int height() {
             return (int) (texture.height() / step);
+        }
+    }
+
+    private static int shrink(String value) {
+        switch (value.trim()) {
+            case "1":
+            case "2":
+            case "4":
+                return Integer.parseInt(value.trim());
+            default:
+                throw new IllegalArgumentException("bench.shrink: " + value + " (expected 1, 2 or 4)");
         }
     }
 
