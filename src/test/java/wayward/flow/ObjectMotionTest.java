@@ -56,6 +56,41 @@ class ObjectMotionTest {
         assertEquals(0, differ, "pixels of frame 2 that are not frame 1 moved by (3, -2)");
     }
 
+    // analytic truth: a plain case moved by (4, -2) px shrunk 2 × 2 is the same scene moved by (2, -1) px, every
+    // shrunk pixel the rounded mean of its block, the object the blocks wholly inside it
+    @Test
+    void aShrunkCaseIsTheSceneAtHalfTheResolution() {
+        ObjectMotionCase c = oneCase(BackgroundKind.PLAIN, null, 20, TextureKind.RIM, null, Math.hypot(4, 2),
+                Math.toDegrees(Math.atan2(-2, 4)), 0, 6);
+        ObjectMotionCase.Frames f = c.render();
+        ObjectMotionCase.Frames s = f.shrunk(2);
+        int w = W / 2;
+        int h = H / 2;
+        assertEquals(w * h, s.first().length);
+        assertEquals(2, s.dx(), 1e-9);
+        assertEquals(-1, s.dy(), 1e-9);
+        int objectPixels = 0;
+        int differ = 0;
+        for (int y = 0; y < h; y++) {
+            for (int x = 0; x < w; x++) {
+                int i = 2 * y * W + 2 * x;
+                int sum = (f.first()[i] & 0xff) + (f.first()[i + 1] & 0xff) + (f.first()[i + W] & 0xff)
+                        + (f.first()[i + W + 1] & 0xff);
+                assertEquals((sum + 2) / 4, s.first()[y * w + x] & 0xff);
+                assertEquals(f.object()[i] && f.object()[i + 1] && f.object()[i + W] && f.object()[i + W + 1],
+                        s.object()[y * w + x]);
+                objectPixels += s.object()[y * w + x] ? 1 : 0;
+                if (y >= 1 && x < w - 2 && s.first()[y * w + x] != s.second()[(y - 1) * w + x + 2]) {
+                    differ++;
+                }
+            }
+        }
+        // a 20 px square covers 10 × 10 whole blocks where it starts on an even pixel, 9 × 9 otherwise
+        assertTrue(objectPixels == 81 || objectPixels == 90 || objectPixels == 100, "object blocks: " + objectPixels);
+        assertEquals(0, differ, "shrunk pixels of frame 2 that are not frame 1's moved by (2, -1)");
+        assertEquals(f, f.shrunk(1));
+    }
+
     static Stream<TextureKind> textures() {
         return Stream.of(TextureKind.values());
     }
