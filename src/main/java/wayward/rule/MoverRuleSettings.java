@@ -11,7 +11,7 @@ package wayward.rule;
  *                       where it was lost) may not start another event for this long; a different mover may
  *                       start one at once
  * @param minTravelPx    travel against the heading a mover needs, with holdSeconds; swaying things go back and
- *                       forth and never carry far (a steady mover needs half of it after three holds,
+ *                       forth and never carry far (a steady mover needs 0.4 of it after two holds,
  *                       {@link WrongWayRule})
  * @param quickTravelPx  a mover that travelled this far against the heading starts the event whatever its age
  *                       (seen in two frames at least), so a fast mover crossing in under the hold time is not

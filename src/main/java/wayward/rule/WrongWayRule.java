@@ -62,15 +62,21 @@ public final class WrongWayRule {
     /**
      * A steady mover ({@link #steady}) qualifies with this share of {@link MoverRuleSettings#minTravelPx} once it
      * has been followed {@link #STEADY_HOLDS} × {@link MoverRuleSettings#holdSeconds}: a crawl (under a pixel
-     * per analysed frame) takes seconds to carry the full travel, and what else carries half of it in that time
-     * does not stay one body seen in nearly every frame that never goes back. Chosen on the suite's tune half
-     * (DEVELOPERS.md, "Movers", stop 34): there shake, flicker and blizzard tracks carry 10 px over 1.5 s too, but
-     * are seen in 40–77 % of their frames with sample counts varying by 0.70–3.0 of their mean; crawlers in
-     * every set by 0.14–0.48.
+     * per analysed frame) takes seconds to carry the full travel, and what else carries a share of it in that
+     * time does not stay one body seen in nearly every frame that never goes back. Chosen on the suite's tune half
+     * (DEVELOPERS.md, "Movers", stops 34 and 38): there shake, flicker and blizzard tracks carry 10 px over 1.5 s
+     * too, but are seen in 40–77 % of their frames with sample counts varying by 0.70–3.0 of their mean; crawlers
+     * in every set by 0.14–0.48. With {@link #STEADY_HOLDS}: 0.4 after 2 holds, one step inside the shares and
+     * times that raise no false alert on tune (0.3 after 1.5 holds, and 0.1 after 2, let a blizzard track start
+     * one).
      */
-    static final double STEADY_TRAVEL_SHARE = 0.5;
-    /** Times the hold a steady mover must have been followed: longer than a swaying thing's half swing. */
-    static final double STEADY_HOLDS = 3;
+    static final double STEADY_TRAVEL_SHARE = 0.4;
+    /**
+     * Times the hold a steady mover must have been followed: the time a track of noise, flakes or flicker takes to
+     * show that it is not one steady body. A swaying thing's half swing can be longer (the probe3 set: ±8 px
+     * swings of 2.4 to 3 s start false alerts after 2 holds and after 3 alike).
+     */
+    static final double STEADY_HOLDS = 2;
     /** Share of the frames since it began in which a steady mover was seen. */
     static final double STEADY_SEEN_SHARE = 0.75;
     /** Most a steady mover's moving-sample count varies between sightings: standard deviation over mean. */

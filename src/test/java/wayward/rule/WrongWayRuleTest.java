@@ -486,18 +486,18 @@ class WrongWayRuleTest {
     }
 
     @Test
-    void aSteadyCrawlerQualifiesWithHalfTheTravelAfterThreeHolds() {
-        // analytic: travel 0.4 px a frame; half of min travel 10 px is 5 px (frame 13), three holds 1.5 s (frame 15);
+    void aSteadyCrawlerQualifiesWithLessTravelAfterTwoHolds() {
+        // analytic: travel 0.4 px a frame; 0.4 of min travel 10 px is 4 px (frame 10), two holds 1.0 s (frame 10);
         // the full 10 px with the hold come at frame 25
-        assertEquals(1.5, crawlStart(1, n -> 20, n -> 0.4 * n), 1e-9);
+        assertEquals(1.0, crawlStart(1, n -> 20, n -> 0.4 * n), 1e-9);
         // samples alternating 5 and 35 vary by 15 / 20 = 0.75 of their mean: not one steady body
         assertEquals(2.5, crawlStart(1, n -> n % 2 == 0 ? 5 : 35, n -> 0.4 * n), 1e-9);
         // seen in every other frame only (half its frames): not steady; frame 25 is unseen, so frame 26 starts
         assertEquals(2.6, crawlStart(2, n -> 20, n -> 0.4 * n), 1e-9);
-        // went back 2 grid steps (8 px) on its way and came on again: swinging, not crawling; 10 px at frame 38
-        // (steady, half of it would start frame 32)
-        assertEquals(3.8, crawlStart(1, n -> 20, n -> n <= 10 ? 0.4 * n : n <= 20 ? 4 - 0.8 * (n - 10)
-                : -4 + 0.8 * (n - 20)), 1e-9);
+        // went back 2 grid steps (8 px) from frame 8 on and came on again: swinging, not crawling; 10 px at frame
+        // 37 (steady, 4 px would start frame 29)
+        assertEquals(3.7, crawlStart(1, n -> 20, n -> n <= 8 ? 0.4 * n : n <= 18 ? 3.2 - 0.8 * (n - 8)
+                : -4.8 + 0.8 * (n - 18)), 1e-9);
     }
 
     @Test

@@ -91,9 +91,9 @@ class DetectionSuiteIT {
      * and at least 0.98 of them, each started by the passage's own mover (issue 16's recall target, met since small hopping movers are followed by their
      * footprints: 18/18); no more scenes without a wrong-way passage raise a false alert than with the DIS-MEDIUM
      * reference; every tampering raises its own kind within 5 s. Issue 16's other targets (no false alert in any
-     * scene without a passage, onset ≤ hold + 0.5 s) are NOT met yet (measured 2026-12-04: s47 glare raises two
-     * false alerts, s37's crawl starts 2.4 s late); the message lists every scene that misses them, and
-     * DEVELOPERS.md ("Movers") records the figures.
+     * scene without a passage, onset ≤ hold + 0.5 s) are NOT met yet (measured 2026-12-05: s47 glare raises two
+     * false alerts, s37's crawl starts 2.0 s late since stop 38, 2.4 before); the message lists every scene that
+     * misses them, and DEVELOPERS.md ("Movers") records the figures.
      */
     @Test
     void heldOutHalfCatchesMoreThanBothReferencesWithNoMoreFalseAlertScenes() {
