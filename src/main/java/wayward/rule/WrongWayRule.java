@@ -74,7 +74,7 @@ public final class WrongWayRule {
     /**
      * Times the hold a steady mover must have been followed: the time a track of noise, flakes or flicker takes to
      * show that it is not one steady body. A swaying thing's half swing can be longer (the probe3 set: ±8 px
-     * swings of 2.4 to 3 s start false alerts after 2 holds and after 3 alike).
+     * swings of 2.4 to 4 s start false alerts after 2 holds and after 3 alike).
      */
     static final double STEADY_HOLDS = 2;
     /** Share of the frames since it began in which a steady mover was seen. */
