@@ -63,7 +63,7 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
      * {@code -Dbench.shrink=2} scores the benchmark's scenes at 160×120: movers of 4 to 24 px moving 0.25 to 4 px,
      * in noise of half the σ.
      */
-    static final int SHRINK = shrink(System.getProperty("bench.shrink", "1"));
+    static final int SHRINK = scale("bench.shrink", System.getProperty("bench.shrink", "1"));
     /** Picture size at scale 1, pixels. */
     static final int BASE_WIDTH = 320;
     static final int BASE_HEIGHT = 240;
@@ -199,17 +199,6 @@ record ObjectMotionCase(ObjectMotionBench.Half half, int index, BackgroundKind b
 
         int height() {
             return (int) (texture.height() / step);
-        }
-    }
-
-    private static int shrink(String value) {
-        switch (value.trim()) {
-            case "1":
-            case "2":
-            case "4":
-                return Integer.parseInt(value.trim());
-            default:
-                throw new IllegalArgumentException("bench.shrink: " + value + " (expected 1, 2 or 4)");
         }
     }
 
