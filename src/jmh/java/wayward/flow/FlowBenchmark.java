@@ -42,6 +42,13 @@ public class FlowBenchmark {
     @Param({"2"})
     public int radius;
 
+    /**
+     * The grid flow's fill: "best" as the service picks it (the vector kernel where java runs with
+     * {@code --add-modules jdk.incubator.vector}), "points" the point-by-point code everywhere.
+     */
+    @Param({"best"})
+    public String fill;
+
     /** Grid spacing on the coarser levels; 0 = the default settings' own. */
     @Param({"0"})
     public int coarse;
@@ -60,8 +67,10 @@ public class FlowBenchmark {
         byte[][] ab = BenchFrames.pair(w, h);
         a = ab[0];
         b = ab[1];
-        flow = FlowEstimator.create(w, h, FlowSettings.defaults().withStride(stride,
-                coarse == 0 ? FlowSettings.defaults().coarseStride() : coarse).withIterations(iterations, finest));
+        FlowSettings settings = FlowSettings.defaults().withStride(stride,
+                coarse == 0 ? FlowSettings.defaults().coarseStride() : coarse).withIterations(iterations, finest);
+        flow = stride >= 2 && "points".equals(fill) ? new GridLucasKanadeFlow(w, h, settings, FillKernel.POINTS)
+                : FlowEstimator.create(w, h, settings);
         field = flow.newField();
         flow.push(a, field);
     }

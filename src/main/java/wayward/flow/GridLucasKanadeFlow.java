@@ -123,10 +123,19 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[][] smoothV;
     /**
      * The fill's brightness weight of each grid point of the level being filled for each of its
-     * {@link #NEIGHBOURS} neighbours (in {@link #NEIGHBOUR_DI} order). It depends only on the windows' means,
-     * which the fill does not change, so it is worked out once per level instead of once per pass and per side.
+     * {@link #NEIGHBOURS} neighbours (in {@link #NEIGHBOUR_DI} order), neighbour n of point k at
+     * {@code n × fillStride + k}. It depends only on the windows' means, which the fill does not change, so it is
+     * worked out once per level instead of once per pass and per side.
      */
     private final float[] fillWeight;
+    /** Points of the largest level's grid: the length of each neighbour's run in {@link #fillWeight}. */
+    private final int fillStride;
+    /** Per grid point of the level being filled: 1 where it keeps its own motion ({@link #keeps}), else 0. */
+    private final float[] fillKept;
+    /** What the fill pass under way reads and writes, for {@link #fillKernel}. */
+    private final FillPass fillPass = new FillPass();
+    /** How the fill does its inner points: vector instructions where the JVM has them. */
+    private final FillKernel fillKernel;
     /**
      * Per level: where each window pixel lies relative to the window's centre, in that level's row-major
      * index, in row order. Where a window lies inside the picture its pixels are read in one flat loop over this
@@ -160,7 +169,13 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     }
 
     public GridLucasKanadeFlow(int width, int height, FlowSettings settings) {
+        this(width, height, settings, FillKernel.best());
+    }
+
+    /** With the fill's inner points done by {@code kernel} (tests compare the variants). */
+    GridLucasKanadeFlow(int width, int height, FlowSettings settings, FillKernel kernel) {
         super(width, height, settings.stride());
+        this.fillKernel = kernel;
         this.levelCount = settings.levelsFor(width, height);
         this.iterations = settings.iterations();
         this.finestIterations = settings.finestIterations();
@@ -252,7 +267,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         for (float[] g : gridU) {
             largestGrid = Math.max(largestGrid, g.length);
         }
+        fillStride = largestGrid;
         fillWeight = new float[NEIGHBOURS * largestGrid];
+        fillKept = new float[largestGrid];
         windowOffset = new int[levelCount][windowPixels];
         for (int l = 0; l < levelCount; l++) {
             int k = 0;
@@ -369,6 +386,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
             initSupport(l);
             fillWeights(l);
             for (int pass = 0; pass < FILL_PASSES; pass++) {
+                preparePass(l);
                 if (shared) {
                     phase = FILL;
                     pool.runAll();
@@ -1380,6 +1398,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     static final float UNKNOWN_RESIDUAL = 1e6f;
     /** Motion difference, pixels, at which a textured point's neighbour weight halves. */
     static final float FILL_ALIKE = 0.25f;
+    /** 1 / {@link #FILL_ALIKE}², the factor of a squared motion difference. */
+    static final float FILL_INV_ALIKE = 1f / (FILL_ALIKE * FILL_ALIKE);
     /** Share of a filled point's support that it hands on in the next pass. */
     static final float FILL_DECAY = 0.6f;
     /** Tensor weight pulling a point towards its own current motion: keeps a point with no support still. */
@@ -1401,26 +1421,35 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float[] v = gridV[l];
         final float[] nu = smoothU[l];
         final float[] nv = smoothV[l];
-        final float[] c = gridConfidence[l];
         final float[] ta = supportA[l];
         final float[] tb = supportB[l];
         final float[] tc = supportC[l];
         final float[] na = nextA[l];
         final float[] nb = nextB[l];
         final float[] nc = nextC[l];
+        final float[] keptAt = fillKept;
         final float decay = FILL_DECAY;
-        final float invAlike = 1f / (FILL_ALIKE * FILL_ALIKE);
         // on the coarse levels a small mover spans few points and its motion differs from the ground's by little
         // there: textured points keep their own motion; only the full-size level averages alike neighbours
         final boolean denoise = l == 0;
-        final float[] res = gridResidual[l];
         final float self = FILL_SELF;
         final float[] near = fillWeight;
+        final int stride = fillStride;
+        // the points off the grid's top and bottom rows as one flat run for the kernel; the run's points in the
+        // first and last columns have neighbours that wrap to the next row, so they are filled again here, and so
+        // is whatever the kernel leaves
+        final int from = Math.max(j0, 1) * gw + 1;
+        final int to = Math.min(j1, gh - 1) * gw - 1;
+        final int done = from < to ? fillKernel.inside(fillPass, from, to) : from;
         for (int j = j0; j < j1; j++) {
             final boolean rimRow = j == 0 || j + 1 == gh;
             for (int i = 0; i < gw; i++) {
                 final int k = j * gw + i;
-                final boolean kept = keeps(c[k], res[k]);
+                final boolean rim = rimRow || i == 0 || i + 1 == gw;
+                if (!rim && k >= from && k < done) {
+                    continue;
+                }
+                final boolean kept = keptAt[k] != 0f;
                 if (kept) {
                     na[k] = ta[k];
                     nb[k] = tb[k];
@@ -1441,7 +1470,6 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 float rv = b * u[k] + cc * v[k];
                 // one flat loop over the neighbours (C2 compiles it far better than two nested loops of two or
                 // three steps), in the same row order, so the sums are the same
-                final boolean rim = rimRow || i == 0 || i + 1 == gw;
                 for (int n = 0; n < NEIGHBOURS; n++) {
                     final int ii = i + NEIGHBOUR_DI[n];
                     final int jj = j + NEIGHBOUR_DJ[n];
@@ -1449,13 +1477,13 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                         continue;
                     }
                     final int q = jj * gw + ii;
-                    float wq = near[k * NEIGHBOURS + n];
+                    float wq = near[n * stride + k];
                     if (kept) {
                         // a textured point averages only with neighbours that move alike: sensor noise is
                         // smoothed out, a motion boundary is not crossed
                         final float du = u[q] - uk;
                         final float dv = v[q] - vk;
-                        final float apart = (du * du + dv * dv) * invAlike;
+                        final float apart = (du * du + dv * dv) * FILL_INV_ALIKE;
                         wq = apart < 4f ? wq / (1f + apart) : 0f;
                     }
                     final float qa = wq * ta[q];
@@ -1485,11 +1513,31 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         }
     }
 
+    /** Sets {@link #fillPass} to level l's current arrays before a pass. */
+    private void preparePass(int l) {
+        final FillPass p = fillPass;
+        p.gridWidth = gridWidth[l];
+        p.full = l == 0;
+        p.u = gridU[l];
+        p.v = gridV[l];
+        p.nextU = smoothU[l];
+        p.nextV = smoothV[l];
+        p.a = supportA[l];
+        p.b = supportB[l];
+        p.c = supportC[l];
+        p.nextA = nextA[l];
+        p.nextB = nextB[l];
+        p.nextC = nextC[l];
+        p.kept = fillKept;
+        p.weight = fillWeight;
+        p.weightStride = fillStride;
+    }
+
     /** Neighbours of a grid point in the fill. */
-    private static final int NEIGHBOURS = 8;
+    static final int NEIGHBOURS = 8;
     /** Column and row offsets of the neighbours, in row order (the order of the fill's sums). */
-    private static final int[] NEIGHBOUR_DI = {-1, 0, 1, -1, 1, -1, 0, 1};
-    private static final int[] NEIGHBOUR_DJ = {-1, -1, -1, 0, 0, 1, 1, 1};
+    static final int[] NEIGHBOUR_DI = {-1, 0, 1, -1, 1, -1, 0, 1};
+    static final int[] NEIGHBOUR_DJ = {-1, -1, -1, 0, 0, 1, 1, 1};
 
     /**
      * The fill's brightness weight between each grid point of level l and each neighbour, 1 / (1 + (Δmean /
@@ -1518,8 +1566,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     final int q = jj * gw + ii;
                     final float dm = mean[q] - m;
                     final float wq = 1f / (1f + dm * dm * inv2);
-                    near[k * NEIGHBOURS + n] = wq;
-                    near[q * NEIGHBOURS + NEIGHBOURS - 1 - n] = wq;
+                    near[n * fillStride + k] = wq;
+                    near[(NEIGHBOURS - 1 - n) * fillStride + q] = wq;
                 }
             }
         }
@@ -1527,7 +1575,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
 
     /**
      * Starting support of level l's points before the fill: the data's structure tensor, weakened where the
-     * window's own motion leaves much unexplained (a window across a motion boundary fits neither side).
+     * window's own motion leaves much unexplained (a window across a motion boundary fits neither side); and which
+     * points keep their own motion ({@link #fillKept}).
      */
     private void initSupport(int l) {
         final float[] ta = gridA[l];
@@ -1537,8 +1586,10 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float[] sa = supportA[l];
         final float[] sb = supportB[l];
         final float[] sc = supportC[l];
+        final float[] conf = gridConfidence[l];
         final float invRes = 1f / FILL_RESIDUAL;
         for (int k = 0; k < ta.length; k++) {
+            fillKept[k] = keeps(conf[k], res[k]) ? 1f : 0f;
             final float wk = 1f / (1f + res[k] * invRes);
             sa[k] = wk * ta[k];
             sb[k] = wk * tb[k];

@@ -21,6 +21,7 @@ import wayward.delivery.Outbox;
 import wayward.delivery.PrintSink;
 import wayward.delivery.WebhookConfig;
 import wayward.delivery.WebhookSender;
+import wayward.flow.FlowEstimator;
 import wayward.secret.Urls;
 import wayward.analysis.CameraPipeline;
 import wayward.analysis.CameraStatus;
@@ -126,6 +127,7 @@ public final class Service implements StatusSource {
         List<wayward.event.Event> leftOpen = List.of();
         if (mode != Mode.REPLAY) {
             LOG.warn(CAUTION);
+            LOG.info(FlowEstimator.instructions());
             if (config.shard() != null) {
                 List<String> ids = new ArrayList<>();
                 cameras.forEach(c -> ids.add(c.id()));

@@ -56,6 +56,8 @@ class DeploymentFilesTest {
     private static final String CONFIG_OPTION = "--config";
     private static final String CACHE_DIR_OPTION = "-Dorg.bytedeco.javacpp.cachedir=";
     private static final String HEAP_OPTION = "-Xmx";
+    private static final String VECTOR_OPTION = "--add-modules";
+    private static final String VECTOR_MODULE = "jdk.incubator.vector";
     private static final String SCRAPE_START = "# --- scrape job ---";
     private static final String SCRAPE_END = "# --- end of scrape job ---";
     /** The JDK's java.io.tmpdir on Linux when not set (from memory; Netty unpacks its epoll library there). */
@@ -313,6 +315,21 @@ class DeploymentFilesTest {
         assertTrue(request > heapBytes, "memory request " + request + " does not exceed the heap -Xmx" + heap);
         assertTrue(limit >= request, "memory limit " + limit + " is below the request " + request);
         assertFalse(container.at("/resources/requests/cpu").isMissingNode(), "cpu request missing");
+    }
+
+    @Test
+    void everyWayOfStartingTheServiceGivesTheFlowItsVectorModule() throws IOException {
+        // the flow's fill runs on vector instructions only where java has the module (FlowEstimator.instructions);
+        // java(1): --add-modules takes the module names as the next argument
+        for (Path unit : List.of(UNIT, TEMPLATE_UNIT)) {
+            String exec = unitValue(Files.readString(unit, StandardCharsets.UTF_8), "ExecStart");
+            assertTrue(exec.contains(" " + VECTOR_OPTION + " " + VECTOR_MODULE + " "), unit.getFileName()
+                    + ": ExecStart lacks " + VECTOR_OPTION + " " + VECTOR_MODULE + ": " + exec);
+        }
+        assertEquals(VECTOR_MODULE, commandOption(VECTOR_OPTION), "container command");
+        String launcher = Files.readString(PROJECT.resolve("src/dist/wayward"), StandardCharsets.UTF_8);
+        assertTrue(launcher.contains("run|") && launcher.contains(VECTOR_OPTION + " " + VECTOR_MODULE),
+                "bin/wayward does not give run the vector module");
     }
 
     @Test
