@@ -43,11 +43,11 @@ public class FlowBenchmark {
     public int radius;
 
     /**
-     * The grid flow's fill: "best" as the service picks it (the vector kernel where java runs with
-     * {@code --add-modules jdk.incubator.vector}), "points" the point-by-point code everywhere.
+     * The grid flow's kernel ({@link FlowKernel}): "best" as the service picks it (the vector kernel where java runs
+     * with {@code --add-modules jdk.incubator.vector}), "scalar" plain Java everywhere.
      */
     @Param({"best"})
-    public String fill;
+    public String kernel;
 
     /** Grid spacing on the coarser levels; 0 = the default settings' own. */
     @Param({"0"})
@@ -69,7 +69,7 @@ public class FlowBenchmark {
         b = ab[1];
         FlowSettings settings = FlowSettings.defaults().withStride(stride,
                 coarse == 0 ? FlowSettings.defaults().coarseStride() : coarse).withIterations(iterations, finest);
-        flow = stride >= 2 && "points".equals(fill) ? new GridLucasKanadeFlow(w, h, settings, FillKernel.POINTS)
+        flow = stride >= 2 && "scalar".equals(kernel) ? new GridLucasKanadeFlow(w, h, settings, FlowKernel.SCALAR)
                 : FlowEstimator.create(w, h, settings);
         field = flow.newField();
         flow.push(a, field);

@@ -56,7 +56,7 @@ public interface FlowEstimator extends AutoCloseable {
      * Both give the same flow to the bit.
      */
     static String instructions() {
-        int lanes = FillKernel.vectorLanes();
+        int lanes = FlowKernel.vectorLanes();
         return lanes > 0
                 ? "flow: the fill runs on vector instructions (" + lanes + " float lanes)"
                 : "flow: scalar instructions only; java --add-modules jdk.incubator.vector runs the flow's fill on"

@@ -132,10 +132,10 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final int fillStride;
     /** Per grid point of the level being filled: 1 where it keeps its own motion ({@link #keeps}), else 0. */
     private final float[] fillKept;
-    /** What the fill pass under way reads and writes, for {@link #fillKernel}. */
+    /** What the fill pass under way reads and writes, for {@link #kernel}. */
     private final FillPass fillPass = new FillPass();
-    /** How the fill does its inner points: vector instructions where the JVM has them. */
-    private final FillKernel fillKernel;
+    /** How the fill's inner points and the full-size windows' sums are done: vector instructions where the JVM has them. */
+    private final FlowKernel kernel;
     /**
      * Per level: where each window pixel lies relative to the window's centre, in that level's row-major
      * index, in row order. Where a window lies inside the picture its pixels are read in one flat loop over this
@@ -160,6 +160,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final int[] startAt = new int[START_CANDIDATES];
         final float[] startWeights = new float[4 * START_CANDIDATES];
 
+        /** {@link FlowKernel#windowSums}'s sums and scratch. */
+        final float[] sums = new float[FlowKernel.SUMS_LENGTH];
+
         Band(int n) {
             t = new float[n];
             gx = new float[n];
@@ -169,13 +172,13 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     }
 
     public GridLucasKanadeFlow(int width, int height, FlowSettings settings) {
-        this(width, height, settings, FillKernel.best());
+        this(width, height, settings, FlowKernel.best());
     }
 
-    /** With the fill's inner points done by {@code kernel} (tests compare the variants). */
-    GridLucasKanadeFlow(int width, int height, FlowSettings settings, FillKernel kernel) {
+    /** With the innermost loops done by {@code kernel} (tests compare the variants). */
+    GridLucasKanadeFlow(int width, int height, FlowSettings settings, FlowKernel kernel) {
         super(width, height, settings.stride());
-        this.fillKernel = kernel;
+        this.kernel = kernel;
         this.levelCount = settings.levelsFor(width, height);
         this.iterations = settings.iterations();
         this.finestIterations = settings.finestIterations();
@@ -1120,11 +1123,27 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 final boolean keep = !finest || finestIterations > 1;
                 final int[] offsets = windowOffset[l];
                 final int centre = cy * w + cx;
-                if (!weighed) {
-                    // the plain solve (the full-size level's single step: most points of a frame): no weights, and
-                    // the gradients' factor 1/2 taken out of the sums. Halving is exact in floating point, so every
-                    // sum below is exactly twice (or four times) the sum of halved terms, and scaling it afterwards
-                    // gives the same bits as the general loop.
+                if (!weighed && !keep && 2 * r + 1 <= FlowKernel.MAX_SIDE) {
+                    // the plain single step (the full-size level's default: most points of a frame), in the kernel:
+                    // no weights, the gradients' factor 1/2 taken out of the sums, as below
+                    final float[] sums = band.sums;
+                    kernel.windowSums(i0, i1, w, centre - r * w - r, shift, 2 * r + 1, w00, w01, w10, w11, sums);
+                    st = sums[0];
+                    sx = 0.5f * sums[1];
+                    sy = 0.5f * sums[2];
+                    sxx = 0.25f * sums[3];
+                    sxy = 0.25f * sums[4];
+                    syy = 0.25f * sums[5];
+                    sd = sums[6];
+                    sxd = 0.5f * sums[7];
+                    sdd = sums[8];
+                    syd = 0.5f * sums[9];
+                    sw = n;
+                    sm = st;
+                } else if (!weighed) {
+                    // the plain solve with further steps: no weights, and the gradients' factor 1/2 taken out of the
+                    // sums. Halving is exact in floating point, so every sum below is exactly twice (or four times)
+                    // the sum of halved terms, and scaling it afterwards gives the same bits as the general loop.
                     for (k = 0; k < n; k++) {
                         final int p = centre + offsets[k];
                         final float ix = i0[p + 1] - i0[p - 1];
@@ -1440,7 +1459,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         // is whatever the kernel leaves
         final int from = Math.max(j0, 1) * gw + 1;
         final int to = Math.min(j1, gh - 1) * gw - 1;
-        final int done = from < to ? fillKernel.inside(fillPass, from, to) : from;
+        final int done = from < to ? kernel.fillInside(fillPass, from, to) : from;
         for (int j = j0; j < j1; j++) {
             final boolean rimRow = j == 0 || j + 1 == gh;
             for (int i = 0; i < gw; i++) {

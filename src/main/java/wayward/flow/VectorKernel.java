@@ -6,20 +6,27 @@ import jdk.incubator.vector.VectorOperators;
 import jdk.incubator.vector.VectorSpecies;
 
 /**
- * The fill's inner points, as many at a time as the machine's widest float vector holds (16 with AVX-512, 8 with
- * AVX2): the same operations as {@code GridLucasKanadeFlow.fillPoint} in the same order, lane by lane, its
- * branches as blends, so every lane's result has the same bits. Loaded only where the JVM has the
- * {@code jdk.incubator.vector} module ({@link FillKernel#best()}).
+ * {@link FlowKernel} on vector instructions. The fill takes as many points at a time as the machine's widest float
+ * vector holds (16 with AVX-512, 8 with AVX2): the same operations as {@code GridLucasKanadeFlow.fillRows} does
+ * point by point, in the same order, lane by lane, its branches as blends. A window's sums take one window row at a
+ * time, a column a lane, in the order {@link FlowKernel#windowSums} gives. So every result has the same bits as
+ * {@link FlowKernel#SCALAR}'s. Loaded only where the JVM has the {@code jdk.incubator.vector} module
+ * ({@link FlowKernel#best()}).
  */
-final class VectorFill implements FillKernel {
+final class VectorKernel implements FlowKernel {
     private static final VectorSpecies<Float> SPECIES = FloatVector.SPECIES_PREFERRED;
+    /**
+     * A window row's pixels, one a lane: the same shape as the fill's (C2 compiles vectors of two shapes in one
+     * program to slow code that allocates every vector: measured, JDK 17).
+     */
+    private static final VectorSpecies<Float> ROW = SPECIES;
 
     static int lanes() {
         return SPECIES.length();
     }
 
     @Override
-    public int inside(FillPass pass, int from, int to) {
+    public int fillInside(FillPass pass, int from, int to) {
         final int gw = pass.gridWidth;
         final float[] u = pass.u;
         final float[] v = pass.v;
@@ -81,5 +88,69 @@ final class VectorFill implements FillKernel {
             c.mul(GridLucasKanadeFlow.FILL_DECAY).blend(ck, keeps).intoArray(pass.nextC, k);
         }
         return k;
+    }
+
+    @Override
+    public void windowSums(float[] i0, float[] i1, int w, int corner, int shift, int side, float w00, float w01,
+            float w10, float w11, float[] sums) {
+        // whole rows of lanes are read: the lanes right of the window add up on their own and are never read, but
+        // they must lie in the arrays (a window at the end of the picture is summed by the scalar code)
+        final int last = corner + side * w + 1 + ROW.length();
+        if (side > ROW.length() || last > i0.length || last + shift > i1.length) {
+            FlowKernel.scalarWindowSums(i0, i1, w, corner, shift, side, w00, w01, w10, w11, sums);
+            return;
+        }
+        FloatVector st = FloatVector.zero(ROW);
+        FloatVector sx = st;
+        FloatVector sy = st;
+        FloatVector sxx = st;
+        FloatVector sxy = st;
+        FloatVector syy = st;
+        FloatVector sd = st;
+        FloatVector sxd = st;
+        FloatVector sdd = st;
+        FloatVector syd = st;
+        for (int r = 0, p = corner; r < side; r++, p += w) {
+            final FloatVector tv = FloatVector.fromArray(ROW, i0, p);
+            final FloatVector ix = FloatVector.fromArray(ROW, i0, p + 1)
+                    .sub(FloatVector.fromArray(ROW, i0, p - 1));
+            final FloatVector iy = FloatVector.fromArray(ROW, i0, p + w)
+                    .sub(FloatVector.fromArray(ROW, i0, p - w));
+            final int q = p + shift;
+            final FloatVector d = FloatVector.fromArray(ROW, i1, q).mul(w00)
+                    .add(FloatVector.fromArray(ROW, i1, q + 1).mul(w01))
+                    .add(FloatVector.fromArray(ROW, i1, q + w).mul(w10))
+                    .add(FloatVector.fromArray(ROW, i1, q + w + 1).mul(w11))
+                    .sub(tv);
+            st = st.add(tv);
+            sx = sx.add(ix);
+            sy = sy.add(iy);
+            sxx = sxx.add(ix.mul(ix));
+            sxy = sxy.add(ix.mul(iy));
+            syy = syy.add(iy.mul(iy));
+            sd = sd.add(d);
+            sxd = sxd.add(ix.mul(d));
+            sdd = sdd.add(d.mul(d));
+            syd = syd.add(iy.mul(d));
+        }
+        // the columns left to right, as the scalar variant adds them (a lane reduction's order is unspecified)
+        final int n = ROW.length();
+        st.intoArray(sums, 10);
+        sx.intoArray(sums, 10 + n);
+        sy.intoArray(sums, 10 + 2 * n);
+        sxx.intoArray(sums, 10 + 3 * n);
+        sxy.intoArray(sums, 10 + 4 * n);
+        syy.intoArray(sums, 10 + 5 * n);
+        sd.intoArray(sums, 10 + 6 * n);
+        sxd.intoArray(sums, 10 + 7 * n);
+        sdd.intoArray(sums, 10 + 8 * n);
+        syd.intoArray(sums, 10 + 9 * n);
+        for (int i = 0; i < 10; i++) {
+            float total = 0f;
+            for (int c = 0, at = 10 + i * n; c < side; c++) {
+                total += sums[at + c];
+            }
+            sums[i] = total;
+        }
     }
 }

@@ -1,0 +1,108 @@
+package wayward.flow;
+
+/**
+ * The two innermost loops of {@link GridLucasKanadeFlow} that run on vector instructions where the JVM has them: the
+ * fill's run of inner grid points, and the sums of a full-size window's plain solve step. Every variant gives the
+ * same bits; they differ only in speed.
+ */
+interface FlowKernel {
+    /**
+     * Floats a {@link #windowSums} call needs in its {@code sums} array: the 10 sums, then the variant's scratch
+     * (ten vectors of up to 64 float lanes, the widest vector shape there is: 2048 bits).
+     */
+    int SUMS_LENGTH = 10 + 10 * 64;
+    /** Widest window side {@link #windowSums} takes. */
+    int MAX_SIDE = 8;
+
+    /**
+     * Fills inner points from {@code from} on, up to {@code to} (exclusive), of the pass's level, as
+     * {@code GridLucasKanadeFlow.fillRows} does point by point, and returns the first point it left to the caller
+     * (who fills it and the rest one by one). A point in the run's first or last grid column is not inner: its
+     * result is filled again by the caller.
+     */
+    int fillInside(FillPass pass, int from, int to);
+
+    /**
+     * The sums of a plain solve step over the {@code side} × {@code side} window whose top-left pixel is
+     * {@code corner} in {@code i0}, against {@code i1} sampled bilinearly ({@code w00 … w11}) at
+     * {@code shift} pixels from each window pixel, into {@code sums[0..9]}: Σt, Σix, Σiy, Σix², Σix·iy, Σiy², Σd,
+     * Σix·d, Σd², Σiy·d, with ix and iy the central differences (not halved) and d the bilinear value less t.
+     * Summed column by column (each column down its rows, then the columns left to right), the order in which
+     * vector lanes add them. The window and its one-pixel frame must lie inside both pictures.
+     */
+    void windowSums(float[] i0, float[] i1, int w, int corner, int shift, int side, float w00, float w01, float w10,
+            float w11, float[] sums);
+
+    /** Plain Java: every point and pixel one by one. */
+    FlowKernel SCALAR = new FlowKernel() {
+        @Override
+        public int fillInside(FillPass pass, int from, int to) {
+            return from;
+        }
+
+        @Override
+        public void windowSums(float[] i0, float[] i1, int w, int corner, int shift, int side, float w00, float w01,
+                float w10, float w11, float[] sums) {
+            scalarWindowSums(i0, i1, w, corner, shift, side, w00, w01, w10, w11, sums);
+        }
+    };
+
+    /** {@link #windowSums} one pixel at a time, in the order the interface gives. */
+    static void scalarWindowSums(float[] i0, float[] i1, int w, int corner, int shift, int side, float w00,
+            float w01, float w10, float w11, float[] sums) {
+        java.util.Arrays.fill(sums, 0, 10, 0f);
+        for (int c = 0; c < side; c++) {
+            float st = 0f;
+            float sx = 0f;
+            float sy = 0f;
+            float sxx = 0f;
+            float sxy = 0f;
+            float syy = 0f;
+            float sd = 0f;
+            float sxd = 0f;
+            float sdd = 0f;
+            float syd = 0f;
+            for (int r = 0, p = corner + c; r < side; r++, p += w) {
+                final float ix = i0[p + 1] - i0[p - 1];
+                final float iy = i0[p + w] - i0[p - w];
+                final float tv = i0[p];
+                final int q = p + shift;
+                final float d = w00 * i1[q] + w01 * i1[q + 1] + w10 * i1[q + w] + w11 * i1[q + w + 1] - tv;
+                st += tv;
+                sx += ix;
+                sy += iy;
+                sxx += ix * ix;
+                sxy += ix * iy;
+                syy += iy * iy;
+                sd += d;
+                sxd += ix * d;
+                sdd += d * d;
+                syd += iy * d;
+            }
+            sums[0] += st;
+            sums[1] += sx;
+            sums[2] += sy;
+            sums[3] += sxx;
+            sums[4] += sxy;
+            sums[5] += syy;
+            sums[6] += sd;
+            sums[7] += sxd;
+            sums[8] += sdd;
+            sums[9] += syd;
+        }
+    }
+
+    /**
+     * The vector variant ({@link VectorKernel}) when this JVM has the {@code jdk.incubator.vector} module (java
+     * {@code --add-modules jdk.incubator.vector}), else {@link #SCALAR}.
+     */
+    static FlowKernel best() {
+        return vectorLanes() > 0 ? new VectorKernel() : SCALAR;
+    }
+
+    /** Float lanes of {@link VectorKernel}'s fill in this JVM, 0 where it cannot run. */
+    static int vectorLanes() {
+        // asked of the module layer, not of the class: VectorKernel must not even be loaded without the module
+        return ModuleLayer.boot().findModule("jdk.incubator.vector").isPresent() ? VectorKernel.lanes() : 0;
+    }
+}
