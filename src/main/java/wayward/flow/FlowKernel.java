@@ -100,7 +100,7 @@ interface FlowKernel {
         return vectorLanes() > 0 ? new VectorKernel() : SCALAR;
     }
 
-    /** Float lanes of {@link VectorKernel}'s fill in this JVM, 0 where it cannot run. */
+    /** Float lanes of {@link VectorKernel} in this JVM, 0 where it cannot run. */
     static int vectorLanes() {
         // asked of the module layer, not of the class: VectorKernel must not even be loaded without the module
         return ModuleLayer.boot().findModule("jdk.incubator.vector").isPresent() ? VectorKernel.lanes() : 0;

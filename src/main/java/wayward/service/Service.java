@@ -125,9 +125,9 @@ public final class Service implements StatusSource {
 
     public void start() throws IOException {
         List<wayward.event.Event> leftOpen = List.of();
+        LOG.info(FlowEstimator.instructions());
         if (mode != Mode.REPLAY) {
             LOG.warn(CAUTION);
-            LOG.info(FlowEstimator.instructions());
             if (config.shard() != null) {
                 List<String> ids = new ArrayList<>();
                 cameras.forEach(c -> ids.add(c.id()));

@@ -72,6 +72,8 @@ class ArchiveIT {
         assertEquals(0, replay.exitValue(), Files.readString(dir.resolve("replay.out")));
         String logged = Files.readString(logs.resolve("wayward.log"));
         assertTrue(logged.contains("analysing at"), logged);
+        // the launcher gives replay the JDK's vector module (FlowEstimator.instructions says so when it has it)
+        assertTrue(logged.contains("its inner loops run on vector instructions ("), logged);
 
         // the schemas the README links ship in the archive, the same bytes as in the jar, and the demo's records
         // fit the shipped event schema

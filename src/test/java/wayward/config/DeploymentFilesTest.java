@@ -319,8 +319,8 @@ class DeploymentFilesTest {
 
     @Test
     void everyWayOfStartingTheServiceGivesTheFlowItsVectorModule() throws IOException {
-        // the flow's fill runs on vector instructions only where java has the module (FlowEstimator.instructions);
-        // java(1): --add-modules takes the module names as the next argument
+        // the flow's inner loops run on vector instructions only where java has the module
+        // (FlowEstimator.instructions); java(1): --add-modules takes the module names as the next argument
         for (Path unit : List.of(UNIT, TEMPLATE_UNIT)) {
             String exec = unitValue(Files.readString(unit, StandardCharsets.UTF_8), "ExecStart");
             assertTrue(exec.contains(" " + VECTOR_OPTION + " " + VECTOR_MODULE + " "), unit.getFileName()
