@@ -39,7 +39,8 @@ class VectorKernelTest {
         float[] vector = new float[FlowKernel.SUMS_LENGTH];
         FlowKernel kernel = new VectorKernel();
         int windows = 0;
-        for (int side = 3; side <= FlowKernel.MAX_SIDE; side += 2) {
+        // up to the widest window the settings take (a 15 × 15 one, radius 7)
+        for (int side = 3; side <= 15; side += 2) {
             // every window whose one-pixel frame lies in the picture, the last rows and columns included (where
             // the vector variant's whole rows of lanes would leave the array, it sums one by one)
             for (int y = 1; y + side < h - 1; y++) {
