@@ -134,7 +134,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[] fillKept;
     /** What the fill pass under way reads and writes, for {@link #kernel}. */
     private final FillPass fillPass = new FillPass();
-    /** How the fill's inner points and the full-size windows' sums are done: vector instructions where the JVM has them. */
+    /** Does the fill's inner points and the full-size windows' sums: on vector instructions where the JVM has them. */
     private final FlowKernel kernel;
     /**
      * Per level: where each window pixel lies relative to the window's centre, in that level's row-major
@@ -1431,7 +1431,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
      * its 3×3 neighbours' tensors, each neighbour weighted by how alike the two windows' brightness is: the
      * least-squares combination (Σ wⱼ Gⱼ)⁻¹ Σ wⱼ Gⱼ uⱼ. An edge point's tensor constrains only the motion across
      * its edge, so a plain surface framed by edges of several directions gets the full motion of its rim, and an
-     * edge point keeps its own motion across the edge while borrowing the part along it.
+     * edge point keeps its own motion across the edge while borrowing the part along it. The points off the grid's
+     * rim go to the kernel ({@link FlowKernel#fillInside}), which gives the same bits as the loop here.
      */
     private void fillRows(int l, int j0, int j1) {
         final int gw = gridWidth[l];

@@ -60,7 +60,8 @@ final class VectorKernel implements FlowKernel {
                     final FloatVector du = uq.sub(uk);
                     final FloatVector dv = vq.sub(vk);
                     final FloatVector apart = du.mul(du).add(dv.mul(dv)).mul(GridLucasKanadeFlow.FILL_INV_ALIKE);
-                    final FloatVector alike = wq.div(apart.add(1f)).blend(0f, apart.compare(VectorOperators.LT, 4f).not());
+                    final VectorMask<Float> far = apart.compare(VectorOperators.LT, 4f).not();
+                    final FloatVector alike = wq.div(apart.add(1f)).blend(0f, far);
                     wq = wq.blend(alike, keeps);
                 }
                 final FloatVector qa = wq.mul(FloatVector.fromArray(SPECIES, ta, q));

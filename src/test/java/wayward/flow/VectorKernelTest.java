@@ -92,7 +92,8 @@ class VectorKernelTest {
         int w = ObjectMotionCase.WIDTH;
         int h = ObjectMotionCase.HEIGHT;
         try (GridLucasKanadeFlow points = new GridLucasKanadeFlow(w, h, FlowSettings.defaults(), FlowKernel.SCALAR);
-                GridLucasKanadeFlow vector = new GridLucasKanadeFlow(w, h, FlowSettings.defaults(), new VectorKernel())) {
+                GridLucasKanadeFlow vector = new GridLucasKanadeFlow(w, h, FlowSettings.defaults(),
+                        new VectorKernel())) {
             for (ObjectMotionCase c : cases) {
                 ObjectMotionCase.Frames f = c.render();
                 assertSame(points.computeDense(f.first(), f.second()), vector.computeDense(f.first(), f.second()),
@@ -131,7 +132,8 @@ class VectorKernelTest {
         // that a frame must allocate nothing. Rounds of 50 frames until one stays under the bound, for at most 40
         // rounds (a few seconds), so that a slow compile on a busy machine is waited for, not failed.
         byte[][] ab = BenchFrames.pair(320, 240);
-        try (GridLucasKanadeFlow flow = new GridLucasKanadeFlow(320, 240, FlowSettings.defaults(), new VectorKernel())) {
+        FlowSettings defaults = FlowSettings.defaults();
+        try (GridLucasKanadeFlow flow = new GridLucasKanadeFlow(320, 240, defaults, new VectorKernel())) {
             FlowField f = flow.newField();
             com.sun.management.ThreadMXBean mx = (com.sun.management.ThreadMXBean) ManagementFactory.getThreadMXBean();
             long id = Thread.currentThread().getId();
