@@ -60,7 +60,7 @@ public interface FlowEstimator extends AutoCloseable {
         return lanes > 0
                 ? "flow: its inner loops run on vector instructions (" + lanes + " float lanes)"
                 : "flow: scalar instructions only; java --add-modules jdk.incubator.vector runs the flow's inner"
-                        + " loops on vector instructions (same results, about a quarter less flow time per frame)";
+                        + " loops on vector instructions (same results, about a third less flow time per frame)";
     }
 
     /**

@@ -1,9 +1,9 @@
 package wayward.flow;
 
 /**
- * The two innermost loops of {@link GridLucasKanadeFlow} that run on vector instructions where the JVM has them: the
- * fill's run of inner grid points, and the sums of a full-size window's plain solve step. Every variant gives the
- * same bits; they differ only in speed.
+ * The inner loops of {@link GridLucasKanadeFlow} that run on vector instructions where the JVM has them: the fill's
+ * run of inner grid points, its neighbour weights and starting support, and the sums of a full-size window's plain
+ * solve step. Every variant gives the same bits; they differ only in speed.
  */
 interface FlowKernel {
     /**
@@ -33,11 +33,39 @@ interface FlowKernel {
     void windowSums(float[] i0, float[] i1, int w, int corner, int shift, int side, float w00, float w01, float w10,
             float w11, float[] sums);
 
+    /**
+     * The fill's brightness weights of a {@code gw} × {@code gh} grid whose window means are {@code mean}, as
+     * {@code GridLucasKanadeFlow.fillWeights} works them out, into {@code near} (neighbour n of point k at
+     * {@code n × stride + k}); it may also write the slots of pairs that wrap round from one grid row to the next,
+     * which nobody reads. Returns false where it left the work to the caller.
+     */
+    boolean fillWeights(float[] mean, int gw, int gh, float[] near, int stride);
+
+    /**
+     * The fill's starting support of points 0, 1, … of a level, as {@code GridLucasKanadeFlow.initSupport} works it
+     * out: the tensor ({@code ta, tb, tc}) weakened by the residual {@code res} into {@code sa, sb, sc}, and 1 or 0
+     * into {@code kept} by whether the point keeps its motion (its confidence {@code conf}). Returns the first point
+     * it left to the caller.
+     */
+    int support(float[] ta, float[] tb, float[] tc, float[] res, float[] conf, float[] sa, float[] sb, float[] sc,
+            float[] kept);
+
     /** Plain Java: every point and pixel one by one. */
     FlowKernel SCALAR = new FlowKernel() {
         @Override
         public int fillInside(FillPass pass, int from, int to) {
             return from;
+        }
+
+        @Override
+        public boolean fillWeights(float[] mean, int gw, int gh, float[] near, int stride) {
+            return false;
+        }
+
+        @Override
+        public int support(float[] ta, float[] tb, float[] tc, float[] res, float[] conf, float[] sa, float[] sb,
+                float[] sc, float[] kept) {
+            return 0;
         }
 
         @Override

@@ -134,7 +134,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
     private final float[] fillKept;
     /** What the fill pass under way reads and writes, for {@link #kernel}. */
     private final FillPass fillPass = new FillPass();
-    /** Does the fill's inner points and the full-size windows' sums: on vector instructions where the JVM has them. */
+    /** Does the fill's inner loops and the full-size windows' sums: on vector instructions where the JVM has them. */
     private final FlowKernel kernel;
     /**
      * Per level: where each window pixel lies relative to the window's centre, in that level's row-major
@@ -1571,6 +1571,9 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final int gh = gridHeight[l];
         final float[] mean = gridMean[l];
         final float[] near = fillWeight;
+        if (kernel.fillWeights(mean, gw, gh, near, fillStride)) {
+            return;
+        }
         final float inv2 = 1f / (FILL_BRIGHTNESS * FILL_BRIGHTNESS);
         for (int j = 0; j < gh; j++) {
             for (int i = 0; i < gw; i++) {
@@ -1608,7 +1611,8 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final float[] sc = supportC[l];
         final float[] conf = gridConfidence[l];
         final float invRes = 1f / FILL_RESIDUAL;
-        for (int k = 0; k < ta.length; k++) {
+        final int done = kernel.support(ta, tb, tc, res, conf, sa, sb, sc, fillKept);
+        for (int k = done; k < ta.length; k++) {
             fillKept[k] = keeps(conf[k], res[k]) ? 1f : 0f;
             final float wk = 1f / (1f + res[k] * invRes);
             sa[k] = wk * ta[k];

@@ -154,4 +154,56 @@ final class VectorKernel implements FlowKernel {
             sums[i] = total;
         }
     }
+
+    @Override
+    public boolean fillWeights(float[] mean, int gw, int gh, float[] near, int stride) {
+        final float inv2 = 1f / (GridLucasKanadeFlow.FILL_BRIGHTNESS * GridLucasKanadeFlow.FILL_BRIGHTNESS);
+        final int lanes = SPECIES.length();
+        final int points = gw * gh;
+        // the neighbours after a point in row order (right, then the three below), each pair written to both sides
+        // as the scalar loop does; a run over the whole grid also pairs a row's last point with the next row's
+        // first, into slots of neighbours outside the grid, which the fill never reads
+        for (int n = GridLucasKanadeFlow.NEIGHBOURS / 2; n < GridLucasKanadeFlow.NEIGHBOURS; n++) {
+            final int off = GridLucasKanadeFlow.NEIGHBOUR_DJ[n] * gw + GridLucasKanadeFlow.NEIGHBOUR_DI[n];
+            final int mirror = (GridLucasKanadeFlow.NEIGHBOURS - 1 - n) * stride;
+            final int at = n * stride;
+            // the pairs whose later point lies in the grid
+            final int end = points - off;
+            int k = 0;
+            for (; k + lanes <= end; k += lanes) {
+                final FloatVector dm = FloatVector.fromArray(SPECIES, mean, k + off)
+                        .sub(FloatVector.fromArray(SPECIES, mean, k));
+                final FloatVector wq = FloatVector.broadcast(SPECIES, 1f).div(dm.mul(dm).mul(inv2).add(1f));
+                wq.intoArray(near, at + k);
+                wq.intoArray(near, mirror + k + off);
+            }
+            for (; k < end; k++) {
+                final float dm = mean[k + off] - mean[k];
+                final float wq = 1f / (1f + dm * dm * inv2);
+                near[at + k] = wq;
+                near[mirror + k + off] = wq;
+            }
+        }
+        return true;
+    }
+
+    @Override
+    public int support(float[] ta, float[] tb, float[] tc, float[] res, float[] conf, float[] sa, float[] sb,
+            float[] sc, float[] kept) {
+        final float invRes = 1f / GridLucasKanadeFlow.FILL_RESIDUAL;
+        final int lanes = SPECIES.length();
+        int k = 0;
+        for (; k + lanes <= ta.length; k += lanes) {
+            final FloatVector r = FloatVector.fromArray(SPECIES, res, k);
+            final VectorMask<Float> keeps = FloatVector.fromArray(SPECIES, conf, k)
+                    .compare(VectorOperators.GE, GridLucasKanadeFlow.FILL_KEEP)
+                    .and(r.compare(VectorOperators.LE, GridLucasKanadeFlow.FILL_RESIDUAL_KEEP));
+            FloatVector.zero(SPECIES).blend(1f, keeps).intoArray(kept, k);
+            final FloatVector wk = FloatVector.broadcast(SPECIES, 1f).div(r.mul(invRes).add(1f));
+            wk.mul(FloatVector.fromArray(SPECIES, ta, k)).intoArray(sa, k);
+            wk.mul(FloatVector.fromArray(SPECIES, tb, k)).intoArray(sb, k);
+            wk.mul(FloatVector.fromArray(SPECIES, tc, k)).intoArray(sc, k);
+        }
+        return k;
+    }
 }
