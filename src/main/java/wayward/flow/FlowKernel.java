@@ -11,8 +11,6 @@ interface FlowKernel {
      * (ten vectors of up to 64 float lanes, the widest vector shape there is: 2048 bits).
      */
     int SUMS_LENGTH = 10 + 10 * 64;
-    /** Widest window side {@link #windowSums} takes. */
-    int MAX_SIDE = 8;
 
     /**
      * Fills inner points from {@code from} on, up to {@code to} (exclusive), of the pass's level, as

@@ -1123,7 +1123,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                 final boolean keep = !finest || finestIterations > 1;
                 final int[] offsets = windowOffset[l];
                 final int centre = cy * w + cx;
-                if (!weighed && !keep && 2 * r + 1 <= FlowKernel.MAX_SIDE) {
+                if (!weighed && !keep) {
                     // the plain single step (the full-size level's default: most points of a frame), in the kernel:
                     // no weights, the gradients' factor 1/2 taken out of the sums, as below
                     final float[] sums = band.sums;
