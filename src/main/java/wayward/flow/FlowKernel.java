@@ -48,6 +48,12 @@ interface FlowKernel {
     int support(float[] ta, float[] tb, float[] tc, float[] res, float[] conf, float[] sa, float[] sb, float[] sc,
             float[] kept);
 
+    /**
+     * The plain single step of the row's points 0 … {@code count − 1} from their sums and starts, as
+     * {@code GridLucasKanadeFlow.solvePoint} works it out for a full-size window with one step.
+     */
+    void steps(StepRow row, int count);
+
     /** Plain Java: every point and pixel one by one. */
     FlowKernel SCALAR = new FlowKernel() {
         @Override
@@ -71,7 +77,71 @@ interface FlowKernel {
                 float w10, float w11, float[] sums) {
             scalarWindowSums(i0, i1, w, corner, shift, side, w00, w01, w10, w11, sums);
         }
+
+        @Override
+        public void steps(StepRow row, int count) {
+            scalarSteps(row, 0, count);
+        }
     };
+
+    /**
+     * {@link #steps} of points {@code from} … {@code to − 1} one by one: the same operations, in the same order, as
+     * {@code GridLucasKanadeFlow.solvePoint}'s epilogue (the gradients' factor 1/2 applied to the sums, the
+     * brightness offset eliminated, the regularised 2 × 2 system solved once).
+     */
+    static void scalarSteps(StepRow row, int from, int to) {
+        final float[] sums = row.sums;
+        final int s = row.stride;
+        final float sw = row.pixels;
+        final float invN = 1f / sw;
+        final float lam = row.lambda * sw / sw;
+        for (int i = from; i < to; i++) {
+            final float st = sums[i];
+            final float sx = 0.5f * sums[s + i];
+            final float sy = 0.5f * sums[2 * s + i];
+            final float sxx = 0.25f * sums[3 * s + i];
+            final float sxy = 0.25f * sums[4 * s + i];
+            final float syy = 0.25f * sums[5 * s + i];
+            final float sd = sums[6 * s + i];
+            final float sxd = 0.5f * sums[7 * s + i];
+            final float sdd = sums[8 * s + i];
+            final float syd = 0.5f * sums[9 * s + i];
+            final float cxx = sxx - sx * sx * invN;
+            final float cxy = sxy - sx * sy * invN;
+            final float cyy = syy - sy * sy * invN;
+            final float half = 0.5f * (cxx - cyy) * invN;
+            final float e = 0.5f * (cxx + cyy) * invN - (float) Math.sqrt(half * half + cxy * cxy * invN * invN);
+            final int g = row.first + i;
+            row.confidence[g] = e > 0f ? e : 0f;
+            row.a[g] = cxx * invN;
+            row.b[g] = cxy * invN;
+            row.c[g] = cyy * invN;
+            row.mean[g] = st * invN;
+            row.windowMean[g] = st / sw;
+            final float a = cxx + lam;
+            final float c = cyy + lam;
+            final float det = a * c - cxy * cxy;
+            float u = row.u0[i];
+            float v = row.v0[i];
+            float residual = GridLucasKanadeFlow.UNKNOWN_RESIDUAL;
+            if (det > 1e-3f) {
+                final float ia = c / det;
+                final float ib = -cxy / det;
+                final float ic = a / det;
+                final float bx = sxd - sx * sd * invN;
+                final float by = syd - sy * sd * invN;
+                final float du = -(ia * bx + ib * by);
+                final float dv = -(ib * bx + ic * by);
+                u += du;
+                v += dv;
+                final float left = sdd - sd * sd * invN + bx * du + by * dv;
+                residual = (left > 0f ? left : 0f) * invN;
+            }
+            row.u[g] = u;
+            row.v[g] = v;
+            row.residual[g] = residual;
+        }
+    }
 
     /** {@link #windowSums} one pixel at a time, in the order the interface gives. */
     static void scalarWindowSums(float[] i0, float[] i1, int w, int corner, int shift, int side, float w00,

@@ -163,11 +163,17 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         /** {@link FlowKernel#windowSums}'s sums and scratch. */
         final float[] sums = new float[FlowKernel.SUMS_LENGTH];
 
-        Band(int n) {
+        /** The full-size row being solved in single steps, and which of its points the row's steps solve. */
+        final StepRow row;
+        final boolean[] inRow;
+
+        Band(int n, int points) {
             t = new float[n];
             gx = new float[n];
             gy = new float[n];
             wt = new float[n];
+            row = new StepRow(points);
+            inRow = new boolean[points];
         }
     }
 
@@ -285,7 +291,7 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         int threads = Math.max(1, Math.min(settings.threads(), gridHeight[0]));
         bands = new Band[threads];
         for (int i = 0; i < threads; i++) {
-            bands[i] = new Band(windowPixels);
+            bands[i] = new Band(windowPixels, gridWidth[0]);
         }
         pool = threads > 1 ? new BandPool(threads, this::solveBand) : null;
         searchScale = sceneScale(width, height);
@@ -572,6 +578,22 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
         final int cgw = coarsest ? 0 : gridWidth[l + 1];
         final float scaleX = coarsest ? 0f : (float) w / levelWidth[l + 1];
         final float scaleY = coarsest ? 0f : (float) h / levelHeight[l + 1];
+        // the full-size level's plain single steps (the default): a row's window sums first, then all its steps
+        final boolean byRow = l == 0 && finestIterations == 1;
+        final StepRow row = band.row;
+        if (byRow) {
+            row.pixels = windowPixels;
+            row.lambda = lambda;
+            row.u = gu;
+            row.v = gv;
+            row.confidence = gc;
+            row.a = gridA[0];
+            row.b = gridB[0];
+            row.c = gridC[0];
+            row.mean = gridMean[0];
+            row.windowMean = windowMean;
+            row.residual = gridResidual[0];
+        }
         for (int j = rowFrom; j < rowTo; j++) {
             final int cy = centre(l, j, h);
             int r0 = 0;
@@ -641,29 +663,87 @@ public final class GridLucasKanadeFlow extends PyramidFlowEstimator {
                     }
                 }
                 final int g = j * gw + i;
-                solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l, null);
-                final float plainResidual = gridResidual[l][g];
-                if (plainResidual > ADAPT_RESIDUAL) {
-                    // two motions in the window: solve it from its centre's side, keep that if it fits far better
-                    final float pu = gu[g];
-                    final float pv = gv[g];
-                    final float pc = gc[g];
-                    final float pa = gridA[l][g];
-                    final float pb = gridB[l][g];
-                    final float pcc = gridC[l][g];
-                    final float pm = gridMean[l][g];
-                    solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l, WINDOW_LIKE);
-                    if (gridResidual[l][g] > ADAPT_GAIN * plainResidual) {
-                        gu[g] = pu;
-                        gv[g] = pv;
-                        gc[g] = pc;
-                        gridA[l][g] = pa;
-                        gridB[l][g] = pb;
-                        gridC[l][g] = pcc;
-                        gridMean[l][g] = pm;
-                        gridResidual[l][g] = plainResidual;
-                    }
+                if (byRow) {
+                    row.u0[i] = u0;
+                    row.v0[i] = v0;
+                    band.inRow[i] = rowSums(i0, i1, w, h, cx, cy, u0, v0, band, i);
+                    continue;
                 }
+                solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l, null);
+                adapt(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l);
+            }
+            if (byRow) {
+                row.first = j * gw;
+                kernel.steps(row, gw);
+                for (int i = 0; i < gw; i++) {
+                    final int cx = centre(l, i, w);
+                    final int g = j * gw + i;
+                    if (!band.inRow[i]) {
+                        // a window by the picture's border, or moved out of it: solved with clamps, point by point
+                        solvePoint(i0, i1, w, h, cx, cy, row.u0[i], row.v0[i], band, gu, gv, gc, g, l, null);
+                    }
+                    adapt(i0, i1, w, h, cx, cy, row.u0[i], row.v0[i], band, gu, gv, gc, g, l);
+                }
+            }
+        }
+    }
+
+    /**
+     * The window sums of the full-size row's point i (centre cx, cy) for its plain single step from (u0, v0), into
+     * the band's {@link StepRow}, as {@link #solvePoint} takes them; false where the window or its one-pixel frame
+     * leaves the picture, or the window moved by the start does (the point is then solved by solvePoint).
+     */
+    private boolean rowSums(float[] i0, float[] i1, int w, int h, int cx, int cy, float u0, float v0, Band band,
+            int i) {
+        final int r = radius;
+        float fx0 = cx + u0;
+        float fy0 = cy + v0;
+        fx0 = fx0 < 0f ? 0f : (fx0 > w - 1 ? w - 1 : fx0);
+        fy0 = fy0 < 0f ? 0f : (fy0 > h - 1 ? h - 1 : fy0);
+        final int wx0 = (int) fx0;
+        final int wy0 = (int) fy0;
+        if (cx - r < 1 || cy - r < 1 || cx + r + 1 >= w || cy + r + 1 >= h
+                || wx0 - r < 0 || wy0 - r < 0 || wx0 + r + 1 >= w || wy0 + r + 1 >= h) {
+            return false;
+        }
+        final float ax = fx0 - wx0;
+        final float ay = fy0 - wy0;
+        final int shift = (wy0 - cy) * w + (wx0 - cx);
+        final float[] sums = band.sums;
+        kernel.windowSums(i0, i1, w, (cy - r) * w + cx - r, shift, 2 * r + 1, (1f - ax) * (1f - ay),
+                ax * (1f - ay), (1f - ax) * ay, ax * ay, sums);
+        final StepRow row = band.row;
+        for (int s = 0, at = i; s < 10; s++, at += row.stride) {
+            row.sums[at] = sums[s];
+        }
+        return true;
+    }
+
+    /**
+     * Where point g's plain solve left a large residual (two motions in the window), solves it again from its
+     * centre's side (pixels weighed by likeness to the centre) and keeps that if it fits far better.
+     */
+    private void adapt(float[] i0, float[] i1, int w, int h, int cx, int cy, float u0, float v0, Band band,
+            float[] gu, float[] gv, float[] gc, int g, int l) {
+        final float plainResidual = gridResidual[l][g];
+        if (plainResidual > ADAPT_RESIDUAL) {
+            final float pu = gu[g];
+            final float pv = gv[g];
+            final float pc = gc[g];
+            final float pa = gridA[l][g];
+            final float pb = gridB[l][g];
+            final float pcc = gridC[l][g];
+            final float pm = gridMean[l][g];
+            solvePoint(i0, i1, w, h, cx, cy, u0, v0, band, gu, gv, gc, g, l, WINDOW_LIKE);
+            if (gridResidual[l][g] > ADAPT_GAIN * plainResidual) {
+                gu[g] = pu;
+                gv[g] = pv;
+                gc[g] = pc;
+                gridA[l][g] = pa;
+                gridB[l][g] = pb;
+                gridC[l][g] = pcc;
+                gridMean[l][g] = pm;
+                gridResidual[l][g] = plainResidual;
             }
         }
     }

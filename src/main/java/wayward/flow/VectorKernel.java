@@ -156,6 +156,61 @@ final class VectorKernel implements FlowKernel {
     }
 
     @Override
+    public void steps(StepRow row, int count) {
+        final float[] sums = row.sums;
+        final int s = row.stride;
+        final float sw = row.pixels;
+        final float invN = 1f / sw;
+        final float lam = row.lambda * sw / sw;
+        final int lanes = SPECIES.length();
+        int i = 0;
+        for (; i + lanes <= count; i += lanes) {
+            final FloatVector st = FloatVector.fromArray(SPECIES, sums, i);
+            final FloatVector sx = FloatVector.fromArray(SPECIES, sums, s + i).mul(0.5f);
+            final FloatVector sy = FloatVector.fromArray(SPECIES, sums, 2 * s + i).mul(0.5f);
+            final FloatVector sxx = FloatVector.fromArray(SPECIES, sums, 3 * s + i).mul(0.25f);
+            final FloatVector sxy = FloatVector.fromArray(SPECIES, sums, 4 * s + i).mul(0.25f);
+            final FloatVector syy = FloatVector.fromArray(SPECIES, sums, 5 * s + i).mul(0.25f);
+            final FloatVector sd = FloatVector.fromArray(SPECIES, sums, 6 * s + i);
+            final FloatVector sxd = FloatVector.fromArray(SPECIES, sums, 7 * s + i).mul(0.5f);
+            final FloatVector sdd = FloatVector.fromArray(SPECIES, sums, 8 * s + i);
+            final FloatVector syd = FloatVector.fromArray(SPECIES, sums, 9 * s + i).mul(0.5f);
+            final FloatVector cxx = sxx.sub(sx.mul(sx).mul(invN));
+            final FloatVector cxy = sxy.sub(sx.mul(sy).mul(invN));
+            final FloatVector cyy = syy.sub(sy.mul(sy).mul(invN));
+            final FloatVector half = cxx.sub(cyy).mul(0.5f).mul(invN);
+            final FloatVector e = cxx.add(cyy).mul(0.5f).mul(invN)
+                    .sub(half.mul(half).add(cxy.mul(cxy).mul(invN).mul(invN)).lanewise(VectorOperators.SQRT));
+            final int g = row.first + i;
+            FloatVector.zero(SPECIES).blend(e, e.compare(VectorOperators.GT, 0f)).intoArray(row.confidence, g);
+            cxx.mul(invN).intoArray(row.a, g);
+            cxy.mul(invN).intoArray(row.b, g);
+            cyy.mul(invN).intoArray(row.c, g);
+            st.mul(invN).intoArray(row.mean, g);
+            st.div(sw).intoArray(row.windowMean, g);
+            final FloatVector a = cxx.add(lam);
+            final FloatVector c = cyy.add(lam);
+            final FloatVector det = a.mul(c).sub(cxy.mul(cxy));
+            final VectorMask<Float> solved = det.compare(VectorOperators.GT, 1e-3f);
+            final FloatVector ia = c.div(det);
+            final FloatVector ib = cxy.neg().div(det);
+            final FloatVector ic = a.div(det);
+            final FloatVector bx = sxd.sub(sx.mul(sd).mul(invN));
+            final FloatVector by = syd.sub(sy.mul(sd).mul(invN));
+            final FloatVector du = ia.mul(bx).add(ib.mul(by)).neg();
+            final FloatVector dv = ib.mul(bx).add(ic.mul(by)).neg();
+            final FloatVector u0 = FloatVector.fromArray(SPECIES, row.u0, i);
+            final FloatVector v0 = FloatVector.fromArray(SPECIES, row.v0, i);
+            u0.blend(u0.add(du), solved).intoArray(row.u, g);
+            v0.blend(v0.add(dv), solved).intoArray(row.v, g);
+            final FloatVector left = sdd.sub(sd.mul(sd).mul(invN)).add(bx.mul(du)).add(by.mul(dv));
+            FloatVector.zero(SPECIES).blend(left, left.compare(VectorOperators.GT, 0f)).mul(invN)
+                    .blend(GridLucasKanadeFlow.UNKNOWN_RESIDUAL, solved.not()).intoArray(row.residual, g);
+        }
+        FlowKernel.scalarSteps(row, i, count);
+    }
+
+    @Override
     public boolean fillWeights(float[] mean, int gw, int gh, float[] near, int stride) {
         final float inv2 = 1f / (GridLucasKanadeFlow.FILL_BRIGHTNESS * GridLucasKanadeFlow.FILL_BRIGHTNESS);
         final int lanes = SPECIES.length();

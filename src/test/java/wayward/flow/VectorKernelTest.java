@@ -86,6 +86,107 @@ class VectorKernelTest {
     }
 
     @Test
+    void rowStepsSolveTheRegularisedSystemAndAreTheSameInBothKernels() {
+        // a row of 37 windows (not a whole number of vectors) of a noisy picture pair, and one flat window
+        int w = 200;
+        int h = 9;
+        int points = 37;
+        float[] i0 = new float[w * h];
+        float[] i1 = new float[w * h];
+        java.util.SplittableRandom r = new java.util.SplittableRandom(11);
+        for (int i = 0; i < i0.length; i++) {
+            i0[i] = r.nextInt(256);
+            i1[i] = r.nextInt(256);
+        }
+        float lambda = 25f;
+        StepRow[] rows = {new StepRow(points), new StepRow(points)};
+        float[] sums = new float[FlowKernel.SUMS_LENGTH];
+        for (int i = 0; i < points; i++) {
+            float ax = (float) r.nextDouble();
+            float ay = (float) r.nextDouble();
+            FlowKernel.scalarWindowSums(i0, i1, w, 2 * w + 1 + 5 * i, w + 1, 5, (1 - ax) * (1 - ay), ax * (1 - ay),
+                    (1 - ax) * ay, ax * ay, sums);
+            float u0 = (float) r.nextDouble() * 4 - 2;
+            float v0 = (float) r.nextDouble() * 4 - 2;
+            for (StepRow row : rows) {
+                for (int s = 0; s < 10; s++) {
+                    row.sums[s * row.stride + i] = i == points - 1 ? 0f : sums[s];
+                }
+                row.u0[i] = u0;
+                row.v0[i] = v0;
+            }
+        }
+        for (StepRow row : rows) {
+            row.pixels = 25f;
+            row.lambda = lambda;
+            row.first = 3;
+            row.u = new float[points + 3];
+            row.v = new float[points + 3];
+            row.confidence = new float[points + 3];
+            row.a = new float[points + 3];
+            row.b = new float[points + 3];
+            row.c = new float[points + 3];
+            row.mean = new float[points + 3];
+            row.windowMean = new float[points + 3];
+            row.residual = new float[points + 3];
+        }
+        FlowKernel.SCALAR.steps(rows[0], points);
+        new VectorKernel().steps(rows[1], points);
+        StepRow scalar = rows[0];
+        StepRow vector = rows[1];
+        for (float[][] pair : new float[][][] {{scalar.u, vector.u}, {scalar.v, vector.v},
+                {scalar.confidence, vector.confidence}, {scalar.a, vector.a}, {scalar.b, vector.b},
+                {scalar.c, vector.c}, {scalar.mean, vector.mean}, {scalar.windowMean, vector.windowMean},
+                {scalar.residual, vector.residual}}) {
+            assertArrayEquals(pair[0], pair[1]);
+        }
+        // the least-squares step in double precision (the gradients are central differences, halved; the
+        // brightness offset between the frames an extra unknown): G·δ = −b with G the mean-free structure tensor
+        // plus λ on its diagonal, b the mean-free Σ∇I·d
+        for (int i = 0; i < points - 1; i++) {
+            double n = 25;
+            double[] q = new double[10];
+            for (int s = 0; s < 10; s++) {
+                q[s] = scalar.sums[s * scalar.stride + i];
+            }
+            double sx = q[1] / 2;
+            double sy = q[2] / 2;
+            double cxx = q[3] / 4 - sx * sx / n;
+            double cxy = q[4] / 4 - sx * sy / n;
+            double cyy = q[5] / 4 - sy * sy / n;
+            double bx = q[7] / 2 - sx * q[6] / n;
+            double by = q[9] / 2 - sy * q[6] / n;
+            double a = cxx + lambda;
+            double c = cyy + lambda;
+            double det = a * c - cxy * cxy;
+            double du = -(c * bx - cxy * by) / det;
+            double dv = -(a * by - cxy * bx) / det;
+            double smaller = ((cxx + cyy) - Math.sqrt((cxx - cyy) * (cxx - cyy) + 4 * cxy * cxy)) / 2 / n;
+            int g = 3 + i;
+            String at = "point " + i;
+            assertEquals(scalar.u0[i] + du, scalar.u[g], 1e-3 * (1 + Math.abs(du)), at);
+            assertEquals(scalar.v0[i] + dv, scalar.v[g], 1e-3 * (1 + Math.abs(dv)), at);
+            assertEquals(smaller, scalar.confidence[g], 1e-3 * (1 + Math.abs(cxx + cyy) / n), at);
+            assertEquals(cxy / n, scalar.b[g], 1e-3 * (1 + Math.abs(cxy / n)), at);
+            assertEquals(q[0] / n, scalar.windowMean[g], 1e-3, at);
+        }
+        // a flat window: no structure, no step; without the regulariser its system is singular, nothing is solved
+        // and the residual stays unknown
+        int flat = 3 + points - 1;
+        assertEquals(scalar.u0[points - 1], scalar.u[flat]);
+        assertEquals(0f, scalar.confidence[flat]);
+        for (StepRow row : rows) {
+            row.lambda = 0f;
+        }
+        FlowKernel.SCALAR.steps(scalar, points);
+        new VectorKernel().steps(vector, points);
+        assertArrayEquals(scalar.residual, vector.residual);
+        assertArrayEquals(scalar.u, vector.u);
+        assertEquals(GridLucasKanadeFlow.UNKNOWN_RESIDUAL, vector.residual[flat]);
+        assertEquals(vector.u0[points - 1], vector.u[flat]);
+    }
+
+    @Test
     void objectScenesGiveTheSameFlowToTheBit() {
         List<ObjectMotionCase> cases = ObjectMotionBench.cases(ObjectMotionBench.Half.TUNE, 11);
         assertTrue(cases.size() >= 20, "cases: " + cases.size());
