@@ -68,7 +68,8 @@ public class FlowBenchmark {
         a = ab[0];
         b = ab[1];
         FlowSettings settings = FlowSettings.defaults().withStride(stride,
-                coarse == 0 ? FlowSettings.defaults().coarseStride() : coarse).withIterations(iterations, finest);
+                coarse == 0 ? FlowSettings.defaults().coarseStride() : coarse).withIterations(iterations, finest)
+                .withThreads(threads);
         flow = stride >= 2 && "scalar".equals(kernel) ? new GridLucasKanadeFlow(w, h, settings, FlowKernel.SCALAR)
                 : FlowEstimator.create(w, h, settings);
         field = flow.newField();
