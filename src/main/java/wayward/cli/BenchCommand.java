@@ -14,15 +14,21 @@ import wayward.analysis.StageFigures;
 
 /** CPU cost per camera and stage on a recorded file, to size a server. */
 final class BenchCommand extends Command {
+    /** Stream seconds not counted at the start of a bench run by default (JIT warm-up). */
+    static final double DEFAULT_WARM_UP_SECONDS = 5;
+
     BenchCommand() {
-        super("bench", Set.of("--input", "--analysis-input", "--cameras", "--config"), String.join("\n",
+        super("bench", Set.of("--input", "--analysis-input", "--cameras", "--config", "--warm-up"), String.join("\n",
                 "usage: java -jar wayward.jar bench --input VIDEO [--analysis-input VIDEO] [--cameras N] [--config FILE]",
+                "                                   [--warm-up SECONDS]",
                 "",
                 "Runs N cameras (default 1) on the same file at full speed, every frame decoded and analysed at the",
                 "analysis rate, and prints per camera the CPU time of each stage (decode; luma and downscale; flow;",
                 "zones and rules), the CPU a second of video costs, and its ratio to the decode stage (which skips",
                 "H.264's deblocking filter; `ffmpeg -threads 1 -benchmark -i VIDEO -f null -` shows a full decode).",
-                "The first 5 s of stream are JIT warm-up and not counted. With --config, the first camera's zones",
+                "The first 5 s of stream (--warm-up) are JIT warm-up and not counted: the optimising compiler takes",
+                "the flow's vector loops after 100 to 200 analysed frames, so on a recording of a minute or more give",
+                "--warm-up 20 or more for the steady cost. With --config, the first camera's zones",
                 "and settings are used; without, one zone over the middle of the picture with the default",
                 "settings. CPU times are the threads' own (ThreadMXBean).",
                 "",
@@ -56,6 +62,18 @@ final class BenchCommand extends Command {
                 return Main.USAGE;
             }
         }
+        double warmup = DEFAULT_WARM_UP_SECONDS;
+        if (o.has("--warm-up")) {
+            try {
+                warmup = Double.parseDouble(o.get("--warm-up"));
+            } catch (NumberFormatException e) {
+                warmup = -1;
+            }
+            if (!(warmup >= 0 && warmup <= 3600)) {
+                err.println("wayward bench: --warm-up " + o.get("--warm-up") + " (expected seconds from 0 to 3600)");
+                return Main.USAGE;
+            }
+        }
         SiteConfig c;
         String video = Path.of(input).toAbsolutePath().toString();
         if (o.has("--config")) {
@@ -81,7 +99,6 @@ final class BenchCommand extends Command {
         }
         Service s = new Service(c, copies, Service.Mode.REPLAY, new PrintStream(java.io.OutputStream.nullOutputStream()), 0);
         // the first seconds of stream are JIT warm-up: each camera counts only from there on
-        double warmup = 5;
         s.measureStages(warmup);
         long wall = System.nanoTime();
         s.start();
@@ -101,8 +118,9 @@ final class BenchCommand extends Command {
         s.stop();
         double wallSeconds = (System.nanoTime() - wall) / 1e9;
         if (s.pipelines().stream().anyMatch(p -> p.stageFigures().analysedFrames() == 0)) {
-            err.println("wayward bench: --input " + input + ": too short to measure (the first " + (int) warmup
-                    + " s are warm-up; give a recording of at least 15 s)");
+            err.println(String.format(java.util.Locale.ROOT, "wayward bench: --input %s: too short to measure (the "
+                    + "first %.0f s are warm-up; give a recording at least 10 s longer, or a shorter --warm-up)", input,
+                    warmup));
             return Main.NO_INPUT;
         }
         out.printf(java.util.Locale.ROOT, "bench: %s%s, %d camera%s, %d cores, %.1f s wall; after the first %.0f s of "

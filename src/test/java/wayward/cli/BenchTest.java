@@ -44,6 +44,33 @@ class BenchTest {
 
     @Test
     @Timeout(value = 120, unit = TimeUnit.SECONDS)
+    void aLongerWarmUpCountsOnlyTheFramesAfterIt() {
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        int rc = Main.execute(new String[] {"bench", "--input", "test-streams/yard-lane.mp4", "--warm-up", "15"},
+                new PrintStream(out, true, StandardCharsets.UTF_8), new PrintStream(new ByteArrayOutputStream()));
+        assertEquals(0, rc);
+        List<String> lines = List.of(out.toString(StandardCharsets.UTF_8).split("\n"));
+        assertTrue(lines.get(0).contains("after the first 15 s of stream"), lines.get(0));
+        String[] f = lines.get(2).split(" \\| ");
+        // the clip's 26 s at 15 fps (ffprobe: 390 frames): 11 s after the warm-up, 10 a second analysed
+        assertEquals(165, Integer.parseInt(f[1]), 1, lines.get(2));
+        assertEquals(110, Integer.parseInt(f[2]), 1, lines.get(2));
+        for (String bad : new String[] {"-1", "soon", "4000"}) {
+            ByteArrayOutputStream err = new ByteArrayOutputStream();
+            assertEquals(2, Main.execute(new String[] {"bench", "--input", "test-streams/yard-lane.mp4", "--warm-up",
+                bad}, new PrintStream(new ByteArrayOutputStream()), new PrintStream(err, true, StandardCharsets.UTF_8)));
+            assertEquals("wayward bench: --warm-up " + bad + " (expected seconds from 0 to 3600)",
+                    err.toString(StandardCharsets.UTF_8).strip());
+        }
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        assertEquals(66, Main.execute(new String[] {"bench", "--input", "test-streams/yard-lane.mp4", "--warm-up",
+            "30"}, new PrintStream(new ByteArrayOutputStream()), new PrintStream(err, true, StandardCharsets.UTF_8)));
+        assertTrue(err.toString(StandardCharsets.UTF_8).contains("too short to measure (the first 30 s are warm-up"),
+                err.toString(StandardCharsets.UTF_8));
+    }
+
+    @Test
+    @Timeout(value = 120, unit = TimeUnit.SECONDS)
     void withAnAnalysisInputTheMainInputIsOnlyDemuxed(@org.junit.jupiter.api.io.TempDir java.nio.file.Path dir)
             throws Exception {
         // the demo clip scaled to 1280x720 by Debian's ffmpeg: the same 390 frames, so the same 26 s
