@@ -18,7 +18,8 @@ final class BenchCommand extends Command {
     static final double DEFAULT_WARM_UP_SECONDS = 5;
 
     BenchCommand() {
-        super("bench", Set.of("--input", "--analysis-input", "--cameras", "--config", "--warm-up"), String.join("\n",
+        super("bench", Set.of("--input", "--analysis-input", "--cameras", "--config", "--warm-up"),
+                String.join("\n",
                 "usage: java -jar wayward.jar bench --input VIDEO [--analysis-input VIDEO] [--cameras N] [--config FILE]",
                 "                                   [--warm-up SECONDS]",
                 "",
@@ -27,10 +28,10 @@ final class BenchCommand extends Command {
                 "zones and rules), the CPU a second of video costs, and its ratio to the decode stage (which skips",
                 "H.264's deblocking filter; `ffmpeg -threads 1 -benchmark -i VIDEO -f null -` shows a full decode).",
                 "The first 5 s of stream (--warm-up) are JIT warm-up and not counted: the optimising compiler takes",
-                "the flow's vector loops after 100 to 200 analysed frames, so on a recording of a minute or more give",
-                "--warm-up 20 or more for the steady cost. With --config, the first camera's zones",
-                "and settings are used; without, one zone over the middle of the picture with the default",
-                "settings. CPU times are the threads' own (ThreadMXBean).",
+                "the flow's vector loops only after 100 to 200 analysed frames, so on a recording of a few minutes",
+                "--warm-up 60 gives the steady cost. With --config, the first camera's zones and settings are used;",
+                "without, one zone over the middle of the picture with the default settings. CPU times are the",
+                "threads' own (ThreadMXBean).",
                 "",
                 "With --analysis-input (a camera's smaller sub-stream of the same scene), the analysis decodes that",
                 "file and --input is only demuxed, as a camera with analysis_source runs; the table then shows the",

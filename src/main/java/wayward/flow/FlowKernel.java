@@ -2,8 +2,9 @@ package wayward.flow;
 
 /**
  * The inner loops of {@link GridLucasKanadeFlow} that run on vector instructions where the JVM has them: the fill's
- * run of inner grid points, its neighbour weights and starting support, and the sums of a full-size window's plain
- * solve step. Every variant gives the same bits; they differ only in speed.
+ * run of inner grid points, its neighbour weights and starting support, the sums of a full-size window's plain
+ * solve step, and that step's solve for a whole grid row. Every variant gives the same bits; they differ only in
+ * speed.
  */
 interface FlowKernel {
     /**
@@ -94,6 +95,8 @@ interface FlowKernel {
         final int s = row.stride;
         final float sw = row.pixels;
         final float invN = 1f / sw;
+        // as the solve works it out, λ × the weights' sum / the window's pixels (the same two here, but the product
+        // and quotient round as they do there)
         final float lam = row.lambda * sw / sw;
         for (int i = from; i < to; i++) {
             final float st = sums[i];

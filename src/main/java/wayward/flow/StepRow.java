@@ -25,7 +25,7 @@ final class StepRow {
     float[] a;
     float[] b;
     float[] c;
-    /** The window's mean brightness, written twice as the solve writes it (level mean and full-size mean). */
+    /** The window's mean brightness, as the solve writes it twice: the level's (Σt × 1/n), the full-size (Σt ÷ n). */
     float[] mean;
     float[] windowMean;
     float[] residual;

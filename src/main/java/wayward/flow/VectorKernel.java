@@ -161,6 +161,8 @@ final class VectorKernel implements FlowKernel {
         final int s = row.stride;
         final float sw = row.pixels;
         final float invN = 1f / sw;
+        // as the solve works it out, λ × the weights' sum / the window's pixels (the same two here, but the product
+        // and quotient round as they do there)
         final float lam = row.lambda * sw / sw;
         final int lanes = SPECIES.length();
         int i = 0;
