@@ -90,6 +90,28 @@ class MoverTrackerTest {
     }
 
     @Test
+    void aFramesFlowCountsAsTravelOnlyAsFarAsTheGroupsOwnExtent() {
+        // analytic: 5 frames of 3 px down, then a frame whose flow reads 20 px down while the group moved 3 px
+        // (noise or flicker read as motion). A group 1 × 2 samples (4 × 8 px) counts 8 px of that frame, its box's
+        // longer side; a group 3 × 5 samples (12 × 20 px) counts all 20.
+        assertEquals(15 + 8, travelAfterOneLongReading(1, 2), 0.5);
+        assertEquals(15 + 20, travelAfterOneLongReading(3, 5), 0.5);
+    }
+
+    private static double travelAfterOneLongReading(int w, int h) {
+        FlowField f = field();
+        MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
+        Movers m = t.newMovers();
+        for (int n = 1; n <= 6; n++) {
+            ground(f, null, 0);
+            box(f, 150, 40 + 3 * n, w, h, 0, n == 6 ? 20 : 3, null, 0);
+            t.update(f, DT, n * DT, m);
+        }
+        assertEquals(1, liveTracks(m));
+        return m.travelPx(slotOf(m));
+    }
+
+    @Test
     void aSmallMoverWhoseFlowFailsOnEveryOtherJumpIsFollowedByItsCentroid() {
         FlowField f = field();
         MoverTracker t = new MoverTracker(whole(f), f, 0, SETTINGS, true);
