@@ -108,7 +108,10 @@ public final class MoverTuning {
 
     private static final Pattern SEED = Pattern.compile("(?m)^seed\\s*=\\s*(\\d+)\\s*$");
 
-    /** Copies of the scene files into {@code dir} with their seed plus {@code shift}; a copy is rewritten only when it differs. */
+    /**
+     * Copies of the scene files into {@code dir} with their seed plus {@code shift}; a copy is rewritten only when it
+     * differs, so its video is rendered again only then.
+     */
     static List<Path> shiftSeeds(List<Path> files, Path dir, int shift) throws IOException {
         Files.createDirectories(dir);
         List<Path> out = new ArrayList<>();

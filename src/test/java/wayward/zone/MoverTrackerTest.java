@@ -93,9 +93,9 @@ class MoverTrackerTest {
     void aFramesFlowCountsAsTravelOnlyAsFarAsTheGroupsOwnExtent() {
         // analytic: 5 frames of 3 px down, then a frame whose flow reads 20 px down while the group moved 3 px
         // (noise or flicker read as motion). A group 1 × 2 samples (4 × 8 px) counts 8 px of that frame, its box's
-        // longer side; a group 3 × 5 samples (12 × 20 px) counts all 20.
+        // longer side; a group 3 × 6 samples (12 × 24 px) counts all 20.
         assertEquals(15 + 8, travelAfterOneLongReading(1, 2), 0.5);
-        assertEquals(15 + 20, travelAfterOneLongReading(3, 5), 0.5);
+        assertEquals(15 + 20, travelAfterOneLongReading(3, 6), 0.5);
     }
 
     private static double travelAfterOneLongReading(int w, int h) {
